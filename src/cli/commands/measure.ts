@@ -1,0 +1,71 @@
+import type { Command } from 'commander';
+import type { CommandContext } from '../context.js';
+import { resolvePath } from '../context.js';
+import { readCapture } from '../../capture/index.js';
+import { measureCapture } from '../../analysis/index.js';
+import { renderMeasureText } from '../../report/index.js';
+import type { MeasureReport } from '../../types/index.js';
+import { parsePositive } from '../options.js';
+import { createProgress } from '../progress.js';
+
+interface MeasureOptions {
+  channel?: string;
+  sampleRate?: string;
+  interval?: string;
+  json?: boolean;
+  plotData?: boolean;
+}
+
+export function registerMeasure(program: Command, ctx: CommandContext): Command {
+  return program
+    .command('measure')
+    .description('measure every channel of one or more CSV captures')
+    .argument('<captures...>', 'CSV exports from a scope, logger or simulator (.csv or .csv.gz)')
+    .option('-c, --channel <name|N>', 'measure only this channel (name, or 1-based number)')
+    .option('--sample-rate <Hz>', 'sample rate, when the file has no time column or interval metadata')
+    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
+    .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
+    .option('--plot-data', 'include waveform and spectrum excerpts for plotting in the JSON')
+    .addHelpText(
+      'after',
+      `
+Examples:
+  benchproof measure samples/captures/TQ-0412_mid_tri.csv
+  benchproof measure samples/captures/TQ-0412_mid_pulse.csv --json
+  benchproof measure samples/captures/*.csv --channel 1`,
+    )
+    .action(async (files: string[], opts: MeasureOptions, cmd: Command) => {
+      const json = Boolean(opts.json);
+      ctx.json = json;
+      const readOptions = {
+        sampleRate: parsePositive('--sample-rate', opts.sampleRate),
+        interval: parsePositive('--interval', opts.interval),
+        channel: opts.channel,
+      };
+      const progress = createProgress(ctx, json);
+      const reports: MeasureReport[] = [];
+      try {
+        for (const file of files) {
+          let started = false;
+          const capture = await readCapture(resolvePath(ctx.io.cwd, file), {
+            ...readOptions,
+            onProgress: (done, total) => {
+              if (!started) progress.start(file, total);
+              started = true;
+              progress.update(done);
+            },
+          });
+          const report = measureCapture({ ...capture, path: file }, { plotData: Boolean(opts.plotData) });
+          reports.push(report);
+        }
+      } finally {
+        progress.stop();
+      }
+      if (json) {
+        const doc = reports.length === 1 ? reports[0] : { schemaVersion: 1, files: reports };
+        ctx.io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
+      } else {
+        ctx.io.stdout(renderMeasureText(reports, ctx.styleFor(cmd)));
+      }
+    });
+}

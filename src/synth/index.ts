@@ -1,0 +1,4 @@
+export { createRandom } from './random.js';
+export type { Random } from './random.js';
+export { synthesize } from './waveform.js';
+export type { EdgeShape, SynthShape, SynthSignal, SynthSpec } from './waveform.js';

@@ -1,0 +1,61 @@
+/**
+ * The one error class users see. Every field is data; the message is rendered from the fields
+ * in one place (renderBenchError) so text and JSON output cannot drift apart.
+ */
+export interface BenchErrorFields {
+  /** Stable dotted id, e.g. `capture.no-time-column`; tests and the README list them. */
+  readonly code: string;
+  /** The file the problem is in (a capture, a spec, the data folder); '-' for the command line. */
+  readonly file: string;
+  /** 1-based line in that file, where one applies. */
+  readonly line?: number;
+  /** What is wrong, in one sentence. */
+  readonly problem: string;
+  /** What would be valid. */
+  readonly expected: string;
+  /** One concrete step that fixes it. */
+  readonly fix: string;
+}
+
+export class BenchError extends Error implements BenchErrorFields {
+  readonly code: string;
+  readonly file: string;
+  readonly line?: number;
+  readonly problem: string;
+  readonly expected: string;
+  readonly fix: string;
+  readonly exitCode = 2 as const;
+
+  constructor(fields: BenchErrorFields) {
+    super(renderBenchError(fields));
+    this.name = 'BenchError';
+    this.code = fields.code;
+    this.file = fields.file;
+    if (fields.line !== undefined) this.line = fields.line;
+    this.problem = fields.problem;
+    this.expected = fields.expected;
+    this.fix = fields.fix;
+  }
+
+  toJSON(): BenchErrorFields & { exitCode: 2 } {
+    return {
+      code: this.code,
+      file: this.file,
+      ...(this.line !== undefined ? { line: this.line } : {}),
+      problem: this.problem,
+      expected: this.expected,
+      fix: this.fix,
+      exitCode: 2,
+    };
+  }
+}
+
+/** Three lines, the actionable part last: `<file>:<line>: <problem>`, `expected: …`, `fix: …`. */
+export function renderBenchError(e: BenchErrorFields): string {
+  const where = e.line !== undefined ? `${e.file}:${e.line}` : e.file;
+  return `${where}: ${e.problem}\n  expected: ${e.expected}\n  fix: ${e.fix}`;
+}
+
+export function isBenchError(x: unknown): x is BenchError {
+  return x instanceof BenchError;
+}

@@ -1,0 +1,98 @@
+/** A capture as read from a CSV export: provenance, timing and one Float64Array per channel in SI units. */
+
+export type Delimiter = ',' | ';' | '\t' | ' ';
+export type DecimalMark = '.' | ',';
+
+export interface ColumnLayout {
+  /** Name as written in the header (or `ch1…chN` when there is none). */
+  readonly name: string;
+  /** Unit as written (e.g. `mV`, `µs`), '' when none. Kept for display. */
+  readonly unit: string;
+  /** Factor that converts the written unit to the SI base unit (mV → 1e-3). */
+  readonly scale: number;
+  /** The SI base unit after conversion (`V`, `A`, `s`, or '' when unknown). */
+  readonly siUnit: string;
+}
+
+export interface CaptureLayout {
+  readonly delimiter: Delimiter;
+  readonly decimalMark: DecimalMark;
+  /** 1-based line of the header row, null when the data has none. */
+  readonly headerLine: number | null;
+  /** 1-based line of the first data row. */
+  readonly firstDataLine: number;
+  /** 1-based line of the last data row. */
+  readonly lastDataLine: number;
+  readonly columns: readonly ColumnLayout[];
+  /** Index into columns of the time column, null when there is none. */
+  readonly timeColumn: number | null;
+  /** Index into columns of a sample-index column, null when there is none. */
+  readonly indexColumn: number | null;
+  /** Where the sample interval came from. */
+  readonly timing: 'time-column' | 'metadata' | 'option';
+  /** True when non-uniform time steps were resampled onto a uniform grid. */
+  readonly resampled: boolean;
+  readonly compressed: boolean;
+  readonly bom: boolean;
+  readonly lineEnding: 'lf' | 'crlf' | 'cr' | 'mixed';
+}
+
+export interface CaptureWarning {
+  /** Stable code: `invalid-samples`, `clipped`, `resampled`, `footer`, `aliasing`, … */
+  readonly code: string;
+  readonly message: string;
+  readonly line?: number;
+  readonly channel?: string;
+}
+
+export interface ClipInfo {
+  /** Samples pinned at the top of the record's range. */
+  readonly high: number;
+  /** Samples pinned at the bottom of the record's range. */
+  readonly low: number;
+}
+
+export interface CaptureChannel {
+  readonly name: string;
+  /** SI unit of the samples (`V`, `A`, or '' when unknown). */
+  readonly unit: string;
+  /** Unit as written in the file, for display. */
+  readonly displayUnit: string;
+  /** Samples in SI units on a uniform grid; invalid samples are NaN (and counted). */
+  readonly samples: Float64Array;
+  /** Count of invalid samples (empty, NaN, ±inf, overflow markers), stored as NaN. */
+  readonly invalidCount: number;
+  /** 1-based file line of the first invalid sample, when there is one. */
+  readonly firstInvalidLine?: number;
+  /** Set when runs of samples sit pinned at the record's extremes. */
+  readonly clipped?: ClipInfo;
+}
+
+export interface Capture {
+  readonly path: string;
+  readonly sha256: string;
+  /** Size of the file in bytes as stored (compressed size for .csv.gz). */
+  readonly size: number;
+  readonly layout: CaptureLayout;
+  /** Every preamble `key,value` line, keys as written. */
+  readonly metadata: Readonly<Record<string, string>>;
+  /** Time of the first sample in seconds (relative to the trigger when the file says so). */
+  readonly startTime: number;
+  /** Uniform sample interval in seconds. */
+  readonly sampleInterval: number;
+  readonly length: number;
+  readonly channels: readonly CaptureChannel[];
+  readonly warnings: readonly CaptureWarning[];
+}
+
+/** Options a user can give the reader on the command line. */
+export interface ReadCaptureOptions {
+  /** Sample rate in Hz, used when the file has no time column or metadata. */
+  readonly sampleRate?: number;
+  /** Sample interval in seconds, the same purpose as sampleRate. */
+  readonly interval?: number;
+  /** Channel name or 1-based index to keep; all channels when absent. */
+  readonly channel?: string;
+  /** Called with bytes read so far, for progress display. */
+  readonly onProgress?: (bytesRead: number, totalBytes: number) => void;
+}

@@ -1,0 +1,37 @@
+export { BenchError, renderBenchError, isBenchError } from './benchError.js';
+export type { BenchErrorFields } from './benchError.js';
+export type {
+  Capture,
+  CaptureChannel,
+  CaptureLayout,
+  CaptureWarning,
+  ClipInfo,
+  ColumnLayout,
+  DecimalMark,
+  Delimiter,
+  ReadCaptureOptions,
+} from './capture.js';
+export { MEASUREMENT_IDS, MEASUREMENT_UNITS, SHAPES, isMeasurementId } from './measurement.js';
+export type {
+  ChannelReport,
+  Harmonic,
+  MeasureReport,
+  MeasureResult,
+  Measurement,
+  MeasurementId,
+  Shape,
+  SpectrumPlot,
+  WaveformPlot,
+  WithheldReason,
+} from './measurement.js';
+export { STATEMENT_WORDS } from './verdict.js';
+export type {
+  CheckVerdict,
+  CheckedCapture,
+  ConditionVerdict,
+  DecisionRule,
+  SpecIdentity,
+  Statement,
+  UnitVerdict,
+} from './verdict.js';
+export type { Cause, CircuitFigure, CircuitView, Diagnosis } from './cause.js';

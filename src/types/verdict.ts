@@ -1,0 +1,77 @@
+/** Decisions against a design spec: ILAC-G8:09/2019 statements per check, per condition, per unit. */
+import type { MeasureReport, Shape } from './measurement.js';
+
+/** ILAC-G8:09/2019 §4.2.3 statements, plus 'not-measured' for a withheld measurement (never a pass). */
+export type Statement = 'pass' | 'conditional-pass' | 'conditional-fail' | 'fail' | 'not-measured';
+
+/** Words shown to users; colour only adds emphasis. */
+export const STATEMENT_WORDS: Readonly<Record<Statement, string>> = {
+  pass: 'PASS',
+  'conditional-pass': 'COND. PASS',
+  'conditional-fail': 'COND. FAIL',
+  fail: 'FAIL',
+  'not-measured': 'NOT MEASURED',
+};
+
+export type DecisionRule = 'guarded' | 'simple' | 'guarded-binary';
+
+export interface CheckVerdict {
+  /** Spec output name, e.g. 'triangle out'. */
+  readonly output: string;
+  readonly condition: string;
+  /** Measurement id checked. */
+  readonly measurement: string;
+  readonly unit: string;
+  readonly value: number | null;
+  /** Expanded uncertainty U (k = 2), null when none could be estimated. */
+  readonly expandedUncertainty: number | null;
+  /** Tolerance limits (null = unbounded on that side). */
+  readonly lower: number | null;
+  readonly upper: number | null;
+  readonly nominal: number | null;
+  /** Guard band applied on each side (0 with simple acceptance). */
+  readonly guard: number;
+  /** Signed distance to the nearest tolerance limit, positive inside; null when not measured. */
+  readonly margin: number | null;
+  readonly statement: Statement;
+  /** Why not measured, or anything else the technician should know. */
+  readonly note?: string;
+  /** The user's own hint from the spec, shown with a failure. */
+  readonly hint?: string;
+}
+
+export interface ConditionVerdict {
+  readonly condition: string;
+  readonly statement: Statement;
+  readonly checks: readonly CheckVerdict[];
+}
+
+export interface SpecIdentity {
+  readonly name: string;
+  readonly revision: string;
+  readonly sha256: string;
+  readonly description?: string;
+}
+
+/** One capture as used by a check: what it is, and what was measured from it. */
+export interface CheckedCapture {
+  readonly path: string;
+  readonly sha256: string;
+  readonly size: number;
+  readonly layout: string;
+  readonly unit: string;
+  readonly condition: string;
+  /** Output names this capture supplied, with the channel used for each. */
+  readonly outputs: readonly { output: string; channel: string; expectedShape?: Shape }[];
+  readonly report: MeasureReport;
+}
+
+export interface UnitVerdict {
+  readonly schemaVersion: 1;
+  readonly unit: string;
+  readonly spec: SpecIdentity;
+  readonly decisionRule: DecisionRule;
+  readonly statement: Statement;
+  readonly conditions: readonly ConditionVerdict[];
+  readonly captures: readonly CheckedCapture[];
+}
