@@ -15,6 +15,8 @@ export interface BenchErrorFields {
   readonly expected: string;
   /** One concrete step that fixes it. */
   readonly fix: string;
+  /** Further problems found in the same pass (e.g. every mistake in a spec), each rendered the same way. */
+  readonly issues?: readonly BenchErrorFields[];
 }
 
 export class BenchError extends Error implements BenchErrorFields {
@@ -24,6 +26,7 @@ export class BenchError extends Error implements BenchErrorFields {
   readonly problem: string;
   readonly expected: string;
   readonly fix: string;
+  readonly issues?: readonly BenchErrorFields[];
   readonly exitCode = 2 as const;
 
   constructor(fields: BenchErrorFields) {
@@ -35,6 +38,7 @@ export class BenchError extends Error implements BenchErrorFields {
     this.problem = fields.problem;
     this.expected = fields.expected;
     this.fix = fields.fix;
+    if (fields.issues !== undefined) this.issues = fields.issues;
   }
 
   toJSON(): BenchErrorFields & { exitCode: 2 } {
@@ -45,15 +49,20 @@ export class BenchError extends Error implements BenchErrorFields {
       problem: this.problem,
       expected: this.expected,
       fix: this.fix,
+      ...(this.issues !== undefined ? { issues: this.issues } : {}),
       exitCode: 2,
     };
   }
 }
 
-/** Three lines, the actionable part last: `<file>:<line>: <problem>`, `expected: …`, `fix: …`. */
+/**
+ * Three lines, the actionable part last: `<file>:<line>: <problem>`, `expected: …`, `fix: …`.
+ * Further issues follow, each in the same three lines.
+ */
 export function renderBenchError(e: BenchErrorFields): string {
   const where = e.line !== undefined ? `${e.file}:${e.line}` : e.file;
-  return `${where}: ${e.problem}\n  expected: ${e.expected}\n  fix: ${e.fix}`;
+  const head = `${where}: ${e.problem}\n  expected: ${e.expected}\n  fix: ${e.fix}`;
+  return [head, ...(e.issues ?? []).map((i) => renderBenchError(i))].join('\n');
 }
 
 export function isBenchError(x: unknown): x is BenchError {
