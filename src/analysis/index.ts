@@ -1,6 +1,23 @@
-// Placeholder until the analysis lands (being written now); replaced, not kept.
-import type { Capture, MeasureReport } from '../types/index.js';
-export interface MeasureCaptureOptions { readonly plotData?: boolean }
-export function measureCapture(_capture: Capture, _options: MeasureCaptureOptions = {}): MeasureReport {
-  throw new Error('analysis not written yet');
-}
+// Public names of the analysis stage, one per line. Other stages import from here only.
+export { measureCapture } from './measureCapture.js';
+export type { MeasureCaptureOptions } from './measureCapture.js';
+export { measureChannel } from './measureChannel.js';
+export type { ChannelAnalysis, ChannelOptions } from './measureChannel.js';
+export { classifyShape } from './classifyShape.js';
+export type { ShapeEvidence } from './classifyShape.js';
+export { stateLevels } from './stateLevels.js';
+export type { StateLevels, StateLevelsOptions } from './stateLevels.js';
+export { peakLevels } from './peakLevels.js';
+export { midCrossings } from './midCrossings.js';
+export type { Crossings } from './midCrossings.js';
+export { periodFit } from './periodFit.js';
+export type { PeriodFit } from './periodFit.js';
+export { sineFit } from './sineFit.js';
+export type { SineFit } from './sineFit.js';
+export { noiseLevel } from './noiseLevel.js';
+export { analyzeSpectrum } from './spectralAnalysis.js';
+export type { SpectralOptions, SpectralResult } from './spectralAnalysis.js';
+export type { HumComponent } from './hum.js';
+export { windowFigures } from './windowFigures.js';
+export type { WindowFigures } from './windowFigures.js';
+export type { WindowKind } from './windows.js';

@@ -1,5 +1,31 @@
-// Placeholder until the capture reader lands (being written now); replaced, not kept.
-import type { Capture, ReadCaptureOptions } from '../types/index.js';
-export async function readCapture(_path: string, _options: ReadCaptureOptions = {}): Promise<Capture> {
-  throw new Error('capture reader not written yet');
-}
+/**
+ * src/capture: CSV capture files → Capture (provenance, time base, one Float64Array per channel in SI units).
+ *
+ * BenchError codes (exit 2), for the README:
+ *   capture.unreadable            no file at the path, no permission, or a folder
+ *   capture.corrupt-gzip          a .gz capture whose stream is damaged or cut short
+ *   capture.empty                 the file holds no text
+ *   capture.binary                control bytes: not a text export
+ *   capture.unsupported-encoding  UTF-16 text
+ *   capture.line-too-long         a line longer than 1 MiB
+ *   capture.too-many-columns      more than 1024 columns
+ *   capture.header-only           a header but no data rows
+ *   capture.no-numeric-data       no rows of numbers in the first 64 KiB
+ *   capture.ambiguous-layout      the rows read as numbers in more than one way (e.g. "0,5")
+ *   capture.no-channels           a time column and nothing else
+ *   capture.no-time-base          no time column, no interval in the preamble and no flag
+ *   capture.conflicting-options   --interval and --sample-rate disagree
+ *   capture.unknown-channel       --channel names no channel of the capture
+ *   capture.ragged-row            a row with another field count, followed by more data
+ *   capture.text-in-data          a row of text, followed by more data
+ *   capture.invalid-time          an empty or non-numeric time (or index) in a data row
+ *   capture.time-backwards        the time column decreases
+ *   capture.time-repeated         the time column repeats a value
+ *   capture.too-few-rows          fewer than two data rows
+ *   capture.resample-too-large    time steps so uneven that the median-step grid would explode
+ *
+ * Capture warning codes: invalid-samples, clipped, resampled, footer, option-ignored,
+ * interval-mismatch, record-length-mismatch.
+ */
+export { readCapture } from './readCapture.js';
+export { detectClipping } from './clipping.js';

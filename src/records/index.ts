@@ -1,1 +1,15 @@
-export {};
+export { openStore, DATABASE_FILE } from './openStore.js';
+export type { OpenStoreOptions, RecordStore } from './openStore.js';
+export type { SaveHooks } from './saveRun.js';
+export type { RunFilter } from './readRuns.js';
+export { MIGRATIONS, LATEST_SCHEMA, applyMigrations, schemaVersion } from './migrations.js';
+export type { Migration } from './migrations.js';
+export { ARCHIVE_FOLDER } from './archive.js';
+export { canonicalJson, runDigest, sha256Hex } from './digest.js';
+export { capability, describeSample } from './capability.js';
+export type { CapabilityInput, SampleSummary } from './capability.js';
+export { summarizeBatch, ROUGH_BELOW_UNITS } from './summarizeBatch.js';
+export type { BatchFilter } from './summarizeBatch.js';
+export { compareSerials } from './unitSummaries.js';
+export { storeError } from './storeErrors.js';
+export { nearestNames } from './nearestNames.js';

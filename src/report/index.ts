@@ -1,3 +1,14 @@
 export { colorWanted, createStyle } from './style.js';
 export type { TextStyle } from './style.js';
 export { renderMeasureText } from './measureText.js';
+export { renderCheckText } from './checkText.js';
+export type { UnitCheck } from './checkText.js';
+export { checkDocument } from './checkJson.js';
+export type { CheckDocument } from './checkJson.js';
+export { renderRecordHtml } from './recordHtml.js';
+export { renderRecordMarkdown } from './recordMarkdown.js';
+export { renderRecordJson, renderBatchJson } from './recordJson.js';
+export { renderBatchHtml } from './batchHtml.js';
+export { renderBatchMarkdown } from './batchMarkdown.js';
+export { renderBatchCsv, BATCH_CSV_COLUMNS } from './batchCsv.js';
+export { renderUnitsText } from './unitsText.js';

@@ -1,6 +1,114 @@
-// Placeholder until the measurement table lands (being written now); replaced, not kept.
-import type { MeasureReport } from '../types/index.js';
+/**
+ * `benchproof measure` as plain aligned text: one block per capture, one per channel, measurements
+ * grouped by what they describe (timing, levels, ramps, edges, spectrum), each with its uncertainty
+ * (standard, k = 1) or, when withheld, the words NOT MEASURED and the note that says what to do.
+ * Status is always a word; the style only adds emphasis.
+ */
+import type { ChannelReport, MeasureReport, Measurement, MeasurementId } from '../types/index.js';
+import { formatQuantity, group, quantityParts } from './format.js';
 import type { TextStyle } from './style.js';
-export function renderMeasureText(reports: readonly MeasureReport[], _style: TextStyle): string {
-  return `${JSON.stringify(reports)}\n`;
+
+const GROUPS: readonly (readonly [string, readonly MeasurementId[]])[] = [
+  ['timing', ['frequency', 'period', 'jitter']],
+  ['levels', ['highLevel', 'lowLevel', 'amplitude', 'maximum', 'minimum', 'peakToPeak', 'dcOffset', 'rms', 'acRms']],
+  ['ramps', ['riseSlope', 'fallSlope', 'slopeRatio', 'symmetry', 'linearity']],
+  ['edges', ['dutyCycle', 'riseTime', 'fallTime', 'overshoot', 'undershoot']],
+  ['spectrum', ['thd', 'snr', 'sinad', 'sfdr', 'enob', 'shapeError', 'evenOddRatio', 'humFrequency', 'humLevel']],
+];
+
+export const MEASUREMENT_LABELS: Readonly<Record<MeasurementId, string>> = {
+  frequency: 'frequency',
+  period: 'period',
+  jitter: 'period jitter',
+  highLevel: 'high level',
+  lowLevel: 'low level',
+  amplitude: 'amplitude',
+  maximum: 'maximum',
+  minimum: 'minimum',
+  peakToPeak: 'peak-to-peak',
+  dcOffset: 'DC offset',
+  rms: 'rms',
+  acRms: 'AC rms',
+  riseSlope: 'rise slope',
+  fallSlope: 'fall slope',
+  slopeRatio: 'slope ratio',
+  symmetry: 'symmetry (rising share)',
+  linearity: 'ramp non-linearity',
+  dutyCycle: 'duty cycle',
+  riseTime: 'rise time (10–90 %)',
+  fallTime: 'fall time (90–10 %)',
+  overshoot: 'overshoot',
+  undershoot: 'undershoot',
+  thd: 'THD',
+  snr: 'SNR',
+  sinad: 'SINAD',
+  sfdr: 'SFDR',
+  enob: 'ENOB',
+  shapeError: 'shape error',
+  evenOddRatio: 'even/odd harmonics',
+  humFrequency: 'hum frequency',
+  humLevel: 'hum level',
+};
+
+const MAX_HARMONICS_SHOWN = 10;
+
+export function renderMeasureText(reports: readonly MeasureReport[], style: TextStyle): string {
+  return `${reports.map((r) => renderReport(r, style)).join('\n')}`;
+}
+
+function renderReport(r: MeasureReport, style: TextStyle): string {
+  const lines = [
+    style.bold(r.file),
+    `  ${group(String(r.samples))} samples at ${formatQuantity(r.sampleInterval, 's')} (${formatQuantity(r.duration, 's')}), sha256 ${r.sha256.slice(0, 12)}`,
+    ...r.warnings.map((w) => `  ${style.warn('warning:')} ${w.message}${w.line !== undefined ? ` (line ${w.line})` : ''}`),
+  ];
+  for (const ch of r.channels) lines.push('', ...renderChannel(ch, style));
+  return `${lines.join('\n')}\n`;
+}
+
+function renderChannel(ch: ChannelReport, style: TextStyle): string[] {
+  const lines = [`  ${style.bold(ch.name)}${ch.unit ? ` (${ch.unit})` : ''}  shape: ${ch.shape}`];
+  lines.push(...ch.warnings.map((w) => `    ${style.warn('warning:')} ${w.message}`));
+  const rows = GROUPS.map(([title, ids]) => [title, ids.filter((id) => ch.measurements[id] !== undefined)] as const).filter(([, ids]) => ids.length > 0);
+  const cells = rows.flatMap(([, ids]) => ids.map((id) => cellsOf(ch.measurements[id] as Measurement)));
+  const labelWidth = Math.max(...rows.flatMap(([, ids]) => ids.map((id) => MEASUREMENT_LABELS[id].length)));
+  const valueWidth = Math.max(0, ...cells.map((c) => c?.value.length ?? 0));
+  const unitWidth = Math.max(0, ...cells.map((c) => c?.unit.length ?? 0));
+  // A note shared by several withheld values (clipping, too few cycles) is printed once.
+  const firstWithNote = new Map<string, string>();
+  for (const [title, ids] of rows) {
+    lines.push(`    ${style.dim(title)}`);
+    for (const id of ids) {
+      const m = ch.measurements[id] as Measurement;
+      const label = MEASUREMENT_LABELS[id].padEnd(labelWidth);
+      const c = cellsOf(m);
+      if (!c) {
+        const note = m.note ?? '';
+        const seen = firstWithNote.get(note);
+        if (seen === undefined && note) firstWithNote.set(note, MEASUREMENT_LABELS[id]);
+        lines.push(`      ${label}  ${style.statement('not-measured')}  ${seen !== undefined ? `(as for ${seen})` : note}`.trimEnd());
+        continue;
+      }
+      const u = c.uncertainty === null ? '' : `± ${c.uncertainty}`;
+      lines.push(`      ${label}  ${c.value.padStart(valueWidth)} ${c.unit.padEnd(unitWidth)}  ${u}`.trimEnd());
+    }
+  }
+  lines.push(...renderHarmonics(ch, style));
+  return lines;
+}
+
+function cellsOf(m: Measurement): { value: string; unit: string; uncertainty: string | null } | null {
+  return m.value === null ? null : quantityParts(m.value, m.unit, m.uncertainty);
+}
+
+function renderHarmonics(ch: ChannelReport, style: TextStyle): string[] {
+  const shown = ch.harmonics.filter((h) => h.n >= 2).slice(0, MAX_HARMONICS_SHOWN);
+  if (shown.length === 0) return [];
+  const more = ch.harmonics.filter((h) => h.n >= 2).length - shown.length;
+  const list = shown.map((h) => `${h.n}: ${h.dbc.toFixed(1)}`).join('  ');
+  return [
+    `    ${style.dim('harmonics (dBc)')}`,
+    `      ${list}${more > 0 ? `  (+${more} more with --json)` : ''}`,
+    ...(ch.harmonicsMethod ? [`      ${style.dim(ch.harmonicsMethod)}`] : []),
+  ];
 }

@@ -64,7 +64,7 @@ export interface ScenarioCapture {
 
 /** Samples per period and cycles per capture: enough cycles for frequency, modest size for the repo. */
 const SAMPLES_PER_PERIOD = 200;
-const CYCLES = 24;
+const CYCLES = 30;
 
 export function kestrelCapture(unit: UnitTraits, condition: ScenarioCondition): ScenarioCapture {
   // Delay adds 2·td to each period and lets each ramp overshoot its threshold by slope·td.

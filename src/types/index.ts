@@ -35,3 +35,20 @@ export type {
   UnitVerdict,
 } from './verdict.js';
 export type { Cause, CircuitFigure, CircuitView, Diagnosis } from './cause.js';
+export type {
+  BatchReport,
+  BatchUnit,
+  Capability,
+  DocumentSource,
+  MeasurementStats,
+  NewCapture,
+  NewRun,
+  RunKind,
+  RunSpec,
+  SpecBatch,
+  StoredCapture,
+  StoredRun,
+  UnitRecord,
+  UnitSummary,
+  YieldFigure,
+} from './record.js';

@@ -135,6 +135,8 @@ export interface SpectrumPlot {
   /** Level in dB relative to the fundamental (dBc), one per plotted bin. */
   readonly dbc: readonly number[];
   readonly window: string;
+  /** What 0 dB stands for: 'fundamental' (dBc), or 'largest component' when no fundamental was measured. */
+  readonly reference?: string;
 }
 
 /** A short excerpt of the waveform with the analysis marks, for plots in reports. */

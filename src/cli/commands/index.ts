@@ -2,9 +2,19 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { registerMeasure } from './measure.js';
+import { registerCheck } from './check.js';
+import { registerSpec } from './spec.js';
+import { registerUnits } from './units.js';
+import { registerRecord } from './record.js';
+import { registerBatch } from './batch.js';
 
 export type RegisterCommand = (program: Command, ctx: CommandContext) => Command;
 
 export const COMMANDS: readonly RegisterCommand[] = [
   registerMeasure,
+  registerCheck,
+  registerSpec,
+  registerUnits,
+  registerRecord,
+  registerBatch,
 ];

@@ -1,0 +1,83 @@
+// The targets of issue 9, judged on one run's figures. A target whose inputs were not measured in
+// this run (size not requested, peer skipped, a run failed) is SKIP with the reason, never PASS.
+
+export const LIMITS = {
+  speedVsPeer: 0.5, // benchproof wall / peer wall on the 1 M-row file
+  ingestMBps: 150, // read + parse, MB/s (10^6 bytes)
+  growth: 4.3, // time(4 M) / time(1 M)
+  memory10M: 1e9, // bytes, "within 1 GB"
+  fftSeconds: 0.5, // "well under one second": read here as half a second, first transform included
+};
+
+const find = (files, kind, rows) => files.find((f) => f.kind === kind && f.rows === rows);
+const skip = (id, label, note) => ({ id, label, status: 'SKIP', value: null, limit: null, note });
+const judge = (id, label, value, limit, ok, note = '') => ({ id, label, status: ok ? 'PASS' : 'FAIL', value, limit, note });
+
+function speed1M({ files }) {
+  const label = 'end to end at 1 M rows ≤ 0.5× peer';
+  const g1 = find(files, 'gen', 1e6);
+  if (!g1) return skip('speed-1M', label, '1M not in --sizes');
+  if (!Number.isFinite(g1.ratio)) return skip('speed-1M', label, g1.benchproof.error ?? g1.peer?.error ?? 'peer not run');
+  return judge('speed-1M', label, g1.ratio, LIMITS.speedVsPeer, g1.ratio <= LIMITS.speedVsPeer, 'benchproof / peer median wall time');
+}
+
+function accuracy1M({ files }) {
+  const label = 'at least as accurate as the peer (1 M rows)';
+  const g1 = find(files, 'gen', 1e6);
+  if (!g1?.accuracy) return skip('accuracy-1M', label, g1 ? 'no comparison (a run failed or the peer was skipped)' : '1M not in --sizes');
+  const acc = g1.accuracy;
+  const worse = acc.filter((a) => !a.atLeastAsAccurate).map((a) => `${a.channel} ${a.quantity}`);
+  const ties = acc.filter((a) => a.verdict === 'tie').map((a) => `${a.channel} ${a.quantity}`);
+  const note = [worse.length ? `less accurate: ${worse.join(', ')}` : '', ties.length ? `ties below 0.01 %: ${ties.join(', ')}` : ''].filter(Boolean).join('; ');
+  return judge('accuracy-1M', label, acc.length - worse.length, acc.length, worse.length === 0, note);
+}
+
+function ingestion({ files }) {
+  const label = 'ingestion ≥ 150 MB/s';
+  const timed = files.filter((f) => f.kind === 'gen' && f.rows >= 1e6 && Number.isFinite(f.stages?.read));
+  if (!timed.length) return skip('ingest', label, 'no per-stage figures for gen files of 1M rows or more');
+  const rate = (f) => f.bytes / f.stages.read / 1e6;
+  const worst = timed.reduce((a, b) => (rate(b) < rate(a) ? b : a));
+  return judge('ingest', label, rate(worst), LIMITS.ingestMBps, rate(worst) >= LIMITS.ingestMBps, `read+parse; slowest at ${worst.label} rows`);
+}
+
+function growth({ files }) {
+  const label = 'time(4M)/time(1M) ≤ 4.3';
+  const w1 = find(files, 'gen', 1e6)?.benchproof.medianWall;
+  const w4 = find(files, 'gen', 4e6)?.benchproof.medianWall;
+  if (!Number.isFinite(w1) || !Number.isFinite(w4)) return skip('growth', label, 'needs 1M and 4M runs');
+  return judge('growth', label, w4 / w1, LIMITS.growth, w4 / w1 <= LIMITS.growth, 'end to end, gen files');
+}
+
+function complete10M({ files }) {
+  const label = '10 M rows complete';
+  const ten = files.filter((f) => f.rows === 1e7);
+  if (!ten.length) return skip('complete-10M', label, '10M not in --sizes');
+  const failed = ten.filter((f) => !f.benchproof.ok);
+  return judge('complete-10M', label, ten.length - failed.length, ten.length, failed.length === 0, failed.map((f) => `${f.kind}: ${f.benchproof.error}`).join('; '));
+}
+
+function memory4M({ files }) {
+  const label = 'peak memory at 4M ≤ peer';
+  const g4 = find(files, 'gen', 4e6);
+  const [m, p] = [g4?.benchproof.maxRss, g4?.peer?.maxRss];
+  if (!Number.isFinite(m) || !Number.isFinite(p)) return skip('memory-4M', label, 'needs 4M runs of both tools under GNU time');
+  return judge('memory-4M', label, m, p, m <= p, 'peak RSS of the whole process');
+}
+
+function memory10M({ files }) {
+  const label = '10 M rows within 1 GB';
+  const rss = files.filter((f) => f.rows === 1e7).map((f) => f.benchproof.maxRss).filter(Number.isFinite);
+  if (!rss.length) return skip('memory-10M', label, '10M not run, or no peak RSS');
+  return judge('memory-10M', label, Math.max(...rss), LIMITS.memory10M, Math.max(...rss) <= LIMITS.memory10M, 'peak RSS, largest of the 10M files');
+}
+
+function fft4M({ fft }) {
+  const label = 'FFT of a 4M-point channel well under 1 s';
+  if (!Number.isFinite(fft?.cold)) return skip('fft-4M', label, fft?.error ?? 'not measured');
+  return judge('fft-4M', label, fft.cold, LIMITS.fftSeconds, fft.cold <= LIMITS.fftSeconds, `first transform incl. its tables; next one ${fft.warm.toFixed(3)} s`);
+}
+
+export function evaluateTargets(results) {
+  return [speed1M, accuracy1M, ingestion, growth, complete10M, memory4M, memory10M, fft4M].map((f) => f(results));
+}

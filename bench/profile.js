@@ -1,0 +1,110 @@
+// Where `benchproof measure` spends its time: runs it under `node --cpu-prof` and lists the
+// functions with the most self time (and the stages' inclusive time), as file:function and percent.
+// Usage: node bench/profile.js CAPTURE.csv [--top 25] [--keep]
+import process from 'node:process';
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, relative } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { runTimed } from './lib/proc.js';
+
+const root = dirname(dirname(fileURLToPath(import.meta.url)));
+
+/** dist/capture/lines.js → src/capture/lines.ts; node internals and packages keep a short name. */
+export function sourceName(url) {
+  if (!url) return '(native)';
+  const path = url.replace(/^file:\/\//, '');
+  const rel = relative(root, path);
+  if (rel.startsWith('dist/')) return rel.replace(/^dist\//, 'src/').replace(/\.js$/, '.ts');
+  const pkg = /node_modules\/((?:@[^/]+\/)?[^/]+)\/(.*)$/.exec(path);
+  if (pkg) return `${pkg[1]}:${pkg[2]}`;
+  return rel.startsWith('..') ? path : rel;
+}
+
+/** Self and inclusive milliseconds per function from a .cpuprofile document. */
+export function summarizeProfile(profile) {
+  const byId = new Map(profile.nodes.map((n) => [n.id, n]));
+  const self = new Map();
+  profile.samples.forEach((id, i) => self.set(id, (self.get(id) ?? 0) + (profile.timeDeltas[i] ?? 0) / 1000));
+  const keyOf = (n) => {
+    const f = n.callFrame;
+    const name = f.functionName || '(anonymous)';
+    return f.url ? `${sourceName(f.url)}:${name}` : name;
+  };
+  const rows = new Map();
+  const row = (k) => rows.get(k) ?? rows.set(k, { key: k, self: 0, total: 0 }).get(k);
+  // Inclusive time counts a function once per stack, however deeply it recurses.
+  const walk = (id, onStack) => {
+    const n = byId.get(id);
+    const k = keyOf(n);
+    let sum = self.get(id) ?? 0;
+    row(k).self += sum;
+    const stack = new Set(onStack).add(k);
+    for (const c of n.children ?? []) sum += walk(c, stack);
+    n.subtotal = sum;
+    return sum;
+  };
+  const rootNode = profile.nodes[0];
+  const all = walk(rootNode.id, new Set());
+  const addTotals = (id, onStack) => {
+    const n = byId.get(id);
+    const k = keyOf(n);
+    if (!onStack.has(k)) row(k).total += n.subtotal;
+    const stack = new Set(onStack).add(k);
+    for (const c of n.children ?? []) addTotals(c, stack);
+  };
+  addTotals(rootNode.id, new Set());
+  return { totalMs: all, rows: [...rows.values()] };
+}
+
+/** Self time grouped by where it is spent: our stages, packages, module loading, GC, the rest. */
+export function byArea(rows) {
+  const area = (key) => {
+    if (key.startsWith('src/')) return key.split('/').slice(0, 2).join('/');
+    if (key.startsWith('bin/')) return 'src/cli';
+    if (/^node:internal\/(modules|bootstrap)|^node:internal\/deps\/cjs-module-lexer|compileSourceTextModule|wrapSafe/.test(key)) return 'module loading (node)';
+    if (key.startsWith('node:internal/crypto')) return 'SHA-256 (node:crypto)';
+    if (key.startsWith('(')) return key;
+    const pkg = /^([^:]+):/.exec(key);
+    if (pkg && !key.startsWith('node:') && !key.startsWith('/')) return `package ${pkg[1]}`;
+    return 'other node internals and I/O';
+  };
+  const sums = new Map();
+  for (const r of rows) sums.set(area(r.key), (sums.get(area(r.key)) ?? 0) + r.self);
+  return [...sums.entries()].sort((a, b) => b[1] - a[1]);
+}
+
+async function main() {
+  const args = process.argv.slice(2);
+  const file = args.find((a) => !a.startsWith('--'));
+  const topAt = args.indexOf('--top');
+  const top = topAt >= 0 ? Number(args[topAt + 1]) : 25;
+  if (!file) {
+    process.stderr.write('usage: node bench/profile.js CAPTURE.csv [--top 25] [--keep]\n');
+    process.exit(2);
+  }
+  const dir = mkdtempSync(join(tmpdir(), 'benchproof-prof-'));
+  const r = await runTimed(process.execPath, ['--cpu-prof', '--cpu-prof-dir', dir, join(root, 'bin', 'benchproof.js'), 'measure', file, '--json'], { cwd: root, useTime: false });
+  if (!r.ok) process.stderr.write(`note: the run failed (${r.error}); profiling what ran\n`);
+  const name = readdirSync(dir).find((f) => f.endsWith('.cpuprofile'));
+  if (!name) throw new Error(`no profile written in ${dir}`);
+  const { totalMs, rows } = summarizeProfile(JSON.parse(readFileSync(join(dir, name), 'utf8')));
+  const pct = (ms) => `${((100 * ms) / totalMs).toFixed(1).padStart(5)} %`;
+  const line = (x, ms) => `${pct(ms)}  ${ms.toFixed(0).padStart(6)} ms  ${x.key}`;
+  const out = [`profile of ${file}: ${(totalMs / 1000).toFixed(2)} s sampled, wall ${r.wall.toFixed(2)} s`, '', 'self time:'];
+  out.push(...rows.sort((a, b) => b.self - a.self).slice(0, top).map((x) => line(x, x.self)));
+  out.push('', 'self time by area:');
+  out.push(...byArea(rows).filter(([, ms]) => ms >= totalMs / 200).map(([k, ms]) => line({ key: k }, ms)));
+  out.push('', 'inclusive time of benchproof functions:');
+  out.push(...rows.filter((x) => x.key.startsWith('src/')).sort((a, b) => b.total - a.total).slice(0, top).map((x) => line(x, x.total)));
+  process.stdout.write(`${out.join('\n')}\n`);
+  if (args.includes('--keep')) process.stderr.write(`profile kept in ${join(dir, name)}\n`);
+  else rmSync(dir, { recursive: true, force: true });
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  main().catch((e) => {
+    process.stderr.write(`${e?.message ?? e}\n`);
+    process.exit(1);
+  });
+}

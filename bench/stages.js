@@ -1,0 +1,85 @@
+// Child process: time benchproof's stages from inside, with performance.now().
+//   node bench/stages.js FILE      read+parse, time-domain analysis and spectrum of every channel
+//   node bench/stages.js --fft N   the FFT wrapper on one N-point channel (padded to a power of two)
+// Prints one JSON object on stdout. Stages are called in the order and with the options that
+// src/analysis/measureCapture.ts uses (kept in step by hand: check it when that file changes).
+import process from 'node:process';
+import { performance } from 'node:perf_hooks';
+import { statSync } from 'node:fs';
+
+const seconds = (t0) => (performance.now() - t0) / 1000;
+
+async function stages(file) {
+  const { readCapture } = await import('../dist/capture/index.js');
+  const analysis = await import('../dist/analysis/index.js');
+  const { analyzeSpectrum } = await import('../dist/analysis/spectralAnalysis.js');
+  let t = performance.now();
+  const capture = await readCapture(file);
+  const read = seconds(t);
+  const dt = capture.sampleInterval;
+  let timeDomain = 0;
+  let spectrum = 0;
+  let analysisTotal;
+  let method;
+  if (typeof analysis.measureChannel === 'function') {
+    method = 'measureChannel + analyzeSpectrum per channel';
+    for (const ch of capture.channels) {
+      const clipped = ch.clipped && ch.clipped.high + ch.clipped.low > 0 ? ch.clipped : undefined;
+      t = performance.now();
+      const a = analysis.measureChannel(ch.samples, dt, { unit: ch.unit, clipped });
+      timeDomain += seconds(t);
+      t = performance.now();
+      const duty = a.results?.dutyCycle;
+      analyzeSpectrum(ch.samples, dt, a.fundamental, a.shape, {
+        clipped: clipped !== undefined,
+        ...(a.shape === 'pulse' && duty?.ok ? { dutyCycle: duty.value } : {}),
+      });
+      spectrum += seconds(t);
+    }
+    analysisTotal = timeDomain + spectrum;
+  } else {
+    // Fallback: the whole analysis, with the spectrum timed again afterwards (warm FFT tables).
+    method = 'measureCapture (time domain = total − spectrum re-run)';
+    t = performance.now();
+    const report = analysis.measureCapture(capture);
+    analysisTotal = seconds(t);
+    for (const [i, ch] of capture.channels.entries()) {
+      const f = report.channels[i].measurements.frequency?.value;
+      t = performance.now();
+      analyzeSpectrum(ch.samples, dt, f ? f * dt : null, report.channels[i].shape, {});
+      spectrum += seconds(t);
+    }
+    timeDomain = Math.max(0, analysisTotal - spectrum);
+  }
+  const bytes = statSync(file).size;
+  return {
+    file, bytes, rows: capture.length, channels: capture.channels.length, method,
+    read, timeDomain, spectrum, analysis: analysisTotal,
+    maxRss: process.resourceUsage().maxRSS * 1024,
+  };
+}
+
+async function fftProbe(points) {
+  const { realSpectrum, nextPowerOfTwo } = await import('../dist/analysis/spectrum.js');
+  const size = nextPowerOfTwo(points);
+  const x = new Float64Array(size);
+  for (let i = 0; i < points; i++) x[i] = Math.sin((2 * Math.PI * 1000.5 * i) / points);
+  let t = performance.now();
+  realSpectrum(x);
+  const cold = seconds(t);
+  t = performance.now();
+  realSpectrum(x);
+  const warm = seconds(t);
+  return { points, size, cold, warm, wrapper: 'realSpectrum (src/analysis/spectrum.ts)' };
+}
+
+async function main() {
+  const args = process.argv.slice(2);
+  const result = args[0] === '--fft' ? await fftProbe(Number(args[1])) : await stages(args[0]);
+  process.stdout.write(`${JSON.stringify(result)}\n`);
+}
+
+main().catch((e) => {
+  process.stderr.write(`${e?.message ?? e}\n`);
+  process.exit(1);
+});

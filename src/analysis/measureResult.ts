@@ -1,0 +1,16 @@
+/** Builders for the MeasureResult union (src/types/measurement.ts): a value with its reason, never NaN. */
+import type { MeasureResult, WithheldReason } from '../types/index.js';
+
+/**
+ * A measured value. A non-finite value is a bug in the caller's method (it should have withheld),
+ * so it throws at once; a non-finite uncertainty becomes null (none could be estimated).
+ */
+export function measured(value: number, uncertainty: number | null, unit: string, method: string): MeasureResult {
+  if (!Number.isFinite(value)) throw new RangeError(`measured: value ${value} is not finite (${method})`);
+  const u = uncertainty !== null && Number.isFinite(uncertainty) ? Math.abs(uncertainty) : null;
+  return { ok: true, value, uncertainty: u, unit, method };
+}
+
+export function withheld(reason: WithheldReason, detail: string): MeasureResult {
+  return { ok: false, reason, detail };
+}

@@ -1,0 +1,54 @@
+/**
+ * Noise level read from the bins of a windowed spectrum that hold no fitted component.
+ *
+ * White noise of variance σ² gives E|X[k]|² = σ²·Σw² in every bin (Heinzel, Rüdiger & Schilling
+ * 2002, §9, "normalization for noise"), so σ² = mean|X[k]|²/Σw² over the bins outside the DC
+ * lobe and outside the main lobes of harmonics 1…exclude. The excluded bins are assumed to hold
+ * the same noise density (the usual DFT method of IEEE Std 1241's SINAD test).
+ */
+import type { SpectralFrame } from './spectralFrame.js';
+
+export interface NoiseFloor {
+  /** Noise variance per sample over the whole band 0…f_s/2, V². */
+  readonly variance: number;
+  /** Mean |X[k]|² over the bins read. */
+  readonly perBin: number;
+  /** Bins read, and the share of all bins they make up. */
+  readonly bins: number;
+  readonly share: number;
+}
+
+/** Fewest bins, and smallest share of the spectrum, that give a usable noise estimate. */
+const MIN_BINS = 32;
+const MIN_SHARE = 0.05;
+
+/** True when bin k lies in the DC lobe or the main lobe of harmonic 1…exclude of `fundamentalBins`. */
+export function inComponentLobe(frame: SpectralFrame, k: number, fundamentalBins: number | null, exclude: number): boolean {
+  const r = frame.lobeBins;
+  if (k < r) return true;
+  if (fundamentalBins === null || exclude < 1) return false;
+  // Only harmonics within one lobe half-width of k can cover it (several, when lobes overlap).
+  const first = Math.max(1, Math.ceil((k - r) / fundamentalBins));
+  const last = Math.min(exclude, Math.floor((k + r) / fundamentalBins));
+  for (let m = first; m <= last; m++) {
+    if (Math.abs(k - m * fundamentalBins) < r) return true;
+  }
+  return false;
+}
+
+/** Noise floor, or null when the component lobes leave too few bins to read it from. */
+export function noiseFloor(frame: SpectralFrame, fundamental: number | null, exclude: number): NoiseFloor | null {
+  const s = frame.spectrum;
+  const p = fundamental === null ? null : fundamental / frame.binWidth;
+  let sum = 0;
+  let bins = 0;
+  for (let k = 1; k < s.bins - 1; k++) {
+    if (inComponentLobe(frame, k, p, exclude)) continue;
+    sum += s.power(k);
+    bins++;
+  }
+  const share = bins / (s.bins - 2);
+  if (bins < MIN_BINS || share < MIN_SHARE) return null;
+  const perBin = sum / bins;
+  return { variance: perBin / frame.s2, perBin, bins, share };
+}

@@ -1,0 +1,73 @@
+/**
+ * A windowed, zero-padded DFT of one span of a record, with what the fits need to read it: the
+ * window sums (Heinzel, Rüdiger & Schilling 2002, §9: a tone of peak A at a bin centre reads
+ * A·S1/2, white noise of variance σ² reads σ²·S2 per bin) and the main-lobe width in DFT bins.
+ * The span's mean is removed first so a large offset does not leak into low harmonics.
+ */
+import { realSpectrum, nextPowerOfTwo, type HalfSpectrum } from './spectrum.js';
+import { mainLobeHalfWidth, windowKernel, windowSamples, type Complex, type WindowKind } from './windows.js';
+
+export interface SpectralFrame {
+  readonly spectrum: HalfSpectrum;
+  /** Sample rate of the analysed span, Hz. */
+  readonly sampleRate: number;
+  /** Samples in the span (window length L); the DFT length is spectrum.size ≥ L. */
+  readonly length: number;
+  readonly window: WindowKind;
+  /** Σw and Σw². */
+  readonly s1: number;
+  readonly s2: number;
+  /** Mean removed before windowing, and the variance of the span about it. */
+  readonly mean: number;
+  readonly variance: number;
+  /** Main-lobe half-width in DFT bins. */
+  readonly lobeBins: number;
+  /** DFT bin spacing, Hz. */
+  readonly binWidth: number;
+  /** Magnitude response of any filter applied before the frame (1 when none), at f in Hz. */
+  readonly response: (f: number) => number;
+}
+
+export function buildFrame(
+  span: Float64Array,
+  sampleRate: number,
+  window: WindowKind,
+  response: (f: number) => number = () => 1,
+): SpectralFrame {
+  const length = span.length;
+  const size = nextPowerOfTwo(length);
+  let mean = 0;
+  for (let i = 0; i < length; i++) mean += span[i];
+  mean /= length;
+  // The window is written into the transform buffer and multiplied in place: one large array, not two.
+  const padded = windowSamples(window, length, new Float64Array(size));
+  let s1 = 0;
+  let s2 = 0;
+  let ss = 0;
+  for (let i = 0; i < length; i++) {
+    const v = span[i] - mean;
+    const w = padded[i];
+    ss += v * v;
+    s1 += w;
+    s2 += w * w;
+    padded[i] = v * w;
+  }
+  return {
+    spectrum: realSpectrum(padded),
+    sampleRate,
+    length,
+    window,
+    s1,
+    s2,
+    mean,
+    variance: ss / length,
+    lobeBins: (mainLobeHalfWidth(window) * size) / length,
+    binWidth: sampleRate / size,
+    response,
+  };
+}
+
+/** W at an offset of `bins` DFT bins from a component. */
+export function frameKernel(frame: SpectralFrame, bins: number): Complex {
+  return windowKernel(frame.window, frame.length, (2 * Math.PI * bins) / frame.spectrum.size);
+}

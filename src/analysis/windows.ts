@@ -1,0 +1,130 @@
+/**
+ * Cosine-sum DFT windows and their exact transforms.
+ *
+ * Sources: F. J. Harris, "On the use of windows for harmonic analysis with the discrete Fourier
+ * transform", Proc. IEEE 66(1), 1978 — the periodic ("DFT-even") form, rectangular, Hann and the
+ * minimum 4-term Blackman-Harris window (a = 0.35875, 0.48829, 0.14128, 0.01168, Table I and
+ * eq. 33); flat-top coefficients as defined by scipy.signal.windows.flattop (D'Antona & Ferrero
+ * 2006; also listed by Heinzel, Rüdiger & Schilling 2002). All take the form
+ * w[i] = Σ_j (−1)^j·a_j·cos(2πji/L), i = 0…L−1.
+ *
+ * The transform W(θ) = Σ w[i]·e^(−iθi) is a sum of shifted Dirichlet kernels, so the response
+ * to a tone at any fractional bin is known exactly: the harmonic fit relies on that.
+ */
+export type WindowKind = 'rectangular' | 'hann' | 'blackman-harris-4' | 'flat-top';
+
+export const WINDOW_KINDS: readonly WindowKind[] = ['rectangular', 'hann', 'blackman-harris-4', 'flat-top'];
+
+const COEFFICIENTS: Readonly<Record<WindowKind, readonly number[]>> = {
+  rectangular: [1],
+  hann: [0.5, 0.5],
+  'blackman-harris-4': [0.35875, 0.48829, 0.14128, 0.01168],
+  'flat-top': [0.21557895, 0.41663158, 0.277263158, 0.083578947, 0.006947368],
+};
+
+export const WINDOW_LABELS: Readonly<Record<WindowKind, string>> = {
+  rectangular: 'rectangular',
+  hann: 'Hann',
+  'blackman-harris-4': '4-term Blackman-Harris (Harris 1978)',
+  'flat-top': 'flat-top (scipy flattop coefficients)',
+};
+
+/** Half-width of the main lobe in bins of the window length: the first null sits at as many bins as the window has terms. */
+export function mainLobeHalfWidth(kind: WindowKind): number {
+  return COEFFICIENTS[kind].length;
+}
+
+export function windowCoefficients(kind: WindowKind): readonly number[] {
+  return COEFFICIENTS[kind];
+}
+
+/** The periodic window of the given length, written into `out` when given. */
+export function windowSamples(kind: WindowKind, length: number, out?: Float64Array): Float64Array {
+  if (!Number.isInteger(length) || length < 1) throw new RangeError(`windowSamples: length must be a positive integer, got ${length}`);
+  if (out !== undefined && out.length < length) throw new RangeError(`windowSamples: out holds ${out.length} < ${length}`);
+  const w = out ?? new Float64Array(length);
+  const a = COEFFICIENTS[kind];
+  const step = (2 * Math.PI) / length;
+  for (let i = 0; i < length; i++) {
+    // cos(jx) by the Chebyshev recurrence cos(jx) = 2cos(x)·cos((j−1)x) − cos((j−2)x): one cosine per sample.
+    const c1 = Math.cos(step * i);
+    let prev = 1;
+    let cur = c1;
+    let v = a[0];
+    for (let j = 1; j < a.length; j++) {
+      v += (j % 2 === 1 ? -a[j] : a[j]) * cur;
+      const next = 2 * c1 * cur - prev;
+      prev = cur;
+      cur = next;
+    }
+    w[i] = v;
+  }
+  return w;
+}
+
+export interface Complex {
+  readonly re: number;
+  readonly im: number;
+}
+
+/** Dirichlet kernel Σ_{i<L} e^(−iφi) = e^(−iφ(L−1)/2)·sin(Lφ/2)/sin(φ/2), 2π-periodic in φ. */
+function dirichlet(length: number, phi: number): Complex {
+  const twoPi = 2 * Math.PI;
+  let p = phi - twoPi * Math.round(phi / twoPi);
+  if (p <= -Math.PI) p += twoPi;
+  const s = Math.sin(p / 2);
+  const mag = Math.abs(s) < 1e-12 ? length : Math.sin((length * p) / 2) / s;
+  const arg = (-p * (length - 1)) / 2;
+  return { re: mag * Math.cos(arg), im: mag * Math.sin(arg) };
+}
+
+/**
+ * W(θ) = Σ_{i<L} w[i]·e^(−iθi) for the periodic window of length L (θ in radians per sample).
+ * Each shifted kernel D(φ ∓ 2πj/L) shares sin(Lφ/2) (up to the sign (−1)^j) and the phase
+ * e^(−iφ(L−1)/2) (up to e^(±iπj(L−1)/L)), so one evaluation costs a few sines, not 4 per term.
+ */
+export function windowKernel(kind: WindowKind, length: number, theta: number): Complex {
+  const a = COEFFICIENTS[kind];
+  const twoPi = 2 * Math.PI;
+  let phi = theta - twoPi * Math.round(theta / twoPi);
+  if (phi <= -Math.PI) phi += twoPi;
+  const step = twoPi / length;
+  let sumRe = 0;
+  let sumIm = 0;
+  for (let j = 0; j < a.length; j++) {
+    const sm = Math.sin((phi - j * step) / 2);
+    const sp = Math.sin((phi + j * step) / 2);
+    if (Math.abs(sm) < 1e-9 || Math.abs(sp) < 1e-9) return kernelByTerms(a, length, phi);
+    if (j === 0) {
+      sumRe += a[0] / sm;
+      continue;
+    }
+    const psi = (Math.PI * j * (length - 1)) / length;
+    const c = Math.cos(psi);
+    const s = Math.sin(psi);
+    // (a_j/2)·(e^(iψ)/sm + e^(−iψ)/sp); the window's (−1)^j cancels the one from sin(Lφ/2 ∓ πj).
+    sumRe += (a[j] / 2) * (c / sm + c / sp);
+    sumIm += (a[j] / 2) * (s / sm - s / sp);
+  }
+  const lead = Math.sin((length * phi) / 2);
+  const arg = (-phi * (length - 1)) / 2;
+  const pr = lead * Math.cos(arg);
+  const pi = lead * Math.sin(arg);
+  return { re: pr * sumRe - pi * sumIm, im: pr * sumIm + pi * sumRe };
+}
+
+/** Term-by-term sum of Dirichlet kernels, used where a shifted kernel sits on its peak. */
+function kernelByTerms(a: readonly number[], length: number, theta: number): Complex {
+  let re = 0;
+  let im = 0;
+  for (let j = 0; j < a.length; j++) {
+    const c = j === 0 ? a[0] : ((j % 2 === 1 ? -a[j] : a[j]) / 2);
+    const shifts = j === 0 ? [0] : [(2 * Math.PI * j) / length, (-2 * Math.PI * j) / length];
+    for (const sh of shifts) {
+      const d = dirichlet(length, theta - sh);
+      re += c * d.re;
+      im += c * d.im;
+    }
+  }
+  return { re, im };
+}

@@ -1,0 +1,167 @@
+/**
+ * The streaming reader for plain numeric layouts (any delimiter, either decimal mark, at most
+ * simple quotes around numbers): numbers are parsed straight from each chunk's bytes into the
+ * row sink, with no strings, no split() and no per-row objects. A line cut by a chunk boundary is
+ * carried over (bounded by MAX_LINE_BYTES). Blank lines and `#` comment lines are skipped.
+ */
+import type { DecimalMark, Delimiter } from '../types/index.js';
+import { lineTooLong, MAX_LINE_BYTES } from './lines.js';
+import type { RowSink } from './rowSink.js';
+import { EMPTY, MARKER, NumberScanner, TEXT } from './scanNumber.js';
+
+const SPACE = 32;
+const TAB = 9;
+const CR = 13;
+const QUOTE = 34;
+const HASH = 35;
+
+export interface ScannerLayout {
+  readonly delimiter: Delimiter;
+  readonly decimalMark: DecimalMark;
+  readonly terminator: number;
+  readonly columnCount: number;
+  readonly firstLine: number;
+  readonly file: string;
+}
+
+export class ByteScanner {
+  private line: number;
+  private leftover: Buffer | null = null;
+  private readonly num: NumberScanner;
+  private readonly delim: number;
+  private readonly spaces: boolean;
+  private readonly tabIsBlank: boolean;
+  private readonly crIsBlank: boolean;
+  private readonly term: number;
+  private readonly vals: Float64Array;
+  private readonly kinds: Uint8Array;
+  private readonly exps: Int32Array;
+  private readonly maxFields: number;
+
+  constructor(
+    private readonly layout: ScannerLayout,
+    private readonly sink: RowSink,
+  ) {
+    this.line = layout.firstLine;
+    this.num = new NumberScanner(layout.decimalMark.charCodeAt(0));
+    this.delim = layout.delimiter.charCodeAt(0);
+    this.spaces = layout.delimiter === ' ';
+    this.tabIsBlank = layout.delimiter !== '\t';
+    this.term = layout.terminator;
+    this.crIsBlank = layout.terminator !== CR;
+    this.maxFields = layout.columnCount + 2;
+    this.vals = new Float64Array(this.maxFields);
+    this.kinds = new Uint8Array(this.maxFields);
+    this.exps = new Int32Array(this.maxFields);
+  }
+
+  feed(chunk: Buffer): void {
+    const T = this.layout.terminator;
+    let body = chunk;
+    if (this.leftover !== null) {
+      const end = chunk.indexOf(T);
+      if (end < 0) return this.keep(Buffer.concat([this.leftover, chunk]));
+      const joined = Buffer.concat([this.leftover, chunk.subarray(0, end + 1)]);
+      this.leftover = null;
+      this.lines(joined, joined.length);
+      body = chunk.subarray(end + 1);
+    }
+    const last = body.lastIndexOf(T);
+    if (last < 0) return this.keep(Buffer.from(body));
+    this.lines(body, last + 1);
+    if (last + 1 < body.length) this.keep(Buffer.from(body.subarray(last + 1)));
+  }
+
+  end(): void {
+    if (this.leftover !== null) this.lines(this.leftover, this.leftover.length);
+    this.leftover = null;
+  }
+
+  private keep(rest: Buffer): void {
+    if (rest.length > MAX_LINE_BYTES) throw lineTooLong(this.layout.file, this.line);
+    this.leftover = rest;
+  }
+
+  private lines(b: Buffer, end: number): void {
+    let pos = 0;
+    while (pos < end) {
+      const stop = this.row(b, pos, end);
+      if (stop - pos > MAX_LINE_BYTES) throw lineTooLong(this.layout.file, this.line);
+      this.line++;
+      pos = stop + 1;
+    }
+  }
+
+  private isBlank(c: number): boolean {
+    return c === SPACE || (c === TAB && this.tabIsBlank) || (c === CR && this.crIsBlank);
+  }
+
+  /** Reads the line starting at `s` and returns the index of its terminator (or `limit`). */
+  private row(b: Buffer, s: number, limit: number): number {
+    const { vals, kinds, exps, num, delim, spaces, maxFields, term } = this;
+    let pos = s;
+    while (pos < limit && this.isBlank(b[pos])) pos++;
+    if (pos >= limit || b[pos] === term) return pos;
+    if (b[pos] === HASH) return this.lineEnd(b, pos, limit);
+    let n = 0;
+    for (;;) {
+      while (pos < limit && this.isBlank(b[pos])) pos++;
+      if (n === maxFields) return this.pushRow(b, s, this.lineEnd(b, pos, limit), n);
+      const quoted = pos < limit && b[pos] === QUOTE;
+      if (quoted) pos++;
+      const start = pos;
+      const c = b[pos];
+      if (pos >= limit || c === term || (c === delim && !spaces) || (quoted && c === QUOTE)) {
+        vals[n] = NaN;
+        kinds[n] = EMPTY;
+        exps[n] = 0;
+      } else {
+        num.scanInto(b, pos, limit, vals, n);
+        kinds[n] = num.kind;
+        exps[n] = num.quantumExp;
+        pos = num.end;
+      }
+      if (quoted && pos < limit && b[pos] === QUOTE) pos++;
+      // A token that goes on past its number ("1.5V", "12:30") or is a word is text (or a NaN word).
+      if (pos < limit && !this.isBlank(b[pos]) && b[pos] !== term && (spaces || b[pos] !== delim)) pos = this.skipText(b, start, pos, limit, n);
+      while (pos < limit && this.isBlank(b[pos])) pos++;
+      if (!spaces && pos < limit && b[pos] !== delim && b[pos] !== term) pos = this.skipText(b, start, pos, limit, n);
+      n++;
+      if (pos >= limit || b[pos] === term) return this.pushRow(b, s, pos, n);
+      if (!spaces) pos++;
+    }
+  }
+
+  private pushRow(b: Buffer, s: number, e: number, n: number): number {
+    if (!this.sink.push(this.vals, this.kinds, this.exps, n, this.line)) this.holdText(b, s, e);
+    return e;
+  }
+
+  private lineEnd(b: Buffer, pos: number, limit: number): number {
+    const e = b.indexOf(this.term, pos);
+    return e < 0 || e > limit ? limit : e;
+  }
+
+  private skipText(b: Buffer, start: number, pos: number, e: number, n: number): number {
+    const { delim, spaces, term } = this;
+    while (pos < e && b[pos] !== term && (spaces ? !this.isBlank(b[pos]) : b[pos] !== delim)) pos++;
+    this.kinds[n] = isMarker(b, start, pos) ? MARKER : TEXT;
+    this.vals[n] = NaN;
+    return pos;
+  }
+
+  private holdText(b: Buffer, s: number, e: number): void {
+    const p = this.sink.pending;
+    if (p && p.text === '') p.text = b.toString('utf8', s, Math.min(e, s + 60)).trim();
+  }
+}
+
+/** `nan`, `inf`, `infinity` with an optional sign, any case (and a closing quote). */
+function isMarker(b: Buffer, s: number, e: number): boolean {
+  while (e > s && (b[e - 1] === QUOTE || b[e - 1] === SPACE || b[e - 1] === TAB)) e--;
+  if (b[s] === 43 || b[s] === 45) s++;
+  const len = e - s;
+  if (len !== 3 && len !== 8) return false;
+  const word = b.toString('latin1', s, e).toLowerCase();
+  return word === 'nan' || word === 'inf' || word === 'infinity';
+}

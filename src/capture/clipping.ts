@@ -1,0 +1,101 @@
+/**
+ * Clipping: runs of samples pinned at the record's extremes (the trace ran off the screen, or the
+ * output hit a rail). Common practice (no source); the rule, stated so it can be checked:
+ *
+ * 1. A run is ≥ 3 consecutive samples exactly equal to the record's maximum (or minimum).
+ * 2. The run must be far longer than a quantised peak would dwell there. With resolution q (the
+ *    gap between the extreme and the next value inside the record), a signal that only touches
+ *    the top code spends at least about a quarter as long within 2q below it on each side as at
+ *    the top (a linear ramp: ≤ 1×; a parabolic peak: ≤ 2.8×, closed form). A clipped trace
+ *    arrives steeply, so the run must exceed 4× the longer of the two approach dwells.
+ * 3. The run must cut off a ramp: on at least one side, over the nearest window of W samples
+ *    (the shortest power of two that spans ≥ 4q), the signal moves by 1/4…4 times what it moves
+ *    over the next W samples. A clipped ramp or sine keeps its slope up to the clip (ratio ≈ 1); a
+ *    square wave's levels are reached by a jump (ratio ≫ 1) or an RC settling curve (ratio ≤ 1/9),
+ *    so flat pulse levels are not taken for clipping.
+ * 4. The samples in such runs must reach 0.5 % of the valid samples, so that one stray run of
+ *    three in a long record does not count.
+ * A waveform whose flat levels are reached along straight ramps (a slew-limited trapezoid without
+ * noise) passes the rule too: its samples cannot tell it from a clipped triangle.
+ */
+import type { ClipInfo } from '../types/index.js';
+
+const MIN_RUN = 3;
+const APPROACH_RATIO = 4;
+const MIN_SHARE = 0.005;
+const RAMP_RATIO = 4;
+
+export function detectClipping(x: Float64Array): ClipInfo | null {
+  let max = -Infinity;
+  let min = Infinity;
+  let valid = 0;
+  for (let i = 0; i < x.length; i++) {
+    const v = x[i];
+    if (v !== v) continue;
+    valid++;
+    if (v > max) max = v;
+    if (v < min) min = v;
+  }
+  if (valid === 0 || max === min) return null;
+  let below = -Infinity;
+  let above = Infinity;
+  for (let i = 0; i < x.length; i++) {
+    const v = x[i];
+    if (v < max && v > below) below = v;
+    if (v > min && v < above) above = v;
+  }
+  const high = pinnedSamples(x, max, max - below, 1);
+  const low = pinnedSamples(x, min, above - min, -1);
+  const limit = MIN_SHARE * valid;
+  if (high < limit && low < limit) return null;
+  return { high: high >= limit ? high : 0, low: low >= limit ? low : 0 };
+}
+
+/** Samples in runs at `level` that satisfy rules 1 and 2; `dir` is +1 for the top, −1 for the bottom. */
+function pinnedSamples(x: Float64Array, level: number, q: number, dir: number): number {
+  let total = 0;
+  let i = 0;
+  while (i < x.length) {
+    if (x[i] !== level) {
+      i++;
+      continue;
+    }
+    const a = i;
+    while (i < x.length && x[i] === level) i++;
+    const run = i - a;
+    if (run < MIN_RUN) continue;
+    const cap = Math.floor(run / APPROACH_RATIO) + 1;
+    const before = a > 0 ? approach(x, a - 1, -1, level, q, dir, cap) : -1;
+    const after = i < x.length ? approach(x, i, 1, level, q, dir, cap) : -1;
+    if (before < 0 && after < 0) continue;
+    if (run <= APPROACH_RATIO * Math.max(before, after)) continue;
+    if (cutsRamp(x, a - 1, -1, level, q, dir) || cutsRamp(x, i, 1, level, q, dir)) total += run;
+  }
+  return total;
+}
+
+/** Consecutive samples from `from` (walking by `step`) within 2q of the level, counted up to `cap`. */
+function approach(x: Float64Array, from: number, step: number, level: number, q: number, dir: number, cap: number): number {
+  let n = 0;
+  for (let j = from; j >= 0 && j < x.length && n < cap; j += step) {
+    const depth = dir * (level - x[j]);
+    if (!(depth > 0 && depth <= 2 * q)) break;
+    n++;
+  }
+  return n;
+}
+
+/** Rule 3 on one side of a run: `from` is the first sample outside it, walking by `step`. */
+function cutsRamp(x: Float64Array, from: number, step: number, level: number, q: number, dir: number): boolean {
+  for (let w = 1; w <= 65536; w *= 2) {
+    const p1 = from + step * (w - 1);
+    const p2 = from + step * (2 * w - 1);
+    if (p2 < 0 || p2 >= x.length) return false;
+    const near = dir * (level - x[p1]);
+    if (near !== near) return false;
+    if (near < 4 * q) continue;
+    const far = dir * (x[p1] - x[p2]);
+    return far > 0 && near / far >= 1 / RAMP_RATIO && near / far <= RAMP_RATIO;
+  }
+  return false;
+}

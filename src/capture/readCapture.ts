@@ -1,0 +1,113 @@
+/**
+ * CSV capture → Capture, in one streaming pass over the file: sniff the layout from the first
+ * 64 KiB, then read every row with the byte scanner (or papaparse for quoted layouts), hashing the
+ * stored bytes on the way. Only the channels asked for are kept; a uniform time column is not.
+ */
+import type { Capture, ReadCaptureOptions } from '../types/index.js';
+import { assembleCapture } from './assemble.js';
+import { ByteScanner } from './byteScanner.js';
+import { captureError } from './errors.js';
+import { MAX_LINE_BYTES, sampleLines, SNIFF_BYTES } from './lines.js';
+import type { SampleLines } from './lines.js';
+import { readMetadata } from './metadata.js';
+import { readWithPapa } from './papaRows.js';
+import type { ColumnRoles } from './roles.js';
+import { columnRoles } from './roles.js';
+import { RowSink, SKIP, X_COLUMN } from './rowSink.js';
+import { sniffLayout } from './sniff.js';
+import type { Sniffed } from './sniff.js';
+import { openSource } from './source.js';
+import { TimeAxis } from './timeAxis.js';
+import { givenInterval, noTimeBase } from './timing.js';
+
+export async function readCapture(path: string, options: ReadCaptureOptions = {}): Promise<Capture> {
+  checkOptions(options);
+  const source = await openSource(path, options.onProgress);
+  const chunks = source.chunks[Symbol.asyncIterator]();
+  try {
+    const { sample, done } = await gatherSample(chunks);
+    const lines = sampleLines(sample, done, path);
+    const sniffed = sniffLayout(lines, path);
+    const meta = readMetadata(sniffed.preamble, sniffed.decimalMark);
+    const roles = columnRoles(sniffed, meta.verticalUnit, path);
+    const kept = selectChannels(roles, options.channel, path);
+    const x = roles.timeColumn ?? roles.indexColumn;
+    if (x === null && givenInterval(options, meta) === null) throw noTimeBase(path, sniffed.firstDataLine);
+    const axis = x === null ? null : new TimeAxis(path, x === roles.timeColumn ? 'time' : 'sample-index');
+    const sink = new RowSink({
+      file: path,
+      columnCount: sniffed.columnCount,
+      trailingDelimiter: sniffed.trailingDelimiter,
+      targets: Int32Array.from(roles.columns, (_, c) => (c === x ? X_COLUMN : kept.includes(c) ? kept.indexOf(c) : SKIP)),
+      scales: Float64Array.from(roles.columns, (c) => c.scale),
+      axis,
+      capacity: source.compressed ? 1 << 16 : estimateRows(lines, sniffed, source.size),
+    });
+    const rest: AsyncIterable<Buffer> = { [Symbol.asyncIterator]: () => chunks };
+    const data = sample.subarray(sniffed.dataOffset);
+    if (sniffed.quotes === 'complex') {
+      await readWithPapa(data, rest, { ...sniffed, lineEnding: lines.lineEnding, firstLine: sniffed.firstDataLine }, sink);
+    } else {
+      const scanner = new ByteScanner({ ...sniffed, terminator: lines.terminator, firstLine: sniffed.firstDataLine, file: path }, sink);
+      scanner.feed(data);
+      for await (const chunk of rest) scanner.feed(chunk);
+      scanner.end();
+    }
+    return assembleCapture({ path, options, source, lines, sniffed, meta, roles, kept, sink, axis });
+  } finally {
+    await chunks.return?.();
+  }
+}
+
+function checkOptions(o: ReadCaptureOptions): void {
+  for (const [name, v] of [['interval', o.interval], ['sampleRate', o.sampleRate]] as const) {
+    if (v !== undefined && !(v > 0 && Number.isFinite(v))) throw new RangeError(`readCapture: ${name} must be a positive number, got ${v}`);
+  }
+  if (o.interval !== undefined && o.sampleRate !== undefined && Math.abs(o.interval * o.sampleRate - 1) > 1e-9) {
+    throw captureError('conflicting-options', '-', {
+      problem: `--interval ${o.interval} and --sample-rate ${o.sampleRate} disagree`,
+      expected: 'one of the two flags, or values with interval × rate = 1',
+      fix: 'drop one of the two flags',
+    });
+  }
+}
+
+/** The opening chunks, up to at least 64 KiB that hold a line break (or the whole file). */
+async function gatherSample(chunks: AsyncIterator<Buffer>): Promise<{ sample: Buffer; done: boolean }> {
+  const parts: Buffer[] = [];
+  let total = 0;
+  let breaks = false;
+  for (;;) {
+    const r = await chunks.next();
+    if (r.done) return { sample: Buffer.concat(parts), done: true };
+    parts.push(r.value);
+    total += r.value.length;
+    breaks ||= r.value.includes(10) || r.value.includes(13);
+    if ((total >= SNIFF_BYTES && breaks) || total > MAX_LINE_BYTES + SNIFF_BYTES) return { sample: Buffer.concat(parts), done: false };
+  }
+}
+
+/** Rows the file will hold, from the sniffed bytes per row, so that columns are allocated once. */
+function estimateRows(lines: SampleLines, s: Sniffed, size: number): number {
+  const data = lines.lines.filter((l) => l.line >= s.firstDataLine);
+  if (data.length < 2) return 1024;
+  const perRow = (data[data.length - 1].start - s.dataOffset) / (data.length - 1);
+  return Math.ceil(((size - s.dataOffset) / Math.max(1, perRow)) * 1.02) + 16;
+}
+
+/** File columns of the channels to keep: all, or the one named by --channel (name or 1-based number). */
+function selectChannels(roles: ColumnRoles, wanted: string | undefined, file: string): number[] {
+  const all = roles.channelColumns;
+  if (wanted === undefined) return [...all];
+  const key = wanted.trim().toLowerCase();
+  const byName = all.find((c) => roles.columns[c].name.toLowerCase() === key);
+  if (byName !== undefined) return [byName];
+  const n = Number(key);
+  if (Number.isInteger(n) && n >= 1 && n <= all.length) return [all[n - 1]];
+  const list = all.map((c, i) => `${i + 1} = ${roles.columns[c].name}`).join(', ');
+  throw captureError('unknown-channel', file, {
+    problem: `there is no channel "${wanted}" in this capture`,
+    expected: `one of its channels: ${list}`,
+    fix: `give --channel with a name or number from that list, e.g. --channel ${roles.columns[all[0]].name}`,
+  });
+}

@@ -1,0 +1,132 @@
+/**
+ * Where parsed rows go, from the byte scanner or the papaparse path alike: channels into growable
+ * Float64Array columns (SI units), the x column into a TimeAxis. Invalid samples (empty, NaN, ±inf,
+ * text, overflow markers) are stored as NaN and counted, never as zeros. A row of text, or with the
+ * wrong number of fields, is an error unless only such rows follow it to the end of the file: then
+ * it is a footer, reported as a warning.
+ */
+import { captureError } from './errors.js';
+import { EMPTY, NUMBER, TEXT } from './scanNumber.js';
+import type { TimeAxis } from './timeAxis.js';
+
+/**
+ * Values at or beyond 9.9e37 are instrument overflow markers: SCPI writes 9.9E37 for infinity and
+ * 9.91E37 for not-a-number (SCPI-1999 Vol. 1 §7.2.1.5, from memory).
+ */
+export const OVERFLOW_MARKER = 9.9e37;
+
+export interface SinkConfig {
+  readonly file: string;
+  readonly columnCount: number;
+  readonly trailingDelimiter: boolean;
+  /** Per file column: index of the kept channel, X_COLUMN, or SKIP. */
+  readonly targets: Int32Array;
+  /** Per file column: factor to SI units. */
+  readonly scales: Float64Array;
+  readonly axis: TimeAxis | null;
+  readonly capacity: number;
+}
+
+export const X_COLUMN = -2;
+export const SKIP = -1;
+
+interface Pending {
+  readonly code: 'ragged-row' | 'text-in-data';
+  readonly line: number;
+  readonly fields: number;
+  text: string;
+  count: number;
+}
+
+export class RowSink {
+  columns: Float64Array[];
+  length = 0;
+  readonly invalid: number[];
+  readonly firstInvalid: (number | undefined)[];
+  firstLine = 0;
+  lastLine = 0;
+  pending: Pending | null = null;
+  private readonly channelCount: number;
+
+  constructor(private readonly cfg: SinkConfig) {
+    this.channelCount = Math.max(0, ...cfg.targets) + (cfg.targets.some((t) => t >= 0) ? 1 : 0);
+    this.columns = Array.from({ length: this.channelCount }, () => new Float64Array(Math.max(16, cfg.capacity)));
+    this.invalid = new Array<number>(this.channelCount).fill(0);
+    this.firstInvalid = new Array<number | undefined>(this.channelCount).fill(undefined);
+  }
+
+  /** Takes one row; returns false when the row was held back as a possible footer. */
+  push(vals: Float64Array, kinds: Uint8Array, exps: Int32Array, fieldCount: number, line: number): boolean {
+    const { columnCount: C, targets, scales } = this.cfg;
+    let n = fieldCount;
+    if (this.cfg.trailingDelimiter && n === C + 1 && kinds[C] === EMPTY) n = C;
+    if (n !== C || kinds[0] === TEXT || isTextRow(kinds, n)) {
+      if (this.pending) this.pending.count++;
+      else this.pending = { code: n !== C ? 'ragged-row' : 'text-in-data', line, fields: n, text: '', count: 1 };
+      return false;
+    }
+    if (this.pending) throw this.pendingError(this.pending);
+    if (this.length === this.columns[0]?.length) this.grow();
+    const row = this.length;
+    for (let c = 0; c < C; c++) {
+      const k = targets[c];
+      if (k === SKIP) continue;
+      const v = vals[c];
+      const ok = kinds[c] === NUMBER && v < OVERFLOW_MARKER && v > -OVERFLOW_MARKER;
+      if (k === X_COLUMN) {
+        if (!ok) throw this.badTime(line);
+        this.cfg.axis!.push(vals, c, exps[c], line);
+      } else if (ok) this.columns[k][row] = v * scales[c];
+      else {
+        this.columns[k][row] = NaN;
+        if (this.invalid[k]++ === 0) this.firstInvalid[k] = line;
+      }
+    }
+    if (row === 0) this.firstLine = line;
+    this.lastLine = line;
+    this.length = row + 1;
+    return true;
+  }
+
+  /** The columns trimmed to the rows read (copied when much capacity would go unused). */
+  trimmed(): Float64Array[] {
+    return this.columns.map((c) => (c.length - this.length > this.length / 8 ? c.slice(0, this.length) : c.subarray(0, this.length)));
+  }
+
+  private grow(): void {
+    this.columns = this.columns.map((c) => {
+      const bigger = new Float64Array(Math.ceil(c.length * 1.5) + 16);
+      bigger.set(c);
+      return bigger;
+    });
+  }
+
+  private pendingError(p: Pending) {
+    const what = p.code === 'ragged-row' ? `has ${p.fields} field(s) where the data rows have ${this.cfg.columnCount}` : 'holds text where numbers were expected';
+    return captureError(p.code, this.cfg.file, {
+      line: p.line,
+      problem: `this row ${what}${p.text ? `: "${p.text}"` : ''}, and data rows follow it`,
+      expected: `every data row with ${this.cfg.columnCount} numeric field(s); text only before the data or at its end`,
+      fix: 'delete or repair this line (it may join two exports), then measure again',
+    });
+  }
+
+  private badTime(line: number) {
+    return captureError('invalid-time', this.cfg.file, {
+      line,
+      problem: 'the time (or sample index) of this row is empty or not a number',
+      expected: 'a number in the first column of every data row',
+      fix: 'repair or delete this row; if the column is not a time base, remove it and give --sample-rate',
+    });
+  }
+}
+
+/** Text and no number: a title or footer line. Rows of only empty fields or NaN words are data. */
+function isTextRow(kinds: Uint8Array, n: number): boolean {
+  let text = false;
+  for (let i = 0; i < n; i++) {
+    if (kinds[i] === NUMBER) return false;
+    if (kinds[i] === TEXT) text = true;
+  }
+  return text;
+}

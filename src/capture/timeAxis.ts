@@ -1,0 +1,98 @@
+/**
+ * The x column (time or sample index, in the file's units) checked for uniform steps while
+ * streaming. A uniform column is not stored: only its start, end and count are kept.
+ *
+ * Rule: sample n must lie within tol of t0 + n·d, where d = (t_k − t0)/k is re-anchored at every
+ * power of two k. With values printed to a resolution q (the last written digit), d_k is off by at
+ * most q/k, so for k < n ≤ 2k the prediction is off by at most 3q: tol = 3q + 1e-4·d (timing errors
+ * below 1e-4 of a sample are beneath anything resampling could correct), capped at d/2 so that one
+ * missing sample is always caught. On the first miss the column switches to being stored: the rows
+ * before it passed the check and are rebuilt as t0 + i·d.
+ */
+import { captureError } from './errors.js';
+
+export type AxisResult =
+  | { readonly uniform: true; readonly t0: number; readonly step: number; readonly count: number }
+  | { readonly uniform: false; readonly times: Float64Array; readonly firstIrregularLine: number };
+
+export class TimeAxis {
+  private count = 0;
+  private t0 = 0;
+  private prev = 0;
+  private prevLine = 0;
+  private d = 0;
+  private nextAnchor = 2;
+  private maxQExp = -1000;
+  private maxQ = 0;
+  private times: Float64Array | null = null;
+  private firstIrregularLine = 0;
+
+  constructor(
+    private readonly file: string,
+    private readonly label: string,
+  ) {}
+
+  /** Takes src[at] (read from the array so that no boxed double is passed per row). */
+  push(src: Float64Array, at: number, quantumExp: number, line: number): void {
+    const t = src[at];
+    const n = this.count;
+    if (quantumExp > this.maxQExp) {
+      this.maxQExp = quantumExp;
+      this.maxQ = 10 ** quantumExp;
+    }
+    if (n === 0) this.t0 = t;
+    else {
+      const step = t - this.prev;
+      if (!(step > 0)) throw this.notIncreasing(t, line, step);
+      if (this.times === null) this.check(t, n, line);
+    }
+    if (this.times !== null) {
+      if (n === this.times.length) this.grow();
+      this.times[n] = t;
+    }
+    this.prev = t;
+    this.prevLine = line;
+    this.count = n + 1;
+  }
+
+  finish(): AxisResult {
+    if (this.times !== null) return { uniform: false, times: this.times.subarray(0, this.count), firstIrregularLine: this.firstIrregularLine };
+    const step = this.count > 1 ? (this.prev - this.t0) / (this.count - 1) : NaN;
+    return { uniform: true, t0: this.t0, step, count: this.count };
+  }
+
+  private check(t: number, n: number, line: number): void {
+    if (n === 1) {
+      this.d = t - this.t0;
+      return;
+    }
+    const d = this.d;
+    const tol = Math.min(3 * this.maxQ + 1e-4 * d + 4e-16 * Math.abs(t), 0.5 * d);
+    if (Math.abs(t - (this.t0 + n * d)) > tol) {
+      this.firstIrregularLine = line;
+      this.times = new Float64Array(Math.max(1024, n * 2));
+      for (let i = 0; i < n; i++) this.times[i] = this.t0 + i * d;
+    } else if (n === this.nextAnchor) {
+      this.d = (t - this.t0) / n;
+      this.nextAnchor *= 2;
+    }
+  }
+
+  private grow(): void {
+    const bigger = new Float64Array(this.times!.length * 2);
+    bigger.set(this.times!);
+    this.times = bigger;
+  }
+
+  private notIncreasing(t: number, line: number, step: number) {
+    const backwards = step < 0;
+    return captureError(backwards ? 'time-backwards' : 'time-repeated', this.file, {
+      line,
+      problem: `the ${this.label} column ${backwards ? 'goes backwards' : 'repeats a value'}: ${t} after ${this.prev} on line ${this.prevLine}`,
+      expected: `a ${this.label} column that increases on every row`,
+      fix: backwards
+        ? 'the file may join several captures; split it at this line and measure each part'
+        : 'export the time with more digits, or drop the time column and give --sample-rate',
+    });
+  }
+}

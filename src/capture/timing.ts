@@ -1,0 +1,89 @@
+/**
+ * The time base of a capture: from its time column, else from the user's --interval/--sample-rate,
+ * else from the preamble. A non-uniform x column is resampled onto a uniform grid (with a warning).
+ */
+import type { CaptureLayout, CaptureWarning, ReadCaptureOptions } from '../types/index.js';
+import { captureError } from './errors.js';
+import type { MetadataTiming } from './metadata.js';
+import { gridLength, medianStep, resampleUniform } from './resample.js';
+import type { AxisResult } from './timeAxis.js';
+
+/** A resampled grid may hold at most this many times the rows read (and never more than 2^27 points). */
+const MAX_GRID_GROWTH = 8;
+const MAX_GRID_POINTS = 2 ** 27;
+
+export interface TimingInput {
+  readonly file: string;
+  readonly axis: AxisResult | null;
+  readonly xKind: 'time' | 'index' | null;
+  /** Factor from the time column's unit to seconds. */
+  readonly xScale: number;
+  readonly meta: MetadataTiming;
+  readonly options: ReadCaptureOptions;
+  readonly channels: Float64Array[];
+  readonly firstDataLine: number;
+}
+
+export interface Timing {
+  readonly startTime: number;
+  readonly sampleInterval: number;
+  readonly timing: CaptureLayout['timing'];
+  readonly resampled: boolean;
+  readonly channels: Float64Array[];
+  readonly warnings: CaptureWarning[];
+}
+
+/** The interval the user or the preamble gives, or null; throws when an x column is missing too. */
+export function givenInterval(options: ReadCaptureOptions, meta: MetadataTiming): { value: number; from: 'option' | 'metadata' } | null {
+  if (options.interval !== undefined) return { value: options.interval, from: 'option' };
+  if (options.sampleRate !== undefined) return { value: 1 / options.sampleRate, from: 'option' };
+  return meta.interval ? { value: meta.interval.value, from: 'metadata' } : null;
+}
+
+export function noTimeBase(file: string, line: number) {
+  return captureError('no-time-base', file, {
+    line,
+    problem: 'the capture has no time column and states no sample interval or rate',
+    expected: 'a time column (header such as "Time (s)"), a preamble line such as "sample interval,1e-6", or a flag',
+    fix: 'give the rate the capture was taken at: --sample-rate 1e6 (Hz) or --interval 1e-6 (s)',
+  });
+}
+
+export function resolveTiming(input: TimingInput): Timing {
+  const { axis, xKind, options, meta, file } = input;
+  const given = givenInterval(options, meta);
+  const warnings: CaptureWarning[] = [];
+  if (xKind !== 'time' && given === null) throw noTimeBase(file, input.firstDataLine);
+  const unitScale = xKind === 'time' ? input.xScale : given!.value;
+  const timing: CaptureLayout['timing'] = xKind === 'time' ? 'time-column' : given!.from;
+  const start = (t0File: number): number => (xKind === 'time' ? t0File * unitScale : meta.startTime ?? 0);
+  if (axis === null || axis.uniform) {
+    const interval = axis ? axis.step * unitScale : given!.value;
+    if (xKind === 'time' && given && Math.abs(given.value - interval) > 1e-3 * interval) {
+      warnings.push({
+        code: given.from === 'option' ? 'option-ignored' : 'interval-mismatch',
+        message: `the time column steps by ${interval} s, but the ${given.from === 'option' ? 'flag gives' : 'preamble states'} ${given.value} s; the time column is used`,
+      });
+    }
+    return { startTime: axis ? start(axis.t0) : start(0), sampleInterval: interval, timing, resampled: false, channels: input.channels, warnings };
+  }
+  const { times, firstIrregularLine } = axis;
+  const step = xKind === 'time' && options.interval !== undefined ? options.interval / unitScale : xKind === 'time' && options.sampleRate !== undefined ? 1 / options.sampleRate / unitScale : medianStep(times);
+  const points = gridLength(times, step);
+  if (points > Math.min(MAX_GRID_POINTS, MAX_GRID_GROWTH * times.length + 16)) {
+    throw captureError('resample-too-large', file, {
+      line: firstIrregularLine,
+      problem: `the time steps vary so much that a uniform grid at the median step would need ${points} points for ${times.length} rows`,
+      expected: 'time steps that vary by less than a factor of about 8 across the capture',
+      fix: 'choose the grid step yourself with --interval S (e.g. the simulator\'s maximum step)',
+    });
+  }
+  const r = resampleUniform(times, input.channels, step);
+  const interval = r.step * unitScale;
+  warnings.push({
+    code: 'resampled',
+    line: firstIrregularLine,
+    message: `the ${xKind === 'time' ? 'time' : 'sample-index'} steps are not uniform from line ${firstIrregularLine} on; ${times.length} rows were resampled by linear interpolation onto ${points} points every ${interval} s`,
+  });
+  return { startTime: start(r.t0), sampleInterval: interval, timing, resampled: true, channels: r.channels, warnings };
+}

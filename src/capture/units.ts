@@ -1,0 +1,74 @@
+/**
+ * Units written in column headers and metadata values, converted to SI base units (SI Brochure,
+ * 9th ed. 2019, §3: prefixes n = 1e-9, µ = 1e-6, m = 1e-3, k = 1e3, M = 1e6, G = 1e9).
+ * `u` for µ is the common ASCII stand-in (common practice, no source).
+ */
+import type { ColumnLayout } from '../types/index.js';
+
+export interface UnitInfo {
+  readonly scale: number;
+  readonly siUnit: string;
+}
+
+const PREFIX: Readonly<Record<string, number>> = {
+  p: 1e-12, n: 1e-9, u: 1e-6, 'µ': 1e-6, 'μ': 1e-6, m: 1e-3, '': 1, k: 1e3, M: 1e6, G: 1e9,
+};
+const BASE: Readonly<Record<string, string>> = { s: 's', V: 'V', A: 'A', Hz: 'Hz', 'S/s': 'Hz', 'Sa/s': 'Hz' };
+const WORDS: Readonly<Record<string, UnitInfo>> = {
+  sec: { scale: 1, siUnit: 's' },
+  seconds: { scale: 1, siUnit: 's' },
+  second: { scale: 1, siUnit: 's' },
+  volt: { scale: 1, siUnit: 'V' },
+  volts: { scale: 1, siUnit: 'V' },
+  amp: { scale: 1, siUnit: 'A' },
+  amps: { scale: 1, siUnit: 'A' },
+};
+
+/** Scale and SI unit of a written unit such as `mV`, `µs`, `us`, `kHz`, or null when unknown. */
+export function parseUnit(raw: string): UnitInfo | null {
+  const u = raw.trim();
+  if (u === '') return null;
+  const word = WORDS[u.toLowerCase()];
+  if (word) return word;
+  for (const [base, si] of Object.entries(BASE)) {
+    if (!u.endsWith(base)) continue;
+    const scale = PREFIX[u.slice(0, u.length - base.length)];
+    if (scale !== undefined) return { scale, siUnit: si };
+  }
+  // Lower-case spellings (`mv`, `us`, `v`) are accepted only for prefixes below one, where no
+  // capital prefix could be meant (mV and MV differ; mv can only be millivolts in a capture).
+  const lower = /^([pnuµμm]?)(s|v|a)$/.exec(u);
+  if (lower) return { scale: PREFIX[lower[1]], siUnit: lower[2] === 's' ? 's' : lower[2].toUpperCase() };
+  return null;
+}
+
+/**
+ * Splits a header cell into a name and a unit: `Time (s)`, `t[ms]`, `CH1 (mV)`, `CH1 / V`,
+ * `time_s`, `ch1_mv`. A suffix after `_` counts as a unit only when it is a known unit.
+ */
+export function parseHeaderCell(cell: string): { name: string; unit: string } {
+  const s = cell.trim();
+  const bracket = /^(.*?)\s*[([{]\s*([^()[\]{}]*?)\s*[)\]}]\s*$/.exec(s);
+  // Bracketed text is a unit when it reads as one; `Voltage (CH1)` keeps its brackets in the name.
+  if (bracket && bracket[1] !== '' && (parseUnit(bracket[2]) || /^[^\d\s]{1,4}$/.test(bracket[2]))) {
+    return { name: bracket[1], unit: bracket[2] };
+  }
+  const slash = /^(.*?)\s+\/\s*(\S+)$/.exec(s);
+  if (slash && parseUnit(slash[2])) return { name: slash[1], unit: slash[2] };
+  const suffix = /^(.+?)_([A-Za-zµμ/]+)$/.exec(s);
+  if (suffix && parseUnit(suffix[2])) return { name: suffix[1], unit: suffix[2] };
+  return { name: s, unit: '' };
+}
+
+/** Column layout of one header cell, or of a missing header (`fallbackName`, unit from metadata). */
+export function columnLayout(cell: string | null, fallbackName: string, defaultUnit = ''): ColumnLayout {
+  const { name, unit } = cell === null ? { name: '', unit: defaultUnit } : parseHeaderCell(cell);
+  const written = unit === '' ? defaultUnit : unit;
+  const info = parseUnit(written);
+  return {
+    name: name === '' ? fallbackName : name,
+    unit: written,
+    scale: info?.scale ?? 1,
+    siUnit: info?.siUnit ?? '',
+  };
+}

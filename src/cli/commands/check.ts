@@ -1,0 +1,114 @@
+import { readFileSync } from 'node:fs';
+import type { Command } from 'commander';
+import type { CommandContext } from '../context.js';
+import { resolvePath } from '../context.js';
+import { readCapture } from '../../capture/index.js';
+import { measureCapture } from '../../analysis/index.js';
+import { bindCapture, decideUnits, parseSpec, planCapture } from '../../spec/index.js';
+import type { Spec } from '../../spec/index.js';
+import { diagnoseUnit } from '../../diagnose/index.js';
+import { checkDocument, renderCheckText } from '../../report/index.js';
+import type { UnitCheck } from '../../report/index.js';
+import { BenchError } from '../../types/index.js';
+import type { CheckedCapture } from '../../types/index.js';
+import { parsePositive } from '../options.js';
+import { createProgress } from '../progress.js';
+
+interface CheckOptions {
+  spec: string;
+  unit?: string;
+  condition?: string;
+  json?: boolean;
+  strict?: boolean;
+  sampleRate?: string;
+  interval?: string;
+}
+
+export function registerCheck(program: Command, ctx: CommandContext): Command {
+  return program
+    .command('check')
+    .description('check captures against a design spec: a statement per check, likely causes, one line per unit')
+    .argument('<captures...>', 'CSV captures named after the spec\'s pattern, e.g. FK-0101_mid.csv')
+    .requiredOption('--spec <file>', 'the design spec (YAML or JSON)')
+    .option('--unit <serial>', 'serial number of the unit, instead of the one in the file names')
+    .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
+    .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
+    .option('--strict', 'treat a conditional pass as a failure (exit 1)')
+    .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
+    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
+    .addHelpText(
+      'after',
+      `
+Examples:
+  benchproof check samples/captures/FK-0101_*.csv --spec samples/fh210-spec.yaml
+  benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --json
+  benchproof check bench/scope-01.csv --spec samples/fh210-spec.yaml --unit FK-0107 --condition mid
+
+Exit status: 0 every check passed (a conditional pass is allowed unless --strict),
+1 a fail, conditional fail or not-measured check, 2 bad input.`,
+    )
+    .action(async (files: string[], opts: CheckOptions, cmd: Command) => {
+      const json = Boolean(opts.json);
+      ctx.json = json;
+      const readOptions = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
+      const spec = parseSpec(readSpecText(ctx, opts.spec), opts.spec);
+      // Every file name is mapped before any capture is read, so a misnamed file fails at once.
+      const plans = files.map((f) => planCapture(spec, f, { unit: opts.unit, condition: opts.condition }));
+      const progress = createProgress(ctx, json);
+      const checked: CheckedCapture[] = [];
+      try {
+        for (const plan of plans) {
+          let started = false;
+          const capture = await readCapture(resolvePath(ctx.io.cwd, plan.path), {
+            ...readOptions,
+            onProgress: (done, total) => {
+              if (!started) progress.start(plan.path, total);
+              started = true;
+              progress.update(done);
+            },
+          });
+          const named = { ...capture, path: plan.path };
+          checked.push(bindCapture(spec, plan, named, measureCapture(named)));
+        }
+      } finally {
+        progress.stop();
+      }
+      const units: UnitCheck[] = decideUnits(spec, checked).map((verdict) => ({ verdict, diagnosis: diagnoseUnit(spec, verdict) }));
+
+      // STORE: the records stage wires storing here. Every checked unit is stored by default
+      // (one store.saveRun per element of `units`, with its verdict, diagnosis and captures);
+      // a --no-store flag skips it, and one stderr line says where the record went.
+
+      ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : renderCheckText(units, ctx.styleFor(cmd)));
+      ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));
+      flagConditional(ctx, spec, units, Boolean(opts.strict));
+    });
+}
+
+function readSpecText(ctx: CommandContext, file: string): string {
+  try {
+    return readFileSync(resolvePath(ctx.io.cwd, file), 'utf8');
+  } catch (err) {
+    throw new BenchError({
+      code: 'spec.unreadable',
+      file,
+      problem: `cannot read the spec (${(err as NodeJS.ErrnoException).code ?? 'read error'})`,
+      expected: 'a readable YAML or JSON spec file',
+      fix: 'check the path given to --spec, e.g. --spec samples/fh210-spec.yaml',
+    });
+  }
+}
+
+/** 0 when every unit passed (a conditional pass too, unless strict); 1 otherwise. */
+function exitCodeFor(units: readonly UnitCheck[], strict: boolean): number {
+  const accepted = (s: string): boolean => s === 'pass' || (!strict && s === 'conditional-pass');
+  return units.every((u) => accepted(u.verdict.statement)) ? 0 : 1;
+}
+
+function flagConditional(ctx: CommandContext, spec: Spec, units: readonly UnitCheck[], strict: boolean): void {
+  const conditional = units.filter((u) => u.verdict.statement === 'conditional-pass').map((u) => u.verdict.unit);
+  if (conditional.length === 0) return;
+  ctx.io.stderr(
+    `note: ${conditional.join(', ')} passed conditionally: a value lies within its uncertainty of a limit in ${spec.file}${strict ? ' (--strict: counted as a failure)' : '; --strict would fail it'}\n`,
+  );
+}

@@ -1,0 +1,81 @@
+import { Option } from 'commander';
+import type { Command } from 'commander';
+import type { CommandContext } from '../context.js';
+import { nearestNames } from '../../records/index.js';
+import { renderRecordHtml, renderRecordJson, renderRecordMarkdown } from '../../report/index.js';
+import { BenchError, STATEMENT_WORDS } from '../../types/index.js';
+import type { UnitRecord } from '../../types/index.js';
+import { addDataOption, notice, openDataStore, quoteArg, writeReportFile } from '../store.js';
+import type { DataLocation, StoreFlags } from '../store.js';
+import { TOOL_VERSION } from '../version.js';
+
+interface RecordOptions extends StoreFlags {
+  format: 'md' | 'html' | 'json';
+  json?: boolean;
+  out?: string;
+  output?: string;
+}
+
+const RENDER = { md: renderRecordMarkdown, html: renderRecordHtml, json: renderRecordJson } as const;
+const FORMAT_NAME = { md: 'Markdown', html: 'HTML', json: 'JSON' } as const;
+
+export function registerRecord(program: Command, ctx: CommandContext): Command {
+  const cmd = program
+    .command('record')
+    .description("a unit's test record: status, results per condition, causes, every run and its captures")
+    .argument('<serial>', 'unit serial number, as `benchproof units` lists it')
+    .addOption(new Option('--format <format>', 'md (Markdown), html (printable, with plots) or json').choices(['md', 'html', 'json']).default('md'))
+    .option('--json', 'the same as --format json')
+    .option('-o, --out <file>', 'write the record to this file instead of stdout')
+    .addOption(new Option('--output <file>', 'the same as --out').hideHelp());
+  return addDataOption(cmd)
+    .addHelpText(
+      'after',
+      `
+Examples:
+  benchproof record FK-0103
+  benchproof record FK-0103 --format html --out FK-0103-record.html
+  benchproof record FK-0103 --json --data /mnt/bench/benchproof-data`,
+    )
+    .action((serial: string, opts: RecordOptions) => {
+      const format = opts.json ? 'json' : opts.format;
+      ctx.json = format === 'json';
+      const { store, location } = openDataStore(ctx, opts, 'read');
+      let rec: UnitRecord | undefined;
+      try {
+        rec = store.unitRecord(serial);
+        if (!rec) throw unknownUnit(serial, store.unitSerials(), location);
+      } finally {
+        store.close();
+      }
+      const doc: UnitRecord = { ...rec, source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown } };
+      const text = RENDER[format](doc);
+      const changed = doc.runs.filter((r) => !r.intact);
+      if (changed.length) {
+        ctx.io.stderr(`benchproof: warning: run ${changed.map((r) => `#${r.id}`).join(', ')} of ${doc.unit} no longer match(es) the fingerprint taken when stored; do not rely on it\n`);
+      }
+      const out = opts.out ?? opts.output;
+      if (out === undefined) {
+        ctx.io.stdout(text);
+        return;
+      }
+      writeReportFile(ctx, out, text);
+      const warn = changed.length ? `, ${changed.length} run(s) CHANGED since stored` : '';
+      notice(
+        ctx,
+        `wrote the test record of ${doc.unit} (${STATEMENT_WORDS[doc.status]}, ${doc.runs.length} run(s)${warn}, ${FORMAT_NAME[format]}) to ${out}`,
+        `benchproof batch --spec ${quoteArg(doc.spec.name)} --format html --out batch-report.html`,
+      );
+    });
+}
+
+function unknownUnit(serial: string, known: readonly string[], location: DataLocation): BenchError {
+  const near = nearestNames(serial, known);
+  return new BenchError({
+    code: 'records.unknown-unit',
+    file: location.shown,
+    problem: `no unit ${serial} in the records`,
+    expected: known.length ? `one of the ${known.length} stored serials${near.length ? `, e.g. ${near.join(', ')}` : ''}` : 'a unit that `benchproof check` has stored',
+    fix: near.length ? `did you mean ${near[0]}? \`benchproof units\` lists every serial` : 'run `benchproof units` to list the stored serials',
+  });
+}

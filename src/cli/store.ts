@@ -1,0 +1,154 @@
+/**
+ * Where records live and who made them, for every command that touches the store: the data folder
+ * (`--data DIR`, else BENCHPROOF_DATA, else ./benchproof-data under the working directory), the
+ * operator (`--operator`, else BENCHPROOF_OPERATOR, else the login name) and the station (host name).
+ * Also the one-line stderr notices that say what was written where, and the next command to try.
+ */
+import { renameSync, rmSync, writeFileSync } from 'node:fs';
+import { hostname, userInfo } from 'node:os';
+import { relative, isAbsolute, resolve } from 'node:path';
+import type { Command } from 'commander';
+import type { CommandContext } from './context.js';
+import { nearestNames, openStore, sha256Hex } from '../records/index.js';
+import type { RecordStore } from '../records/index.js';
+import type { Diagnosis, NewRun, StoredRun, UnitVerdict } from '../types/index.js';
+import { BenchError, STATEMENT_WORDS } from '../types/index.js';
+import { TOOL_VERSION } from './version.js';
+
+export const DEFAULT_DATA_FOLDER = 'benchproof-data';
+
+export interface StoreFlags {
+  data?: string;
+  operator?: string;
+  /** false with --no-store. */
+  store?: boolean;
+}
+
+export interface DataLocation {
+  readonly dir: string;
+  /** How the user would write it: relative to the working directory when inside it. */
+  readonly shown: string;
+  readonly source: '--data' | 'BENCHPROOF_DATA' | 'default';
+}
+
+export function addDataOption(cmd: Command): Command {
+  return cmd.option('--data <dir>', `data folder of the records (default: BENCHPROOF_DATA, else ./${DEFAULT_DATA_FOLDER})`);
+}
+
+/** For `check`: --data, --operator and --no-store. */
+export function addRecordingOptions(cmd: Command): Command {
+  return addDataOption(cmd)
+    .option('--operator <name>', 'who ran the test (default: BENCHPROOF_OPERATOR, else the login name)')
+    .option('--no-store', 'do not store this run in the records');
+}
+
+export function resolveDataDir(ctx: CommandContext, flags: StoreFlags): DataLocation {
+  const env = ctx.io.env.BENCHPROOF_DATA;
+  const [raw, source] = flags.data ? [flags.data, '--data' as const] : env ? [env, 'BENCHPROOF_DATA' as const] : [DEFAULT_DATA_FOLDER, 'default' as const];
+  const dir = resolve(ctx.io.cwd, raw);
+  const rel = relative(ctx.io.cwd, dir);
+  const shown = rel === '' ? '.' : !rel.startsWith('..') && !isAbsolute(rel) ? `./${rel}` : dir;
+  return { dir, shown, source };
+}
+
+export function resolveOperator(ctx: CommandContext, flags: StoreFlags): string {
+  const given = flags.operator?.trim() || ctx.io.env.BENCHPROOF_OPERATOR?.trim();
+  if (given) return given;
+  try {
+    return userInfo().username || 'unknown';
+  } catch {
+    return 'unknown';
+  }
+}
+
+export function stationName(): string {
+  return hostname() || 'unknown';
+}
+
+export function openDataStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write'): { store: RecordStore; location: DataLocation } {
+  const location = resolveDataDir(ctx, flags);
+  return { store: openStore(location.dir, { mode, label: location.shown }), location };
+}
+
+/** Say on stderr, in one line, what was written where and what to run next. */
+export function notice(ctx: CommandContext, what: string, next: string): void {
+  ctx.io.stderr(`benchproof: ${what}; next: ${next}\n`);
+}
+
+export const quoteArg = (s: string): string => (/^[\w./:@%+-]+$/.test(s) ? s : `"${s.replace(/(["\\$`])/g, '\\$1')}"`);
+
+export interface CheckedUnit {
+  readonly verdict: UnitVerdict;
+  readonly diagnosis: Diagnosis;
+}
+
+/**
+ * Store every checked unit of one `check` run (one transaction per unit) and print one notice line.
+ * `specText` is kept only when it is exactly the text the spec's SHA-256 was taken of.
+ */
+export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units: readonly CheckedUnit[], startedAt: string, specText?: string): StoredRun[] {
+  if (flags.store === false || units.length === 0) return [];
+  const { store, location } = openDataStore(ctx, flags, 'write');
+  const operator = resolveOperator(ctx, flags);
+  const station = stationName();
+  const stored: StoredRun[] = [];
+  try {
+    for (const { verdict, diagnosis } of units) {
+      const text = specText !== undefined && sha256Hex(specText) === verdict.spec.sha256 ? specText : undefined;
+      const run: NewRun = {
+        unit: verdict.unit,
+        startedAt,
+        operator,
+        station,
+        spec: { name: verdict.spec.name, revision: verdict.spec.revision, sha256: verdict.spec.sha256, ...(text ? { text } : {}) },
+        toolVersion: TOOL_VERSION,
+        verdict,
+        diagnosis,
+        captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: resolve(ctx.io.cwd, c.path) })),
+      };
+      stored.push(store.saveRun(run));
+    }
+  } finally {
+    store.close();
+  }
+  const where = `${location.shown}${location.source === 'default' ? ' (BENCHPROOF_DATA or --data chooses another folder)' : ` (from ${location.source})`}`;
+  if (stored.length === 1) {
+    const r = stored[0];
+    notice(ctx, `stored run #${r.id} of ${r.unit} (${STATEMENT_WORDS[r.statement]}) in ${where}`, `benchproof record ${quoteArg(r.unit)} --format html --out ${quoteArg(`${r.unit}-record.html`)}`);
+  } else {
+    notice(ctx, `stored ${stored.length} runs (${stored.map((r) => r.unit).join(', ')}) in ${where}`, 'benchproof units');
+  }
+  return stored;
+}
+
+/** Write a report file whole (temporary name, then rename), so a reader never sees half a report. */
+export function writeReportFile(ctx: CommandContext, file: string, text: string): string {
+  const target = resolve(ctx.io.cwd, file);
+  const temp = `${target}.${process.pid}.part`;
+  try {
+    writeFileSync(temp, text);
+    renameSync(temp, target);
+  } catch (err) {
+    rmSync(temp, { force: true });
+    throw new BenchError({
+      code: 'output.cannot-write',
+      file,
+      problem: `the report could not be written (${(err as { code?: string }).code ?? 'write error'})`,
+      expected: 'a file path in an existing folder this user may write to',
+      fix: 'choose another --out path, or create its folder first',
+    });
+  }
+  return target;
+}
+
+/** A --spec name with no stored runs, with the nearest stored names. */
+export function unknownSpec(name: string, known: readonly string[], location: DataLocation): BenchError {
+  const near = nearestNames(name, known);
+  return new BenchError({
+    code: 'records.unknown-spec',
+    file: location.shown,
+    problem: `no runs checked against a spec named "${name}"`,
+    expected: known.length ? `one of: ${known.map((k) => `"${k}"`).join(', ')}` : 'a spec that `benchproof check` has stored runs for',
+    fix: near.length ? `did you mean --spec ${quoteArg(near[0])}?` : 'leave out --spec to report every spec',
+  });
+}

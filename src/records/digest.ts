@@ -1,0 +1,54 @@
+/**
+ * The fingerprint of a stored run: SHA-256 over a canonical JSON text (object keys sorted, no spaces,
+ * numbers as JavaScript prints them, which round-trips every double exactly). Stored with the run and
+ * checked on every read, so a changed record shows up instead of being silently believed.
+ */
+import { createHash } from 'node:crypto';
+import type { Diagnosis, RunKind, RunSpec, StoredCapture, UnitVerdict } from '../types/index.js';
+
+/** JSON text with object keys sorted at every level; `undefined` members are left out as JSON does. */
+export function canonicalJson(value: unknown): string {
+  if (value === null || typeof value !== 'object') return JSON.stringify(value) ?? 'null';
+  if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+  const obj = value as Record<string, unknown>;
+  const parts: string[] = [];
+  for (const key of Object.keys(obj).sort()) {
+    if (obj[key] === undefined || typeof obj[key] === 'function') continue;
+    parts.push(`${JSON.stringify(key)}:${canonicalJson(obj[key])}`);
+  }
+  return `{${parts.join(',')}}`;
+}
+
+export function sha256Hex(data: string | Uint8Array): string {
+  return createHash('sha256').update(data).digest('hex');
+}
+
+/** The parts of a run its digest covers: everything except the run number, storing time and digest. */
+export interface DigestedRun {
+  readonly unit: string;
+  readonly kind: RunKind;
+  readonly startedAt: string;
+  readonly operator: string;
+  readonly station: string;
+  readonly spec: RunSpec;
+  readonly toolVersion: string;
+  readonly verdict: UnitVerdict;
+  readonly diagnosis: Diagnosis;
+  readonly captures: readonly Omit<StoredCapture, 'archivePath'>[];
+}
+
+export function runDigest(run: DigestedRun): string {
+  const doc = {
+    unit: run.unit,
+    kind: run.kind,
+    startedAt: run.startedAt,
+    operator: run.operator,
+    station: run.station,
+    spec: { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 },
+    toolVersion: run.toolVersion,
+    verdict: run.verdict,
+    diagnosis: run.diagnosis,
+    captures: run.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition })),
+  };
+  return sha256Hex(canonicalJson(doc));
+}

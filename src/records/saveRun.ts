@@ -1,0 +1,101 @@
+/**
+ * Storing one run. Captures are archived first (content-addressed, idempotent, so an interruption there
+ * leaves at most an unreferenced copy); then every row of the run is written in one immediate
+ * transaction, so the run is either there in full or not at all.
+ */
+import type { Database } from 'better-sqlite3';
+import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
+import { archiveCapture } from './archive.js';
+import { runDigest, sha256Hex } from './digest.js';
+import { insertMeasurements } from './measurementRows.js';
+
+/** Fault injection for tests: called inside the transaction after every row is written, before commit. */
+export interface SaveHooks {
+  readonly beforeCommit?: () => void;
+}
+
+export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveHooks = {}): StoredRun {
+  checkNewRun(run);
+  const captures: StoredCapture[] = run.captures.map((c) => ({
+    path: c.path,
+    sha256: c.sha256,
+    size: c.size,
+    layout: c.layout,
+    condition: c.condition,
+    archivePath: archiveCapture(dataDir, c),
+  }));
+  const spec = { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 };
+  const base = {
+    unit: run.unit,
+    kind: run.kind ?? 'check',
+    // Normalised to UTC so stored times sort as text; the instant is unchanged.
+    startedAt: new Date(run.startedAt).toISOString(),
+    operator: run.operator,
+    station: run.station,
+    spec,
+    toolVersion: run.toolVersion,
+    statement: run.verdict.statement,
+    verdict: run.verdict,
+    diagnosis: run.diagnosis,
+    captures,
+  } as const;
+  const digest = runDigest(base);
+  const write = db.transaction((): StoredRun => {
+    const storedAt = new Date().toISOString();
+    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures);
+    hooks.beforeCommit?.();
+    return { id, storedAt, digest, intact: true, ...base };
+  });
+  return write.immediate();
+}
+
+function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[]): number {
+  const { spec, verdict } = run;
+  const text = spec.text === undefined ? null : Buffer.from(spec.text);
+  db.prepare('INSERT OR IGNORE INTO specs (sha256, name, revision, text) VALUES (?, ?, ?, ?)').run(spec.sha256, spec.name, spec.revision, text);
+  if (text) db.prepare('UPDATE specs SET text = ? WHERE sha256 = ? AND text IS NULL').run(text, spec.sha256);
+  const info = db
+    .prepare(
+      `INSERT INTO runs (unit, kind, started_at, stored_at, operator, station, spec_name, spec_revision, spec_sha256,
+        tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+    )
+    .run(run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
+      run.toolVersion, verdict.decisionRule, verdict.statement, JSON.stringify(verdict), JSON.stringify(run.diagnosis), digest);
+  const runId = Number(info.lastInsertRowid);
+  const cond = db.prepare('INSERT INTO condition_results (run_id, condition, statement) VALUES (?, ?, ?)');
+  const check = db.prepare(`INSERT INTO checks (run_id, seq, condition, output, measurement, unit, value, expanded_uncertainty,
+    lower, upper, nominal, guard, margin, statement, note) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`);
+  let seq = 0;
+  for (const c of verdict.conditions) {
+    cond.run(runId, c.condition, c.statement);
+    for (const k of c.checks) {
+      check.run(runId, seq++, k.condition, k.output, k.measurement, k.unit, k.value, k.expandedUncertainty, k.lower, k.upper,
+        k.nominal, k.guard, k.margin, k.statement, k.note ?? null);
+    }
+  }
+  const cause = db.prepare('INSERT INTO causes (run_id, rank, cause_id, title, score, evidence_json, confirm) VALUES (?, ?, ?, ?, ?, ?, ?)');
+  run.diagnosis.causes.forEach((c, i) => cause.run(runId, i + 1, c.id, c.title, c.score, JSON.stringify(c.evidence), c.confirm));
+  const blob = db.prepare('INSERT OR IGNORE INTO blobs (sha256, size, file, first_stored_at) VALUES (?, ?, ?, ?)');
+  const link = db.prepare('INSERT INTO run_captures (run_id, seq, sha256, original_path, size, layout, condition) VALUES (?, ?, ?, ?, ?, ?, ?)');
+  captures.forEach((c, i) => {
+    blob.run(c.sha256, c.size, c.archivePath, storedAt);
+    link.run(runId, i, c.sha256, c.path, c.size, c.layout, c.condition);
+  });
+  insertMeasurements(db, runId, verdict);
+  return runId;
+}
+
+/** Caller bugs (a run that does not hang together) throw at once, quoting the bad value. */
+function checkNewRun(run: NewRun): void {
+  if (typeof run.unit !== 'string' || run.unit.trim() === '') throw new TypeError(`saveRun: unit serial is empty (${JSON.stringify(run.unit)})`);
+  if (run.verdict.unit !== run.unit) throw new RangeError(`saveRun: verdict is for unit ${run.verdict.unit}, run is for ${run.unit}`);
+  if (Number.isNaN(Date.parse(run.startedAt))) throw new RangeError(`saveRun: startedAt ${JSON.stringify(run.startedAt)} is not an ISO 8601 time`);
+  if (!/^[0-9a-f]{64}$/.test(run.spec.sha256)) throw new RangeError(`saveRun: spec.sha256 ${JSON.stringify(run.spec.sha256)} is not a SHA-256 hex digest`);
+  if (run.spec.text !== undefined && sha256Hex(run.spec.text) !== run.spec.sha256) {
+    throw new RangeError(`saveRun: spec.text hashes to ${sha256Hex(run.spec.text)}, not spec.sha256 ${run.spec.sha256}; pass the exact text (or bytes) that was hashed`);
+  }
+  for (const c of run.captures) {
+    if (!/^[0-9a-f]{64}$/.test(c.sha256)) throw new RangeError(`saveRun: capture ${c.path} sha256 ${JSON.stringify(c.sha256)} is not a SHA-256 hex digest`);
+  }
+}

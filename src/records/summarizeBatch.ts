@@ -1,0 +1,135 @@
+/**
+ * Batch statistics from stored runs, per spec name: first-pass and final yield, and per checked
+ * quantity the count, mean, standard deviation, range, Cp and Cpk (capability.ts, NIST/SEMATECH
+ * e-Handbook §6.1.6). Each unit counts once per quantity, with the value from its latest run, so a
+ * re-tested unit does not weigh twice. `since` keeps units whose first run is at or after that time.
+ */
+import type { BatchReport, BatchUnit, CheckVerdict, MeasurementStats, SpecBatch, Statement, StoredRun, YieldFigure } from '../types/index.js';
+import { capability, describeSample } from './capability.js';
+import { compareSerials } from './unitSummaries.js';
+
+export interface BatchFilter {
+  readonly spec?: string;
+  /** ISO 8601 time; units first tested before it are left out. */
+  readonly since?: string;
+}
+
+/** Below this many units a capability index is a rough estimate. Common practice (no source). */
+export const ROUGH_BELOW_UNITS = 30;
+
+const accepted = (s: Statement): boolean => s === 'pass' || s === 'conditional-pass';
+
+export function summarizeBatch(runs: readonly StoredRun[], filter: BatchFilter = {}): BatchReport {
+  const bySpec = new Map<string, StoredRun[]>();
+  for (const r of runs) {
+    if (filter.spec !== undefined && r.spec.name !== filter.spec) continue;
+    bySpec.set(r.spec.name, [...(bySpec.get(r.spec.name) ?? []), r]);
+  }
+  const since = filter.since === undefined ? -Infinity : Date.parse(filter.since);
+  const specs = [...bySpec.entries()]
+    .sort(([a], [b]) => compareSerials(a, b))
+    .map(([name, list]) => summarizeSpec(name, list, since))
+    .filter((s) => s.units.length > 0);
+  return { schemaVersion: 1, filter: { ...filter }, specs };
+}
+
+function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number): SpecBatch {
+  const byUnit = new Map<string, StoredRun[]>();
+  const ordered = [...runs].sort((a, b) => a.startedAt.localeCompare(b.startedAt) || a.id - b.id);
+  for (const r of ordered) byUnit.set(r.unit, [...(byUnit.get(r.unit) ?? []), r]);
+  const kept = [...byUnit.entries()].filter(([, list]) => Date.parse(list[0].startedAt) >= since).sort(([a], [b]) => compareSerials(a, b));
+  const units: BatchUnit[] = kept.map(([unit, list]) => ({
+    unit,
+    runs: list.length,
+    first: list[0].statement,
+    latest: list[list.length - 1].statement,
+    firstTestedAt: list[0].startedAt,
+    lastTestedAt: list[list.length - 1].startedAt,
+    latestRunId: list[list.length - 1].id,
+  }));
+  const keptRuns = kept.flatMap(([, list]) => list);
+  const revisions = [...new Set(keptRuns.map((r) => r.spec.revision))];
+  const latestRuns = kept.map(([, list]) => list[list.length - 1]);
+  const notes = revisions.length > 1 ? [`runs were checked under ${revisions.length} spec revisions (${revisions.join(', ')})`] : [];
+  return {
+    spec,
+    revisions,
+    units,
+    runs: keptRuns.length,
+    firstPass: yieldOf(units.map((u) => u.first)),
+    final: yieldOf(units.map((u) => u.latest)),
+    measurements: measurementStats(latestRuns),
+    notes,
+  };
+}
+
+function yieldOf(statements: readonly Statement[]): YieldFigure {
+  const ok = statements.filter(accepted).length;
+  return {
+    units: statements.length,
+    accepted: ok,
+    conditional: statements.filter((s) => s === 'conditional-pass').length,
+    fraction: statements.length ? ok / statements.length : null,
+  };
+}
+
+interface Gathered {
+  readonly limits: CheckVerdict;
+  readonly values: { unit: string; value: number; runId: number }[];
+  withheld: number;
+  limitsDiffer: boolean;
+}
+
+function measurementStats(latestRuns: readonly StoredRun[]): MeasurementStats[] {
+  const byKey = new Map<string, Gathered>();
+  // Newest first, so the quantities come in the newest revision's order and its limits are the ones used.
+  const newestFirst = [...latestRuns].sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.id - a.id);
+  for (const run of newestFirst) {
+    for (const check of run.verdict.conditions.flatMap((c) => c.checks)) {
+      const key = JSON.stringify([check.condition, check.output, check.measurement]);
+      const g = byKey.get(key) ?? { limits: check, values: [], withheld: 0, limitsDiffer: false };
+      if (check.lower !== g.limits.lower || check.upper !== g.limits.upper) g.limitsDiffer = true;
+      if (check.value === null) g.withheld += 1;
+      else g.values.push({ unit: run.unit, value: check.value, runId: run.id });
+      byKey.set(key, g);
+    }
+  }
+  return [...byKey.values()].map(statsOf);
+}
+
+function statsOf(g: Gathered): MeasurementStats {
+  const { limits } = g;
+  const values = [...g.values].sort((a, b) => compareSerials(a.unit, b.unit));
+  const sample = describeSample(values.map((v) => v.value));
+  const cap =
+    sample.mean !== null && sample.sd !== null
+      ? capability({ mean: sample.mean, sd: sample.sd, lower: limits.lower, upper: limits.upper })
+      : { cp: null, cpu: null, cpl: null, cpk: null };
+  return {
+    condition: limits.condition,
+    output: limits.output,
+    measurement: limits.measurement,
+    unit: limits.unit,
+    lower: limits.lower,
+    upper: limits.upper,
+    nominal: limits.nominal,
+    ...sample,
+    withheld: g.withheld,
+    ...cap,
+    notes: notesFor(g, sample.count, sample.sd),
+    values,
+  };
+}
+
+function notesFor(g: Gathered, count: number, sd: number | null): string[] {
+  const notes: string[] = [];
+  const { lower, upper } = g.limits;
+  if (g.withheld > 0) notes.push(`${g.withheld} unit(s) not measured, left out`);
+  if (count < 2) notes.push('needs at least two measured units for a spread; no Cp/Cpk');
+  else if (sd === 0) notes.push('all values equal: no spread, so Cp/Cpk are not defined');
+  else if (lower === null && upper === null) notes.push('no tolerance limits in the spec; no Cp/Cpk');
+  else if (lower === null || upper === null) notes.push('one-sided tolerance: Cpk from that side only, no Cp');
+  if (count >= 2 && count < ROUGH_BELOW_UNITS) notes.push(`only ${count} units: Cp/Cpk are rough estimates`);
+  if (g.limitsDiffer) notes.push('limits differ between spec revisions; the newest are used');
+  return notes;
+}

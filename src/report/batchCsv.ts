@@ -1,0 +1,38 @@
+/**
+ * Batch statistics as CSV for spreadsheets: one row per checked quantity and spec, a header row, CRLF
+ * line ends and quoting as RFC 4180 §2, numbers at full precision ('.' decimal), empty cells for none.
+ * Text cells that a spreadsheet would run as a formula (=, +, −, @ first) get a leading apostrophe
+ * (OWASP "CSV Injection" guidance).
+ */
+import type { BatchReport } from '../types/index.js';
+
+export const BATCH_CSV_COLUMNS = [
+  'spec', 'condition', 'output', 'measurement', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
+  'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes',
+] as const;
+
+function text(s: string): string {
+  const safe = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+  return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
+}
+
+function num(v: number | null): string {
+  return v === null || !Number.isFinite(v) ? '' : String(v);
+}
+
+export function renderBatchCsv(batch: BatchReport): string {
+  const lines = [BATCH_CSV_COLUMNS.join(',')];
+  for (const s of batch.specs) {
+    for (const m of s.measurements) {
+      lines.push(
+        [
+          text(s.spec), text(m.condition), text(m.output), text(m.measurement), text(m.unit),
+          String(m.count), String(m.withheld), num(m.mean), num(m.sd), num(m.min), num(m.max),
+          num(m.lower), num(m.upper), num(m.nominal), num(m.cp), num(m.cpk),
+          String(s.units.length), num(s.firstPass.fraction), num(s.final.fraction), text(m.notes.join('; ')),
+        ].join(','),
+      );
+    }
+  }
+  return `${lines.join('\r\n')}\r\n`;
+}

@@ -1,0 +1,42 @@
+/** Batch statistics as one self-contained, printable HTML page with a histogram per checked quantity. */
+import type { BatchReport, MeasurementStats, SpecBatch } from '../types/index.js';
+import { STATEMENT_WORDS } from '../types/index.js';
+import { batchFilterText, describeYield } from './batchMarkdown.js';
+import { esc, facts, htmlPage, numCell, statusHtml, table } from './htmlPage.js';
+import { renderHistogramSvg } from './svgHistogram.js';
+import { formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+
+function statsRow(s: SpecBatch, m: MeasurementStats): string {
+  const attrs = `data-spec="${esc(s.spec)}" data-condition="${esc(m.condition)}" data-output="${esc(m.output)}" data-measurement="${esc(m.measurement)}"`;
+  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatQuantity(m.mean, m.unit, 6))}${numCell(m.sd, formatQuantity(m.sd, m.unit, 3))}${numCell(m.min, formatQuantity(m.min, m.unit))}${numCell(m.max, formatQuantity(m.max, m.unit))}${numCell(m.lower, m.lower === null ? '—' : formatLimit(m.lower, m.unit))}${numCell(m.upper, m.upper === null ? '—' : formatLimit(m.upper, m.unit))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}<td class="note">${esc(m.notes.join('; '))}</td></tr>`;
+}
+
+function specSection(s: SpecBatch): string {
+  const units = table(
+    ['unit', 'runs', 'first run', 'latest run', 'last tested'],
+    s.units.map((u) => `<tr><td>${esc(u.unit)}</td>${numCell(u.runs, String(u.runs))}<td>${statusHtml(u.first)}</td><td>${statusHtml(u.latest)}</td><td>${esc(formatTime(u.lastTestedAt))}</td></tr>`),
+  );
+  const stats = table(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk', 'notes'], s.measurements.map((m) => statsRow(s, m)));
+  const hists = s.measurements
+    .map((m) => {
+      const title = `${m.condition} · ${m.output} · ${measurementLabel(m.measurement)}`;
+      const svg = renderHistogramSvg({ title, unit: m.unit, values: m.values.map((v) => v.value), lower: m.lower, upper: m.upper, mean: m.mean });
+      return svg ? `<figure>${svg}<figcaption>${esc(title)}: ${m.count} units, Cpk ${esc(formatIndex(m.cpk))}</figcaption></figure>` : '';
+    })
+    .join('');
+  return `<section class="spec"><h2>${esc(s.spec)}</h2>${facts([
+    ['revisions', esc(s.revisions.join(', '))],
+    ['units / runs', `${s.units.length} / ${s.runs}`],
+    ['first-pass yield', esc(describeYield(s.firstPass))],
+    ['final yield', esc(describeYield(s.final))],
+    ...s.notes.map((n) => ['note', esc(n)] as const),
+  ])}<h3>Units</h3>${units}<h3>Measurements</h3><p class="note">One value per unit, from its latest run. Cp and Cpk as in the NIST/SEMATECH e-Handbook §6.1.6.</p>${stats}<h3>Histograms</h3><div class="plots">${hists}</div></section>`;
+}
+
+export function renderBatchHtml(batch: BatchReport): string {
+  const intro = `<header><h1>Batch report</h1><p>Scope: ${esc(batchFilterText(batch))}${batch.filter.spec ? `, spec ${esc(batch.filter.spec)}` : ''}. Accepted = ${esc(STATEMENT_WORDS.pass)} or ${esc(STATEMENT_WORDS['conditional-pass'])}.</p></header>`;
+  const body = batch.specs.length ? batch.specs.map(specSection).join('') : '<p>No units match.</p>';
+  const src = batch.source;
+  const footer = src ? `<footer>Generated ${esc(formatTime(src.generatedAt))} by benchproof ${esc(src.toolVersion)} from the data folder <code>${esc(src.dataDir)}</code>.</footer>` : '';
+  return htmlPage('Batch report', `${intro}${body}${footer}`);
+}

@@ -1,0 +1,48 @@
+/** Batch statistics as Markdown: yields, the units, and per checked quantity the spread and Cp/Cpk. */
+import type { BatchReport, SpecBatch, YieldFigure } from '../types/index.js';
+import { STATEMENT_WORDS } from '../types/index.js';
+import { md, mdTable } from './recordMarkdown.js';
+import { formatFraction, formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+
+export function describeYield(y: YieldFigure): string {
+  const cond = y.conditional ? `, ${y.conditional} of them ${STATEMENT_WORDS['conditional-pass']}` : '';
+  return `${formatFraction(y.fraction)} (${y.accepted} of ${y.units} units${cond})`;
+}
+
+export function batchFilterText(batch: BatchReport): string {
+  return batch.filter.since ? `units first tested on or after ${formatTime(batch.filter.since)}` : 'all units';
+}
+
+function specBlock(s: SpecBatch): string {
+  const units = mdTable(
+    ['unit', 'runs', 'first run', 'latest run', 'last tested'],
+    s.units.map((u) => [md(u.unit), String(u.runs), STATEMENT_WORDS[u.first], STATEMENT_WORDS[u.latest], formatTime(u.lastTestedAt)]),
+  );
+  const rows = s.measurements.map((m) => [
+    md(m.condition), md(m.output), md(measurementLabel(m.measurement)), String(m.count),
+    md(formatQuantity(m.mean, m.unit, 6)), md(formatQuantity(m.sd, m.unit, 3)), md(formatQuantity(m.min, m.unit)), md(formatQuantity(m.max, m.unit)),
+    md(m.lower === null ? '—' : formatLimit(m.lower, m.unit)), md(m.upper === null ? '—' : formatLimit(m.upper, m.unit)), formatIndex(m.cp), formatIndex(m.cpk), md(m.notes.join('; ')),
+  ]);
+  return [
+    `## ${md(s.spec)}`,
+    `- revisions: ${s.revisions.map(md).join(', ')}; ${s.units.length} units, ${s.runs} runs`,
+    `- first-pass yield: ${describeYield(s.firstPass)}`,
+    `- final yield: ${describeYield(s.final)}`,
+    ...s.notes.map((n) => `- note: ${md(n)}`),
+    '',
+    '### Units',
+    '',
+    units,
+    '',
+    '### Measurements (one value per unit, from its latest run; Cp/Cpk per NIST/SEMATECH e-Handbook §6.1.6)',
+    '',
+    mdTable(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk', 'notes'], rows),
+  ].join('\n');
+}
+
+export function renderBatchMarkdown(batch: BatchReport): string {
+  const head = `# Batch report\n\nScope: ${batchFilterText(batch)}${batch.filter.spec ? `, spec ${md(batch.filter.spec)}` : ''}. Accepted = ${STATEMENT_WORDS.pass} or ${STATEMENT_WORDS['conditional-pass']}.`;
+  const body = batch.specs.length ? batch.specs.map(specBlock).join('\n\n') : 'No units match.';
+  const foot = batch.source ? `\n\n_Generated ${formatTime(batch.source.generatedAt)} by benchproof ${md(batch.source.toolVersion)} from \`${batch.source.dataDir}\`._` : '';
+  return `${head}\n\n${body}${foot}\n`;
+}

@@ -1,0 +1,84 @@
+/**
+ * `benchproof check` in the terminal: per unit, per condition and output, a table of check,
+ * measured ± U, limits, margin and statement (a word; colour only adds emphasis), then notes and the
+ * user's hints, then the ranked likely causes with evidence and the next measurement, and one overall
+ * line per unit.
+ */
+import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
+import type { TextStyle } from './style.js';
+import { formatLimits, formatMeasured, formatQuantity } from './unitsSi.js';
+
+/** One checked unit: its verdict and the likely causes. This is what `check` prints, stores and reports. */
+export interface UnitCheck {
+  readonly verdict: UnitVerdict;
+  readonly diagnosis: Diagnosis;
+}
+
+const RULE_WORDS: Readonly<Record<UnitVerdict['decisionRule'], string>> = {
+  guarded: 'guarded acceptance, guard band = U (k = 2), ILAC-G8:09/2019 §4.2.3',
+  'guarded-binary': 'binary guarded acceptance, guard band = U (k = 2), ILAC-G8:09/2019 §4.2.2',
+  simple: 'simple acceptance, no guard band, ILAC-G8:09/2019 §4.2.1',
+};
+
+export function renderCheckText(units: readonly UnitCheck[], style: TextStyle): string {
+  return units.map((u) => renderUnit(u, style)).join('\n');
+}
+
+function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string {
+  const lines = [style.bold(`${verdict.unit} · ${verdict.spec.name} rev ${verdict.spec.revision}`), style.dim(RULE_WORDS[verdict.decisionRule]), ''];
+  for (const cond of verdict.conditions) {
+    const outputs = [...new Set(cond.checks.map((c) => c.output))];
+    for (const output of outputs) {
+      const capture = verdict.captures.find((c) => c.condition === cond.condition && c.outputs.some((o) => o.output === output));
+      const channel = capture?.outputs.find((o) => o.output === output)?.channel;
+      const source = capture ? `${capture.path}, channel "${channel}"` : 'no capture';
+      lines.push(`${style.bold(`${cond.condition} · ${output}`)}  ${style.dim(source)}`);
+      lines.push(...table(cond.checks.filter((c) => c.output === output), style), '');
+    }
+  }
+  lines.push(...renderCauses(diagnosis, verdict.statement, style));
+  lines.push(overallLine(verdict, style), '');
+  return lines.join('\n');
+}
+
+function table(checks: readonly CheckVerdict[], style: TextStyle): string[] {
+  const rows = checks.map((c) => [
+    c.measurement,
+    c.value === null ? '—' : formatMeasured(c.value, c.expandedUncertainty, c.unit),
+    formatLimits(c.lower, c.upper, c.unit),
+    c.margin === null ? '—' : `${c.margin >= 0 ? '+' : '−'}${formatQuantity(Math.abs(c.margin), c.unit, 3)}`,
+  ]);
+  const head = ['check', 'measured ± U', 'limits', 'margin'];
+  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+  const pad = (cells: readonly string[]): string => cells.map((s, i) => s.padEnd(widths[i])).join('  ');
+  const out = [`  ${style.dim(`${pad(head)}  statement`)}`];
+  rows.forEach((r, i) => out.push(`  ${pad(r)}  ${style.statement(checks[i].statement)}`));
+  // One line per distinct note (a clipped trace withholds several checks for the same reason).
+  const notes = new Map<string, string[]>();
+  for (const c of checks) if (c.note) notes.set(c.note, [...(notes.get(c.note) ?? []), c.measurement]);
+  for (const [note, ids] of notes) out.push(`  ${style.dim(`note (${ids.join(', ')}): ${note}`)}`);
+  for (const c of checks) if (c.hint && c.statement !== 'pass') out.push(`  hint (${c.measurement}): ${c.hint}`);
+  return out;
+}
+
+function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextStyle): string[] {
+  if (diagnosis.causes.length === 0) {
+    return statement === 'pass' ? [] : [style.dim('Likely causes: no known pattern matched; see the failed checks and their hints.'), ''];
+  }
+  const out = [style.bold('Likely causes')];
+  diagnosis.causes.forEach((c, i) => {
+    out.push(`  ${i + 1}. ${c.title}  ${style.dim(`(weight ${c.score.toFixed(2)})`)}`);
+    for (const e of c.evidence) out.push(`     evidence: ${e}`);
+    out.push(`     confirm:  ${c.confirm}`);
+    if (c.where) out.push(`     look at:  ${c.where}`);
+  });
+  out.push('');
+  return out;
+}
+
+function overallLine(verdict: UnitVerdict, style: TextStyle): string {
+  const checks = verdict.conditions.flatMap((c) => c.checks);
+  const count = (s: Statement): number => checks.filter((c) => c.statement === s).length;
+  const parts = [`${count('fail')} failed`, `${count('conditional-fail')} cond. failed`, `${count('not-measured')} not measured`, `${count('conditional-pass')} cond. passed`];
+  return `${style.bold(verdict.unit)}: ${style.statement(verdict.statement)}  ${style.dim(`(${parts.join(', ')} of ${checks.length} checks)`)}`;
+}

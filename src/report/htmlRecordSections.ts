@@ -1,0 +1,93 @@
+/**
+ * Sections of the HTML unit record, in order. Each is a plain function of the record, so a new kind of
+ * run (calibration, with its iterations and tracking plot) is one more entry in RECORD_HTML_SECTIONS.
+ */
+import type { CheckVerdict, StoredRun, UnitRecord } from '../types/index.js';
+import { esc, facts, numCell, statusHtml, table } from './htmlPage.js';
+import { renderPlotsSection, renderTrendsSection } from './htmlRecordPlots.js';
+import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+
+export interface RecordHtmlSection {
+  readonly id: string;
+  readonly render: (rec: UnitRecord) => string;
+}
+
+export const latestRun = (rec: UnitRecord): StoredRun => rec.runs[rec.runs.length - 1];
+const distinct = (xs: readonly string[]): string => [...new Set(xs)].map(esc).join(', ');
+
+function header(rec: UnitRecord): string {
+  const last = latestRun(rec);
+  return `<header><h1>Test record — unit ${esc(rec.unit)}</h1>${facts([
+    ['spec', `${esc(rec.spec.name)}, revision ${esc(rec.spec.revision)}`],
+    ['spec SHA-256', `<span class="hash">${esc(rec.spec.sha256)}</span>`],
+    ['first tested', esc(formatTime(rec.firstTestedAt))],
+    ['last tested', esc(formatTime(rec.lastTestedAt))],
+    ['runs', String(rec.runs.length)],
+    ['operator', distinct(rec.runs.map((r) => r.operator))],
+    ['station', distinct(rec.runs.map((r) => r.station))],
+    ['tool version', distinct(rec.runs.map((r) => r.toolVersion))],
+    ['decision rule', esc(last.verdict.decisionRule)],
+  ])}</header>`;
+}
+
+function status(rec: UnitRecord): string {
+  const last = latestRun(rec);
+  const changed = rec.runs.filter((r) => !r.intact);
+  const warn = changed.length
+    ? `<p class="warning">Run ${changed.map((r) => `#${r.id}`).join(', ')} no longer matches the fingerprint taken when it was stored: its content was changed outside benchproof. Do not rely on it.</p>`
+    : `<p class="note">All ${rec.runs.length} run(s) match the SHA-256 fingerprints taken when they were stored.</p>`;
+  return `<section id="status"><h2>Current status</h2><p>${statusHtml(rec.status, true)} <span class="note">decided by the latest run, #${last.id} of ${esc(formatTime(last.startedAt))}</span></p>${warn}</section>`;
+}
+
+export function checkRow(run: StoredRun, k: CheckVerdict): string {
+  const attrs = `data-run="${run.id}" data-condition="${esc(k.condition)}" data-output="${esc(k.output)}" data-measurement="${esc(k.measurement)}"`;
+  return `<tr ${attrs}><td>${esc(k.output)}</td><td>${esc(measurementLabel(k.measurement))}</td>${numCell(k.value, formatMeasured(k.value, k.expandedUncertainty, k.unit))}${numCell(k.expandedUncertainty, formatQuantity(k.expandedUncertainty, k.unit, 2))}<td class="num">${esc(formatLimits(k.lower, k.upper, k.unit))}</td>${numCell(k.margin, formatQuantity(k.margin, k.unit, 3))}<td>${statusHtml(k.statement)}</td><td>${esc([k.note, k.hint].filter(Boolean).join(' — '))}</td></tr>`;
+}
+
+function conditions(rec: UnitRecord): string {
+  const last = latestRun(rec);
+  const parts = last.verdict.conditions.map((c) => {
+    const rows = c.checks.map((k) => checkRow(last, k));
+    return `<section class="condition"><h3>Condition ${esc(c.condition)} — ${statusHtml(c.statement)}</h3>${table(['output', 'measurement', 'measured (± U, k = 2)', 'U', 'limits', 'margin', 'statement', 'note'], rows)}</section>`;
+  });
+  return `<section id="results"><h2>Results of the latest run (#${last.id})</h2>${parts.join('')}</section>`;
+}
+
+function causes(rec: UnitRecord): string {
+  const { diagnosis } = latestRun(rec);
+  const list = diagnosis.causes.length
+    ? `<ol>${diagnosis.causes
+        .map((c) => `<li><strong>${esc(c.title)}</strong> <span class="note">(weight ${c.score.toFixed(2)})</span><ul>${c.evidence.map((e) => `<li>${esc(e)}</li>`).join('')}<li>to confirm: ${esc(c.confirm)}</li>${c.where ? `<li>where to look: ${esc(c.where)}</li>` : ''}</ul></li>`)
+        .join('')}</ol>`
+    : '<p class="note">No likely cause: nothing in the latest run points at a fault.</p>';
+  const circuit = (diagnosis.circuit ?? []).map((v) => {
+    const rows = v.figures.map((f) => `<tr><td>${esc(f.label)}</td>${numCell(f.value, formatMeasured(f.value, f.uncertainty, f.unit))}${numCell(f.design, formatQuantity(f.design, f.unit))}${numCell(f.deviation, f.deviation === undefined ? '—' : `${f.deviation.toFixed(2)} %`)}<td>${esc(f.note ?? '')}</td></tr>`);
+    return `<h3>Circuit figures at ${esc(v.condition)}</h3>${table(['figure', 'from the captures', 'design', 'deviation', 'note'], rows)}`;
+  });
+  return `<section id="causes"><h2>Likely causes</h2>${list}${circuit.join('')}</section>`;
+}
+
+function history(rec: UnitRecord): string {
+  const rows = [...rec.runs].reverse().map(
+    (r) => `<tr data-run="${r.id}"><td>#${r.id}</td><td>${esc(formatTime(r.startedAt))}</td><td>${esc(r.operator)}</td><td>${esc(r.station)}</td><td>${esc(r.spec.revision)}</td><td>${esc(r.toolVersion)}</td><td>${statusHtml(r.statement)}</td><td>${r.intact ? 'matches' : '<strong>CHANGED</strong>'}</td></tr>`,
+  );
+  return `<section id="history"><h2>History of runs</h2>${table(['run', 'started', 'operator', 'station', 'spec rev.', 'tool', 'status', 'fingerprint'], rows)}</section>`;
+}
+
+function captures(rec: UnitRecord): string {
+  const rows = [...rec.runs].reverse().flatMap((r) =>
+    r.captures.map((c) => `<tr data-run="${r.id}"><td>#${r.id}</td><td>${esc(c.condition)}</td><td><code>${esc(c.path)}</code></td>${numCell(c.size, formatBytes(c.size))}<td>${esc(c.layout)}</td><td class="hash" data-sha256="${esc(c.sha256)}">${esc(c.sha256)}</td><td><code>${esc(c.archivePath)}</code></td></tr>`),
+  );
+  return `<section id="captures"><h2>Captures</h2><p class="note">Each capture is archived unchanged in the data folder under its SHA-256.</p>${table(['run', 'condition', 'original path', 'size', 'layout', 'SHA-256', 'archived as'], rows)}</section>`;
+}
+
+export const RECORD_HTML_SECTIONS: readonly RecordHtmlSection[] = [
+  { id: 'header', render: header },
+  { id: 'status', render: status },
+  { id: 'results', render: conditions },
+  { id: 'causes', render: causes },
+  { id: 'plots', render: renderPlotsSection },
+  { id: 'trends', render: renderTrendsSection },
+  { id: 'history', render: history },
+  { id: 'captures', render: captures },
+];

@@ -1,0 +1,13 @@
+/** The per-unit test record as one self-contained, printable HTML file with inline SVG plots. */
+import type { UnitRecord } from '../types/index.js';
+import { esc, htmlPage } from './htmlPage.js';
+import { RECORD_HTML_SECTIONS } from './htmlRecordSections.js';
+import { formatTime } from './unitsSi.js';
+
+export function renderRecordHtml(rec: UnitRecord): string {
+  if (rec.runs.length === 0) throw new RangeError(`renderRecordHtml: record of ${rec.unit} has no runs`);
+  const body = RECORD_HTML_SECTIONS.map((s) => s.render(rec)).join('\n');
+  const src = rec.source;
+  const footer = `<footer>benchproof test record of ${esc(rec.unit)}${src ? `, generated ${esc(formatTime(src.generatedAt))} by benchproof ${esc(src.toolVersion)} from the data folder <code>${esc(src.dataDir)}</code>` : ''}.</footer>`;
+  return htmlPage(`Test record ${rec.unit} — ${rec.spec.name}`, `${body}\n${footer}`);
+}

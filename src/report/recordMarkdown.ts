@@ -1,0 +1,89 @@
+/**
+ * The per-unit test record as Markdown, for a terminal, a wiki or a ticket. Same sections as the HTML
+ * record except the plots; RECORD_MARKDOWN_SECTIONS takes a new section as one entry.
+ */
+import type { CheckVerdict, StoredRun, UnitRecord } from '../types/index.js';
+import { STATEMENT_WORDS } from '../types/index.js';
+import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+
+/** Escape what Markdown tables and emphasis would take as syntax. */
+export function md(s: string): string {
+  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/([*_`<>[\]])/g, '\\$1').replace(/\r?\n/g, ' ');
+}
+
+export function mdTable(head: readonly string[], rows: readonly (readonly string[])[]): string {
+  const line = (cells: readonly string[]): string => `| ${cells.join(' | ')} |`;
+  return [line(head), line(head.map(() => '---')), ...rows.map(line)].join('\n');
+}
+
+const latest = (rec: UnitRecord): StoredRun => rec.runs[rec.runs.length - 1];
+const distinct = (xs: readonly string[]): string => [...new Set(xs)].map(md).join(', ');
+
+function header(rec: UnitRecord): string {
+  return [
+    `# Test record — unit ${md(rec.unit)}`,
+    '',
+    `- spec: ${md(rec.spec.name)}, revision ${md(rec.spec.revision)} (SHA-256 \`${rec.spec.sha256}\`)`,
+    `- tested: ${formatTime(rec.firstTestedAt)} … ${formatTime(rec.lastTestedAt)}, ${rec.runs.length} run(s)`,
+    `- operator: ${distinct(rec.runs.map((r) => r.operator))}; station: ${distinct(rec.runs.map((r) => r.station))}`,
+    `- tool version: ${distinct(rec.runs.map((r) => r.toolVersion))}`,
+  ].join('\n');
+}
+
+function status(rec: UnitRecord): string {
+  const last = latest(rec);
+  const changed = rec.runs.filter((r) => !r.intact).map((r) => `#${r.id}`);
+  const integrity = changed.length
+    ? `**Warning:** run ${changed.join(', ')} no longer matches its stored fingerprint; its content was changed outside benchproof.`
+    : `All ${rec.runs.length} run(s) match their stored SHA-256 fingerprints.`;
+  return `## Current status: **${STATEMENT_WORDS[rec.status]}**\n\nDecided by the latest run, #${last.id} of ${formatTime(last.startedAt)}. ${integrity}`;
+}
+
+function checkCells(k: CheckVerdict): string[] {
+  return [
+    md(k.output),
+    md(measurementLabel(k.measurement)),
+    md(formatMeasured(k.value, k.expandedUncertainty, k.unit)),
+    md(formatLimits(k.lower, k.upper, k.unit)),
+    md(formatQuantity(k.margin, k.unit, 3)),
+    STATEMENT_WORDS[k.statement],
+    md([k.note, k.hint].filter(Boolean).join(' — ')),
+  ];
+}
+
+function conditions(rec: UnitRecord): string {
+  const last = latest(rec);
+  const blocks = last.verdict.conditions.map(
+    (c) => `### Condition ${md(c.condition)} — ${STATEMENT_WORDS[c.statement]}\n\n${mdTable(['output', 'measurement', 'measured (± U, k = 2)', 'limits', 'margin', 'statement', 'note'], c.checks.map(checkCells))}`,
+  );
+  return [`## Results of the latest run (#${last.id})`, ...blocks].join('\n\n');
+}
+
+function causes(rec: UnitRecord): string {
+  const list = latest(rec).diagnosis.causes;
+  if (list.length === 0) return '## Likely causes\n\nNone: nothing in the latest run points at a fault.';
+  const items = list.map((c, i) => {
+    const lines = [`${i + 1}. **${md(c.title)}** (weight ${c.score.toFixed(2)})`, ...c.evidence.map((e) => `   - ${md(e)}`), `   - to confirm: ${md(c.confirm)}`];
+    if (c.where) lines.push(`   - where to look: ${md(c.where)}`);
+    return lines.join('\n');
+  });
+  return `## Likely causes\n\n${items.join('\n')}`;
+}
+
+function history(rec: UnitRecord): string {
+  const rows = [...rec.runs].reverse().map((r) => [`#${r.id}`, formatTime(r.startedAt), md(r.operator), md(r.station), md(r.spec.revision), md(r.toolVersion), STATEMENT_WORDS[r.statement], r.intact ? 'matches' : '**CHANGED**']);
+  return `## History of runs\n\n${mdTable(['run', 'started', 'operator', 'station', 'spec rev.', 'tool', 'status', 'fingerprint'], rows)}`;
+}
+
+function captures(rec: UnitRecord): string {
+  const rows = [...rec.runs].reverse().flatMap((r) => r.captures.map((c) => [`#${r.id}`, md(c.condition), `\`${c.path.replace(/`/g, "'")}\``, formatBytes(c.size), `\`${c.sha256}\``]));
+  return `## Captures\n\nArchived unchanged in the data folder under their SHA-256. Plots: \`--format html\`.\n\n${mdTable(['run', 'condition', 'original path', 'size', 'SHA-256'], rows)}`;
+}
+
+export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, history, captures];
+
+export function renderRecordMarkdown(rec: UnitRecord): string {
+  if (rec.runs.length === 0) throw new RangeError(`renderRecordMarkdown: record of ${rec.unit} has no runs`);
+  const footer = rec.source ? [`_Generated ${formatTime(rec.source.generatedAt)} by benchproof ${md(rec.source.toolVersion)} from \`${rec.source.dataDir}\`._`] : [];
+  return `${[...RECORD_MARKDOWN_SECTIONS.map((s) => s(rec)), ...footer].join('\n\n')}\n`;
+}

@@ -1,0 +1,101 @@
+/**
+ * Every check of a spec against the captures of each unit: a CheckVerdict per check and condition,
+ * rolled up into condition and unit statements. A measurement that is withheld, not reported, or not
+ * captured at all is "not measured" with the reason, and a unit with one is never a pass.
+ *
+ * U = 2u (k = 2, GUM §6.2–6.3). When the analysis gives no uncertainty (u null) the check is decided
+ * with no guard band and says so in its note: we neither invent a U nor refuse a decision we can make.
+ */
+import { BenchError, MEASUREMENT_UNITS } from '../types/index.js';
+import type { CheckedCapture, CheckVerdict, ConditionVerdict, Measurement, UnitVerdict } from '../types/index.js';
+import { decideCheck, worstStatement } from './decideCheck.js';
+import { formatQuantity } from './quantity.js';
+import type { Spec, SpecCheck } from './specTypes.js';
+
+/** Group captures by unit (first-seen order) and decide each unit against the spec. */
+export function decideUnits(spec: Spec, captures: readonly CheckedCapture[]): UnitVerdict[] {
+  const units = [...new Set(captures.map((c) => c.unit))];
+  return units.map((unit) => decideUnit(spec, unit, captures.filter((c) => c.unit === unit)));
+}
+
+export function decideUnit(spec: Spec, unit: string, captures: readonly CheckedCapture[]): UnitVerdict {
+  refuseDuplicates(captures);
+  const conditions: ConditionVerdict[] = spec.conditions.map((cond) => {
+    const checks = cond.checks.map((check) => decideOne(spec, check, cond.name, captures));
+    return { condition: cond.name, statement: worstStatement(checks.map((c) => c.statement)), checks };
+  });
+  return {
+    schemaVersion: 1,
+    unit,
+    spec: { name: spec.name, revision: spec.revision, sha256: spec.sha256, ...(spec.description ? { description: spec.description } : {}) },
+    decisionRule: spec.decision,
+    statement: worstStatement(conditions.map((c) => c.statement)),
+    conditions,
+    captures,
+  };
+}
+
+function refuseDuplicates(captures: readonly CheckedCapture[]): void {
+  const seen = new Map<string, string>();
+  for (const c of captures) {
+    for (const o of c.outputs) {
+      const key = `${c.condition}\u0000${o.output}`;
+      const first = seen.get(key);
+      if (first !== undefined) {
+        throw new BenchError({
+          code: 'check.duplicate-capture',
+          file: c.path,
+          problem: `unit ${c.unit} has two captures of output "${o.output}" at condition "${c.condition}": ${first} and ${c.path}`,
+          expected: 'one capture per unit, condition and output',
+          fix: 'leave out the capture you do not want checked',
+        });
+      }
+      seen.set(key, c.path);
+    }
+  }
+}
+
+function findMeasurement(check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): { m?: Measurement; missing?: string } {
+  const capture = captures.find((c) => c.condition === condition && c.outputs.some((o) => o.output === check.output));
+  if (!capture) return { missing: `no capture of output "${check.output}" at condition "${condition}" was given` };
+  const channelName = capture.outputs.find((o) => o.output === check.output)?.channel;
+  const channel = capture.report.channels.find((ch) => ch.name === channelName);
+  const m = channel?.measurements[check.measurement];
+  if (!m) return { missing: `the analysis reports no ${check.measurement} for channel "${channelName}" (recognised as ${channel?.shape ?? 'unknown'})` };
+  return { m };
+}
+
+function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): CheckVerdict {
+  const base = {
+    output: check.output,
+    condition,
+    measurement: check.measurement,
+    unit: MEASUREMENT_UNITS[check.measurement],
+    lower: check.limit.lower,
+    upper: check.limit.upper,
+    nominal: check.limit.nominal,
+  };
+  const { m, missing } = findMeasurement(check, condition, captures);
+  if (!m || m.value === null) {
+    const note = missing ?? `withheld: ${m?.note ?? m?.reason ?? 'no reason given'}`;
+    return { ...base, value: null, expandedUncertainty: null, guard: 0, margin: null, statement: 'not-measured', note, ...(check.hint ? { hint: check.hint } : {}) };
+  }
+  const U = m.uncertainty === null ? null : 2 * m.uncertainty;
+  const d = decideCheck(m.value, U ?? 0, check.limit, spec.decision);
+  const notes: string[] = [];
+  if (U === null) notes.push('no uncertainty estimate: decided without a guard band');
+  const { lower, upper } = check.limit;
+  if (spec.decision !== 'simple' && U !== null && lower !== null && upper !== null && upper - lower <= 2 * U) {
+    notes.push(`the guard band (±${formatQuantity(U, base.unit, 3)}) covers the whole tolerance: only a longer or cleaner capture can show a pass`);
+  }
+  return {
+    ...base,
+    value: m.value,
+    expandedUncertainty: U,
+    guard: d.guard,
+    margin: d.margin,
+    statement: d.statement,
+    ...(notes.length ? { note: notes.join('; ') } : {}),
+    ...(check.hint && d.statement !== 'pass' ? { hint: check.hint } : {}),
+  };
+}

@@ -1,0 +1,51 @@
+/**
+ * Spec text (YAML, or JSON, which YAML 1.2 reads as well) → Spec. Every problem is collected in one
+ * pass (syntax, structure, units, limits, references) and thrown as one BenchError whose issues each
+ * carry the dotted path and the line in the file.
+ */
+import { createHash } from 'node:crypto';
+import { LineCounter, parseDocument } from 'yaml';
+import type { BenchErrorFields } from '../types/index.js';
+import { specFileSchema } from './specSchema.js';
+import { formatPath, fromZodIssues, lineOf, specError } from './specIssues.js';
+import type { SpecIssue } from './specIssues.js';
+import { resolveSpec } from './resolveSpec.js';
+import type { Spec } from './specTypes.js';
+
+export function parseSpec(text: string, file: string): Spec {
+  const counter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: true });
+  if (doc.errors.length > 0) {
+    throw specError(
+      file,
+      doc.errors.map((e) => ({
+        code: 'spec.syntax',
+        file,
+        line: e.linePos?.[0].line,
+        problem: `not valid YAML or JSON: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}`,
+        expected: 'YAML (indented `key: value` lines) or JSON',
+        fix: 'correct the syntax at this line (check indentation, colons and closing brackets)',
+      })),
+    );
+  }
+  const raw: unknown = doc.toJS();
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
+    throw specError(file, [{ code: 'spec.not-a-map', file, line: 1, problem: 'the spec is not a map of fields', expected: 'a YAML map with name, revision, outputs …', fix: 'start from `benchproof spec init` or samples/fh210-spec.yaml' }]);
+  }
+  const issues: SpecIssue[] = [];
+  const parsed = specFileSchema.safeParse(raw);
+  if (!parsed.success) issues.push(...fromZodIssues(parsed.error.issues, raw));
+  const sha256 = createHash('sha256').update(text).digest('hex');
+  const spec = resolveSpec(raw, file, sha256, issues);
+  if (issues.length === 0) return spec;
+  const seen = new Set<string>();
+  const fields: BenchErrorFields[] = [];
+  for (const i of issues) {
+    const key = `${formatPath(i.path)}\u0000${i.problem}`;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    const line = lineOf(doc, counter, i.path, i.atKey);
+    fields.push({ code: i.code, file, ...(line !== undefined ? { line } : {}), problem: i.problem, expected: i.expected, fix: i.fix });
+  }
+  throw specError(file, fields);
+}

@@ -1,0 +1,181 @@
+/**
+ * Stored test records (src/records) and the documents built from them: the per-unit record and the
+ * batch statistics. Plain readonly data that survives a JSON round trip; `record --format json` and
+ * `batch --format json` print these objects as they are. Fields may be added, never renamed.
+ */
+import type { Diagnosis } from './cause.js';
+import type { Statement, UnitVerdict } from './verdict.js';
+
+/** What a run was. Only checks today; calibration runs will be a second kind (with a migration). */
+export type RunKind = 'check';
+
+/** The spec a run was checked against: name, revision and SHA-256 of its exact text. */
+export interface RunSpec {
+  readonly name: string;
+  readonly revision: string;
+  readonly sha256: string;
+}
+
+/** One capture handed to the store. Give its bytes, or the path to read them from (read, never changed). */
+export interface NewCapture {
+  /** Path as the user gave it, kept for the record. */
+  readonly path: string;
+  readonly sha256: string;
+  readonly size: number;
+  /** Layout as described by the capture reader (delimiter, header line, time column …). */
+  readonly layout: string;
+  readonly condition: string;
+  readonly bytes?: Uint8Array;
+  /** Absolute path to read the bytes from when `bytes` is absent. */
+  readonly sourcePath?: string;
+}
+
+/** Everything one `check` run stores, in one call: `store.saveRun(run)`. */
+export interface NewRun {
+  readonly unit: string;
+  readonly kind?: RunKind;
+  /** ISO 8601 time the run started, e.g. `2026-03-14T09:30:00.000Z`. */
+  readonly startedAt: string;
+  readonly operator: string;
+  /** Host name of the bench computer. */
+  readonly station: string;
+  /** `text` (the spec file's exact text or bytes) is kept once per SHA-256 so a record can show it. */
+  readonly spec: RunSpec & { readonly text?: string | Uint8Array };
+  readonly toolVersion: string;
+  readonly verdict: UnitVerdict;
+  readonly diagnosis: Diagnosis;
+  readonly captures: readonly NewCapture[];
+}
+
+export interface StoredCapture {
+  readonly path: string;
+  readonly sha256: string;
+  readonly size: number;
+  readonly layout: string;
+  readonly condition: string;
+  /** Where the archived copy lives, relative to the data folder, with `/` separators. */
+  readonly archivePath: string;
+}
+
+export interface StoredRun {
+  /** Run number in this data folder, counting from 1. */
+  readonly id: number;
+  readonly unit: string;
+  readonly kind: RunKind;
+  readonly startedAt: string;
+  /** ISO 8601 time the store committed the run. */
+  readonly storedAt: string;
+  readonly operator: string;
+  readonly station: string;
+  readonly spec: RunSpec;
+  readonly toolVersion: string;
+  readonly statement: Statement;
+  readonly verdict: UnitVerdict;
+  readonly diagnosis: Diagnosis;
+  readonly captures: readonly StoredCapture[];
+  /** SHA-256 of the run's canonical JSON, computed when it was stored. */
+  readonly digest: string;
+  /** True when the stored content still hashes to `digest` (nothing changed it since). */
+  readonly intact: boolean;
+}
+
+export interface UnitSummary {
+  readonly unit: string;
+  /** Spec of the latest run. */
+  readonly spec: RunSpec;
+  /** The latest run decides the current status. */
+  readonly status: Statement;
+  readonly firstStatement: Statement;
+  readonly firstTestedAt: string;
+  readonly lastTestedAt: string;
+  readonly runs: number;
+}
+
+/** Who produced a document, from where and when; set by the command line, absent in the store. */
+export interface DocumentSource {
+  readonly generatedAt: string;
+  readonly toolVersion: string;
+  readonly dataDir: string;
+}
+
+/** The per-unit test record: every run, oldest first; the latest decides the status. */
+export interface UnitRecord {
+  readonly schemaVersion: 1;
+  readonly unit: string;
+  readonly status: Statement;
+  readonly spec: RunSpec;
+  readonly firstTestedAt: string;
+  readonly lastTestedAt: string;
+  readonly runs: readonly StoredRun[];
+  readonly source?: DocumentSource;
+}
+
+/** Process capability per NIST/SEMATECH e-Handbook §6.1.6; null where a limit or spread is missing. */
+export interface Capability {
+  readonly cp: number | null;
+  readonly cpu: number | null;
+  readonly cpl: number | null;
+  readonly cpk: number | null;
+}
+
+/** Statistics of one checked quantity across the units of a batch (one value per unit). */
+export interface MeasurementStats extends Capability {
+  readonly condition: string;
+  readonly output: string;
+  readonly measurement: string;
+  readonly unit: string;
+  readonly lower: number | null;
+  readonly upper: number | null;
+  readonly nominal: number | null;
+  /** Units with a value. */
+  readonly count: number;
+  /** Units whose value was withheld (not measured). */
+  readonly withheld: number;
+  readonly mean: number | null;
+  /** Sample standard deviation (n − 1). */
+  readonly sd: number | null;
+  readonly min: number | null;
+  readonly max: number | null;
+  /** Why a figure is missing or rough, in words. */
+  readonly notes: readonly string[];
+  /** The values behind the figures, for histograms and spreadsheets. */
+  readonly values: readonly { readonly unit: string; readonly value: number; readonly runId: number }[];
+}
+
+/** Accepted = PASS or COND. PASS (ILAC-G8:09/2019: a conditional pass is a pass with a flag). */
+export interface YieldFigure {
+  readonly units: number;
+  readonly accepted: number;
+  readonly conditional: number;
+  /** accepted / units; null with no units. */
+  readonly fraction: number | null;
+}
+
+export interface BatchUnit {
+  readonly unit: string;
+  readonly runs: number;
+  readonly first: Statement;
+  readonly latest: Statement;
+  readonly firstTestedAt: string;
+  readonly lastTestedAt: string;
+  readonly latestRunId: number;
+}
+
+export interface SpecBatch {
+  readonly spec: string;
+  /** Revisions seen, oldest first. */
+  readonly revisions: readonly string[];
+  readonly units: readonly BatchUnit[];
+  readonly runs: number;
+  readonly firstPass: YieldFigure;
+  readonly final: YieldFigure;
+  readonly measurements: readonly MeasurementStats[];
+  readonly notes: readonly string[];
+}
+
+export interface BatchReport {
+  readonly schemaVersion: 1;
+  readonly filter: { readonly spec?: string; readonly since?: string };
+  readonly specs: readonly SpecBatch[];
+  readonly source?: DocumentSource;
+}

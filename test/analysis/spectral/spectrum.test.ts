@@ -1,0 +1,72 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { isPowerOfTwo, nextPowerOfTwo, realSpectrum } from '../../../src/analysis/spectrum.js';
+import { expectWithin } from '../../helpers/expectWithin.js';
+
+/** Plain O(M²) DFT, X[k] = Σ x[i]·e^(−2πik·i/M): the textbook definition, independent of fft.js. */
+function plainDft(x: readonly number[]): { re: number[]; im: number[] } {
+  const m = x.length;
+  const re: number[] = [];
+  const im: number[] = [];
+  for (let k = 0; k <= m / 2; k++) {
+    let r = 0;
+    let i = 0;
+    for (let t = 0; t < m; t++) {
+      r += x[t] * Math.cos((2 * Math.PI * k * t) / m);
+      i -= x[t] * Math.sin((2 * Math.PI * k * t) / m);
+    }
+    re.push(r);
+    im.push(i);
+  }
+  return { re, im };
+}
+
+const sizedRecord = fc
+  .constantFrom(2, 4, 8, 16, 32, 64, 128, 256)
+  .chain((m) => fc.array(fc.double({ min: -1000, max: 1000, noNaN: true }), { minLength: m, maxLength: m }));
+
+describe('realSpectrum', () => {
+  it('realSpectrum matches a plain DFT bin by bin on seeded random records of every size to 256', () => {
+    fc.assert(
+      fc.property(sizedRecord, (x) => {
+        const s = realSpectrum(Float64Array.from(x));
+        const ref = plainDft(x);
+        const scale = x.reduce((a, v) => a + Math.abs(v), 0) + 1;
+        for (let k = 0; k < s.bins; k++) {
+          expectWithin(s.re(k), ref.re[k], { abs: 1e-11 * scale }, 'plain DFT definition');
+          expectWithin(s.im(k), ref.im[k], { abs: 1e-11 * scale }, 'plain DFT definition');
+        }
+      }),
+      { seed: 1241, numRuns: 60 },
+    );
+  });
+
+  it('realSpectrum puts a unit cosine at bin k with magnitude M/2 and phase 0', () => {
+    const m = 64;
+    const x = Float64Array.from({ length: m }, (_, i) => Math.cos((2 * Math.PI * 5 * i) / m));
+    const s = realSpectrum(x);
+    expectWithin(s.magnitude(5), m / 2, { rel: 1e-12 }, 'DFT of a bin-centred cosine (closed form)');
+    expectWithin(s.phase(5), 0, { abs: 1e-12 }, 'closed form');
+    expectWithin(s.magnitude(4), 0, { abs: 1e-12 }, 'orthogonality of DFT bins (closed form)');
+  });
+
+  it('realSpectrum leaves its input unmodified', () => {
+    const x = Float64Array.from({ length: 32 }, (_, i) => Math.sin(i) + i / 7);
+    const copy = Float64Array.from(x);
+    realSpectrum(x);
+    expect(Array.from(x)).toEqual(Array.from(copy));
+  });
+
+  it('realSpectrum refuses a length that is not a power of two, quoting it', () => {
+    expect(() => realSpectrum(new Float64Array(10))).toThrow(RangeError);
+    expect(() => realSpectrum(new Float64Array(10))).toThrow(/10/);
+    expect(() => realSpectrum(new Float64Array(1))).toThrow(RangeError);
+  });
+
+  it('nextPowerOfTwo gives the smallest power of two at or above n', () => {
+    expect([1, 2, 3, 1000, 1024, 1025].map(nextPowerOfTwo)).toEqual([2, 2, 4, 1024, 1024, 2048]);
+    expect(isPowerOfTwo(4096)).toBe(true);
+    expect(isPowerOfTwo(4095)).toBe(false);
+    expect(() => nextPowerOfTwo(Number.NaN)).toThrow(RangeError);
+  });
+});

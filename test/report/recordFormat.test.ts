@@ -1,0 +1,36 @@
+import { describe, expect, it } from 'vitest';
+import { formatLimits, formatMeasured, formatQuantity, formatTime } from '../../src/report/unitsSi.js';
+
+// Expected strings follow JCGM 100:2008 (GUM) §7.2.6: U with at most two significant digits, the value
+// rounded to the same decimal place; SI prefixes as in the SI Brochure (BIPM, 9th ed., Table 7).
+describe('number formatting in records', () => {
+  it('rounds U to two significant digits and the value to the same place', () => {
+    expect(formatMeasured(261.63412, 0.010456, 'Hz')).toBe('261.634 Hz ± 0.010 Hz');
+    expect(formatMeasured(6.0012, 0.012, 'V')).toBe('6.001 V ± 0.012 V');
+    expect(formatMeasured(48.04, 0.1, '%')).toBe('48.04 % ± 0.10 %');
+    expect(formatMeasured(1.0833, 0.004, '')).toBe('1.0833 ± 0.0040');
+  });
+
+  it('steps the engineering prefix down towards the base unit while more than three decimals would be needed', () => {
+    expect(formatMeasured(2093.0, 0.084, 'Hz')).toBe('2093.000 Hz ± 0.084 Hz');
+    expect(formatMeasured(2093.0, 4.2, 'Hz')).toBe('2093.0 Hz ± 4.2 Hz');
+    expect(formatMeasured(2093.0, 42, 'Hz')).toBe('2.093 kHz ± 0.042 kHz');
+    expect(formatMeasured(14.76e-6, 0.12e-6, 'A')).toBe('14.76 µA ± 0.12 µA');
+    expect(formatQuantity(4.7e-9, 'F')).toBe('4.7000 nF');
+  });
+
+  it('shows a missing value as a dash, never as NaN or 0', () => {
+    expect(formatMeasured(null, 0.1, 'V')).toBe('—');
+    expect(formatQuantity(Number.NaN, 'V')).toBe('—');
+  });
+
+  it('writes limits as a spec would, with open sides', () => {
+    expect(formatLimits(5.7, 6.3, 'V')).toBe('5.7 V … 6.3 V');
+    expect(formatLimits(null, 1, '%')).toBe('≤ 1 %');
+    expect(formatLimits(2051.1, null, 'Hz')).toBe('≥ 2.0511 kHz');
+  });
+
+  it('writes times in UTC with the zone named', () => {
+    expect(formatTime('2026-03-02T10:15:30+01:00')).toBe('2026-03-02 09:15 UTC');
+  });
+});
