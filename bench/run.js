@@ -26,11 +26,13 @@ async function main() {
   const machine = machineInfo();
   ctx.useTime = ensureGnuTime(log);
   if (!ctx.useTime) notes.push('GNU time is missing: peak memory is not reported');
-  const peer = opts.peer ? ensurePeerPython(log) : { ok: false, note: 'peer not run (--no-peer)' };
+  // numpy serves both the peer and gen_capture.py, so it is checked even under --no-peer.
+  const python = ensurePeerPython(log);
+  const peer = opts.peer ? python : { ok: false, note: 'peer not run (--no-peer)' };
   ctx.peer = peer.ok;
   if (!peer.ok) notes.push(peer.note);
-  const kinds = [...(peer.ok ? ['gen'] : []), ...(opts.synth ? ['synth'] : [])];
-  if (!peer.ok && kinds.includes('synth')) notes.push('gen_capture.py needs numpy: only the synthesizer captures were timed');
+  const kinds = [...(python.ok ? ['gen'] : []), ...(opts.synth ? ['synth'] : [])];
+  if (!python.ok) notes.push('gen_capture.py needs numpy: only the synthesizer captures were timed');
   const files = [];
   for (const rows of opts.sizes) for (const kind of kinds) files.push(await benchFile(kind, rows, ctx));
   log('timing the FFT wrapper on a 4M-point channel');

@@ -53,13 +53,16 @@ export function classifyShape(samples: Float64Array, start: number | null, perio
   const { misfit: step, highShare } = stepMisfit(sorted);
   const riseShare = folded ? foldedRiseShare(folded) : rawRiseShare(samples);
   const dwell = dwellShare(sorted);
-  const best = Math.min(ramp, sine, step);
-  let shape: Shape = 'unknown';
-  if (best > (folded ? MAX_MISFIT : MAX_MISFIT_UNFOLDED) && dwell < MIN_DWELL) shape = 'unknown';
-  else if (best === step || dwell >= MIN_DWELL) shape = highShare >= 0.4 && highShare <= 0.6 ? 'square' : 'pulse';
-  else if (best === sine) shape = 'sine';
-  else shape = riseShare > 0.9 || riseShare < 0.1 ? 'sawtooth' : 'triangle';
-  return { shape, ramp, sine, step, riseShare, highShare, dwell };
+  const evidence = { ramp, sine, step, riseShare, highShare, dwell };
+  return { shape: decide(evidence, folded !== null), ...evidence };
+}
+
+function decide(e: Omit<ShapeEvidence, 'shape'>, folded: boolean): Shape {
+  const best = Math.min(e.ramp, e.sine, e.step);
+  if (best > (folded ? MAX_MISFIT : MAX_MISFIT_UNFOLDED) && e.dwell < MIN_DWELL) return 'unknown';
+  if (best === e.step || e.dwell >= MIN_DWELL) return e.highShare >= 0.4 && e.highShare <= 0.6 ? 'square' : 'pulse';
+  if (best === e.sine) return 'sine';
+  return e.riseShare > 0.9 || e.riseShare < 0.1 ? 'sawtooth' : 'triangle';
 }
 
 function dwellShare(s: Float64Array): number {

@@ -50,5 +50,6 @@ function timingFloor(steps: readonly number[], noise: number, span: number): num
 
 /** Seconds in µs or ns with two significant digits, for notes (report formatting lives downstream). */
 function fmt(seconds: number): string {
-  return seconds >= 1e-6 ? `${(seconds * 1e6).toPrecision(2)} µs` : `${(seconds * 1e9).toPrecision(2)} ns`;
+  const two = (x: number): string => String(Number(x.toPrecision(2)));
+  return seconds >= 1e-6 ? `${two(seconds * 1e6)} µs` : `${two(seconds * 1e9)} ns`;
 }

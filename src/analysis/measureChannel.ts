@@ -119,10 +119,19 @@ function timingResults(x: Float64Array, dt: number, fit: PeriodFit | null, c: Cr
 function noSignal(x: Float64Array, range: { min: number; max: number }, noise: number, unit: string): ChannelAnalysis {
   const why = withheld('no-signal', `no waveform above the noise (peak-to-peak ${(range.max - range.min).toPrecision(3)} ${unit || 'V'}); check the probe connection and the channel's vertical range`);
   const levels = levelResults(range, null, noise, unit);
-  const whole = momentResults(x, [0, x.length], noise, range.max - range.min, unit);
+  const whole = wholeRecord(momentResults(x, [0, x.length], noise, range.max - range.min, unit));
   const results: Results = { frequency: why, period: why, jitter: why, ...levels, highLevel: why, lowLevel: why, amplitude: why, ...whole };
   const c: Crossings = { rising: [], falling: [], risingSteps: [], fallingSteps: [] };
   return { shape: 'unknown', results, warnings: [], fundamental: null, marks: { levels: null, mid: (range.max + range.min) / 2, crossings: c, ramps: [] } };
+}
+
+/** Without a waveform there are no cycles: the moments are taken over the whole record, and say so. */
+function wholeRecord(r: Results): Results {
+  const out: Results = {};
+  for (const [id, m] of Object.entries(r) as [MeasurementId, NonNullable<Results[MeasurementId]>][]) {
+    out[id] = m.ok ? { ...m, method: m.method.replace(/over 1 whole cycle \((\d+) samples\)/, 'over the whole record ($1 samples; no waveform to take whole cycles of)') } : m;
+  }
+  return out;
 }
 
 function withheldFamily(shape: Shape): Results {

@@ -12,7 +12,9 @@
  *   sample, like the ±1 count of a frequency counter over its gate time (common practice, no source).
  *   Over K cycles that is ±δ/K sample intervals on the period, rectangular: δ/(√3·K) (GUM §4.3.7).
  *   The errors of successive crossings are not independent when the period is close to a whole
- *   number of samples (they drift together), so the scatter alone can miss them. δ is the mean step
+ *   number of samples, or to a simple fraction of one (they drift together over a long beat), so the
+ *   scatter alone can miss them; the term is always combined, which is conservative for edges that
+ *   fall at scattered phases. δ is the mean step
  *   of the straddling pairs as a fraction of the amplitude: about 1 for an edge faster than a sample,
  *   near 0 for a ramp that linear interpolation resolves.
  */

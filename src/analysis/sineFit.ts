@@ -32,12 +32,12 @@ export function sineFit(samples: Float64Array, dt: number, frequencyGuess: numbe
   let w = 2 * Math.PI * frequencyGuess;
   const start = solveLinear(...normalEquations(samples, dt, w, null));
   if (!start) return null;
-  let [a, b, c] = start;
+  let [a, b] = start;
   for (let it = 1; it <= MAX_ITERATIONS; it++) {
     const step = solveLinear(...normalEquations(samples, dt, w, [a, b]));
     if (!step) return null;
-    const dw = step[3];
-    [a, b, c] = step;
+    const [na, nb, c, dw] = step;
+    [a, b] = [na, nb];
     w += dw;
     if (!Number.isFinite(w) || Math.abs(w / (2 * Math.PI) - frequencyGuess) > 0.1 * frequencyGuess) return null;
     if (Math.abs(dw) <= 1e-12 * w) return finish(samples, dt, w, a, b, c, it);
@@ -47,10 +47,7 @@ export function sineFit(samples: Float64Array, dt: number, frequencyGuess: numbe
 
 function finish(x: Float64Array, dt: number, w: number, a: number, b: number, c: number, iterations: number): SineFit | null {
   const [m] = normalEquations(x, dt, w, [a, b]);
-  let rssSum = 0;
-  forEachPhase(x.length, dt, w, (i, cs, sn) => {
-    rssSum += (x[i] - a * cs - b * sn - c) ** 2;
-  });
+  const rssSum = residualSquares(x, dt, w, a, b, c);
   const sigma2 = rssSum / (x.length - 4);
   const inv = inverseDiagonal(m);
   if (!inv) return null;
@@ -69,42 +66,69 @@ function finish(x: Float64Array, dt: number, w: number, a: number, b: number, c:
   };
 }
 
-/** Normal equations DᵀD·p = Dᵀy of the 3-parameter (ab = null) or 4-parameter fit. */
+/**
+ * Normal equations DᵀD·p = Dᵀy of the 3-parameter (ab = null) or 4-parameter fit, with columns
+ * cos ωt, sin ωt, 1 and t·(−A sin ωt + B cos ωt). Written as one flat loop with scalar sums: it runs
+ * over every sample several times and dominates the time spent on long sine records.
+ */
 function normalEquations(x: Float64Array, dt: number, w: number, ab: [number, number] | null): [number[][], number[]] {
-  const p = ab ? 4 : 3;
-  const m = Array.from({ length: p }, () => new Array<number>(p).fill(0));
-  const r = new Array<number>(p).fill(0);
-  const col = new Array<number>(p).fill(0);
-  const mid = (x.length - 1) / 2;
-  forEachPhase(x.length, dt, w, (i, cs, sn) => {
-    col[0] = cs;
-    col[1] = sn;
-    col[2] = 1;
-    if (ab) col[3] = (i - mid) * dt * (-ab[0] * sn + ab[1] * cs);
-    for (let j = 0; j < p; j++) {
-      r[j] += col[j] * x[i];
-      for (let k = j; k < p; k++) m[j][k] += col[j] * col[k];
-    }
-  });
-  for (let j = 0; j < p; j++) for (let k = 0; k < j; k++) m[j][k] = m[k][j];
-  return [m, r];
-}
-
-/** Calls f(i, cos ωtᵢ, sin ωtᵢ) with tᵢ centred on the record's middle. */
-function forEachPhase(n: number, dt: number, w: number, f: (i: number, cs: number, sn: number) => void): void {
+  const a = ab ? ab[0] : 0;
+  const b = ab ? ab[1] : 0;
+  const n = x.length;
   const mid = (n - 1) / 2;
-  const cd = Math.cos(w * dt);
-  const sd = Math.sin(w * dt);
-  let cs = 0;
-  let sn = 0;
+  const cw = Math.cos(w * dt);
+  const sw = Math.sin(w * dt);
+  let c = 0;
+  let s = 0;
+  let cc = 0, cs = 0, c1 = 0, cd = 0, ss = 0, s1 = 0, sd = 0, d1 = 0, dd = 0;
+  let yc = 0, ys = 0, y1 = 0, yd = 0;
   for (let i = 0; i < n; i++) {
     if (i % RESEED === 0) {
-      cs = Math.cos(w * (i - mid) * dt);
-      sn = Math.sin(w * (i - mid) * dt);
+      c = Math.cos(w * (i - mid) * dt);
+      s = Math.sin(w * (i - mid) * dt);
     }
-    f(i, cs, sn);
-    const next = cs * cd - sn * sd;
-    sn = sn * cd + cs * sd;
-    cs = next;
+    const d = (i - mid) * dt * (-a * s + b * c);
+    const y = x[i];
+    cc += c * c;
+    cs += c * s;
+    c1 += c;
+    cd += c * d;
+    ss += s * s;
+    s1 += s;
+    sd += s * d;
+    d1 += d;
+    dd += d * d;
+    yc += y * c;
+    ys += y * s;
+    y1 += y;
+    yd += y * d;
+    const next = c * cw - s * sw;
+    s = s * cw + c * sw;
+    c = next;
   }
+  if (!ab) return [[[cc, cs, c1], [cs, ss, s1], [c1, s1, n]], [yc, ys, y1]];
+  return [[[cc, cs, c1, cd], [cs, ss, s1, sd], [c1, s1, n, d1], [cd, sd, d1, dd]], [yc, ys, y1, yd]];
+}
+
+/** Residual sum of squares of the fitted sine, with the same phase recurrence as normalEquations. */
+function residualSquares(x: Float64Array, dt: number, w: number, a: number, b: number, off: number): number {
+  const n = x.length;
+  const mid = (n - 1) / 2;
+  const cw = Math.cos(w * dt);
+  const sw = Math.sin(w * dt);
+  let c = 0;
+  let s = 0;
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    if (i % RESEED === 0) {
+      c = Math.cos(w * (i - mid) * dt);
+      s = Math.sin(w * (i - mid) * dt);
+    }
+    const r = x[i] - a * c - b * s - off;
+    sum += r * r;
+    const next = c * cw - s * sw;
+    s = s * cw + c * sw;
+    c = next;
+  }
+  return sum;
 }

@@ -8,11 +8,12 @@
  *    the top code spends at least about a quarter as long within 2q below it on each side as at
  *    the top (a linear ramp: ≤ 1×; a parabolic peak: ≤ 2.8×, closed form). A clipped trace
  *    arrives steeply, so the run must exceed 4× the longer of the two approach dwells.
- * 3. The run must cut off a ramp: on at least one side, over the nearest window of W samples
- *    (the shortest power of two that spans ≥ 4q), the signal moves by 1/4…4 times what it moves
- *    over the next W samples. A clipped ramp or sine keeps its slope up to the clip (ratio ≈ 1); a
- *    square wave's levels are reached by a jump (ratio ≫ 1) or an RC settling curve (ratio ≤ 1/9),
- *    so flat pulse levels are not taken for clipping.
+ * 3. The run must cut off a ramp: on at least one side, walking away from the run, the signal
+ *    must take ≥ 4× as many samples to fall 16q below the level as to fall 2q below it. A straight
+ *    ramp takes 8× (closed form); a square wave's level is reached by a jump (1×) or an RC settling
+ *    curve (depth grows as e^(k/τ): at most 1 + ln 8/ln 4 ≈ 2.5×), and a smooth unclipped peak
+ *    is parabolic (√8 ≈ 2.8×), so none of those is taken for clipping. A sine clipped within 1 %
+ *    of its peak is parabolic there too and is not flagged; its level error is then under 1 %.
  * 4. The samples in such runs must reach 0.5 % of the valid samples, so that one stray run of
  *    three in a long record does not count.
  * A waveform whose flat levels are reached along straight ramps (a slew-limited trapezoid without
@@ -24,6 +25,7 @@ const MIN_RUN = 3;
 const APPROACH_RATIO = 4;
 const MIN_SHARE = 0.005;
 const RAMP_RATIO = 4;
+const MAX_WALK = 1 << 20;
 
 export function detectClipping(x: Float64Array): ClipInfo | null {
   let max = -Infinity;
@@ -87,15 +89,17 @@ function approach(x: Float64Array, from: number, step: number, level: number, q:
 
 /** Rule 3 on one side of a run: `from` is the first sample outside it, walking by `step`. */
 function cutsRamp(x: Float64Array, from: number, step: number, level: number, q: number, dir: number): boolean {
-  for (let w = 1; w <= 65536; w *= 2) {
-    const p1 = from + step * (w - 1);
-    const p2 = from + step * (2 * w - 1);
-    if (p2 < 0 || p2 >= x.length) return false;
-    const near = dir * (level - x[p1]);
-    if (near !== near) return false;
-    if (near < 4 * q) continue;
-    const far = dir * (x[p1] - x[p2]);
-    return far > 0 && near / far >= 1 / RAMP_RATIO && near / far <= RAMP_RATIO;
+  const shallow = samplesToDepth(x, from, step, level, 2 * q, dir);
+  const deep = samplesToDepth(x, from, step, level, 16 * q, dir);
+  return shallow > 0 && deep >= RAMP_RATIO * shallow;
+}
+
+/** Samples walked from `from` until the signal lies `depth` below the level; −1 if it never does. */
+function samplesToDepth(x: Float64Array, from: number, step: number, level: number, depth: number, dir: number): number {
+  for (let k = 1, j = from; k <= MAX_WALK && j >= 0 && j < x.length; k++, j += step) {
+    const d = dir * (level - x[j]);
+    if (d !== d) return -1;
+    if (d >= depth) return k;
   }
-  return false;
+  return -1;
 }

@@ -39,8 +39,10 @@ export function sampleLines(sample: Buffer, endOfFile: boolean, file: string): S
   if (limit > SNIFF_BYTES || !endOfFile) {
     const cut = sample.indexOf(terminator, Math.min(SNIFF_BYTES, sample.length - 1));
     const last = sample.lastIndexOf(terminator);
-    limit = cut >= 0 ? cut + 1 : last >= from ? last + 1 : sample.length;
+    limit = cut >= 0 ? cut + 1 : last >= from ? last + 1 : from;
   }
+  // The reader stops gathering once a line runs past the limit, so an unfinished line this long is too long.
+  const unfinished = !endOfFile && sample.length - limit > MAX_LINE_BYTES;
   const lines: SampleLine[] = [];
   let crlf = 0;
   let lf = 0;
@@ -57,6 +59,7 @@ export function sampleLines(sample: Buffer, endOfFile: boolean, file: string): S
     if (text.trim() !== '') lines.push({ line: lineNo, start: pos, text });
     pos = end + 1;
   }
+  if (unfinished) throw lineTooLong(file, lineNo);
   const lineEnding = terminator === 13 ? 'cr' : crlf > 0 && lf > 0 ? 'mixed' : crlf > 0 ? 'crlf' : 'lf';
   return { bom, lineEnding, terminator, lines, wholeFile: endOfFile && limit === sample.length };
 }

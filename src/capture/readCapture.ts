@@ -72,18 +72,22 @@ function checkOptions(o: ReadCaptureOptions): void {
   }
 }
 
-/** The opening chunks, up to at least 64 KiB that hold a line break (or the whole file). */
+/**
+ * The opening chunks: complete lines past the first 64 KiB, the whole file, or (to report it) a
+ * line that has already run past the 1 MiB limit.
+ */
 async function gatherSample(chunks: AsyncIterator<Buffer>): Promise<{ sample: Buffer; done: boolean }> {
   const parts: Buffer[] = [];
   let total = 0;
-  let breaks = false;
+  let lastBreak = -1;
   for (;;) {
     const r = await chunks.next();
     if (r.done) return { sample: Buffer.concat(parts), done: true };
-    parts.push(r.value);
+    parts.push(Buffer.from(r.value)); // the source reuses its buffer for the next chunk
+    const lf = Math.max(r.value.lastIndexOf(10), r.value.lastIndexOf(13));
+    if (lf >= 0) lastBreak = total + lf;
     total += r.value.length;
-    breaks ||= r.value.includes(10) || r.value.includes(13);
-    if ((total >= SNIFF_BYTES && breaks) || total > MAX_LINE_BYTES + SNIFF_BYTES) return { sample: Buffer.concat(parts), done: false };
+    if (lastBreak >= SNIFF_BYTES || total - lastBreak - 1 > MAX_LINE_BYTES) return { sample: Buffer.concat(parts), done: false };
   }
 }
 

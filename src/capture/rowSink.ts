@@ -39,46 +39,56 @@ interface Pending {
 }
 
 export class RowSink {
-  columns: Float64Array[];
+  private columns: Float64Array[];
   length = 0;
   readonly invalid: number[];
   readonly firstInvalid: (number | undefined)[];
   firstLine = 0;
   lastLine = 0;
   pending: Pending | null = null;
-  private readonly channelCount: number;
+  private capacity: number;
+  private readonly columnCount: number;
+  private readonly trailingDelimiter: boolean;
+  private readonly xColumn: number;
+  /** File column and scale of each kept channel, in the order of `columns`. */
+  private readonly channelColumns: Int32Array;
+  private readonly channelScales: Float64Array;
 
   constructor(private readonly cfg: SinkConfig) {
-    this.channelCount = Math.max(0, ...cfg.targets) + (cfg.targets.some((t) => t >= 0) ? 1 : 0);
-    this.columns = Array.from({ length: this.channelCount }, () => new Float64Array(Math.max(16, cfg.capacity)));
-    this.invalid = new Array<number>(this.channelCount).fill(0);
-    this.firstInvalid = new Array<number | undefined>(this.channelCount).fill(undefined);
+    const kept = [...cfg.targets.keys()].filter((c) => cfg.targets[c] >= 0).sort((a, b) => cfg.targets[a] - cfg.targets[b]);
+    this.channelColumns = Int32Array.from(kept);
+    this.channelScales = Float64Array.from(kept, (c) => cfg.scales[c]);
+    this.xColumn = cfg.targets.indexOf(X_COLUMN);
+    this.columnCount = cfg.columnCount;
+    this.trailingDelimiter = cfg.trailingDelimiter;
+    this.capacity = Math.max(16, cfg.capacity);
+    this.columns = kept.map(() => new Float64Array(this.capacity));
+    this.invalid = new Array<number>(kept.length).fill(0);
+    this.firstInvalid = new Array<number | undefined>(kept.length).fill(undefined);
   }
 
   /** Takes one row; returns false when the row was held back as a possible footer. */
   push(vals: Float64Array, kinds: Uint8Array, exps: Int32Array, fieldCount: number, line: number): boolean {
-    const { columnCount: C, targets, scales } = this.cfg;
+    const C = this.columnCount;
     let n = fieldCount;
-    if (this.cfg.trailingDelimiter && n === C + 1 && kinds[C] === EMPTY) n = C;
-    if (n !== C || kinds[0] === TEXT || isTextRow(kinds, n)) {
-      if (this.pending) this.pending.count++;
-      else this.pending = { code: n !== C ? 'ragged-row' : 'text-in-data', line, fields: n, text: '', count: 1 };
-      return false;
-    }
+    if (this.trailingDelimiter && n === C + 1 && kinds[C] === EMPTY) n = C;
+    if (n !== C || kinds[0] === TEXT || isTextRow(kinds, n)) return this.hold(n, line);
     if (this.pending) throw this.pendingError(this.pending);
-    if (this.length === this.columns[0]?.length) this.grow();
     const row = this.length;
-    for (let c = 0; c < C; c++) {
-      const k = targets[c];
-      if (k === SKIP) continue;
+    if (row === this.capacity) this.grow();
+    const x = this.xColumn;
+    if (x >= 0) {
+      const t = vals[x];
+      if (kinds[x] !== NUMBER || !(t < OVERFLOW_MARKER && t > -OVERFLOW_MARKER)) throw this.badTime(line);
+      this.cfg.axis!.push(vals, x, exps[x], line);
+    }
+    const { channelColumns, channelScales, columns } = this;
+    for (let k = 0; k < channelColumns.length; k++) {
+      const c = channelColumns[k];
       const v = vals[c];
-      const ok = kinds[c] === NUMBER && v < OVERFLOW_MARKER && v > -OVERFLOW_MARKER;
-      if (k === X_COLUMN) {
-        if (!ok) throw this.badTime(line);
-        this.cfg.axis!.push(vals, c, exps[c], line);
-      } else if (ok) this.columns[k][row] = v * scales[c];
+      if (kinds[c] === NUMBER && v < OVERFLOW_MARKER && v > -OVERFLOW_MARKER) columns[k][row] = v * channelScales[k];
       else {
-        this.columns[k][row] = NaN;
+        columns[k][row] = NaN;
         if (this.invalid[k]++ === 0) this.firstInvalid[k] = line;
       }
     }
@@ -88,14 +98,21 @@ export class RowSink {
     return true;
   }
 
+  private hold(n: number, line: number): false {
+    if (this.pending) this.pending.count++;
+    else this.pending = { code: n !== this.columnCount ? 'ragged-row' : 'text-in-data', line, fields: n, text: '', count: 1 };
+    return false;
+  }
+
   /** The columns trimmed to the rows read (copied when much capacity would go unused). */
   trimmed(): Float64Array[] {
     return this.columns.map((c) => (c.length - this.length > this.length / 8 ? c.slice(0, this.length) : c.subarray(0, this.length)));
   }
 
   private grow(): void {
+    this.capacity = Math.ceil(this.capacity * 1.5) + 16;
     this.columns = this.columns.map((c) => {
-      const bigger = new Float64Array(Math.ceil(c.length * 1.5) + 16);
+      const bigger = new Float64Array(this.capacity);
       bigger.set(c);
       return bigger;
     });

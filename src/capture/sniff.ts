@@ -15,8 +15,9 @@ import type { SampleLine, SampleLines } from './lines.js';
 import { NUMBER, parseNumberText, TEXT } from './scanNumber.js';
 
 export const MAX_COLUMNS = 1024;
+// A comma for both only reads quoted fields ("0,5","1,25"); unquoted it reads like [',', '.'].
 const PAIRS: readonly (readonly [Delimiter, DecimalMark])[] = [
-  [',', '.'], [';', '.'], [';', ','], ['\t', '.'], ['\t', ','], [' ', '.'], [' ', ','],
+  [',', '.'], [';', '.'], [';', ','], ['\t', '.'], ['\t', ','], [' ', '.'], [' ', ','], [',', ','],
 ];
 
 export interface Sniffed {
@@ -147,20 +148,33 @@ function findHeader(
   return fields.some((f) => parseNumberText(f, decimalMark).kind === NUMBER) ? null : fields;
 }
 
-/** A preamble line as (key, value): split by the delimiter, else at `:` or `=`; leading `#` dropped. */
+/**
+ * A preamble line as (key, value): split by the delimiter, else at `:` or `=`; leading `#` dropped.
+ * With spaces as the delimiter the key may hold spaces: the value starts at the first number, or
+ * is the last word.
+ */
 function keyValue(line: string, delimiter: Delimiter): readonly [string, string] {
   const text = line.replace(/^\s*[#%]+\s*/, '');
+  const colon = /^([^:=]+?)\s*[:=]\s*(.*)$/.exec(text);
+  if (delimiter === ' ') {
+    if (colon) return [colon[1], colon[2]];
+    const words = text.trim().split(/\s+/);
+    const at = words.findIndex((w, i) => i > 0 && /^[+-]?[\d.,]/.test(w));
+    const cut = at > 0 ? at : Math.max(1, words.length - 1);
+    return [words.slice(0, cut).join(' '), words.slice(cut).join(' ')];
+  }
   const fields = splitFields(text, delimiter).fields;
   while (fields.length > 1 && fields[fields.length - 1] === '') fields.pop();
-  if (fields.length > 1) return [fields[0], fields.slice(1).join(delimiter === '\t' ? '\t' : `${delimiter}`).trim()];
-  const m = /^([^:=]+?)\s*[:=]\s*(.*)$/.exec(text);
-  return m ? [m[1], m[2]] : [text.trim(), ''];
+  if (fields.length > 1) return [fields[0], fields.slice(1).join(delimiter).trim()];
+  return colon ? [colon[1], colon[2]] : [text.trim(), ''];
 }
 
+/** Whole file read, and its last line splits into named fields like a header (not `key: value`). */
 function headerOnly(lines: readonly SampleLine[], wholeFile: boolean): boolean {
   if (!wholeFile) return false;
   const last = lines[lines.length - 1].text;
-  return PAIRS.some(([d]) => splitFields(last, d).fields.filter((f) => f !== '').length >= 2);
+  if (/^[^,;\t]*[:=]/.test(last)) return false;
+  return PAIRS.some(([d]) => d !== ' ' && splitFields(last, d).fields.filter((f) => f !== '').length >= 2);
 }
 
 function noData(file: string, code: 'empty' | 'header-only' | 'no-numeric-data', line: number, wholeFile: boolean) {

@@ -44,10 +44,13 @@ export function parseUnit(raw: string): UnitInfo | null {
 
 /**
  * Splits a header cell into a name and a unit: `Time (s)`, `t[ms]`, `CH1 (mV)`, `CH1 / V`,
- * `time_s`, `ch1_mv`. A suffix after `_` counts as a unit only when it is a known unit.
+ * `time_s`, `ch1_mv`, `V(out)`. A suffix after `_` counts as a unit only when it is a known unit.
  */
 export function parseHeaderCell(cell: string): { name: string; unit: string } {
   const s = cell.trim();
+  // Circuit-simulator probes: V(node) is a voltage, I(part) a current; the whole cell is the name.
+  const probe = /^([VI])\((.+)\)$/.exec(s);
+  if (probe && !parseUnit(probe[2])) return { name: s, unit: probe[1] === 'V' ? 'V' : 'A' };
   const bracket = /^(.*?)\s*[([{]\s*([^()[\]{}]*?)\s*[)\]}]\s*$/.exec(s);
   // Bracketed text is a unit when it reads as one; `Voltage (CH1)` keeps its brackets in the name.
   if (bracket && bracket[1] !== '' && (parseUnit(bracket[2]) || /^[^\d\s]{1,4}$/.test(bracket[2]))) {

@@ -39,9 +39,9 @@ export function buildProgram(ctx: CommandContext): Command {
     'after',
     `
 Examples:
-  benchproof measure samples/captures/TQ-0412_mid_tri.csv
-  benchproof check samples/captures/TQ-0412_*.csv --spec samples/tq1-spec.yaml
-  benchproof record TQ-0412 --format md
+  benchproof measure samples/captures/FK-0101_mid.csv
+  benchproof check samples/captures/FK-0103_*.csv --spec samples/fh210-spec.yaml
+  benchproof record FK-0103 --format md
 
 Start with \`npm run demo\`; each command has --help with examples.`,
   );

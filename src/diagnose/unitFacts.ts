@@ -35,6 +35,10 @@ export interface UnitFacts {
   readonly frequencyTolerance: number | null;
   readonly design: DesignSection;
   readonly conditionOrder: readonly string[];
+  /** The spec's nominal frequency at each condition that has one (measured or not). */
+  readonly nominalFrequency: Readonly<Record<string, number>>;
+  /** The unit's overall statement. */
+  readonly statement: UnitVerdict['statement'];
 }
 
 export function unitFacts(spec: Spec, verdict: UnitVerdict): UnitFacts {
@@ -53,7 +57,12 @@ export function unitFacts(spec: Spec, verdict: UnitVerdict): UnitFacts {
   }
   const conditionOrder = spec.conditions.map((c) => c.name);
   const frequency = frequencyPoints(verdict);
-  return { unit: verdict.unit, outputs, frequency, frequencyTolerance: frequencyTolerance(verdict), design: spec.design ?? {}, conditionOrder };
+  const nominalFrequency: Record<string, number> = {};
+  for (const c of verdict.conditions) {
+    const k = c.checks.find((x) => x.measurement === 'frequency' && x.nominal !== null && x.nominal > 0);
+    if (k) nominalFrequency[c.condition] = k.nominal!;
+  }
+  return { unit: verdict.unit, outputs, frequency, frequencyTolerance: frequencyTolerance(verdict), design: spec.design ?? {}, conditionOrder, nominalFrequency, statement: verdict.statement };
 }
 
 function frequencyChecks(verdict: UnitVerdict): CheckVerdict[] {

@@ -79,7 +79,9 @@ export function writeCsv(channels: readonly CsvChannel[], layout: CsvLayoutOptio
 export function* writeCsvChunks(channels: readonly CsvChannel[], layout: CsvLayoutOptions = {}): Generator<string> {
   const n = checkChannels(channels);
   const { delimiter = ',', decimalMark = '.', header = true, xColumn = 'time', lineEnding = 'lf' } = layout;
-  if (delimiter === ',' && decimalMark === ',') throw new RangeError('writeCsv: decimal comma needs ";", tab or spaces');
+  if (delimiter === ',' && decimalMark === ',' && !layout.quote) {
+    throw new RangeError('writeCsv: a decimal comma needs ";", tab or spaces between fields, or quoted fields');
+  }
   const eol = lineEnding === 'crlf' ? '\r\n' : '\n';
   const sep = delimiter === ' ' ? ' '.repeat(layout.spaceRun ?? 3) : delimiter;
   const cell = (s: string): string => (layout.quote ? `"${s}"` : s);

@@ -30,8 +30,8 @@ export function registerMeasure(program: Command, ctx: CommandContext): Command 
       'after',
       `
 Examples:
-  benchproof measure samples/captures/TQ-0412_mid_tri.csv
-  benchproof measure samples/captures/TQ-0412_mid_pulse.csv --json
+  benchproof measure samples/captures/FK-0101_mid.csv
+  benchproof measure samples/captures/FK-0104_high.csv --json
   benchproof measure samples/captures/*.csv --channel 1`,
     )
     .action(async (files: string[], opts: MeasureOptions, cmd: Command) => {

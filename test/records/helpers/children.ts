@@ -5,8 +5,8 @@ import { fileURLToPath } from 'node:url';
 
 const here = (name: string): string => fileURLToPath(new URL(name, import.meta.url));
 
-export function spawnWriter(dataDir: string, prefix: string, count: number, mode: 'loop' | 'hang', startAt = 0): ChildProcess {
-  const args = [here('./writer.ts'), dataDir, prefix, String(count), mode, String(startAt)];
+export function spawnWriter(dataDir: string, prefix: string, count: number, mode: 'loop' | 'hang', barrierDir = ''): ChildProcess {
+  const args = [here('./writer.ts'), dataDir, prefix, String(count), mode, barrierDir];
   return spawn(process.execPath, ['--import', here('./registerTs.mjs'), ...args], {
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -15,13 +15,22 @@ export function spawnWriter(dataDir: string, prefix: string, count: number, mode
 export interface Exit {
   readonly code: number | null;
   readonly signal: NodeJS.Signals | null;
+  readonly stdout: string;
   readonly stderr: string;
 }
 
 export function exited(child: ChildProcess): Promise<Exit> {
+  let stdout = '';
   let stderr = '';
+  child.stdout?.on('data', (d: Buffer) => (stdout += d.toString()));
   child.stderr?.on('data', (d: Buffer) => (stderr += d.toString()));
-  return new Promise((resolve) => child.on('exit', (code, signal) => resolve({ code, signal, stderr })));
+  return new Promise((resolve) => child.on('close', (code, signal) => resolve({ code, signal, stdout, stderr })));
+}
+
+/** [first write began, last commit] of a `loop` writer, from its stdout. */
+export function writeSpan(out: string): [number, number] {
+  const rows = out.trim().split('\n').map((l) => l.split(' ').map(Number));
+  return [Math.min(...rows.map((r) => r[2])), Math.max(...rows.map((r) => r[3]))];
 }
 
 /** Resolves once the child has printed `lines` lines matching `pattern` on stdout. */

@@ -1,0 +1,143 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { readCapture } from '../../src/capture/index.js';
+import { synthesize, writeCsv } from '../../src/synth/index.js';
+import type { CsvChannel, CsvLayoutOptions } from '../../src/synth/index.js';
+import { expectWithin } from '../helpers/expectWithin.js';
+import { tempFolder } from './tempFiles.js';
+
+const write = tempFolder();
+// FH-210 Kestrel at "mid": 261.63 Hz triangle of 6.0 Vpp and a 0…10 V pulse (demo scenario, ours).
+const fs = 100_000;
+const tri = synthesize({ shape: 'triangle', frequency: 261.63, amplitude: 3, sampleRate: fs, samples: 2000, startTime: -0.01, seed: 7 });
+const pulse = synthesize({ shape: 'pulse', frequency: 261.63, amplitude: 5, sampleRate: fs, samples: 2000, startTime: -0.01, seed: 8 });
+const channels: CsvChannel[] = [
+  { name: 'CH1', unit: 'V', signal: tri },
+  { name: 'CH2', unit: 'mV', signal: pulse },
+];
+
+function maxError(a: Float64Array, b: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]));
+  return m;
+}
+
+/** Largest difference between read and written samples, against the precision they were written with. */
+function expectSamples(read: Float64Array, written: Float64Array, abs: number, source: string): void {
+  expect(read.length).toBe(written.length);
+  expectWithin(maxError(read, written), 0, { abs }, source);
+}
+
+async function roundTrip(name: string, layout: CsvLayoutOptions, options = {}) {
+  const path = write(name, writeCsv(channels, layout));
+  return readCapture(path, options);
+}
+
+const layouts: [string, CsvLayoutOptions][] = [
+  ['comma, header with units in parentheses', {}],
+  ['semicolon with decimal comma', { delimiter: ';', decimalMark: ',' }],
+  ['tab with decimal comma', { delimiter: '\t', decimalMark: ',' }],
+  ['runs of spaces', { delimiter: ' ', spaceRun: 4 }],
+  ['CRLF line ends and a BOM', { lineEnding: 'crlf', bom: true }],
+  ['units in brackets and time in ms', { unitStyle: 'brackets', timeName: 't', timeUnit: 'ms' }],
+  ['unit suffixes and time in µs', { unitStyle: 'suffix', timeName: 'time', timeUnit: 'µs' }],
+  ['every field quoted', { quote: true }],
+  ['a trailing delimiter on every row', { trailingDelimiter: true }],
+  ['fixed-point numbers', { format: 'fixed', precision: 7 }],
+  ['a preamble and upper-case exponents', { preamble: 'auto', upperCaseExponent: true }],
+];
+
+describe('readCapture on layouts written by writeCsv', () => {
+  for (const [label, layout] of layouts) {
+    it(`recovers samples, interval and start time from ${label}`, async () => {
+      const c = await roundTrip(`${label.replace(/\W+/g, '_')}.csv`, layout);
+      expect(c.channels.map((ch) => ch.name)).toEqual(['CH1', 'CH2']);
+      expect(c.length).toBe(2000);
+      // Half a unit in the last written digit: 9 significant digits of ≤ 3 V (or ≤ 10 000 mV), or 7 decimals.
+      const fixed = layout.format === 'fixed';
+      expectSamples(c.channels[0].samples, tri.values, fixed ? 0.5e-7 : 0.5e-8 * 3, 'rounding to the written precision');
+      expectSamples(c.channels[1].samples, pulse.values, fixed ? 0.5e-10 : 0.5e-8 * 10, 'rounding to the written precision (mV)');
+      expectWithin(c.sampleInterval, 1 / fs, { rel: 1e-6 }, 'synthesizer sample rate 100 kHz');
+      expectWithin(c.startTime, -0.01, { abs: 1e-9 }, 'synthesizer start time');
+      expect(c.channels[1].unit).toBe('V');
+      expect(c.layout.resampled).toBe(false);
+      expect(c.warnings).toEqual([]);
+    });
+  }
+
+  it('reports the layout it found: delimiter, decimal mark, header line, units, line ending and BOM', async () => {
+    const c = await roundTrip('report.csv', { delimiter: ';', decimalMark: ',', lineEnding: 'crlf', bom: true, preamble: 'auto' });
+    expect(c.layout).toMatchObject({ delimiter: ';', decimalMark: ',', headerLine: 5, firstDataLine: 6, lastDataLine: 2005, lineEnding: 'crlf', bom: true, timeColumn: 0, timing: 'time-column' });
+    expect(c.layout.columns.map((col) => [col.name, col.unit, col.siUnit])).toEqual([['Time', 's', 's'], ['CH1', 'V', 'V'], ['CH2', 'mV', 'V']]);
+    expect(c.channels[1].displayUnit).toBe('mV');
+    expect(c.metadata['sampling interval']).toBe('1,00000000e-05');
+  });
+
+  it('takes the interval from the preamble when there is no time column', async () => {
+    const c = await roundTrip('no_x.csv', { xColumn: 'none', preamble: 'auto' });
+    expect(c.layout.timing).toBe('metadata');
+    expectWithin(c.sampleInterval, 1 / fs, { rel: 1e-8 }, 'preamble as written by writeCsv');
+    expectWithin(c.startTime, -0.01, { abs: 1e-12 }, 'preamble first sample time');
+  });
+
+  it('takes the interval from --sample-rate for an index column without metadata', async () => {
+    const c = await roundTrip('index.csv', { xColumn: 'index', indexStart: 1 }, { sampleRate: fs });
+    expect(c.layout.indexColumn).toBe(0);
+    expect(c.layout.timing).toBe('option');
+    expectWithin(c.sampleInterval, 1 / fs, { rel: 1e-12 }, 'the flag');
+  });
+
+  it('names headerless channels ch1…chN and finds the time column because it rises on every row', async () => {
+    const c = await roundTrip('noheader.csv', { header: false });
+    expect(c.layout.headerLine).toBeNull();
+    expect(c.layout.timeColumn).toBe(0);
+    expect(c.channels.map((ch) => ch.name)).toEqual(['ch1', 'ch2']);
+  });
+
+  it('keeps only the channel --channel names, by name or by 1-based number', async () => {
+    const byName = await roundTrip('sel1.csv', {}, { channel: 'ch2' });
+    expect(byName.channels.map((ch) => ch.name)).toEqual(['CH2']);
+    const byNumber = await roundTrip('sel2.csv', {}, { channel: '1' });
+    expect(byNumber.channels.map((ch) => ch.name)).toEqual(['CH1']);
+    expectSamples(byNumber.channels[0].samples, tri.values, 1.5e-8, 'rounding to 9 significant digits');
+  });
+});
+
+describe('readCapture round trip (fast-check)', () => {
+  const layoutArb = fc.record({
+    delimiter: fc.constantFrom<',' | ';' | '\t' | ' '>(',', ';', '\t', ' '),
+    comma: fc.boolean(),
+    header: fc.boolean(),
+    unitStyle: fc.constantFrom<'parens' | 'brackets' | 'suffix' | 'none'>('parens', 'brackets', 'suffix', 'none'),
+    lineEnding: fc.constantFrom<'lf' | 'crlf'>('lf', 'crlf'),
+    bom: fc.boolean(),
+    preamble: fc.boolean(),
+    precision: fc.integer({ min: 6, max: 15 }),
+    rows: fc.integer({ min: 3, max: 300 }),
+    amplitude: fc.double({ min: 1e-3, max: 1e3, noNaN: true }),
+    seed: fc.integer({ min: 1, max: 1000 }),
+  });
+
+  it('preserves every sample to the written precision across random layouts', async () => {
+    let k = 0;
+    await fc.assert(
+      fc.asyncProperty(layoutArb, async (l) => {
+        const sig = synthesize({ shape: 'sine', frequency: 50, amplitude: l.amplitude, sampleRate: 10_000, samples: l.rows, noise: l.amplitude / 10, seed: l.seed });
+        const decimalMark = l.comma && l.delimiter !== ',' ? ',' : '.';
+        const text = writeCsv([{ name: 'probe', unit: 'V', signal: sig }, { name: 'ref', unit: 'mV', signal: sig }], {
+          delimiter: l.delimiter, decimalMark, header: l.header, unitStyle: l.unitStyle, lineEnding: l.lineEnding,
+          bom: l.bom, preamble: l.preamble ? 'auto' : undefined, precision: l.precision,
+        });
+        const c = await readCapture(write(`prop${k++}.csv`, text));
+        const peak = l.amplitude * 2;
+        // Relative rounding of precision significant digits, on values up to ~2× the amplitude.
+        expectSamples(c.channels[0].samples, sig.values, peak * 10 ** (1 - l.precision), 'rounding to the written precision');
+        expectWithin(c.sampleInterval, 1e-4, { rel: 1e-6 }, 'synthesizer rate 10 kHz');
+        const unitsInHeader = l.header && l.unitStyle !== 'none';
+        expect(c.channels[1].unit).toBe(unitsInHeader || l.preamble ? 'V' : '');
+        if (unitsInHeader) expectSamples(c.channels[1].samples, sig.values, peak * 10 ** (1 - l.precision), 'mV written, V read');
+      }),
+      { numRuns: 60 },
+    );
+  });
+});
