@@ -54,7 +54,25 @@ export function summarizeProfile(profile) {
     for (const c of n.children ?? []) addTotals(c, stack);
   };
   addTotals(rootNode.id, new Set());
-  return { totalMs: all, rows: [...rows.values()] };
+  return { totalMs: all, rows: [...rows.values()], startupMs: startupTime(profile, byId, keyOf) };
+}
+
+/** Milliseconds from the start of the profile to the first sample inside the capture or analysis stage. */
+function startupTime(profile, byId, keyOf) {
+  const inStage = new Map();
+  const mark = (id, under) => {
+    const n = byId.get(id);
+    const here = under || /^src\/(capture|analysis)\//.test(keyOf(n));
+    inStage.set(id, here);
+    for (const c of n.children ?? []) mark(c, here);
+  };
+  mark(profile.nodes[0].id, false);
+  let t = 0;
+  for (let i = 0; i < profile.samples.length; i++) {
+    t += (profile.timeDeltas[i] ?? 0) / 1000;
+    if (inStage.get(profile.samples[i])) return t;
+  }
+  return null;
 }
 
 /** Self time grouped by where it is spent: our stages, packages, module loading, GC, the rest. */
@@ -88,10 +106,12 @@ async function main() {
   if (!r.ok) process.stderr.write(`note: the run failed (${r.error}); profiling what ran\n`);
   const name = readdirSync(dir).find((f) => f.endsWith('.cpuprofile'));
   if (!name) throw new Error(`no profile written in ${dir}`);
-  const { totalMs, rows } = summarizeProfile(JSON.parse(readFileSync(join(dir, name), 'utf8')));
+  const { totalMs, rows, startupMs } = summarizeProfile(JSON.parse(readFileSync(join(dir, name), 'utf8')));
   const pct = (ms) => `${((100 * ms) / totalMs).toFixed(1).padStart(5)} %`;
   const line = (x, ms) => `${pct(ms)}  ${ms.toFixed(0).padStart(6)} ms  ${x.key}`;
-  const out = [`profile of ${file}: ${(totalMs / 1000).toFixed(2)} s sampled, wall ${r.wall.toFixed(2)} s`, '', 'self time:'];
+  const out = [`profile of ${file}: ${(totalMs / 1000).toFixed(2)} s sampled, wall ${r.wall.toFixed(2)} s`];
+  if (startupMs !== null) out.push(`start-up (process start to the first capture/analysis sample: module loading, CLI set-up): ${startupMs.toFixed(0)} ms (${((100 * startupMs) / totalMs).toFixed(1)} %)`);
+  out.push('', 'self time:');
   out.push(...rows.sort((a, b) => b.self - a.self).slice(0, top).map((x) => line(x, x.self)));
   out.push('', 'self time by area:');
   out.push(...byArea(rows).filter(([, ms]) => ms >= totalMs / 200).map(([k, ms]) => line({ key: k }, ms)));

@@ -47,33 +47,7 @@ export function assembleCapture(a: AssembleInput): Capture {
     firstDataLine: sniffed.firstDataLine,
   });
   const warnings: CaptureWarning[] = [...timing.warnings, ...fileWarnings(a)];
-  const channels = a.kept.map((col, k): CaptureChannel => {
-    const layout = roles.columns[col];
-    const samples = timing.channels[k];
-    const clipped = detectClipping(samples);
-    const invalidCount = sink.invalid[k];
-    if (invalidCount > 0) {
-      warnings.push({
-        code: 'invalid-samples',
-        channel: layout.name,
-        line: sink.firstInvalid[k],
-        message: `${invalidCount} invalid sample(s) in ${layout.name} (empty, NaN, infinite or overflow markers) are kept as gaps, first on line ${sink.firstInvalid[k]}`,
-      });
-    }
-    if (clipped) {
-      const where = [clipped.high ? `${clipped.high} at the top` : '', clipped.low ? `${clipped.low} at the bottom` : ''].filter(Boolean).join(' and ');
-      warnings.push({ code: 'clipped', channel: layout.name, message: `${layout.name} is clipped: ${where} of the record sit pinned at its extreme; levels there are not measured` });
-    }
-    return {
-      name: layout.name,
-      unit: layout.siUnit,
-      displayUnit: layout.unit,
-      samples,
-      invalidCount,
-      ...(sink.firstInvalid[k] !== undefined ? { firstInvalidLine: sink.firstInvalid[k] } : {}),
-      ...(clipped ? { clipped } : {}),
-    };
-  });
+  const channels = a.kept.map((col, k) => channelOf(a, col, k, timing.channels[k], warnings));
   return {
     path,
     sha256: a.source.digest(),
@@ -99,6 +73,35 @@ export function assembleCapture(a: AssembleInput): Capture {
     length: channels[0].samples.length,
     channels,
     warnings,
+  };
+}
+
+/** One kept channel with its invalid-sample count and clipping check; their warnings go to `warnings`. */
+function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Array, warnings: CaptureWarning[]): CaptureChannel {
+  const layout = a.roles.columns[col];
+  const invalidCount = a.sink.invalid[k];
+  const firstInvalidLine = a.sink.firstInvalid[k];
+  if (invalidCount > 0) {
+    warnings.push({
+      code: 'invalid-samples',
+      channel: layout.name,
+      line: firstInvalidLine,
+      message: `${invalidCount} invalid sample(s) in ${layout.name} (empty, NaN, infinite or overflow markers) are kept as gaps, first on line ${firstInvalidLine}`,
+    });
+  }
+  const clipped = detectClipping(samples);
+  if (clipped) {
+    const where = [clipped.high ? `${clipped.high} at the top` : '', clipped.low ? `${clipped.low} at the bottom` : ''].filter(Boolean).join(' and ');
+    warnings.push({ code: 'clipped', channel: layout.name, message: `${layout.name} is clipped: ${where} of the record sit pinned at its extreme; levels there are not measured` });
+  }
+  return {
+    name: layout.name,
+    unit: layout.siUnit,
+    displayUnit: layout.unit,
+    samples,
+    invalidCount,
+    ...(firstInvalidLine !== undefined ? { firstInvalidLine } : {}),
+    ...(clipped ? { clipped } : {}),
   };
 }
 

@@ -30,8 +30,8 @@ export class ByteScanner {
   private readonly num: NumberScanner;
   private readonly delim: number;
   private readonly spaces: boolean;
-  private readonly tabIsBlank: boolean;
-  private readonly crIsBlank: boolean;
+  /** 1 for the bytes that pad fields: space, tab unless it delimits, CR unless it ends lines. */
+  private readonly blank = new Uint8Array(256);
   private readonly term: number;
   private readonly vals: Float64Array;
   private readonly kinds: Uint8Array;
@@ -46,9 +46,10 @@ export class ByteScanner {
     this.num = new NumberScanner(layout.decimalMark.charCodeAt(0));
     this.delim = layout.delimiter.charCodeAt(0);
     this.spaces = layout.delimiter === ' ';
-    this.tabIsBlank = layout.delimiter !== '\t';
     this.term = layout.terminator;
-    this.crIsBlank = layout.terminator !== CR;
+    this.blank[SPACE] = 1;
+    if (layout.delimiter !== '\t') this.blank[TAB] = 1;
+    if (layout.terminator !== CR) this.blank[CR] = 1;
     this.maxFields = layout.columnCount + 2;
     this.vals = new Float64Array(this.maxFields);
     this.kinds = new Uint8Array(this.maxFields);
@@ -93,7 +94,7 @@ export class ByteScanner {
   }
 
   private isBlank(c: number): boolean {
-    return c === SPACE || (c === TAB && this.tabIsBlank) || (c === CR && this.crIsBlank);
+    return this.blank[c] === 1;
   }
 
   /** Reads the line starting at `s` and returns the index of its terminator (or `limit`). */

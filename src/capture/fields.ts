@@ -15,6 +15,7 @@ export interface SplitLine {
 
 export function splitFields(line: string, delimiter: Delimiter): SplitLine {
   if (delimiter === ' ') return splitSpaces(line);
+  if (!line.includes('"')) return { fields: line.split(delimiter).map((f) => f.trim()), complexQuotes: false, quoted: false };
   const fields: string[] = [];
   let cur = '';
   let inQuotes = false;

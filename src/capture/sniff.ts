@@ -15,6 +15,7 @@ import type { SampleLine, SampleLines } from './lines.js';
 import { NUMBER, parseNumberText, TEXT } from './scanNumber.js';
 
 export const MAX_COLUMNS = 1024;
+const CHOOSE_LINES = 400;
 // A comma for both only reads quoted fields ("0,5","1,25"); unquoted it reads like [',', '.'].
 const PAIRS: readonly (readonly [Delimiter, DecimalMark])[] = [
   [',', '.'], [';', '.'], [';', ','], ['\t', '.'], ['\t', ','], [' ', '.'], [' ', ','], [',', ','],
@@ -49,7 +50,11 @@ interface Reading {
 export function sniffLayout(s: SampleLines, file: string): Sniffed {
   const { lines } = s;
   if (lines.length === 0) throw noData(file, 'empty', 1, s.wholeFile);
-  const readings = PAIRS.map((pair) => readAs(lines, pair)).filter((r): r is Reading => r !== null);
+  // The layout is chosen on the first lines (enough for a preamble and a block of data); the
+  // whole 64 KiB is used only when they hold no data.
+  const first = lines.slice(0, CHOOSE_LINES);
+  let readings = PAIRS.map((pair) => readAs(first, pair)).filter((r): r is Reading => r !== null);
+  if (readings.length === 0 && lines.length > first.length) readings = PAIRS.map((pair) => readAs(lines, pair)).filter((r): r is Reading => r !== null);
   if (readings.length === 0) throw noData(file, headerOnly(lines, s.wholeFile) ? 'header-only' : 'no-numeric-data', lines[lines.length - 1].line + 1, s.wholeFile);
   const chosen = choose(readings, lines, file);
   const [delimiter, decimalMark] = chosen.pair;

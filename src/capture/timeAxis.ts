@@ -44,7 +44,17 @@ export class TimeAxis {
     else {
       const step = t - this.prev;
       if (!(step > 0)) throw this.notIncreasing(t, line, step);
-      if (this.times === null) this.check(t, n, line);
+      // The check is written out here, not called, so that no boxed double is passed per row.
+      if (this.times === null && n === 1) this.d = step;
+      else if (this.times === null) {
+        const d = this.d;
+        const tol = Math.min(3 * this.maxQ + 1e-4 * d + 4e-16 * Math.abs(t), 0.5 * d);
+        if (Math.abs(t - (this.t0 + n * d)) > tol) this.storeFrom(n, line);
+        else if (n === this.nextAnchor) {
+          this.d = (t - this.t0) / n;
+          this.nextAnchor *= 2;
+        }
+      }
     }
     if (this.times !== null) {
       if (n === this.times.length) this.grow();
@@ -61,21 +71,11 @@ export class TimeAxis {
     return { uniform: true, t0: this.t0, step, count: this.count };
   }
 
-  private check(t: number, n: number, line: number): void {
-    if (n === 1) {
-      this.d = t - this.t0;
-      return;
-    }
-    const d = this.d;
-    const tol = Math.min(3 * this.maxQ + 1e-4 * d + 4e-16 * Math.abs(t), 0.5 * d);
-    if (Math.abs(t - (this.t0 + n * d)) > tol) {
-      this.firstIrregularLine = line;
-      this.times = new Float64Array(Math.max(1024, n * 2));
-      for (let i = 0; i < n; i++) this.times[i] = this.t0 + i * d;
-    } else if (n === this.nextAnchor) {
-      this.d = (t - this.t0) / n;
-      this.nextAnchor *= 2;
-    }
+  /** Rows 0…n−1 passed the check: rebuild them as t0 + i·d and store every row from here on. */
+  private storeFrom(n: number, line: number): void {
+    this.firstIrregularLine = line;
+    this.times = new Float64Array(Math.max(1024, n * 2));
+    for (let i = 0; i < n; i++) this.times[i] = this.t0 + i * this.d;
   }
 
   private grow(): void {

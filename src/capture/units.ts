@@ -49,7 +49,7 @@ export function parseUnit(raw: string): UnitInfo | null {
 export function parseHeaderCell(cell: string): { name: string; unit: string } {
   const s = cell.trim();
   // Circuit-simulator probes: V(node) is a voltage, I(part) a current; the whole cell is the name.
-  const probe = /^([VI])\((.+)\)$/.exec(s);
+  const probe = /^([VI])\(([^()]+)\)$/.exec(s);
   if (probe && !parseUnit(probe[2])) return { name: s, unit: probe[1] === 'V' ? 'V' : 'A' };
   const bracket = /^(.*?)\s*[([{]\s*([^()[\]{}]*?)\s*[)\]}]\s*$/.exec(s);
   // Bracketed text is a unit when it reads as one; `Voltage (CH1)` keeps its brackets in the name.

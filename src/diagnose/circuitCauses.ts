@@ -19,7 +19,7 @@ import type { CoreReading } from './coreReadings.js';
 import { scoreFrom } from './rule.js';
 import type { UnitFacts } from './unitFacts.js';
 
-/** Pattern-rule causes that each part's cause takes over. */
+/** Pattern-rule causes that each part's cause takes over, keeping their evidence. */
 export const REFINES: Readonly<Record<PartId, readonly string[]>> = {
   'timing-capacitor': ['timing-scale'],
   'reference-current': ['timing-scale'],
@@ -32,7 +32,23 @@ export const REFINES: Readonly<Record<PartId, readonly string[]>> = {
   'logic-loading': ['weak-logic-high'],
 };
 
-const pm = (x: number): string => `${x >= 0 ? '+' : '−'}${Math.abs(x * 100).toFixed(1)} %`;
+/**
+ * Pattern-rule causes a part also accounts for without being what they name: any slope or swing
+ * fault moves the frequency by one ratio at every condition, so "timing-scale" is its consequence.
+ */
+export const ACCOUNTS_FOR: Readonly<Record<PartId, readonly string[]>> = {
+  'timing-capacitor': [],
+  'reference-current': [],
+  'charge-source': ['timing-scale'],
+  'discharge-sink': ['timing-scale'],
+  'current-mirror': ['timing-scale'],
+  'threshold-divider': ['timing-scale'],
+  'threshold-centre': [],
+  'switching-delay': ['threshold-levels'],
+  'logic-loading': [],
+};
+
+const pm = (x: number): string => `${x >= -0.0005 ? '+' : '−'}${Math.abs(x * 100).toFixed(1)} %`;
 
 /** What was seen against the design, averaged over conditions, in one line. */
 function seen(obs: readonly Observation[]): string {
@@ -79,8 +95,8 @@ export function circuitCauses(facts: UnitFacts, readings: readonly CoreReading[]
     const clear = Math.abs(lead.fit.theta) > 3 * lead.fit.uTheta && Math.abs(lead.fit.theta) >= 0.01;
     if (!clear || !(lead.multiple > 1 || (facts.statement !== 'pass' && lead.multiple >= 0.5))) continue;
     const score = Math.round(step.share * scoreFrom(lead.fit.theta, 0.01, 0.05) * 100) / 100;
-    const common = [seen(obs), `${PARTS[lead.fit.part].short} explains ${Math.round(step.share * 100)} % of that deviation (χ² of the captures against the design)`];
-    groups.push(ranked.map((m, i) => causeFor(m, ranked, common, readings, Math.max(0.01, score - 0.01 * i))));
+    const common = (m: Ranked): string[] => [seen(obs), `${PARTS[m.fit.part].short} explains ${Math.round(step.share * 100)} % of that deviation (χ² of the captures against the design)`];
+    groups.push(ranked.map((m, i) => causeFor(m, ranked, common(m), readings, Math.max(0.01, score - 0.01 * i))));
   }
   return groups;
 }
@@ -112,11 +128,17 @@ function causeFor(m: Ranked, group: readonly Ranked[], common: readonly string[]
 export function mergeCauses(pattern: readonly Cause[], groups: readonly Cause[][]): Cause[] {
   const taken = new Set<string>();
   const merged = groups.map((group) => {
-    const refined = pattern.filter((p) => !taken.has(p.id) && group.some((c) => REFINES[c.id as PartId].includes(p.id)));
+    const has = (table: typeof REFINES, p: Cause): boolean => !taken.has(p.id) && group.some((c) => table[c.id as PartId].includes(p.id));
+    const refined = pattern.filter((p) => has(REFINES, p));
     refined.forEach((p) => taken.add(p.id));
-    if (refined.length === 0) return group;
+    const accounted = pattern.filter((p) => has(ACCOUNTS_FOR, p));
+    accounted.forEach((p) => taken.add(p.id));
+    if (refined.length + accounted.length === 0) return group;
     const top = Math.max(group[0].score, ...refined.map((p) => p.score));
-    const extra = refined.flatMap((p) => p.evidence.map((e) => `${e} (pattern: ${p.title})`));
+    const extra = [
+      ...refined.flatMap((p) => p.evidence.map((e) => `${e} (pattern: ${p.title})`)),
+      ...accounted.map((p) => `this also accounts for the pattern "${p.title}": ${p.evidence[0]}`),
+    ];
     return group.map((c, i) => ({ ...c, score: Math.max(0.01, Math.round((top - 0.01 * i) * 100) / 100), ...(i === 0 ? { evidence: [...c.evidence, ...extra] } : {}) }));
   });
   const rest = pattern.filter((p) => !taken.has(p.id));

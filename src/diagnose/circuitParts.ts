@@ -44,7 +44,7 @@ function position(value: number, d: DesignValue, noun: string): string {
 }
 
 const multiple = (value: number, d: DesignValue | undefined): number | null => (d ? Math.abs(value - d.nominal) / ((d.upper - d.lower) / 2) : null);
-const pm = (x: number, digits = 1): string => `${x >= 0 ? '+' : '−'}${Math.abs(x * 100).toFixed(digits)} %`;
+const pm = (x: number, digits = 1): string => `${x >= -0.5 * 10 ** -(digits + 2) ? '+' : '−'}${Math.abs(x * 100).toFixed(digits)} %`;
 
 /** The condition where a design current holds (its `at`), or the first condition with readings. */
 function refCondition(ctx: PartContext): string {
@@ -104,8 +104,11 @@ export const PARTS: Readonly<Record<PartId, PartText>> = {
       const { chargeCurrent: ic, dischargeCurrent: id } = ctx.design;
       const allowed = ic ? Math.hypot(halfRel(ic), halfRel(id ?? ic)) : null;
       const sink = Math.exp(-theta) - 1;
+      const at = ctx.readings.find((r) => r.condition === refCondition(ctx) && r.rise && r.fall);
+      const c = ctx.design.timingCapacitance?.nominal;
+      const amps = at && c ? `charging at ${q(c * at.rise!.value, 'A')}, discharging at ${q(c * at.fall!.value, 'A')} at ${at.condition} (taking C = ${q(c, 'F', 3)}): ` : '';
       return {
-        figure: `the sink runs ${Math.abs(sink * 100).toFixed(1)} % ${sink > 0 ? 'hot' : 'cold'} against the source${allowed ? ` (the current tolerances allow ± ${(allowed * 100).toFixed(1)} %)` : ''}`,
+        figure: `${amps}the sink runs ${Math.abs(sink * 100).toFixed(1)} % ${sink > 0 ? 'hot' : 'cold'} against the source${allowed ? ` (the current tolerances allow ± ${(allowed * 100).toFixed(1)} %)` : ''}`,
         toleranceMultiple: allowed ? Math.abs(sink) / allowed : null,
       };
     },

@@ -44,7 +44,7 @@ export function designSwing(design: DesignSection): DesignValue | undefined {
 }
 
 const q = (v: number, unit: string, digits = 4): string => formatQuantity(v, unit, digits);
-const pctText = (x: number): string => `${x >= 0 ? '+' : '−'}${Math.abs(x * 100).toFixed(1)} %`;
+const pctText = (x: number): string => `${x >= -0.0005 ? '+' : '−'}${Math.abs(x * 100).toFixed(1)} %`;
 
 function currentFigures(r: CoreReading, design: DesignSection): { figures: CircuitFigure[]; summary: string[] } {
   const figures: CircuitFigure[] = [];
@@ -53,7 +53,7 @@ function currentFigures(r: CoreReading, design: DesignSection): { figures: Circu
   const kc = r.charge && design.chargeCurrent ? r.charge.value / design.chargeCurrent.nominal : 1;
   const dd = design.dischargeCurrent ?? design.chargeCurrent;
   const kd = r.discharge && dd ? r.discharge.value / dd.nominal : 1;
-  const taking = c ? `taking C = ${q(c.nominal, 'F', 3)} (design; its tolerance dominates U)` : '';
+  const taking = c ? `taking C = ${q(c.nominal, 'F', 3)} from the design; its ± ${tolText(c)} tolerance dominates U` : '';
   const ich = c && r.rise ? currentFromSlope(r.rise, designEstimate(c)) : null;
   const idis = c && r.fall ? currentFromSlope(r.fall, designEstimate(c)) : null;
   if (ich) figures.push(figure('chargeCurrent', 'charge current, C·dV/dt of the rising ramp', ich, 'A', r.charge ? bandOf(design.chargeCurrent, kc) : undefined, taking));
@@ -66,8 +66,8 @@ function currentFigures(r: CoreReading, design: DesignSection): { figures: Circu
     const band = designed !== undefined && tol !== undefined ? { nominal: designed * 100, lower: (designed - tol) * 100, upper: (designed + tol) * 100 } : undefined;
     figures.push(figure('sinkVsSource', 'discharge vs charge current (slope ratio; C cancels)', { value: (ratio - 1) * 100, u: u * 100 }, '%', band));
     const mismatch = ratio - 1;
-    const how = Math.abs(mismatch) < 0.01 ? `matched within ${Math.abs(mismatch * 100).toFixed(1)} %` : `the sink runs ${Math.abs(mismatch * 100).toFixed(1)} % ${mismatch > 0 ? 'hot' : 'cold'}`;
-    if (ich && idis) summary.push(`charging at ${q(ich.value, 'A')}, discharging at ${q(idis.value, 'A')} (${taking.replace(' (design; its tolerance dominates U)', '')}): ${how}`);
+    const how = Math.abs(mismatch) < 0.01 ? `matched within ${Math.max(0.1, Math.abs(mismatch * 100)).toFixed(1)} %` : `the sink runs ${Math.abs(mismatch * 100).toFixed(1)} % ${mismatch > 0 ? 'hot' : 'cold'}`;
+    if (ich && idis && c) summary.push(`charging at ${q(ich.value, 'A')}, discharging at ${q(idis.value, 'A')} (taking C = ${q(c.nominal, 'F', 3)}): ${how}`);
   }
   if (r.rise && r.fall && r.charge && r.discharge && c) {
     const ceff = capacitanceFromRamps(r.charge, r.discharge, r.rise, r.fall);
@@ -110,7 +110,8 @@ function frequencyFigures(r: CoreReading, design: DesignSection): { figures: Cir
   const figures = [figure('designFrequency', `frequency from the design values, ${how}`, fx, 'Hz', undefined, 'U from the design tolerances')];
   const summary: string[] = [];
   if (r.frequency) {
-    figures.push(figure('frequency', 'measured frequency vs the design values', r.frequency, 'Hz', { nominal: fx.value, lower: fx.value - 2 * fx.u, upper: fx.value + 2 * fx.u }, 'design band: ± U of the design-value frequency'));
+    const f = figure('frequency', 'measured frequency vs the design values', r.frequency, 'Hz');
+    figures.push({ ...f, design: fx.value, deviation: (r.frequency.value / fx.value - 1) * 100 });
     summary.push(`frequency ${q(r.frequency.value, 'Hz', 5)} measured vs ${q(fx.value, 'Hz', 5)} from the design values (${pctText(r.frequency.value / fx.value - 1)})`);
   }
   return { figures, summary };

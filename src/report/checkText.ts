@@ -1,12 +1,13 @@
 /**
  * `benchproof check` in the terminal: per unit, per condition and output, a table of check,
  * measured ± U, limits, margin and statement (a word; colour only adds emphasis), then notes and the
- * user's hints, then the ranked likely causes with evidence and the next measurement, and one overall
- * line per unit.
+ * user's hints, then the circuit view (when the spec has a design section), the ranked likely causes
+ * with evidence and the next measurement, and one overall line per unit.
  */
 import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
 import { formatLimits, formatMeasured, formatQuantity } from './unitsSi.js';
+import { renderCircuitView } from './circuitText.js';
 
 /** One checked unit: its verdict and the likely causes. This is what `check` prints, stores and reports. */
 export interface UnitCheck {
@@ -36,6 +37,7 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string
       lines.push(...table(cond.checks.filter((c) => c.output === output), style), '');
     }
   }
+  lines.push(...renderCircuitView(diagnosis.circuit, style));
   lines.push(...renderCauses(diagnosis, verdict.statement, style));
   lines.push(overallLine(verdict, style), '');
   return lines.join('\n');
@@ -69,6 +71,7 @@ function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextSty
   diagnosis.causes.forEach((c, i) => {
     out.push(`  ${i + 1}. ${c.title}  ${style.dim(`(weight ${c.score.toFixed(2)})`)}`);
     for (const e of c.evidence) out.push(`     evidence: ${e}`);
+    if (c.indistinguishableFrom?.length) out.push(`     the captures cannot tell it from: ${c.indistinguishableFrom.map((id) => diagnosis.causes.find((x) => x.id === id)?.title ?? id).join('; ')}`);
     out.push(`     confirm:  ${c.confirm}`);
     if (c.where) out.push(`     look at:  ${c.where}`);
   });

@@ -16,7 +16,7 @@ function channelFigures(rec: UnitRecord, condition: string, file: string, ch: Ch
   }
   if (ch.plot?.spectrum || ch.harmonics.length) {
     const svg = renderSpectrumSvg(ch.plot?.spectrum, ch.harmonics, `Spectrum: ${name}`, ch.shape);
-    if (svg) figs.push(`<figure>${svg}<figcaption>Spectrum, ${esc(name)}: measured harmonics numbered${ch.harmonics.some((h) => h.idealDbc !== undefined) ? `, ideal ${esc(ch.shape)} series as squares beside them` : ''}${ch.harmonicsMethod ? ` (${esc(ch.harmonicsMethod)})` : ''}.</figcaption></figure>`);
+    if (svg) figs.push(`<figure>${svg}<figcaption>Spectrum, ${esc(name)}: measured harmonics numbered${ch.harmonics.some((h) => h.idealDbc !== undefined) ? `, ideal ${esc(ch.shape)} series as squares beside them` : ''}${ch.plot?.spectrum ? `; ${esc(ch.plot.spectrum.window)} window` : ''}${ch.harmonicsMethod ? `; harmonics by ${esc(ch.harmonicsMethod)}` : ''}.</figcaption></figure>`);
   }
   return figs.join('');
 }

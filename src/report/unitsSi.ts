@@ -42,7 +42,8 @@ function trimExponent(x: number, digits: number): string {
 export function formatMeasured(v: number | null | undefined, U: number | null | undefined, unit: string): string {
   if (v === null || v === undefined || !Number.isFinite(v)) return '—';
   if (U === null || U === undefined || !Number.isFinite(U) || U <= 0) return formatQuantity(v, unit);
-  let exp = prefixExponent(v, unit);
+  // The prefix fits the larger of value and U, so a small value with a wide U reads `−0.1 mV ± 1.8 mV`.
+  let exp = prefixExponent(Math.max(Math.abs(v), U), unit);
   const decimalsAt = (e: number): number => Math.max(0, 1 - Math.floor(Math.log10(U / 10 ** e)));
   while (decimalsAt(exp) > 3 && exp > 0) exp -= 3;
   const decimals = decimalsAt(exp);

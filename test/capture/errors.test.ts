@@ -84,6 +84,12 @@ describe('readCapture refuses bad input with a BenchError naming file, line and 
     expect((await failure(write('spiky.csv', rows.join('\n')))).code).toBe('capture.resample-too-large');
   });
 
+  it('gives capture.ragged-row with its line from the papaparse path (quoted fields holding the delimiter)', async () => {
+    const rows = ['"Time (s)","CH1 (V)"', ...Array.from({ length: 8 }, (_, i) => `"${i},0e-5","${i},25"`)];
+    rows[5] = '"4,0e-5"';
+    expect(await failure(write('quoted-ragged.csv', `${rows.join('\n')}\n`))).toMatchObject({ code: 'capture.ragged-row', line: 6 });
+  });
+
   it('pins the wording a user sees for a capture without a time base', async () => {
     const f = await failure(bad('no_time_base.csv'));
     expect(f.message.replace(bad('no_time_base.csv'), '<file>')).toMatchInlineSnapshot(`

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 import { readCapture } from '../../src/capture/index.js';
 import { synthesize, writeCsv } from '../../src/synth/index.js';
 import type { CsvChannel, CsvLayoutOptions } from '../../src/synth/index.js';
@@ -7,6 +9,7 @@ import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';
 
 const write = tempFolder();
+const sha256 = (path: string): string => createHash('sha256').update(readFileSync(path)).digest('hex');
 // FH-210 Kestrel at "mid": 261.63 Hz triangle of 6.0 Vpp and a 0…10 V pulse (demo scenario, ours).
 const fs = 100_000;
 const tri = synthesize({ shape: 'triangle', frequency: 261.63, amplitude: 3, sampleRate: fs, samples: 2000, startTime: -0.01, seed: 7 });
@@ -118,7 +121,7 @@ describe('readCapture round trip (fast-check)', () => {
     seed: fc.integer({ min: 1, max: 1000 }),
   });
 
-  it('preserves every sample to the written precision across random layouts', async () => {
+  it('preserves every sample to the written precision across random layouts and leaves the file unchanged', async () => {
     let k = 0;
     await fc.assert(
       fc.asyncProperty(layoutArb, async (l) => {
@@ -128,7 +131,11 @@ describe('readCapture round trip (fast-check)', () => {
           delimiter: l.delimiter, decimalMark, header: l.header, unitStyle: l.unitStyle, lineEnding: l.lineEnding,
           bom: l.bom, preamble: l.preamble ? 'auto' : undefined, precision: l.precision,
         });
-        const c = await readCapture(write(`prop${k++}.csv`, text));
+        const path = write(`prop${k++}.csv`, text);
+        const before = sha256(path);
+        const c = await readCapture(path);
+        // The input is never modified, and the digest is of the stored bytes.
+        expect([sha256(path), c.sha256]).toEqual([before, before]);
         const peak = l.amplitude * 2;
         // Relative rounding of precision significant digits, on values up to ~2× the amplitude.
         expectSamples(c.channels[0].samples, sig.values, peak * 10 ** (1 - l.precision), 'rounding to the written precision');

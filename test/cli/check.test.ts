@@ -3,6 +3,7 @@ import { copyFileSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../helpers/cliHarness.js';
+import { expectWithin } from '../helpers/expectWithin.js';
 
 // Demo captures (invented scenario, src/synth/scenario.ts) and the demo spec in samples/.
 const SPEC = 'samples/fh210-spec.yaml';
@@ -22,22 +23,33 @@ beforeAll(() => {
 
 describe('benchproof check on the demo captures', () => {
   it('exits 0 and prints PASS for a good unit', async () => {
-    const r = await runCli(['check', ...unitFiles('FK-0101'), '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0101'), '--spec', SPEC]);
     expect(r.stderr).toBe('');
     expect(r.stdout).toContain('FK-0101: PASS');
     expect(r.code).toBe(0);
   });
 
   it('exits 1 for a unit with a large timing capacitor, naming it as the first likely cause', async () => {
-    const r = await runCli(['check', ...unitFiles('FK-0104'), '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC]);
     expect(r.code).toBe(1);
     expect(r.stdout).toMatch(/frequency +61\.70\d+ Hz ± [\d.]+ Hz +64\.42\d+ Hz … 66\.39\d+ Hz +−2\.7\d Hz +FAIL/);
-    expect(r.stdout).toMatch(/Likely causes\n {2}1\. timing capacitor value or reference current off/);
+    expect(r.stdout).toMatch(/Likely causes\n {2}1\. timing capacitor off its value/);
+    expect(r.stdout).toMatch(/evidence: capacitance 4\.98\d* nF effective vs 4\.7 nF ± 5 % — consistent with a capacitor above its tolerance/);
+    expect(r.stdout).toContain('the captures cannot tell it from: reference current off (both currents by the same ratio)');
     expect(r.stdout).toContain('FK-0104: FAIL');
   });
 
+  it('shows the circuit view block with the back-computed figures when the spec has a design section', async () => {
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC]);
+    const block = r.stdout.slice(r.stdout.indexOf('Circuit view'), r.stdout.indexOf('Likely causes'));
+    expect(block).toMatch(/ {2}mid\n {4}figure +from the captures +design +deviation\n/);
+    expect(block).toMatch(/timing capacitance, I\/\(dV\/dt\) from both ramps +4\.98\d nF ± 0\.0\d+ nF +4\.700 nF ± 240 pF \(5 %\) +\+[56]\.\d\d % outside/);
+    expect(block).toMatch(/· charging at 13\.9\d µA, discharging at 13\.9\d µA \(taking C = 4\.7 nF\): matched within 0\.\d %/);
+    expect(block).toMatch(/· frequency 246\.7\d Hz measured vs 261\.7 Hz from the design values \(−5\.7 %\)/);
+  });
+
   it('checks several units in one run, grouped by unit, and prints one JSON document with --json', async () => {
-    const r = await runCli(['check', ...unitFiles('FK-0103'), ...unitFiles('FK-0106'), '--spec', SPEC, '--json']);
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0103'), ...unitFiles('FK-0106'), '--spec', SPEC, '--json']);
     expect(r.code).toBe(1);
     expect(r.stderr).toBe('');
     const doc = JSON.parse(r.stdout);
@@ -45,7 +57,12 @@ describe('benchproof check on the demo captures', () => {
     expect(doc.spec.name).toBe('FH-210 Kestrel VCO');
     expect(doc.units.map((u: { unit: string }) => u.unit)).toEqual(['FK-0103', 'FK-0106']);
     const mirror = doc.units[0];
-    expect(mirror.diagnosis.causes[0].id).toBe('current-mismatch');
+    expect(mirror.diagnosis.causes[0].id).toBe('current-mirror');
+    const mid = mirror.diagnosis.circuit.find((v: { condition: string }) => v.condition === 'mid');
+    const charge = mid.figures.find((f: { id: string }) => f.id === 'chargeCurrent');
+    // FK-0103: rise share 1/(1 + 1.0833) at 261.63 Hz, C = 4.7 nF, 6 Vpp; I = C·Vpp·f/r (capacitor law).
+    expectWithin(charge.value, (4.7e-9 * 6 * 261.63 * 2.0833), { rel: 0.01 }, 'planted scenario FK-0103, capacitor law');
+    expect(charge).toMatchObject({ unit: 'A', withinTolerance: false });
     const ratio = mirror.verdict.conditions[1].checks.find((c: { measurement: string; output: string }) => c.measurement === 'slopeRatio');
     expect(ratio).toMatchObject({ output: 'triangle', condition: 'mid', statement: 'fail', lower: 0.97, upper: 1.03, nominal: 1 });
     expect(doc.units[1].diagnosis.causes[0].id).toBe('switching-delay');
@@ -54,20 +71,20 @@ describe('benchproof check on the demo captures', () => {
 
 describe('benchproof check decisions and exit codes', () => {
   it('allows a conditional pass (exit 0, flagged on stderr) unless --strict (exit 1)', async () => {
-    const probe = await runCli(['check', 'samples/captures/FK-0101_mid.csv', '--spec', triangleSpec('wide.yaml', '        nominal: 261.63 Hz\n        tolerance: 10 %'), '--json']);
+    const probe = await runCli(['check', '--no-store', 'samples/captures/FK-0101_mid.csv', '--spec', triangleSpec('wide.yaml', '        nominal: 261.63 Hz\n        tolerance: 10 %'), '--json']);
     const f = JSON.parse(probe.stdout).units[0].verdict.conditions[0].checks[0];
     // Upper limit half a guard band above the measured value: ILAC-G8 §4.2.3 conditional pass.
     const tight = triangleSpec('tight.yaml', `        max: ${f.value + f.expandedUncertainty / 2} Hz`);
-    const loose = await runCli(['check', 'samples/captures/FK-0101_mid.csv', '--spec', tight]);
+    const loose = await runCli(['check', '--no-store', 'samples/captures/FK-0101_mid.csv', '--spec', tight]);
     expect(loose.code).toBe(0);
     expect(loose.stdout).toContain('COND. PASS');
     expect(loose.stderr).toBe(`note: FK-0101 passed conditionally: a value lies within its uncertainty of a limit in ${tight}; --strict would fail it\n`);
-    const strict = await runCli(['check', 'samples/captures/FK-0101_mid.csv', '--spec', tight, '--strict']);
+    const strict = await runCli(['check', '--no-store', 'samples/captures/FK-0101_mid.csv', '--spec', tight, '--strict']);
     expect(strict.code).toBe(1);
   });
 
   it('reports checks of conditions without captures as NOT MEASURED and exits 1', async () => {
-    const r = await runCli(['check', 'samples/captures/FK-0104_mid.csv', '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0104_mid.csv', '--spec', SPEC]);
     expect(r.code).toBe(1);
     expect(r.stdout).toContain('note (frequency, peakToPeak, dcOffset, slopeRatio): no capture of output "triangle" at condition "low" was given');
     expect(r.stdout).toMatch(/FK-0104: FAIL/);
@@ -77,7 +94,7 @@ describe('benchproof check decisions and exit codes', () => {
     const odd = join(dir, 'scope-export-07.csv');
     copyFileSync('samples/captures/FK-0101_mid.csv', odd);
     const spec = triangleSpec('mid-only.yaml', '        nominal: 261.63 Hz\n        tolerance: 1.5 %');
-    const r = await runCli(['check', odd, '--spec', spec, '--unit', 'FK-0107', '--condition', 'mid']);
+    const r = await runCli(['check', '--no-store', odd, '--spec', spec, '--unit', 'FK-0107', '--condition', 'mid']);
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('FK-0107: PASS');
   });
@@ -85,7 +102,7 @@ describe('benchproof check decisions and exit codes', () => {
 
 describe('benchproof check input errors', () => {
   it('exits 2 with the pattern it missed when a file name fits no unit and condition', async () => {
-    const r = await runCli(['check', 'samples/captures/FK-0101-mid.csv', '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0101-mid.csv', '--spec', SPEC]);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr).toMatchInlineSnapshot(`
@@ -99,7 +116,7 @@ describe('benchproof check input errors', () => {
   it('exits 2 listing every spec mistake with its path and line', async () => {
     const bad = join(dir, 'bad.yaml');
     writeFileSync(bad, 'name: x\nrevision: A\noutputs:\n  tri:\n    channel: 1\n    checks:\n      - measure: frequency\n        nominal: 2.5 kV\n        tolerance: 1 %\n      - measure: dutycycle\n        min: 48 %\n');
-    const r = await runCli(['check', 'samples/captures/FK-0101_mid.csv', '--spec', bad]);
+    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0101_mid.csv', '--spec', bad]);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr.replaceAll(bad, 'bad.yaml')).toMatchInlineSnapshot(`
@@ -117,14 +134,14 @@ describe('benchproof check input errors', () => {
   });
 
   it('prints the error as one JSON object on stderr with --json, and nothing on stdout', async () => {
-    const r = await runCli(['check', 'samples/captures/FK-0101_mid.csv', '--spec', join(dir, 'missing.yaml'), '--json']);
+    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0101_mid.csv', '--spec', join(dir, 'missing.yaml'), '--json']);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(JSON.parse(r.stderr).error).toMatchObject({ code: 'spec.unreadable', exitCode: 2 });
   });
 
   it('exits 2 when --spec is missing', async () => {
-    const r = await runCli(['check', 'samples/captures/FK-0101_mid.csv']);
+    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0101_mid.csv']);
     expect(r.code).toBe(2);
     expect(r.stderr).toContain("required option '--spec <file>' not specified");
   });

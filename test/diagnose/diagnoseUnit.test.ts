@@ -11,7 +11,10 @@ import { checkedKestrel, checkedSignals, kestrelTraits } from './kestrelUnit.js'
 import { jitteryCore } from './jitteryCore.js';
 
 // Every capture here is synthesized with a fixed seed (src/synth); the faults are planted on purpose.
-const spec: Spec = parseSpec(readFileSync('samples/fh210-spec.yaml', 'utf8'), 'samples/fh210-spec.yaml');
+// These tests pin the pattern rules, so the spec's design section is left out: with it, the part
+// attribution takes over the rules it refines (test/diagnose/circuitCauses.test.ts).
+const { design: _design, ...withoutDesign } = parseSpec(readFileSync('samples/fh210-spec.yaml', 'utf8'), 'samples/fh210-spec.yaml');
+const spec: Spec = withoutDesign;
 const good = kestrelTraits('FK-0101');
 
 function causesOf(captures: readonly CheckedCapture[]): Cause[] {

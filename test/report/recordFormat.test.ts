@@ -19,6 +19,10 @@ describe('number formatting in records', () => {
     expect(formatQuantity(4.7e-9, 'F')).toBe('4.7000 nF');
   });
 
+  it('takes the prefix from the uncertainty when it is the larger, as for a level near zero', () => {
+    expect(formatMeasured(-52e-6, 1.753e-3, 'V')).toBe('-0.1 mV ± 1.8 mV');
+  });
+
   it('shows a missing value as a dash, never as NaN or 0', () => {
     expect(formatMeasured(null, 0.1, 'V')).toBe('—');
     expect(formatQuantity(Number.NaN, 'V')).toBe('—');

@@ -13,8 +13,10 @@ import { BenchError } from '../../types/index.js';
 import type { CheckedCapture } from '../../types/index.js';
 import { parsePositive } from '../options.js';
 import { createProgress } from '../progress.js';
+import { addRecordingOptions, storeCheckedUnits } from '../store.js';
+import type { StoreFlags } from '../store.js';
 
-interface CheckOptions {
+interface CheckOptions extends StoreFlags {
   spec: string;
   unit?: string;
   condition?: string;
@@ -25,7 +27,7 @@ interface CheckOptions {
 }
 
 export function registerCheck(program: Command, ctx: CommandContext): Command {
-  return program
+  const cmd = program
     .command('check')
     .description('check captures against a design spec: a statement per check, likely causes, one line per unit')
     .argument('<captures...>', 'CSV captures named after the spec\'s pattern, e.g. FK-0101_mid.csv')
@@ -45,13 +47,17 @@ Examples:
   benchproof check bench/scope-01.csv --spec samples/fh210-spec.yaml --unit FK-0107 --condition mid
 
 Exit status: 0 every check passed (a conditional pass is allowed unless --strict),
-1 a fail, conditional fail or not-measured check, 2 bad input.`,
-    )
+1 a fail, conditional fail or not-measured check, 2 bad input.
+Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --data) unless --no-store.`,
+    );
+  return addRecordingOptions(cmd)
     .action(async (files: string[], opts: CheckOptions, cmd: Command) => {
       const json = Boolean(opts.json);
       ctx.json = json;
       const readOptions = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
-      const spec = parseSpec(readSpecText(ctx, opts.spec), opts.spec);
+      const startedAt = new Date().toISOString();
+      const specText = readSpecText(ctx, opts.spec);
+      const spec = parseSpec(specText, opts.spec);
       // Every file name is mapped before any capture is read, so a misnamed file fails at once.
       const plans = files.map((f) => planCapture(spec, f, { unit: opts.unit, condition: opts.condition }));
       const progress = createProgress(ctx, json);
@@ -68,16 +74,15 @@ Exit status: 0 every check passed (a conditional pass is allowed unless --strict
             },
           });
           const named = { ...capture, path: plan.path };
-          checked.push(bindCapture(spec, plan, named, measureCapture(named)));
+          checked.push(bindCapture(spec, plan, named, measureCapture(named, { plotData: true })));
         }
       } finally {
         progress.stop();
       }
       const units: UnitCheck[] = decideUnits(spec, checked).map((verdict) => ({ verdict, diagnosis: diagnoseUnit(spec, verdict) }));
 
-      // STORE: the records stage wires storing here. Every checked unit is stored by default
-      // (one store.saveRun per element of `units`, with its verdict, diagnosis and captures);
-      // a --no-store flag skips it, and one stderr line says where the record went.
+      // Every checked unit is stored by default, one transaction each; --no-store skips it.
+      storeCheckedUnits(ctx, opts, units, startedAt, specText);
 
       ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : renderCheckText(units, ctx.styleFor(cmd)));
       ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));

@@ -1,0 +1,38 @@
+/**
+ * The "circuit view" block of `benchproof check`: per condition, the core's figures back-computed from
+ * the captures (effective currents, capacitance, thresholds, frequency from the design values, logic
+ * levels) beside the spec's design values, then the summary sentences. Shown only when the spec has
+ * a design section. Uncertainties are expanded (k = 2), as everywhere in check output.
+ */
+import type { CircuitFigure, CircuitView } from '../types/index.js';
+import type { TextStyle } from './style.js';
+import { formatMeasured, formatQuantity } from './unitsSi.js';
+
+function designCell(f: CircuitFigure): string {
+  if (f.design === undefined) return '—';
+  if (f.designTolerance === undefined || f.designTolerance === 0) return formatQuantity(f.design, f.unit, 4);
+  const rel = f.design !== 0 && f.unit !== '%' ? ` (${Number(((f.designTolerance / Math.abs(f.design)) * 100).toPrecision(2))} %)` : '';
+  return `${formatQuantity(f.design, f.unit, 4)} ± ${formatQuantity(f.designTolerance, f.unit, 2)}${rel}`;
+}
+
+function deviationCell(f: CircuitFigure): string {
+  const dev = f.deviation === undefined ? '' : `${f.deviation >= 0 ? '+' : '−'}${Math.abs(f.deviation).toFixed(2)} %`;
+  const out = f.withinTolerance === false ? 'outside' : '';
+  return [dev, out].filter((s) => s).join(' ') || '—';
+}
+
+export function renderCircuitView(views: readonly CircuitView[] | undefined, style: TextStyle): string[] {
+  if (!views || views.length === 0) return [];
+  const out = [style.bold('Circuit view'), style.dim('  back-computed from the captures with the spec’s design values; ± is U (k = 2)')];
+  for (const v of views) {
+    const rows = v.figures.map((f) => [f.label, formatMeasured(f.value, f.uncertainty, f.unit), designCell(f), deviationCell(f)]);
+    const head = ['figure', 'from the captures', 'design', 'deviation'];
+    const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+    const pad = (cells: readonly string[]): string => cells.map((s, i) => s.padEnd(widths[i])).join('  ').trimEnd();
+    out.push(`  ${style.bold(v.condition)}`, `    ${style.dim(pad(head))}`);
+    rows.forEach((r, i) => out.push(`    ${pad(r)}${v.figures[i].note ? style.dim(`  (${v.figures[i].note})`) : ''}`));
+    for (const s of v.summary) out.push(`    · ${s}`);
+  }
+  out.push('');
+  return out;
+}
