@@ -3,7 +3,8 @@
  * timing capacitance C, swing Vpp; textbook relaxation-oscillator result, e.g. Sedra & Smith,
  * "Microelectronic Circuits", on triangle/square generators — from memory). Hence:
  * - a wrong C or reference current scales f by the same ratio at every condition;
- * - a fixed comparator/switching delay t_d adds 2·t_d to every period, so the error −2·t_d·f grows
+ * - a fixed comparator/switching delay t_d adds 4·t_d to every period (each of the two ramps runs on
+ *   for t_d past its threshold and must come back), so the error −4·t_d·f grows
  *   with frequency (closed form: f = f0/(1 + 2·t_d·f0));
  * - a fixed leakage or bias current matters most where the charge current is smallest: the low end.
  * A deviation counts when it passes a third of the frequency tolerance (0.5 % without one) and the
@@ -61,8 +62,8 @@ export const switchingDelay: CauseRule = (f) => {
   const hi = ps[ps.length - 1];
   if (!(hi.error < 0 && significant(hi, thr) && Math.abs(hi.error) > 2 * Math.abs(lo.error) + thr / 2)) return null;
   if (!ps.every((p, i) => i === 0 || p.error <= ps[i - 1].error + thr / 2)) return null;
-  const delays = ps.filter((p) => p.error < 0).map((p) => ({ c: p.condition, td: (1 / p.measured - 1 / p.nominal) / 2 }));
-  const evidence = [`frequency error grows with frequency: ${listing(ps)}`, `each period is longer by 2·t_d: t_d ≈ ${delays.map((d) => `${formatQuantity(d.td, 's', 3)} at ${d.c}`).join(', ')}`];
+  const delays = ps.filter((p) => p.error < 0).map((p) => ({ c: p.condition, td: (1 / p.measured - 1 / p.nominal) / 4 }));
+  const evidence = [`frequency error grows with frequency: ${listing(ps)}`, `each period is longer by 4·t_d: t_d ≈ ${delays.map((d) => `${formatQuantity(d.td, 's', 3)} at ${d.c}`).join(', ')}`];
   const swing = swingGrowth(f);
   if (swing) evidence.push(swing);
   return {

@@ -52,7 +52,7 @@ export const KESTREL_UNITS: readonly UnitTraits[] = [
   { ...good, serial: 'FK-0103', story: 'charge current 4 % high, discharge 4 % low (mismatched current mirror)', riseFraction: 1 / (1 + 1.0833), seed: 103 },
   { ...good, serial: 'FK-0104', story: 'timing capacitor 6 % above nominal', frequencyScale: 1 / 1.06, seed: 104 },
   { ...good, serial: 'FK-0105', story: 'triangle buffer saturating on a sagging rail, 50 Hz hum on the ground lead', triangleClip: 2.55, hum: 0.05, seed: 105 },
-  { ...good, serial: 'FK-0106', story: '15 µs comparator delay (slow comparator fitted)', comparatorDelay: 15.2e-6, seed: 106 },
+  { ...good, serial: 'FK-0106', story: '7.6 µs comparator delay (slow comparator fitted)', comparatorDelay: 7.6e-6, seed: 106 },
 ];
 
 export interface ScenarioCapture {
@@ -67,9 +67,10 @@ const SAMPLES_PER_PERIOD = 200;
 const CYCLES = 30;
 
 export function kestrelCapture(unit: UnitTraits, condition: ScenarioCondition): ScenarioCapture {
-  // Delay adds 2·td to each period and lets each ramp overshoot its threshold by slope·td.
+  // A delay t_d lets each ramp run on past its threshold by slope·t_d and come back: each of the two
+  // ramps lasts 2·t_d longer, so the period grows by 4·t_d while the slopes stay I/C.
   const ideal = condition.nominal * unit.frequencyScale;
-  const frequency = 1 / (1 / ideal + 2 * unit.comparatorDelay);
+  const frequency = 1 / (1 / ideal + 4 * unit.comparatorDelay);
   const slope = 2 * unit.swing * 2 * ideal; // V/s on a symmetric ramp at the ideal frequency
   const amplitude = unit.swing + slope * unit.comparatorDelay;
   const sampleRate = frequency * SAMPLES_PER_PERIOD * 1.0137; // not an integer number of samples per period

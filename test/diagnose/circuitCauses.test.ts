@@ -96,7 +96,7 @@ describe('part attribution with a design section', () => {
   it('keeps a pattern rule’s evidence under the part that refines it, ranks by score, and survives a JSON round trip', () => {
     const d = diagnose(kestrelTraits('FK-0106'));
     expect(d.causes[0].id).toBe('switching-delay');
-    expect(d.causes[0].evidence.join(' ')).toMatch(/each period is longer by 2·t_d: .*15\.\d µs at high/);
+    expect(d.causes[0].evidence.join(' ')).toMatch(/each period is longer by 4·t_d: .*7\.\d µs at high/);
     for (let i = 1; i < d.causes.length; i++) expect(d.causes[i - 1].score).toBeGreaterThanOrEqual(d.causes[i].score);
     expect(JSON.parse(JSON.stringify(d))).toEqual(d);
   });

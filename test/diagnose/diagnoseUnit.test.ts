@@ -60,9 +60,9 @@ describe('diagnoseUnit frequency patterns (f = I/(2·C·Vpp))', () => {
   it('blames comparator and switching delay first when the error grows with frequency, and estimates the delay', () => {
     const causes = causesOf(checkedKestrel(spec, kestrelTraits('FK-0106')));
     expect(causes[0].id).toBe('switching-delay');
-    // The scenario plants t_d = 15.2 µs; T = 1/f0 + 2·t_d, closed form.
+    // The scenario plants t_d = 7.6 µs; each ramp runs on for t_d and comes back, T = 1/f0 + 4·t_d (closed form).
     const td = /([\d.]+) µs at high/.exec(causes[0].evidence[1]);
-    expectWithin(Number(td?.[1]), 15.2, { rel: 0.03 }, 'planted delay, closed form T = 1/f0 + 2·t_d');
+    expectWithin(Number(td?.[1]), 7.6, { rel: 0.03 }, 'planted delay, closed form T = 1/f0 + 4·t_d');
     expect(ids(causes)).not.toContain('threshold-levels');
   });
 

@@ -1,4 +1,7 @@
 /** Runs the command line in-process with captured stdout/stderr, as the CLI tests need. */
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { run } from '../../src/cli/main.js';
 import type { CliIo } from '../../src/cli/io.js';
 
@@ -23,7 +26,9 @@ export async function runCli(
     },
     stdoutIsTTY: options.tty ?? false,
     stderrIsTTY: options.tty ?? false,
-    env: { ...options.env },
+    // A test that runs in the checkout stores records in a fresh temporary folder, never in the
+    // checkout itself; a test that gives its own working directory manages its own data folder.
+    env: options.cwd === undefined ? { BENCHPROOF_DATA: mkdtempSync(join(tmpdir(), 'benchproof-test-')), ...options.env } : { ...options.env },
     cwd: options.cwd ?? process.cwd(),
   };
   const code = await run(argv, io);
