@@ -41,7 +41,8 @@ export const mainsHum: CauseRule = (f) => {
   return {
     id: 'mains-hum',
     title: 'mains hum: ground loop or probe grounding',
-    score: scoreFrom(worst, -50, -26),
+    // Levels are negative dBc: score by how far the hum stands above −50 dBc (full weight at −26 dBc).
+    score: scoreFrom(worst + 50, 0, 24),
     evidence: hits.map((x) => `hum at ${formatQuantity(x.at!, 'Hz', 3)}, ${num(x.level!, 3)} dBc on ${x.o.output} at ${x.o.condition}`),
     confirm: 'capture again with the probe ground at the module’s ground point and the scope and module on one outlet; if the hum drops, it was a ground loop, else look at the supply filtering',
     where: 'ground return of the module and the scope probe; supply filtering',

@@ -76,7 +76,8 @@ export function kestrelCapture(unit: UnitTraits, condition: ScenarioCondition): 
   const sampleRate = frequency * SAMPLES_PER_PERIOD * 1.0137; // not an integer number of samples per period
   const samples = SAMPLES_PER_PERIOD * CYCLES;
   const seed = unit.seed * 10 + KESTREL_CONDITIONS.indexOf(condition);
-  const hum = unit.hum ? [{ frequency: 50, amplitude: unit.hum, phase: 0.3 }] : [];
+  // Ground-loop pickup: the mains frequency and the rectifier ripple at twice it.
+  const hum = unit.hum ? [{ frequency: 50, amplitude: unit.hum, phase: 0.3 }, { frequency: 100, amplitude: 0.6 * unit.hum, phase: 1.1 }] : [];
   const triangle = synthesize({
     shape: 'triangle',
     frequency,
