@@ -8,17 +8,27 @@ import { performance } from 'node:perf_hooks';
 import { statSync } from 'node:fs';
 
 const seconds = (t0) => (performance.now() - t0) / 1000;
+// CPU time of the whole process (all threads) since `c0`, in seconds: steadier than wall time on a
+// shared machine, as time spent waiting for another process's turn on the CPU is not counted.
+const cpuSeconds = (c0) => {
+  const c = process.cpuUsage(c0);
+  return (c.user + c.system) / 1e6;
+};
 
 async function stages(file) {
   const { readCapture } = await import('../dist/capture/index.js');
   const analysis = await import('../dist/analysis/index.js');
   const { analyzeSpectrum } = await import('../dist/analysis/spectralAnalysis.js');
   let t = performance.now();
+  let c = process.cpuUsage();
   const capture = await readCapture(file);
   const read = seconds(t);
+  const readCpu = cpuSeconds(c);
   const dt = capture.sampleInterval;
   let timeDomain = 0;
   let spectrum = 0;
+  let timeDomainCpu = 0;
+  let spectrumCpu = 0;
   let analysisTotal;
   let method;
   if (typeof analysis.measureChannel === 'function') {
@@ -26,15 +36,19 @@ async function stages(file) {
     for (const ch of capture.channels) {
       const clipped = ch.clipped && ch.clipped.high + ch.clipped.low > 0 ? ch.clipped : undefined;
       t = performance.now();
+      c = process.cpuUsage();
       const a = analysis.measureChannel(ch.samples, dt, { unit: ch.unit, clipped });
       timeDomain += seconds(t);
+      timeDomainCpu += cpuSeconds(c);
       t = performance.now();
+      c = process.cpuUsage();
       const duty = a.results?.dutyCycle;
       analyzeSpectrum(ch.samples, dt, a.fundamental, a.shape, {
         clipped: clipped !== undefined,
         ...(a.shape === 'pulse' && duty?.ok ? { dutyCycle: duty.value } : {}),
       });
       spectrum += seconds(t);
+      spectrumCpu += cpuSeconds(c);
     }
     analysisTotal = timeDomain + spectrum;
   } else {
@@ -55,6 +69,7 @@ async function stages(file) {
   return {
     file, bytes, rows: capture.length, channels: capture.channels.length, method,
     read, timeDomain, spectrum, analysis: analysisTotal,
+    cpu: { read: readCpu, timeDomain: timeDomainCpu, spectrum: spectrumCpu },
     maxRss: process.resourceUsage().maxRSS * 1024,
   };
 }
@@ -65,12 +80,16 @@ async function fftProbe(points) {
   const x = new Float64Array(size);
   for (let i = 0; i < points; i++) x[i] = Math.sin((2 * Math.PI * 1000.5 * i) / points);
   let t = performance.now();
+  let c = process.cpuUsage();
   realSpectrum(x);
   const cold = seconds(t);
+  const coldCpu = cpuSeconds(c);
   t = performance.now();
+  c = process.cpuUsage();
   realSpectrum(x);
   const warm = seconds(t);
-  return { points, size, cold, warm, wrapper: 'realSpectrum (src/analysis/spectrum.ts)' };
+  const warmCpu = cpuSeconds(c);
+  return { points, size, cold, warm, cpu: { cold: coldCpu, warm: warmCpu }, wrapper: 'realSpectrum (src/analysis/spectrum.ts)' };
 }
 
 async function main() {

@@ -4,7 +4,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { kestrelSampleFiles } from '../dist/synth/index.js';
+import { kestrelCalibrationFiles, kestrelSampleFiles } from '../dist/synth/index.js';
 
 const out = join(dirname(fileURLToPath(import.meta.url)), '..', 'samples', 'captures');
 mkdirSync(out, { recursive: true });
@@ -14,3 +14,9 @@ for (const f of kestrelSampleFiles()) {
   bytes += Buffer.byteLength(f.content);
 }
 process.stderr.write(`wrote ${kestrelSampleFiles().length} captures (${(bytes / 1e6).toFixed(2)} MB) to ${out}\n`);
+// The demo calibration of FK-0104: samples/calibration/{before,after}/FK-0104_cv{0..5}.csv.
+for (const f of kestrelCalibrationFiles()) {
+  const file = join(out, '..', 'calibration', f.name);
+  mkdirSync(dirname(file), { recursive: true });
+  writeFileSync(file, f.content);
+}

@@ -36,14 +36,38 @@ export function inComponentLobe(frame: SpectralFrame, k: number, fundamentalBins
   return false;
 }
 
+/**
+ * inComponentLobe for bins asked about in increasing order, at O(1) per bin: it keeps the lowest
+ * harmonic whose lobe is not yet behind k. A bin outside that harmonic's lobe lies below it, and so
+ * below every higher lobe too. Scans of all 2^19 bins of a frame use this.
+ */
+export class LobeScan {
+  private m = 1;
+
+  constructor(
+    private readonly r: number,
+    private readonly p: number | null,
+    private readonly exclude: number,
+  ) {}
+
+  covers(k: number): boolean {
+    const { r, p, exclude } = this;
+    if (k < r) return true;
+    if (p === null || exclude < 1) return false;
+    while (this.m <= exclude && k - this.m * p >= r) this.m++;
+    return this.m <= exclude && Math.abs(k - this.m * p) < r;
+  }
+}
+
 /** Noise floor, or null when the component lobes leave too few bins to read it from. */
 export function noiseFloor(frame: SpectralFrame, fundamental: number | null, exclude: number): NoiseFloor | null {
   const s = frame.spectrum;
   const p = fundamental === null ? null : fundamental / frame.binWidth;
+  const lobes = new LobeScan(frame.lobeBins, p, exclude);
   let sum = 0;
   let bins = 0;
   for (let k = 1; k < s.bins - 1; k++) {
-    if (inComponentLobe(frame, k, p, exclude)) continue;
+    if (lobes.covers(k)) continue;
     sum += s.power(k);
     bins++;
   }

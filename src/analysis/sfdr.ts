@@ -7,7 +7,7 @@
  */
 import type { MeasureResult } from '../types/index.js';
 import type { HarmonicAnalysis } from './harmonicAnalysis.js';
-import { inComponentLobe } from './noiseFloor.js';
+import { LobeScan } from './noiseFloor.js';
 
 interface Spur {
   readonly amplitude: number;
@@ -22,9 +22,9 @@ function largestSpur(h: HarmonicAnalysis): Spur {
     if (fit.amplitude[n] > best.amplitude) best = { amplitude: fit.amplitude[n], frequency: n * fit.fundamental, harmonic: n };
   }
   const s = frame.spectrum;
-  const p = fit.fundamental / frame.binWidth;
+  const lobes = new LobeScan(frame.lobeBins, fit.fundamental / frame.binWidth, fit.count);
   for (let k = 1; k < s.bins - 1; k++) {
-    if (inComponentLobe(frame, k, p, fit.count)) continue;
+    if (lobes.covers(k)) continue;
     const a = (2 * s.magnitude(k)) / frame.s1 / frame.response(k * frame.binWidth);
     if (a > best.amplitude) best = { amplitude: a, frequency: k * frame.binWidth, harmonic: null };
   }

@@ -4,7 +4,7 @@
  * A·S1/2, white noise of variance σ² reads σ²·S2 per bin) and the main-lobe width in DFT bins.
  * The span's mean is removed first so a large offset does not leak into low harmonics.
  */
-import { realSpectrum, nextPowerOfTwo, type HalfSpectrum } from './spectrum.js';
+import { nextPowerOfTwo, spectrumInPlace, type HalfSpectrum } from './spectrum.js';
 import { mainLobeHalfWidth, windowKernel, windowSamples, type Complex, type WindowKind } from './windows.js';
 
 export interface SpectralFrame {
@@ -39,8 +39,9 @@ export function buildFrame(
   let mean = 0;
   for (let i = 0; i < length; i++) mean += span[i];
   mean /= length;
-  // The window is written into the transform buffer and multiplied in place: one large array, not two.
-  const padded = windowSamples(window, length, new Float64Array(size));
+  // The window is written into the transform buffer, multiplied in place and transformed in place:
+  // one large array per frame (fresh memory is slow to touch, shared/peer/MEASURED.md).
+  const padded = windowSamples(window, length, new Float64Array(size + 2));
   let s1 = 0;
   let s2 = 0;
   let ss = 0;
@@ -53,7 +54,7 @@ export function buildFrame(
     padded[i] = v * w;
   }
   return {
-    spectrum: realSpectrum(padded),
+    spectrum: spectrumInPlace(padded, size),
     sampleRate,
     length,
     window,

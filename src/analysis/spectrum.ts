@@ -1,15 +1,14 @@
 /**
- * The one front door to fft.js: a cached transform per power-of-two size and a half spectrum
- * read by bin. No other file sees fft.js's interleaved layout.
+ * The one front door to the FFT: a half spectrum of a real record, read by bin. No other file sees
+ * the interleaved layout.
  *
- * Convention (checked in tests against a plain DFT): X[k] = Σ x[i]·e^(−2πi·k·i/M), k = 0…M/2.
- * Building an fft.js instance costs far more than one transform at large sizes (its twiddle
- * table; see shared/peer/MEASURED.md), hence the cache. Output goes to a Float64Array, which
- * measured as fast as a plain array here and avoids a 2M-element boxed array.
+ * Convention (checked in tests against a plain DFT and against fft.js): X[k] = Σ x[i]·e^(−2πik·i/M),
+ * k = 0…M/2. The transform is our own kernel (realFft.ts), not fft.js: fft.js builds a full
+ * twiddle table per size that cost more than the transforms themselves at the sizes a capture
+ * needs (0.2 s at 2^20, 0.7 s at 2^22; DEVELOPERS.md, Performance), and wants 2·M doubles of
+ * output. Ours keeps a quarter-wave cosine table per size and works in M + 2 doubles.
  */
-import FFT from 'fft.js';
-
-const cache = new Map<number, FFT>();
+import { realFftInPlace } from './realFft.js';
 
 export function isPowerOfTwo(n: number): boolean {
   return Number.isInteger(n) && n >= 2 && (n & (n - 1)) === 0;
@@ -21,15 +20,6 @@ export function nextPowerOfTwo(n: number): number {
   let m = 2;
   while (m < n) m *= 2;
   return m;
-}
-
-function transformFor(size: number): FFT {
-  let fft = cache.get(size);
-  if (fft === undefined) {
-    fft = new FFT(size);
-    cache.set(size, fft);
-  }
-  return fft;
 }
 
 /** One-sided spectrum of a real record: bins 0…size/2, read through accessors. */
@@ -74,7 +64,18 @@ export class HalfSpectrum {
 export function realSpectrum(input: Float64Array): HalfSpectrum {
   const size = input.length;
   if (!isPowerOfTwo(size)) throw new RangeError(`realSpectrum: length must be a power of two ≥ 2, got ${size}`);
-  const out = new Float64Array(2 * size);
-  transformFor(size).realTransform(out, input);
-  return new HalfSpectrum(size, out);
+  const buffer = new Float64Array(size + 2);
+  buffer.set(input);
+  return spectrumInPlace(buffer, size);
+}
+
+/**
+ * The same, transforming `buffer` in place: its first `size` values are the record (its length
+ * must be size + 2); afterwards it belongs to the returned spectrum. Saves a copy of a long record.
+ */
+export function spectrumInPlace(buffer: Float64Array, size: number): HalfSpectrum {
+  if (!isPowerOfTwo(size)) throw new RangeError(`spectrumInPlace: size must be a power of two ≥ 2, got ${size}`);
+  if (buffer.length !== size + 2) throw new RangeError(`spectrumInPlace: buffer must hold size + 2 = ${size + 2} values, got ${buffer.length}`);
+  realFftInPlace(buffer, size);
+  return new HalfSpectrum(size, buffer);
 }

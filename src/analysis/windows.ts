@@ -38,26 +38,47 @@ export function windowCoefficients(kind: WindowKind): readonly number[] {
   return COEFFICIENTS[kind];
 }
 
-/** The periodic window of the given length, written into `out` when given. */
+/** Samples per block of the cosine recurrence in windowSamples; each block restarts from Math.cos/sin. */
+const RECURRENCE_BLOCK = 32;
+
+/**
+ * The periodic window of the given length, written into `out` when given.
+ * Cost matters here (one window per analysed span, up to 2^20 samples), so the window's symmetry
+ * w[i] = w[L − i] halves the work, and cos(x·i) advances by a rotation (cos, sin)·(cos x, sin x)
+ * that restarts from Math.cos/Math.sin every 32 samples, so rounding grows to a few 1e-15 at most.
+ */
 export function windowSamples(kind: WindowKind, length: number, out?: Float64Array): Float64Array {
   if (!Number.isInteger(length) || length < 1) throw new RangeError(`windowSamples: length must be a positive integer, got ${length}`);
   if (out !== undefined && out.length < length) throw new RangeError(`windowSamples: out holds ${out.length} < ${length}`);
   const w = out ?? new Float64Array(length);
   const a = COEFFICIENTS[kind];
+  const signed = a.map((v, j) => (j % 2 === 1 ? -v : v));
+  const terms = signed.length;
   const step = (2 * Math.PI) / length;
-  for (let i = 0; i < length; i++) {
-    // cos(jx) by the Chebyshev recurrence cos(jx) = 2cos(x)·cos((j−1)x) − cos((j−2)x): one cosine per sample.
-    const c1 = Math.cos(step * i);
-    let prev = 1;
-    let cur = c1;
-    let v = a[0];
-    for (let j = 1; j < a.length; j++) {
-      v += (j % 2 === 1 ? -a[j] : a[j]) * cur;
-      const next = 2 * c1 * cur - prev;
-      prev = cur;
-      cur = next;
+  const cd = Math.cos(step);
+  const sd = Math.sin(step);
+  const half = Math.floor(length / 2);
+  for (let block = 0; block <= half; block += RECURRENCE_BLOCK) {
+    let c1 = Math.cos(step * block);
+    let s1 = Math.sin(step * block);
+    const stop = Math.min(block + RECURRENCE_BLOCK, half + 1);
+    for (let i = block; i < stop; i++) {
+      // cos(jx) by the Chebyshev recurrence cos(jx) = 2cos(x)·cos((j−1)x) − cos((j−2)x).
+      let prev = 1;
+      let cur = c1;
+      let v = signed[0];
+      for (let j = 1; j < terms; j++) {
+        v += signed[j] * cur;
+        const next = 2 * c1 * cur - prev;
+        prev = cur;
+        cur = next;
+      }
+      w[i] = v;
+      if (i > 0) w[length - i] = v;
+      const c = c1 * cd - s1 * sd;
+      s1 = s1 * cd + c1 * sd;
+      c1 = c;
     }
-    w[i] = v;
   }
   return w;
 }

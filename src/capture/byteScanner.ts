@@ -7,13 +7,15 @@
 import type { DecimalMark, Delimiter } from '../types/index.js';
 import { lineTooLong, MAX_LINE_BYTES } from './lines.js';
 import type { RowSink } from './rowSink.js';
-import { EMPTY, MARKER, NumberScanner, TEXT } from './scanNumber.js';
+import { EMPTY, MARKER, NUMBER, NumberScanner, TEXT } from './scanNumber.js';
 
 const SPACE = 32;
 const TAB = 9;
 const CR = 13;
 const QUOTE = 34;
 const HASH = 35;
+/** Rows the plain-row path may hand back to the general one before it stops being tried. */
+const MAX_PLAIN_MISSES = 4096;
 
 export interface ScannerLayout {
   readonly delimiter: Delimiter;
@@ -37,6 +39,10 @@ export class ByteScanner {
   private readonly kinds: Uint8Array;
   private readonly exps: Int32Array;
   private readonly maxFields: number;
+  private readonly columnCount: number;
+  /** Whether to try plainRow first: not for space-delimited layouts, nor after many misses. */
+  private plain: boolean;
+  private plainMisses = 0;
 
   constructor(
     private readonly layout: ScannerLayout,
@@ -51,6 +57,8 @@ export class ByteScanner {
     if (layout.delimiter !== '\t') this.blank[TAB] = 1;
     if (layout.terminator !== CR) this.blank[CR] = 1;
     this.maxFields = layout.columnCount + 2;
+    this.columnCount = layout.columnCount;
+    this.plain = !this.spaces;
     this.vals = new Float64Array(this.maxFields);
     this.kinds = new Uint8Array(this.maxFields);
     this.exps = new Int32Array(this.maxFields);
@@ -86,11 +94,42 @@ export class ByteScanner {
   private lines(b: Buffer, end: number): void {
     let pos = 0;
     while (pos < end) {
-      const stop = this.row(b, pos, end);
+      let stop = this.plain ? this.plainRow(b, pos, end) : -1;
+      if (stop < 0) stop = this.row(b, pos, end);
       if (stop - pos > MAX_LINE_BYTES) throw lineTooLong(this.layout.file, this.line);
       this.line++;
       pos = stop + 1;
     }
+  }
+
+  /**
+   * The common row, read without the general path's checks: exactly columnCount unquoted numbers
+   * joined by single delimiters, then the terminator (a CR before an LF allowed). Such a row reads
+   * the same through row(); this path only drops the checks for blanks, quotes, empty fields and
+   * text. Returns the terminator's index, or −1 with nothing pushed to leave the row to row().
+   */
+  private plainRow(b: Buffer, s: number, limit: number): number {
+    const { vals, kinds, exps, num, delim, term, columnCount } = this;
+    let pos = s;
+    for (let n = 0; n < columnCount; n++) {
+      num.scanInto(b, pos, limit, vals, n);
+      if (num.kind !== NUMBER) return this.plainMiss();
+      kinds[n] = NUMBER;
+      exps[n] = num.quantumExp;
+      pos = num.end;
+      if (n + 1 < columnCount) {
+        if (pos >= limit || b[pos] !== delim) return this.plainMiss();
+        pos++;
+      }
+    }
+    if (pos < limit && b[pos] === CR && term !== CR) pos++;
+    if (pos >= limit || b[pos] !== term) return this.plainMiss();
+    return this.pushRow(b, s, pos, columnCount);
+  }
+
+  private plainMiss(): number {
+    if (++this.plainMisses > MAX_PLAIN_MISSES) this.plain = false;
+    return -1;
   }
 
   private isBlank(c: number): boolean {

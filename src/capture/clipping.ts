@@ -28,24 +28,27 @@ const RAMP_RATIO = 4;
 const MAX_WALK = 1 << 20;
 
 export function detectClipping(x: Float64Array): ClipInfo | null {
+  // One pass for the extremes and the values next to them (below: the largest value under the
+  // maximum, above: the smallest over the minimum); a new maximum makes the old one `below`.
   let max = -Infinity;
   let min = Infinity;
+  let below = -Infinity;
+  let above = Infinity;
   let valid = 0;
   for (let i = 0; i < x.length; i++) {
     const v = x[i];
     if (v !== v) continue;
     valid++;
-    if (v > max) max = v;
-    if (v < min) min = v;
+    if (v > max) {
+      below = max;
+      max = v;
+    } else if (v < max && v > below) below = v;
+    if (v < min) {
+      above = min;
+      min = v;
+    } else if (v > min && v < above) above = v;
   }
   if (valid === 0 || max === min) return null;
-  let below = -Infinity;
-  let above = Infinity;
-  for (let i = 0; i < x.length; i++) {
-    const v = x[i];
-    if (v < max && v > below) below = v;
-    if (v > min && v < above) above = v;
-  }
   const high = pinnedSamples(x, max, max - below, 1);
   const low = pinnedSamples(x, min, above - min, -1);
   const limit = MIN_SHARE * valid;

@@ -23,6 +23,7 @@
  *   capture.time-repeated         the time column repeats a value
  *   capture.too-few-rows          fewer than two data rows
  *   capture.resample-too-large    time steps so uneven that the median-step grid would explode
+ *   capture.too-large             more than 2^28 samples (2 GiB) over the kept channels
  *
  * Capture warning codes: invalid-samples, clipped, resampled, footer, option-ignored,
  * interval-mismatch, record-length-mismatch.

@@ -45,7 +45,8 @@ export function readWithPapa(first: Buffer, rest: AsyncIterable<Buffer>, layout:
                 exps[i] = p.quantumExp;
               }
               if (!sink.push(vals, kinds, exps, n, line) && sink.pending && sink.pending.text === '') {
-                sink.pending.text = fields.join(layout.delimiter).slice(0, 60);
+                // A quoted field may hold a line break; the message quoting it stays on one line.
+                sink.pending.text = fields.join(layout.delimiter).replace(/[\r\n]+/g, ' ').slice(0, 60);
               }
             }
             line++;

@@ -25,7 +25,16 @@ export interface SinkConfig {
   readonly scales: Float64Array;
   readonly axis: TimeAxis | null;
   readonly capacity: number;
+  /** Most samples held over all kept channels (default MAX_SAMPLES; smaller in tests). */
+  readonly maxSamples?: number;
 }
+
+/**
+ * Most samples a capture may hold in memory over all its kept channels: 2^28 values, 2 GiB of
+ * Float64Array. A longer record (or a small .gz that unpacks to one) stops with `capture.too-large`
+ * instead of exhausting the machine's memory.
+ */
+export const MAX_SAMPLES = 2 ** 28;
 
 export const X_COLUMN = -2;
 export const SKIP = -1;
@@ -47,6 +56,7 @@ export class RowSink {
   lastLine = 0;
   pending: Pending | null = null;
   private capacity: number;
+  private readonly maxRows: number;
   private readonly columnCount: number;
   private readonly trailingDelimiter: boolean;
   private readonly xColumn: number;
@@ -61,7 +71,8 @@ export class RowSink {
     this.xColumn = cfg.targets.indexOf(X_COLUMN);
     this.columnCount = cfg.columnCount;
     this.trailingDelimiter = cfg.trailingDelimiter;
-    this.capacity = Math.max(16, cfg.capacity);
+    this.maxRows = Math.floor((cfg.maxSamples ?? MAX_SAMPLES) / Math.max(1, kept.length));
+    this.capacity = Math.min(this.maxRows, Math.max(16, cfg.capacity));
     this.columns = kept.map(() => new Float64Array(this.capacity));
     this.invalid = new Array<number>(kept.length).fill(0);
     this.firstInvalid = new Array<number | undefined>(kept.length).fill(undefined);
@@ -110,7 +121,8 @@ export class RowSink {
   }
 
   private grow(): void {
-    this.capacity = Math.ceil(this.capacity * 1.5) + 16;
+    if (this.capacity >= this.maxRows) throw this.tooLarge();
+    this.capacity = Math.min(this.maxRows, Math.ceil(this.capacity * 1.5) + 16);
     this.columns = this.columns.map((c) => {
       const bigger = new Float64Array(this.capacity);
       bigger.set(c);
@@ -125,6 +137,16 @@ export class RowSink {
       problem: `this row ${what}${p.text ? `: "${p.text}"` : ''}, and data rows follow it`,
       expected: `every data row with ${this.cfg.columnCount} numeric field(s); text only before the data or at its end`,
       fix: 'delete or repair this line (it may join two exports), then measure again',
+    });
+  }
+
+  private tooLarge() {
+    const n = this.columns.length;
+    return captureError('too-large', this.cfg.file, {
+      line: this.lastLine + 1,
+      problem: `the capture holds more than ${this.maxRows} rows of ${n} channel(s), over the ${this.cfg.maxSamples ?? MAX_SAMPLES} samples benchproof keeps in memory`,
+      expected: 'a record of at most a few hundred million samples over the channels measured',
+      fix: n > 1 ? 'measure one channel at a time with --channel, or export a shorter record' : 'export a shorter record, or one at a lower sample rate',
     });
   }
 

@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { BenchError, isBenchError } from '../types/index.js';
 import { processIo } from './io.js';
 import type { CliIo } from './io.js';
-import { createContext } from './context.js';
+import { createContext, loadTextStyle } from './context.js';
 import type { CommandContext } from './context.js';
 import { COMMANDS } from './commands/index.js';
 import { TOOL_VERSION } from './version.js';
@@ -45,6 +45,10 @@ Examples:
 
 Start with \`npm run demo\`; each command has --help with examples.`,
   );
+  // Styled text needs the report stage and chalk; `measure --json`, the scripted hot path, prints none.
+  program.hook('preAction', async (_program, action) => {
+    if (!(action.name() === 'measure' && action.opts().json === true)) await loadTextStyle();
+  });
   for (const register of COMMANDS) {
     const cmd = register(program, ctx);
     cmd.exitOverride().configureOutput({ writeOut: ctx.io.stdout, writeErr: ctx.io.stderr });
@@ -58,6 +62,7 @@ function handleError(err: unknown, ctx: CommandContext, argv: readonly string[])
     // Help and version are successes; every usage mistake exits 2 (commander would use 1).
     if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
     if (err.exitCode === 0) return 0;
+    if (err.code === 'commander.unknownOption') hintFileLikeOption(err.message, ctx);
     return 2;
   }
   const wantsJson = ctx.json || argv.includes('--json');
@@ -75,4 +80,14 @@ function handleError(err: unknown, ctx: CommandContext, argv: readonly string[])
   ctx.io.stderr(`benchproof: internal error (${err instanceof Error ? err.message.split('\n')[0] : 'unknown'}); details in ${log}\n`);
   if (ctx.io.env.BENCHPROOF_DEBUG === '1') ctx.io.stderr(`${detail}\n`);
   return 3;
+}
+
+/**
+ * A file whose name starts with a dash (`-x.csv`, `--json.csv`) reads as an option; options never
+ * hold a dot, so one that does was meant as a file: say how to name it.
+ */
+function hintFileLikeOption(message: string, ctx: CommandContext): void {
+  const option = /'(-[^']*)'/.exec(message)?.[1];
+  if (!option || !option.includes('.')) return;
+  ctx.io.stderr(`  fix: a file name that starts with "-" reads as an option: write ./${option}, or put -- before the file names\n`);
 }

@@ -1,81 +1,29 @@
 /**
- * Where records live and who made them, for every command that touches the store: the data folder
- * (`--data DIR`, else BENCHPROOF_DATA, else ./benchproof-data under the working directory), the
- * operator (`--operator`, else BENCHPROOF_OPERATOR, else the login name) and the station (host name).
- * Also the one-line stderr notices that say what was written where, and the next command to try.
+ * The records store for every command that touches it: opening it in the data folder, storing the
+ * units a `check` run decided, writing report files whole, and naming an unknown spec. The data
+ * folder (`--data DIR`, else BENCHPROOF_DATA, else ./benchproof-data under the working directory),
+ * the operator, the station and the one-line notices are in dataOptions.ts, re-exported here; that
+ * file loads no records code, so commands can register their options without loading SQLite.
  */
 import { renameSync, rmSync, writeFileSync } from 'node:fs';
-import { hostname, userInfo } from 'node:os';
-import { relative, isAbsolute, resolve } from 'node:path';
-import type { Command } from 'commander';
+import { resolve } from 'node:path';
 import type { CommandContext } from './context.js';
 import { nearestNames, openStore, sha256Hex } from '../records/index.js';
 import type { RecordStore } from '../records/index.js';
 import type { Diagnosis, NewRun, StoredRun, UnitVerdict } from '../types/index.js';
 import { BenchError, STATEMENT_WORDS } from '../types/index.js';
 import { TOOL_VERSION } from './version.js';
+import { notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
+import type { DataLocation, StoreFlags } from './dataOptions.js';
 
-export const DEFAULT_DATA_FOLDER = 'benchproof-data';
-
-export interface StoreFlags {
-  data?: string;
-  operator?: string;
-  /** false with --no-store. */
-  store?: boolean;
-}
-
-export interface DataLocation {
-  readonly dir: string;
-  /** How the user would write it: relative to the working directory when inside it. */
-  readonly shown: string;
-  readonly source: '--data' | 'BENCHPROOF_DATA' | 'default';
-}
-
-export function addDataOption(cmd: Command): Command {
-  return cmd.option('--data <dir>', `data folder of the records (default: BENCHPROOF_DATA, else ./${DEFAULT_DATA_FOLDER})`);
-}
-
-/** For `check`: --data, --operator and --no-store. */
-export function addRecordingOptions(cmd: Command): Command {
-  return addDataOption(cmd)
-    .option('--operator <name>', 'who ran the test (default: BENCHPROOF_OPERATOR, else the login name)')
-    .option('--no-store', 'do not store this run in the records');
-}
-
-export function resolveDataDir(ctx: CommandContext, flags: StoreFlags): DataLocation {
-  const env = ctx.io.env.BENCHPROOF_DATA;
-  const [raw, source] = flags.data ? [flags.data, '--data' as const] : env ? [env, 'BENCHPROOF_DATA' as const] : [DEFAULT_DATA_FOLDER, 'default' as const];
-  const dir = resolve(ctx.io.cwd, raw);
-  const rel = relative(ctx.io.cwd, dir);
-  const shown = rel === '' ? '.' : !rel.startsWith('..') && !isAbsolute(rel) ? `./${rel}` : dir;
-  return { dir, shown, source };
-}
-
-export function resolveOperator(ctx: CommandContext, flags: StoreFlags): string {
-  const given = flags.operator?.trim() || ctx.io.env.BENCHPROOF_OPERATOR?.trim();
-  if (given) return given;
-  try {
-    return userInfo().username || 'unknown';
-  } catch {
-    return 'unknown';
-  }
-}
-
-export function stationName(): string {
-  return hostname() || 'unknown';
-}
+// The option helpers live in dataOptions.ts, which loads no records code; re-exported for callers.
+export { DEFAULT_DATA_FOLDER, addDataOption, addRecordingOptions, notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
+export type { DataLocation, StoreFlags } from './dataOptions.js';
 
 export function openDataStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write'): { store: RecordStore; location: DataLocation } {
   const location = resolveDataDir(ctx, flags);
   return { store: openStore(location.dir, { mode, label: location.shown }), location };
 }
-
-/** Say on stderr, in one line, what was written where and what to run next. */
-export function notice(ctx: CommandContext, what: string, next: string): void {
-  ctx.io.stderr(`benchproof: ${what}; next: ${next}\n`);
-}
-
-export const quoteArg = (s: string): string => (/^[\w./:@%+-]+$/.test(s) ? s : `"${s.replace(/(["\\$`])/g, '\\$1')}"`);
 
 export interface CheckedUnit {
   readonly verdict: UnitVerdict;

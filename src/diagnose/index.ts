@@ -13,3 +13,4 @@ export { octaves } from './circuitFormulas.js';
 export { scaleToCondition } from './circuitFormulas.js';
 export { toleranceU } from './circuitFormulas.js';
 export type { Estimate } from './circuitFormulas.js';
+export { guideTrim } from './trimGuidance.js';

@@ -13,3 +13,5 @@ export type { BatchFilter } from './summarizeBatch.js';
 export { compareSerials } from './unitSummaries.js';
 export { storeError } from './storeErrors.js';
 export { nearestNames } from './nearestNames.js';
+export type { CaptureKey, SaveOnceResult } from './captureSeen.js';
+export type { SavedIteration } from './calibrationSave.js';

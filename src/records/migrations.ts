@@ -8,6 +8,7 @@ import type { Database } from 'better-sqlite3';
 import { BenchError } from '../types/index.js';
 import { migrateTo1 } from './migration1.js';
 import { migrateTo2 } from './migration2.js';
+import { migrateTo3 } from './migration3.js';
 
 export interface Migration {
   readonly version: number;
@@ -18,6 +19,7 @@ export interface Migration {
 export const MIGRATIONS: readonly Migration[] = [
   { version: 1, name: 'runs, checks, causes and content-addressed captures', up: migrateTo1 },
   { version: 2, name: 'every measured value with its uncertainty; append-only triggers', up: migrateTo2 },
+  { version: 3, name: 'calibration runs with their iterations', up: migrateTo3 },
 ];
 
 export const LATEST_SCHEMA: number = MIGRATIONS[MIGRATIONS.length - 1].version;

@@ -2,6 +2,7 @@
  * Turns what the file system and SQLite report about the data folder into BenchErrors a technician
  * can act on. Anything not recognised is returned unchanged and ends as an internal error (exit 3).
  */
+import { accessSync, constants, statfsSync } from 'node:fs';
 import { BenchError } from '../types/index.js';
 
 const OVERRIDE = 'give another folder with --data DIR or BENCHPROOF_DATA';
@@ -28,7 +29,8 @@ export function storeError(err: unknown, dir: string): unknown {
       fix: `do not delete it; copy the folder somewhere safe and restore records.db from your last backup, or ${OVERRIDE}`,
     });
   }
-  if (code === 'SQLITE_FULL' || code === 'ENOSPC') {
+  if (code.startsWith('SQLITE_IOERR') && !diskIsFull(dir)) return ioError(dir, code);
+  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || code.startsWith('SQLITE_IOERR')) {
     return new BenchError({
       code: 'records.disk-full',
       file: dir,
@@ -79,4 +81,53 @@ export function noRecordsError(dir: string): BenchError {
     expected: 'a data folder that `benchproof check` has stored runs in',
     fix: `run \`benchproof check\` on a unit's captures first, or ${OVERRIDE}`,
   });
+}
+
+/**
+ * SQLite reports a full disk as an I/O error when its shared-memory file cannot grow
+ * (SQLITE_IOERR_SHMSIZE on tmpfs, found by the hardening tests); under 64 KiB free counts as full.
+ */
+function diskIsFull(dir: string): boolean {
+  try {
+    const s = statfsSync(dir);
+    return s.bavail * s.bsize < 64 * 1024;
+  } catch {
+    return false;
+  }
+}
+
+function ioError(dir: string, code: string): BenchError {
+  return new BenchError({
+    code: 'records.io-error',
+    file: dir,
+    problem: `the disk holding the data folder reported an error while the records were written (${code}); nothing was stored`,
+    expected: 'a data folder on a working, mounted disk',
+    fix: `check that the disk is still connected and healthy, then run the command again, or ${OVERRIDE}`,
+  });
+}
+
+/**
+ * Opening the database failed: as storeError, except that SQLite's "cannot open" on a folder that
+ * exists but cannot be written is a read-only disk (a WAL database needs its -shm file beside it
+ * even to be read: sqlite.org/wal.html, "Read-Only Databases"), not a missing folder.
+ */
+export function openError(err: unknown, dir: string, label: string, mode: 'read' | 'write'): unknown {
+  if ((err as { code?: unknown } | null)?.code !== 'SQLITE_CANTOPEN' || writable(dir)) return storeError(err, label);
+  if (mode === 'write') return readOnlyError(label);
+  return new BenchError({
+    code: 'records.read-only',
+    file: label,
+    problem: 'the records are on a read-only disk or folder, and SQLite must write a small index file beside records.db even to read them',
+    expected: 'a data folder this user may write to',
+    fix: 'copy the data folder to a writable disk and give the copy with --data DIR',
+  });
+}
+
+function writable(dir: string): boolean {
+  try {
+    accessSync(dir, constants.W_OK);
+    return true;
+  } catch {
+    return false;
+  }
 }

@@ -5,6 +5,7 @@
 import type { CheckVerdict, StoredRun, UnitRecord } from '../types/index.js';
 import { esc, facts, numCell, statusHtml, table } from './htmlPage.js';
 import { renderPlotsSection, renderTrendsSection } from './htmlRecordPlots.js';
+import { renderCalibrationSection } from './calibrationHtml.js';
 import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
 
 export interface RecordHtmlSection {
@@ -88,6 +89,7 @@ export const RECORD_HTML_SECTIONS: readonly RecordHtmlSection[] = [
   { id: 'causes', render: causes },
   { id: 'plots', render: renderPlotsSection },
   { id: 'trends', render: renderTrendsSection },
+  { id: 'calibration', render: renderCalibrationSection },
   { id: 'history', render: history },
   { id: 'captures', render: captures },
 ];

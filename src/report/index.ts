@@ -12,3 +12,8 @@ export { renderBatchHtml } from './batchHtml.js';
 export { renderBatchMarkdown } from './batchMarkdown.js';
 export { renderBatchCsv, BATCH_CSV_COLUMNS } from './batchCsv.js';
 export { renderUnitsText } from './unitsText.js';
+export { renderCalibrationText } from './calibrationText.js';
+export type { IterationPlace } from './calibrationText.js';
+export { calibrationDocument } from './calibrationJson.js';
+export type { CalibrationDocument } from './calibrationJson.js';
+export { renderTrackingSvg } from './svgTracking.js';

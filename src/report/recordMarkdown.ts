@@ -5,6 +5,7 @@
 import type { CheckVerdict, StoredRun, UnitRecord } from '../types/index.js';
 import { STATEMENT_WORDS } from '../types/index.js';
 import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { renderCalibrationMarkdown } from './calibrationMarkdown.js';
 
 /** Escape what Markdown tables and emphasis would take as syntax. */
 export function md(s: string): string {
@@ -80,10 +81,12 @@ function captures(rec: UnitRecord): string {
   return `## Captures\n\nArchived unchanged in the data folder under their SHA-256. Plots: \`--format html\`.\n\n${mdTable(['run', 'condition', 'original path', 'size', 'SHA-256'], rows)}`;
 }
 
-export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, history, captures];
+export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, history, captures, renderCalibrationMarkdown];
 
 export function renderRecordMarkdown(rec: UnitRecord): string {
-  if (rec.runs.length === 0) throw new RangeError(`renderRecordMarkdown: record of ${rec.unit} has no runs`);
+  if (rec.runs.length === 0 && !rec.calibrations?.length) throw new RangeError(`renderRecordMarkdown: record of ${rec.unit} has no runs`);
   const footer = rec.source ? [`_Generated ${formatTime(rec.source.generatedAt)} by benchproof ${md(rec.source.toolVersion)} from \`${rec.source.dataDir}\`._`] : [];
-  return `${[...RECORD_MARKDOWN_SECTIONS.map((s) => s(rec)), ...footer].join('\n\n')}\n`;
+  // A unit calibrated but never checked: only the calibration section has something to show.
+  const sections = rec.runs.length === 0 ? [renderCalibrationMarkdown] : RECORD_MARKDOWN_SECTIONS;
+  return `${[...sections.map((s) => s(rec)).filter((t) => t !== ''), ...footer].join('\n\n')}\n`;
 }

@@ -114,7 +114,7 @@ export function resolveLimit(f: FieldSet, unit: string, what: string, where: Spe
     const upper = f.max ? readValue(f.max, unit, what, issues) : null;
     if (lower === undefined || upper === undefined || nominal === undefined) return undefined;
     if (lower !== null && upper !== null && lower >= upper) return fail('spec.limit-order', `min (${f.min?.raw}) is not below max (${f.max?.raw})`, 'swap min and max');
-    return { lower, upper, nominal };
+    return inRange({ lower, upper, nominal }, unit, fail);
   }
   if (!f.nominal && !f.tolerance) return fail('spec.no-limit', 'no limit given', 'add `nominal:` with `tolerance:`, or `min:`/`max:`');
   if (!f.tolerance) return fail('spec.no-tolerance', `nominal ${f.nominal?.raw} has no tolerance`, 'add `tolerance:` (e.g. "2 %"), or give min/max');
@@ -122,5 +122,17 @@ export function resolveLimit(f: FieldSet, unit: string, what: string, where: Spe
   if (nominal === undefined || nominal === null) return undefined;
   const tol = readTolerance(f.tolerance, unit, nominal, what, issues);
   if (tol === undefined) return undefined;
-  return { lower: nominal - tol, upper: nominal + tol, nominal };
+  return inRange({ lower: nominal - tol, upper: nominal + tol, nominal }, unit, fail);
+}
+
+/**
+ * Beyond 1e15 in SI units no bench quantity lies (a 1 PHz signal, a 1 PV swing); such a value is a
+ * typo, and left in it overflows the circuit figures computed from it (found by spec fuzzing).
+ */
+export const MAX_MAGNITUDE = 1e15;
+
+function inRange(l: Limit, unit: string, fail: (code: string, problem: string, fix: string) => undefined): Limit | undefined {
+  const worst = Math.max(...[l.lower, l.upper, l.nominal].map((x) => (x === null ? 0 : Math.abs(x))));
+  if (worst <= MAX_MAGNITUDE) return l;
+  return fail('spec.out-of-range', `a limit of ${worst.toExponential(2)} ${unit} is beyond any bench quantity (at most ${MAX_MAGNITUDE.toExponential(0)} ${unit})`, 'check the value and its unit prefix for a typo');
 }

@@ -14,7 +14,8 @@ import type { Spec } from './specTypes.js';
 
 export function parseSpec(text: string, file: string): Spec {
   const counter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: true });
+  // logLevel 'error': yaml's own warnings (e.g. a map used as a key) would go to stderr unasked.
+  const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: true, logLevel: 'error' });
   if (doc.errors.length > 0) {
     throw specError(
       file,
@@ -28,7 +29,7 @@ export function parseSpec(text: string, file: string): Spec {
       })),
     );
   }
-  const raw: unknown = doc.toJS();
+  const raw = specValue(doc, file);
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
     throw specError(file, [{ code: 'spec.not-a-map', file, line: 1, problem: 'the spec is not a map of fields', expected: 'a YAML map with name, revision, outputs …', fix: 'start from `benchproof spec init` or samples/fh210-spec.yaml' }]);
   }
@@ -48,4 +49,23 @@ export function parseSpec(text: string, file: string): Spec {
     fields.push({ code: i.code, file, ...(line !== undefined ? { line } : {}), problem: i.problem, expected: i.expected, fix: i.fix });
   }
   throw specError(file, fields);
+}
+
+/**
+ * The document as plain data. yaml throws here, not in `errors`, for an alias to an anchor that is
+ * not set and for aliases that expand too far (a few lines that would become millions of nodes).
+ */
+function specValue(doc: ReturnType<typeof parseDocument>, file: string): unknown {
+  try {
+    return doc.toJS({ maxAliasCount: 100 });
+  } catch (err) {
+    const bomb = /alias count/i.test((err as Error).message);
+    throw specError(file, [{
+      code: 'spec.syntax',
+      file,
+      problem: bomb ? 'YAML aliases (*name) expand to too many copies' : `not valid YAML: ${(err as Error).message.split('\n')[0]}`,
+      expected: 'a spec that writes each value out, or uses an alias (*name) only after its anchor (&name)',
+      fix: bomb ? 'write the repeated parts out instead of nesting aliases' : 'set the anchor (&name) before the alias that uses it, or write the value out',
+    }]);
+  }
 }

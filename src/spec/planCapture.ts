@@ -86,7 +86,7 @@ function findChannel(report: MeasureReport, channel: string | number): MeasureRe
 
 const DELIMITER_NAMES: Readonly<Record<string, string>> = { ',': 'comma', ';': 'semicolon', '\t': 'tab', ' ': 'space' };
 
-function describeLayout(capture: Capture): string {
+export function describeLayout(capture: Capture): string {
   const l = capture.layout;
   const header = l.headerLine === null ? 'no header' : `header on line ${l.headerLine}`;
   const time = l.timeColumn !== null ? `time column "${l.columns[l.timeColumn]?.name ?? ''}"` : `timing from ${l.timing}`;

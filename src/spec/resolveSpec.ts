@@ -15,6 +15,7 @@ import { DEFAULT_CONDITION, DEFAULT_PATTERN } from './specTypes.js';
 import type { Spec, SpecCheck, SpecCondition, SpecOutput } from './specTypes.js';
 import { resolveDesign } from './resolveDesign.js';
 import { checkPattern } from './capturePattern.js';
+import { resolveCalibration } from './calibrationSection.js';
 
 type Obj = Record<string, unknown>;
 const obj = (x: unknown): Obj => (x !== null && typeof x === 'object' && !Array.isArray(x) ? (x as Obj) : {});
@@ -55,7 +56,7 @@ export function resolveSpec(raw: unknown, file: string, sha256: string, issues: 
     outputs,
     conditions,
     ...(design ? { design } : {}),
-    ...(top.calibration !== undefined ? { calibration: top.calibration } : {}),
+    ...(top.calibration !== undefined ? { calibration: resolveCalibration(top.calibration, outputs, issues) } : {}),
   };
 }
 

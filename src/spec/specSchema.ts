@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { SHAPES } from '../types/index.js';
+import { CALIBRATION_EXPECTS, calibrationSchema } from './calibrationSchema.js';
 
 const value = z.union([z.number(), z.string()]);
 
@@ -59,7 +60,7 @@ export const specFileSchema = z.strictObject({
   outputs: z.record(z.string(), output),
   conditions: z.record(z.string(), condition).optional(),
   design: design.optional(),
-  calibration: z.unknown().optional(),
+  calibration: calibrationSchema.optional(),
 });
 
 export type SpecFile = z.infer<typeof specFileSchema>;
@@ -91,4 +92,6 @@ export const FIELD_EXPECTS: Readonly<Record<string, string>> = {
   expect: 'a map of output → measurement → limit',
   design: 'design values (timingCapacitance, chargeCurrent, swing, thresholds, rails, logic levels)',
   at: 'the name of a condition',
+  output: 'the name of a spec output, e.g. triangle',
+  ...CALIBRATION_EXPECTS,
 };

@@ -1,5 +1,6 @@
 /** The design spec after validation: plain readonly data, every value in SI units. */
 import type { DecisionRule, MeasurementId, Shape } from '../types/index.js';
+import type { CalibrationSection } from './calibrationTypes.js';
 
 /** Tolerance limits of one check; null means unbounded on that side. */
 export interface Limit {
@@ -77,8 +78,8 @@ export interface Spec {
   readonly outputs: readonly SpecOutput[];
   readonly conditions: readonly SpecCondition[];
   readonly design?: DesignSection;
-  /** Reserved for the calibration procedure; kept as written until that section is defined. */
-  readonly calibration?: unknown;
+  /** How to calibrate a unit: the control law, its steps and limits (calibrationSection.ts). */
+  readonly calibration?: CalibrationSection;
 }
 
 /** Name of the single condition of a spec that lists none. */

@@ -6,3 +6,5 @@ export { writeCsv, writeCsvChunks } from './writeCsv.js';
 export type { CsvChannel, CsvLayoutOptions, CsvNumberFormat } from './writeCsv.js';
 export { KESTREL_CONDITIONS, KESTREL_UNITS, kestrelCapture, kestrelSampleFiles } from './scenario.js';
 export type { ScenarioCapture, ScenarioCondition, ScenarioFile, UnitTraits } from './scenario.js';
+export { CALIBRATION_CONTROLS, CALIBRATION_REFERENCE, CALIBRATION_STATES, CALIBRATION_UNIT, calibrationFrequency, kestrelCalibrationFiles } from './calibrationScenario.js';
+export type { CalibrationState } from './calibrationScenario.js';

@@ -52,3 +52,18 @@ export type {
   UnitSummary,
   YieldFigure,
 } from './record.js';
+export type {
+  CalibrationDrift,
+  CalibrationFigure,
+  CalibrationIteration,
+  CalibrationLaw,
+  CalibrationLawKind,
+  CalibrationLimits,
+  CalibrationStepResult,
+  NewCalibrationIteration,
+  StoredCalibrationIteration,
+  StoredCalibrationRun,
+  TrackingFigures,
+  TrimAdjustment,
+  TrimAdvice,
+} from './calibration.js';

@@ -5,6 +5,7 @@
  */
 import type { Diagnosis } from './cause.js';
 import type { Statement, UnitVerdict } from './verdict.js';
+import type { StoredCalibrationRun } from './calibration.js';
 
 /** What a run was. Only checks today; calibration runs will be a second kind (with a migration). */
 export type RunKind = 'check';
@@ -107,6 +108,8 @@ export interface UnitRecord {
   readonly firstTestedAt: string;
   readonly lastTestedAt: string;
   readonly runs: readonly StoredRun[];
+  /** Calibration runs with their iterations, oldest first; absent when the unit has none. */
+  readonly calibrations?: readonly StoredCalibrationRun[];
   readonly source?: DocumentSource;
 }
 

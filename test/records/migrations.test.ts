@@ -50,7 +50,7 @@ describe('schema migrations', () => {
 
     const db = new Database(join(dir, 'records.db'), { readonly: true });
     expect(db.pragma('user_version', { simple: true })).toBe(LATEST_SCHEMA);
-    expect(db.prepare('SELECT version FROM schema_migrations ORDER BY version').all()).toEqual([{ version: 1 }, { version: 2 }]);
+    expect(db.prepare('SELECT version FROM schema_migrations ORDER BY version').all()).toEqual([{ version: 1 }, { version: 2 }, { version: 3 }]);
     // 3 captures × (4 triangle + 3 pulse measurements + 1 withheld THD) per run, for the migrated run and the new one.
     expect(db.prepare('SELECT run_id, COUNT(*) AS n FROM measurements GROUP BY run_id ORDER BY run_id').all()).toEqual([
       { run_id: 1, n: 24 },

@@ -1,12 +1,10 @@
 import { Option } from 'commander';
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { summarizeBatch } from '../../records/index.js';
-import { renderBatchCsv, renderBatchHtml, renderBatchJson, renderBatchMarkdown } from '../../report/index.js';
 import { BenchError } from '../../types/index.js';
 import type { BatchReport } from '../../types/index.js';
-import { addDataOption, notice, openDataStore, quoteArg, unknownSpec, writeReportFile } from '../store.js';
-import type { StoreFlags } from '../store.js';
+import { addDataOption, notice, quoteArg } from '../dataOptions.js';
+import type { StoreFlags } from '../dataOptions.js';
 import { TOOL_VERSION } from '../version.js';
 
 interface BatchOptions extends StoreFlags {
@@ -18,7 +16,7 @@ interface BatchOptions extends StoreFlags {
   output?: string;
 }
 
-const RENDER = { md: renderBatchMarkdown, html: renderBatchHtml, json: renderBatchJson, csv: renderBatchCsv } as const;
+const RENDERER = { md: 'renderBatchMarkdown', html: 'renderBatchHtml', json: 'renderBatchJson', csv: 'renderBatchCsv' } as const;
 const FORMAT_NAME = { md: 'Markdown', html: 'HTML', json: 'JSON', csv: 'CSV' } as const;
 
 export function registerBatch(program: Command, ctx: CommandContext): Command {
@@ -40,10 +38,16 @@ Examples:
   benchproof batch --spec "FH-210 Kestrel VCO" --since 2026-03-01 --format html --out batch-report.html
   benchproof batch --format csv --out batch.csv`,
     )
-    .action((opts: BatchOptions) => {
+    .action(async (opts: BatchOptions) => {
       const format = opts.json ? 'json' : opts.format;
       ctx.json = format === 'json';
       const since = parseSince(opts.since);
+      // The records stage (SQLite) and the report load here, not at start-up.
+      const [{ openDataStore, unknownSpec, writeReportFile }, { summarizeBatch }, reportStage] = await Promise.all([
+        import('../store.js'),
+        import('../../records/index.js'),
+        import('../../report/index.js'),
+      ]);
       const { store, location } = openDataStore(ctx, opts, 'read');
       let report: BatchReport;
       try {
@@ -54,7 +58,7 @@ Examples:
       } finally {
         store.close();
       }
-      const text = RENDER[format](report);
+      const text = reportStage[RENDERER[format]](report);
       const out = opts.out ?? opts.output;
       if (out === undefined) {
         ctx.io.stdout(text);

@@ -1,20 +1,10 @@
-import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { resolvePath } from '../context.js';
-import { readCapture } from '../../capture/index.js';
-import { measureCapture } from '../../analysis/index.js';
-import { bindCapture, decideUnits, parseSpec, planCapture } from '../../spec/index.js';
 import type { Spec } from '../../spec/index.js';
-import { diagnoseUnit } from '../../diagnose/index.js';
-import { checkDocument, renderCheckText } from '../../report/index.js';
 import type { UnitCheck } from '../../report/index.js';
-import { BenchError } from '../../types/index.js';
-import type { CheckedCapture } from '../../types/index.js';
 import { parsePositive } from '../options.js';
-import { createProgress } from '../progress.js';
-import { addRecordingOptions, storeCheckedUnits } from '../store.js';
-import type { StoreFlags } from '../store.js';
+import { addRecordingOptions } from '../dataOptions.js';
+import type { StoreFlags } from '../dataOptions.js';
 
 interface CheckOptions extends StoreFlags {
   spec: string;
@@ -56,30 +46,17 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       ctx.json = json;
       const readOptions = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
       const startedAt = new Date().toISOString();
-      const specText = readSpecText(ctx, opts.spec);
-      const spec = parseSpec(specText, opts.spec);
+      // The stages load here, not at start-up: `benchproof --help` should not wait for them.
+      const [{ checkPlans, loadSpec, planCapture }, { createProgress }, { checkDocument, renderCheckText }, { storeCheckedUnits }] = await Promise.all([
+        import('../checkRun.js'),
+        import('../progress.js'),
+        import('../../report/index.js'),
+        import('../store.js'),
+      ]);
+      const { spec, text: specText } = loadSpec(ctx, opts.spec);
       // Every file name is mapped before any capture is read, so a misnamed file fails at once.
       const plans = files.map((f) => planCapture(spec, f, { unit: opts.unit, condition: opts.condition }));
-      const progress = createProgress(ctx, json);
-      const checked: CheckedCapture[] = [];
-      try {
-        for (const plan of plans) {
-          let started = false;
-          const capture = await readCapture(resolvePath(ctx.io.cwd, plan.path), {
-            ...readOptions,
-            onProgress: (done, total) => {
-              if (!started) progress.start(plan.path, total);
-              started = true;
-              progress.update(done);
-            },
-          });
-          const named = { ...capture, path: plan.path };
-          checked.push(bindCapture(spec, plan, named, measureCapture(named, { plotData: true })));
-        }
-      } finally {
-        progress.stop();
-      }
-      const units: UnitCheck[] = decideUnits(spec, checked).map((verdict) => ({ verdict, diagnosis: diagnoseUnit(spec, verdict) }));
+      const units: UnitCheck[] = await checkPlans(ctx, spec, plans, readOptions, createProgress(ctx, json));
 
       // Every checked unit is stored by default, one transaction each; --no-store skips it.
       storeCheckedUnits(ctx, opts, units, startedAt, specText);
@@ -88,20 +65,6 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));
       flagConditional(ctx, spec, units, Boolean(opts.strict));
     });
-}
-
-function readSpecText(ctx: CommandContext, file: string): string {
-  try {
-    return readFileSync(resolvePath(ctx.io.cwd, file), 'utf8');
-  } catch (err) {
-    throw new BenchError({
-      code: 'spec.unreadable',
-      file,
-      problem: `cannot read the spec (${(err as NodeJS.ErrnoException).code ?? 'read error'})`,
-      expected: 'a readable YAML or JSON spec file',
-      fix: 'check the path given to --spec, e.g. --spec samples/fh210-spec.yaml',
-    });
-  }
 }
 
 /** 0 when every unit passed (a conditional pass too, unless strict); 1 otherwise. */

@@ -7,6 +7,8 @@ import { registerSpec } from './spec.js';
 import { registerUnits } from './units.js';
 import { registerRecord } from './record.js';
 import { registerBatch } from './batch.js';
+import { registerWatch } from './watch.js';
+import { registerCalibrate } from './calibrate.js';
 
 export type RegisterCommand = (program: Command, ctx: CommandContext) => Command;
 
@@ -17,4 +19,6 @@ export const COMMANDS: readonly RegisterCommand[] = [
   registerUnits,
   registerRecord,
   registerBatch,
+  registerWatch,
+  registerCalibrate,
 ];

@@ -1,12 +1,9 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
-import { readCapture } from '../../capture/index.js';
-import { measureCapture } from '../../analysis/index.js';
-import { renderMeasureText } from '../../report/index.js';
 import type { MeasureReport } from '../../types/index.js';
 import { parsePositive } from '../options.js';
-import { createProgress } from '../progress.js';
+import type { Progress } from '../progress.js';
 
 interface MeasureOptions {
   channel?: string;
@@ -42,7 +39,9 @@ Examples:
         interval: parsePositive('--interval', opts.interval),
         channel: opts.channel,
       };
-      const progress = createProgress(ctx, json);
+      // The stages load here, not at start-up (only what this command needs: no spec, records or report).
+      const [{ readCapture }, { measureCapture }] = await Promise.all([import('../../capture/index.js'), import('../../analysis/index.js')]);
+      const progress = await progressFor(ctx, json);
       const reports: MeasureReport[] = [];
       try {
         for (const file of files) {
@@ -65,7 +64,15 @@ Examples:
         const doc = reports.length === 1 ? reports[0] : { schemaVersion: 1, files: reports };
         ctx.io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
       } else {
+        const { renderMeasureText } = await import('../../report/index.js');
         ctx.io.stdout(renderMeasureText(reports, ctx.styleFor(cmd)));
       }
     });
+}
+
+/** The progress bar only when one may be drawn: cli-progress is not even loaded otherwise. */
+async function progressFor(ctx: CommandContext, json: boolean): Promise<Progress> {
+  if (!ctx.progressAllowed(json)) return { start() {}, update() {}, stop() {} };
+  const { createProgress } = await import('../progress.js');
+  return createProgress(ctx, json);
 }

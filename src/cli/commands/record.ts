@@ -1,12 +1,10 @@
 import { Option } from 'commander';
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { nearestNames } from '../../records/index.js';
-import { renderRecordHtml, renderRecordJson, renderRecordMarkdown } from '../../report/index.js';
 import { BenchError, STATEMENT_WORDS } from '../../types/index.js';
 import type { UnitRecord } from '../../types/index.js';
-import { addDataOption, notice, openDataStore, quoteArg, writeReportFile } from '../store.js';
-import type { DataLocation, StoreFlags } from '../store.js';
+import { addDataOption, notice, quoteArg } from '../dataOptions.js';
+import type { DataLocation, StoreFlags } from '../dataOptions.js';
 import { TOOL_VERSION } from '../version.js';
 
 interface RecordOptions extends StoreFlags {
@@ -16,7 +14,7 @@ interface RecordOptions extends StoreFlags {
   output?: string;
 }
 
-const RENDER = { md: renderRecordMarkdown, html: renderRecordHtml, json: renderRecordJson } as const;
+const RENDERER = { md: 'renderRecordMarkdown', html: 'renderRecordHtml', json: 'renderRecordJson' } as const;
 const FORMAT_NAME = { md: 'Markdown', html: 'HTML', json: 'JSON' } as const;
 
 export function registerRecord(program: Command, ctx: CommandContext): Command {
@@ -37,19 +35,25 @@ Examples:
   benchproof record FK-0103 --format html --out FK-0103-record.html
   benchproof record FK-0103 --json --data /mnt/bench/benchproof-data`,
     )
-    .action((serial: string, opts: RecordOptions) => {
+    .action(async (serial: string, opts: RecordOptions) => {
       const format = opts.json ? 'json' : opts.format;
       ctx.json = format === 'json';
+      // The records stage (SQLite) and the report load here, not at start-up.
+      const [{ openDataStore, writeReportFile }, { nearestNames }, report] = await Promise.all([
+        import('../store.js'),
+        import('../../records/index.js'),
+        import('../../report/index.js'),
+      ]);
       const { store, location } = openDataStore(ctx, opts, 'read');
       let rec: UnitRecord | undefined;
       try {
         rec = store.unitRecord(serial);
-        if (!rec) throw unknownUnit(serial, store.unitSerials(), location);
+        if (!rec) throw unknownUnit(serial, store.unitSerials(), location, nearestNames);
       } finally {
         store.close();
       }
       const doc: UnitRecord = { ...rec, source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown } };
-      const text = RENDER[format](doc);
+      const text = report[RENDERER[format]](doc);
       const changed = doc.runs.filter((r) => !r.intact);
       if (changed.length) {
         ctx.io.stderr(`benchproof: warning: run ${changed.map((r) => `#${r.id}`).join(', ')} of ${doc.unit} no longer match(es) the fingerprint taken when stored; do not rely on it\n`);
@@ -69,7 +73,7 @@ Examples:
     });
 }
 
-function unknownUnit(serial: string, known: readonly string[], location: DataLocation): BenchError {
+function unknownUnit(serial: string, known: readonly string[], location: DataLocation, nearestNames: (name: string, known: readonly string[]) => string[]): BenchError {
   const near = nearestNames(serial, known);
   return new BenchError({
     code: 'records.unknown-unit',

@@ -2,9 +2,6 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
-import { readCapture } from '../../capture/index.js';
-import { measureCapture } from '../../analysis/index.js';
-import { DEFAULT_PATTERN, parseQuantity, parseSpec, planGolden, writeDraftSpec } from '../../spec/index.js';
 import type { GoldenCapture } from '../../spec/index.js';
 import { BenchError } from '../../types/index.js';
 
@@ -12,7 +9,7 @@ interface InitOptions {
   from: string[];
   tolerance: string;
   out: string;
-  pattern: string;
+  pattern?: string;
   name?: string;
   force?: boolean;
 }
@@ -45,8 +42,10 @@ Examples:
     .argument('<file>', 'the spec (YAML or JSON)')
     .option('--json', 'print the validated spec as one JSON document')
     .addHelpText('after', '\nExample:\n  benchproof spec validate samples/fh210-spec.yaml')
-    .action((file: string, opts: { json?: boolean }) => {
+    .action(async (file: string, opts: { json?: boolean }) => {
       ctx.json = Boolean(opts.json);
+      // The spec stage (zod, yaml) loads here, not at start-up.
+      const { parseSpec } = await import('../../spec/index.js');
       const parsed = parseSpec(readText(ctx, file), file);
       if (opts.json) {
         ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, valid: true, spec: parsed }, null, 2)}\n`);
@@ -62,7 +61,8 @@ Examples:
     .option('-o, --output <file>', 'where to write the new spec (never overwritten without --force)')
     .option('--out <file>', 'the same as --output')
     .option('--tolerance <percent>', 'tolerance of every check, e.g. 2%', '2%')
-    .option('--pattern <pattern>', 'file-name pattern of the captures', DEFAULT_PATTERN)
+    // No commander default: the spec stage owns it (DEFAULT_PATTERN) and is not loaded until the action.
+    .option('--pattern <pattern>', 'file-name pattern of the captures (default: {unit}_{condition}.csv, the spec default)')
     .option('--name <text>', 'module name for the spec')
     .option('--force', 'overwrite the output file if it exists')
     .addHelpText('after', '\nExample:\n  benchproof spec init --from samples/captures/FK-0101_low.csv samples/captures/FK-0101_mid.csv samples/captures/FK-0101_high.csv --tolerance 2% -o kestrel.yaml')
@@ -77,7 +77,14 @@ Examples:
 }
 
 async function init(ctx: CommandContext, opts: InitOptions): Promise<void> {
-  const tolerance = parseTolerance(opts.tolerance);
+  const [{ readCapture }, { measureCapture }, spec] = await Promise.all([
+    import('../../capture/index.js'),
+    import('../../analysis/index.js'),
+    import('../../spec/index.js'),
+  ]);
+  const { parseSpec, planGolden, writeDraftSpec } = spec;
+  const pattern = opts.pattern ?? spec.DEFAULT_PATTERN;
+  const tolerance = parseTolerance(opts.tolerance, spec.parseQuantity);
   const target = resolvePath(ctx.io.cwd, opts.out);
   if (opts.from.some((f) => resolvePath(ctx.io.cwd, f) === target)) {
     throw new BenchError({ code: 'init.output-is-input', file: opts.out, problem: 'the output file is one of the --from captures', expected: 'a new file name for the spec', fix: 'write the spec elsewhere, e.g. -o my-spec.yaml' });
@@ -86,18 +93,18 @@ async function init(ctx: CommandContext, opts: InitOptions): Promise<void> {
     throw new BenchError({ code: 'init.output-exists', file: opts.out, problem: 'the output file exists already and is left untouched', expected: 'a new file name, or --force to replace it', fix: `choose another name, or add --force to overwrite ${opts.out}` });
   }
   const golden: GoldenCapture[] = [];
-  for (const plan of planGolden(opts.pattern, opts.from)) {
+  for (const plan of planGolden(pattern, opts.from)) {
     const capture = await readCapture(resolvePath(ctx.io.cwd, plan.path));
     golden.push({ path: plan.path, condition: plan.condition, report: measureCapture({ ...capture, path: plan.path }) });
   }
-  const text = writeDraftSpec(golden, { tolerance, pattern: opts.pattern, ...(opts.name ? { name: opts.name } : {}) });
+  const text = writeDraftSpec(golden, { tolerance, pattern, ...(opts.name ? { name: opts.name } : {}) });
   const drafted = parseSpec(text, opts.out);
   writeFileSync(target, text);
   const checks = drafted.conditions.reduce((n, c) => n + c.checks.length, 0);
   ctx.io.stderr(`wrote ${opts.out}: ${drafted.outputs.length} outputs, ${drafted.conditions.length} conditions, ${checks} checks. Edit names and limits, then: benchproof check <captures…> --spec ${opts.out}\n`);
 }
 
-function parseTolerance(raw: string): number {
+function parseTolerance(raw: string, parseQuantity: (text: string) => { value: number; unit: string } | null): number {
   const q = parseQuantity(raw);
   if (q && q.unit === '%' && q.value > 0 && q.value < 100) return q.value / 100;
   throw new BenchError({ code: 'usage.bad-tolerance', file: '-', problem: `--tolerance got "${raw}", which is not a percentage between 0 and 100`, expected: 'a percentage such as 2% or 1.5 %', fix: 'write --tolerance 2%' });

@@ -1,8 +1,7 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { renderUnitsText } from '../../report/index.js';
-import { addDataOption, openDataStore, unknownSpec } from '../store.js';
-import type { StoreFlags } from '../store.js';
+import { addDataOption } from '../dataOptions.js';
+import type { StoreFlags } from '../dataOptions.js';
 
 interface UnitsOptions extends StoreFlags {
   spec?: string;
@@ -24,9 +23,11 @@ Examples:
   benchproof units --spec "FH-210 Kestrel VCO" --json
   BENCHPROOF_DATA=/mnt/bench/benchproof-data benchproof units`,
     )
-    .action((opts: UnitsOptions, command: Command) => {
+    .action(async (opts: UnitsOptions, command: Command) => {
       const json = Boolean(opts.json);
       ctx.json = json;
+      // The records stage (SQLite) and the report load here, not at start-up.
+      const [{ openDataStore, unknownSpec }, { renderUnitsText }] = await Promise.all([import('../store.js'), import('../../report/index.js')]);
       const { store, location } = openDataStore(ctx, opts, 'read');
       let units;
       try {

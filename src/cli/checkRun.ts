@@ -1,0 +1,104 @@
+/**
+ * The check pipeline shared by `check` and `watch`: read the spec, then for each planned capture
+ * read → measure → bind, decide each unit and rank its likely causes; and the run a checked unit is
+ * stored as. Commands import this module lazily inside their action, so the stages (zod, fft.js,
+ * the CSV reader) load only when a check actually runs.
+ */
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { readCapture } from '../capture/index.js';
+import { measureCapture } from '../analysis/index.js';
+import { bindCapture, decideUnits, parseSpec } from '../spec/index.js';
+import type { CapturePlan, Spec } from '../spec/index.js';
+import { diagnoseUnit } from '../diagnose/index.js';
+import { sha256Hex } from '../records/index.js';
+import { BenchError } from '../types/index.js';
+import type { CheckedCapture, NewRun, ReadCaptureOptions } from '../types/index.js';
+import type { CommandContext } from './context.js';
+import { resolvePath } from './context.js';
+import type { Progress } from './progress.js';
+import type { CheckedUnit } from './store.js';
+import { TOOL_VERSION } from './version.js';
+
+export { planCapture, worstStatement } from '../spec/index.js';
+
+export interface LoadedSpec {
+  readonly spec: Spec;
+  /** The spec file's exact text, kept with the stored runs. */
+  readonly text: string;
+}
+
+export function loadSpec(ctx: CommandContext, file: string): LoadedSpec {
+  const text = readSpecText(ctx, file);
+  return { spec: parseSpec(text, file), text };
+}
+
+function readSpecText(ctx: CommandContext, file: string): string {
+  try {
+    return readFileSync(resolvePath(ctx.io.cwd, file), 'utf8');
+  } catch (err) {
+    throw new BenchError({
+      code: 'spec.unreadable',
+      file,
+      problem: `cannot read the spec (${(err as NodeJS.ErrnoException).code ?? 'read error'})`,
+      expected: 'a readable YAML or JSON spec file',
+      fix: 'check the path given to --spec, e.g. --spec samples/fh210-spec.yaml',
+    });
+  }
+}
+
+/** Timing given on the command line, for files without a time column. */
+export type TimingOptions = Pick<ReadCaptureOptions, 'sampleRate' | 'interval'>;
+
+const quiet: Progress = { start() {}, update() {}, stop() {} };
+
+/**
+ * Read, measure and bind every planned capture in order, then decide each unit and diagnose it.
+ * The first capture that cannot be read stops the whole check with its BenchError.
+ */
+export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonly CapturePlan[], timing: TimingOptions, progress: Progress = quiet): Promise<CheckedUnit[]> {
+  const checked: CheckedCapture[] = [];
+  try {
+    for (const plan of plans) {
+      let started = false;
+      const capture = await readCapture(resolvePath(ctx.io.cwd, plan.path), {
+        ...timing,
+        onProgress: (done, total) => {
+          if (!started) progress.start(plan.path, total);
+          started = true;
+          progress.update(done);
+        },
+      });
+      const named = { ...capture, path: plan.path };
+      checked.push(bindCapture(spec, plan, named, measureCapture(named, { plotData: true })));
+    }
+  } finally {
+    progress.stop();
+  }
+  return decideUnits(spec, checked).map((verdict) => ({ verdict, diagnosis: diagnoseUnit(spec, verdict) }));
+}
+
+/** Who stored a run and from where. */
+export interface RunAuthor {
+  readonly operator: string;
+  readonly station: string;
+}
+
+/**
+ * The run one checked unit is stored as. `specText` is kept only when it is exactly the text the
+ * spec's SHA-256 was taken of; capture bytes are read again from their files for the archive.
+ */
+export function runOf(ctx: CommandContext, { verdict, diagnosis }: CheckedUnit, author: RunAuthor, startedAt: string, specText?: string): NewRun {
+  const text = specText !== undefined && sha256Hex(specText) === verdict.spec.sha256 ? specText : undefined;
+  return {
+    unit: verdict.unit,
+    startedAt,
+    operator: author.operator,
+    station: author.station,
+    spec: { name: verdict.spec.name, revision: verdict.spec.revision, sha256: verdict.spec.sha256, ...(text ? { text } : {}) },
+    toolVersion: TOOL_VERSION,
+    verdict,
+    diagnosis,
+    captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: resolve(ctx.io.cwd, c.path) })),
+  };
+}

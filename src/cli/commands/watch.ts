@@ -1,0 +1,94 @@
+import type { Command } from 'commander';
+import type { CommandContext } from '../context.js';
+import { parsePositive } from '../options.js';
+import { addDataOption } from '../dataOptions.js';
+import type { StoreFlags } from '../dataOptions.js';
+
+interface WatchOptions extends StoreFlags {
+  spec: string;
+  unit?: string;
+  condition?: string;
+  settle: string;
+  newOnly?: boolean;
+  poll?: boolean;
+  reportDir?: string;
+  json?: boolean;
+  sampleRate?: string;
+  interval?: string;
+}
+
+export const DEFAULT_SETTLE_MS = 1000;
+
+export function registerWatch(program: Command, ctx: CommandContext): Command {
+  const cmd = program
+    .command('watch')
+    .description('check and record each capture as it lands in a folder: one line per file, until Ctrl-C')
+    .argument('<dir>', 'folder the scope or copy tool saves captures into (files directly in it)')
+    .requiredOption('--spec <file>', 'the design spec (YAML or JSON); its file-name pattern gives unit and condition')
+    .option('--unit <serial>', 'serial number of every capture, for a single-unit session')
+    .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
+    .option('--settle <ms>', 'a file is read once its size and time have not changed for this long', String(DEFAULT_SETTLE_MS))
+    .option('--new-only', 'skip the files already in the folder at start (by default they are checked unless recorded)')
+    .option('--poll', 'look at the folder twice a second instead of waiting for change notices (for network shares)')
+    .option('--report-dir <dir>', "after each capture, write the unit's HTML record into this folder")
+    .option('--json', 'one JSON object per line (NDJSON, schemaVersion 1) instead of text lines')
+    .option('--operator <name>', 'who ran the tests (default: BENCHPROOF_OPERATOR, else the login name)')
+    .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
+    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)');
+  return addDataOption(cmd)
+    .addHelpText(
+      'after',
+      `
+Examples:
+  benchproof watch samples/captures --spec samples/fh210-spec.yaml --new-only
+  benchproof watch /media/usb-stick --spec samples/fh210-spec.yaml --report-dir /media/usb-stick
+  benchproof watch /mnt/bench-share --spec samples/fh210-spec.yaml --poll --json
+
+Each file is one check of its unit at the condition in its name, stored like \`benchproof check FILE\`
+(conditions not in the file count as not measured in that run; check all of a unit's files together
+for its overall statement). The same bytes for the same unit and condition are never stored twice.
+Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit status 0, 2 bad input.`,
+    )
+    .action(async (dir: string, opts: WatchOptions, cmd: Command) => {
+      const json = Boolean(opts.json);
+      ctx.json = json;
+      const settleMs = parsePositive('--settle', opts.settle) ?? DEFAULT_SETTLE_MS;
+      const timing = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
+      const { runWatchSession } = await import('../watchSession.js');
+      const stop = stopOnSignals();
+      try {
+        await runWatchSession(
+          ctx,
+          {
+            dir, specFile: opts.spec, overrides: { unit: opts.unit, condition: opts.condition }, flags: opts, settleMs,
+            newOnly: Boolean(opts.newOnly), poll: Boolean(opts.poll), reportDir: opts.reportDir, json, timing, style: ctx.styleFor(cmd),
+          },
+          stop.signal,
+        );
+      } finally {
+        stop.release();
+      }
+      ctx.exitCode = 0;
+    });
+}
+
+/**
+ * SIGINT (Ctrl-C) and SIGTERM ask the session to stop after the file in hand. A second signal ends
+ * the process at once: every stored run is its own transaction, so nothing is left half-written.
+ */
+function stopOnSignals(): { signal: AbortSignal; release(): void } {
+  const controller = new AbortController();
+  const onSignal = (name: NodeJS.Signals): void => {
+    if (!controller.signal.aborted) return controller.abort(name);
+    process.exit(name === 'SIGINT' ? 130 : 143);
+  };
+  process.on('SIGINT', onSignal);
+  process.on('SIGTERM', onSignal);
+  return {
+    signal: controller.signal,
+    release: () => {
+      process.off('SIGINT', onSignal);
+      process.off('SIGTERM', onSignal);
+    },
+  };
+}
