@@ -1,14 +1,16 @@
 /**
  * What `watch` does with one capture that has landed and settled: the default `onCapture` strategy.
- * Each file is one check of its unit at the condition(s) it covers — exactly the run that
- * `benchproof check FILE --spec SPEC` would store, so conditions without a capture in the file are
- * NOT MEASURED in the stored run and a unit's record never shows PASS from a partial set. The line
- * printed for the file gives the statement of the checks the file itself supplies.
+ * A landed file is checked together with its companions: for each other condition (or output) of
+ * the same unit, the newest file in the same folder whose bytes were recorded already. The stored run
+ * is exactly what `benchproof check` would store for that set of files, so once every condition of a
+ * unit has landed, its record shows the unit's overall statement; conditions with nothing in the
+ * folder yet are NOT MEASURED, and a unit never shows PASS from a partial set. The line printed for
+ * the file gives the statement of the checks the file itself supplies, and the run's overall one.
  *
  * Another mode (e.g. calibration) plugs in by giving the session another `CaptureHandlerFactory`.
  */
-import { readFile } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { readdir, readFile, stat } from 'node:fs/promises';
+import { basename, dirname, join, resolve } from 'node:path';
 import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
 import type { RecordStore } from '../records/index.js';
 import { sha256Hex } from '../records/index.js';
@@ -72,7 +74,8 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
     const earlier = env.store.captureRecorded({ unit: plan.unit, condition: plan.condition, sha256 });
     if (earlier !== undefined) return { status: 'recorded-already', file, unit: plan.unit, condition: plan.condition, runId: earlier };
     const startedAt = new Date().toISOString();
-    const [checked] = await checkPlans(env.ctx, env.spec, [plan], env.timing);
+    const companions = await recordedCompanions(env, plan);
+    const [checked] = await checkPlans(env.ctx, env.spec, [plan, ...companions], env.timing);
     const saved = env.store.saveRunOnce(runOf(env.ctx, checked, env.author, startedAt, env.specText));
     if (!saved.stored) return { status: 'recorded-already', file, unit: plan.unit, condition: plan.condition, runId: saved.runId };
     const record = await refreshRecord(env, plan.unit).catch((err: Error) => err);
@@ -93,6 +96,44 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
     return { status: 'error', file, error: err as Error };
   }
 };
+
+/** What a plan covers: its condition and outputs; one file per key goes into a run. */
+const coverKey = (p: CapturePlan): string => `${p.condition}|${p.outputs.map((o) => o.output).sort().join(',')}`;
+
+/**
+ * The newest already-recorded file for each other condition/output of the same unit in the landed
+ * file's folder. Only recorded bytes are taken, so a companion is a capture that was checked cleanly
+ * before; with a --condition override every file is the same condition and there are none.
+ */
+async function recordedCompanions(env: WatchEnv, plan: CapturePlan): Promise<CapturePlan[]> {
+  if (env.overrides.condition !== undefined) return [];
+  const folder = dirname(plan.path);
+  const names = await readdir(resolve(env.ctx.io.cwd, folder)).catch(() => [] as string[]);
+  const newest = new Map<string, { plan: CapturePlan; mtime: number }>();
+  for (const name of names) {
+    const path = folder === '.' ? name : join(folder, name);
+    if (name === basename(plan.path)) continue;
+    let other: CapturePlan;
+    try {
+      other = planCapture(env.spec, path, env.overrides);
+    } catch {
+      continue; // names that miss the pattern are not companions
+    }
+    if (other.unit !== plan.unit || coverKey(other) === coverKey(plan)) continue;
+    try {
+      const full = resolve(env.ctx.io.cwd, path);
+      const { mtimeMs } = await stat(full);
+      const known = newest.get(coverKey(other));
+      if (known && known.mtime >= mtimeMs) continue;
+      const sha256 = sha256Hex(await readFile(full));
+      if (env.store.captureRecorded({ unit: other.unit, condition: other.condition, sha256 }) === undefined) continue;
+      newest.set(coverKey(other), { plan: other, mtime: mtimeMs });
+    } catch {
+      continue; // a file that vanished or cannot be read is simply not a companion
+    }
+  }
+  return [...newest.values()].map((c) => c.plan);
+}
 
 /** The statement of the checks this file supplies: its outputs at its condition. */
 function fileStatement({ verdict }: CheckedUnit, plan: CapturePlan): Statement {

@@ -41,7 +41,9 @@ export function outcomeLines(o: CaptureOutcome, json: boolean, style: TextStyle,
     case 'checked': {
       const cause = o.cause ? `  likely cause: ${o.cause.title}` : '';
       const record = o.record ? `; record ${o.record}` : o.recordError ? `; record NOT refreshed: ${oneLine(o.recordError)}` : '';
-      return { stdout: `${name}  ${o.unit}  ${o.condition}  ${style.statement(o.statement)}${cause}  (run #${o.runId}${record})\n` };
+      // The unit's statement over every condition recorded so far, which may differ from this file's.
+      const unit = `unit ${style.statement(o.runStatement)}`;
+      return { stdout: `${name}  ${o.unit}  ${o.condition}  ${style.statement(o.statement)}${cause}  (${unit}; run #${o.runId}${record})\n` };
     }
     case 'recorded-already':
       return { stderr: `benchproof: ${name}: already recorded for ${o.unit} at ${o.condition} (run #${o.runId}); not stored again\n` };

@@ -37,8 +37,8 @@ describe('watch session', { timeout: 180_000 }, () => {
     const tally = await s.stop();
     const lines = s.lines().sort();
     expect(lines).toHaveLength(2);
-    expect(lines[0]).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS {2}\(run #\d\)$/);
-    expect(lines[1]).toMatch(/^FK-0103_mid\.csv {2}FK-0103 {2}mid {2}FAIL {2}likely cause: charge\/discharge current mismatch.* {2}\(run #\d\)$/);
+    expect(lines[0]).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS {2}\(unit NOT MEASURED; run #\d\)$/);
+    expect(lines[1]).toMatch(/^FK-0103_mid\.csv {2}FK-0103 {2}mid {2}FAIL {2}likely cause: charge\/discharge current mismatch.* {2}\(unit FAIL; run #\d\)$/);
     // The stored run is what `check FILE` stores: the other conditions are not measured in it.
     expect(storedRuns().sort((a, b) => a.unit.localeCompare(b.unit))).toEqual([
       { unit: 'FK-0101', condition: 'mid', statement: 'not-measured' },
@@ -46,6 +46,21 @@ describe('watch session', { timeout: 180_000 }, () => {
     ]);
     expect(tally.statements).toMatchObject({ pass: 1, fail: 1 });
     expect(s.err()).toMatch(/watch stopped: 2 file\(s\) checked \(1 PASS, 1 FAIL\); runs in /);
+  });
+
+  it('checks each landed file with the unit’s captures already recorded from the folder, so the unit passes once every condition is in', async () => {
+    const s = startSession(root);
+    await s.ready;
+    for (const [i, condition] of ['low', 'mid', 'high'].entries()) {
+      copySample(`FK-0101_${condition}.csv`, drop);
+      await waitFor(() => s.lines().length >= i + 1, `status line ${i + 1}`, s.err);
+    }
+    await s.stop();
+    // Runs hold the landed file plus the recorded companions: low; low+mid; low+mid+high.
+    const runs = storedRuns();
+    expect(runs.map((r) => r.condition.split('+').sort().join('+'))).toEqual(['low', 'low+mid', 'high+low+mid']);
+    expect(runs.map((r) => r.statement)).toEqual(['not-measured', 'not-measured', 'pass']);
+    expect(s.lines()[2]).toMatch(/^FK-0101_high\.csv {2}FK-0101 {2}high {2}PASS {2}\(unit PASS; run #3\)$/);
   });
 
   it('reads a file written in slow pieces once, after it has settled', async () => {
@@ -130,7 +145,10 @@ describe('watch session', { timeout: 180_000 }, () => {
     await waitFor(() => handled(a) >= 3 && handled(b) >= 3, 'both sessions to handle all three files', () => a.err() + b.err());
     await Promise.all([a.stop(), b.stop()]);
     expect(a.lines().length + b.lines().length).toBe(3);
-    expect(storedRuns().map((r) => r.condition).sort()).toEqual(['high', 'low', 'mid']);
+    // One run per landed file (companions already recorded may ride along in later runs).
+    const runs = storedRuns();
+    expect(runs).toHaveLength(3);
+    expect([...new Set(runs.flatMap((r) => r.condition.split('+')))].sort()).toEqual(['high', 'low', 'mid']);
   });
 
   it("refreshes the unit's HTML record in the report folder and prints NDJSON with --json", async () => {

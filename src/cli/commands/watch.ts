@@ -44,9 +44,10 @@ Examples:
   benchproof watch /media/usb-stick --spec samples/fh210-spec.yaml --report-dir /media/usb-stick
   benchproof watch /mnt/bench-share --spec samples/fh210-spec.yaml --poll --json
 
-Each file is one check of its unit at the condition in its name, stored like \`benchproof check FILE\`
-(conditions not in the file count as not measured in that run; check all of a unit's files together
-for its overall statement). The same bytes for the same unit and condition are never stored twice.
+Each landed file is checked with the unit's other recorded captures in the same folder (one per
+condition), and stored like \`benchproof check\` on those files: once every condition has landed,
+the unit's record shows its overall statement; until then the missing conditions are NOT MEASURED.
+The same bytes for the same unit and condition are never stored twice.
 Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit status 0, 2 bad input.`,
     )
     .action(async (dir: string, opts: WatchOptions, cmd: Command) => {
