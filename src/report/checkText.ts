@@ -4,6 +4,7 @@
  * user's hints, then the circuit view (when the spec has a design section), the ranked likely causes
  * with evidence and the next measurement, and one overall line per unit.
  */
+import { STATEMENT_WORDS } from '../types/index.js';
 import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
 import { formatLimits, formatMeasured, formatQuantity } from './unitsSi.js';
@@ -84,4 +85,21 @@ function overallLine(verdict: UnitVerdict, style: TextStyle): string {
   const count = (s: Statement): number => checks.filter((c) => c.statement === s).length;
   const parts = [`${count('fail')} failed`, `${count('conditional-fail')} cond. failed`, `${count('not-measured')} not measured`, `${count('conditional-pass')} cond. passed`];
   return `${style.bold(verdict.unit)}: ${style.statement(verdict.statement)}  ${style.dim(`(${parts.join(', ')} of ${checks.length} checks)`)}`;
+}
+
+/**
+ * One line per unit, for checking a whole batch at once: the unit's statement, the count of checks
+ * that did not pass, and the first likely cause. The full tables stay one `check` away.
+ */
+export function renderCheckSummary(units: readonly UnitCheck[], style: TextStyle): string {
+  const width = Math.max(4, ...units.map((u) => u.verdict.unit.length));
+  const lines = units.map(({ verdict, diagnosis }) => {
+    const checks = verdict.conditions.flatMap((c) => c.checks);
+    const off = checks.filter((c) => c.statement !== 'pass').length;
+    const word = STATEMENT_WORDS[verdict.statement];
+    const cause = diagnosis.causes[0] ? `likely cause: ${diagnosis.causes[0].title}` : '';
+    const counted = `${off} of ${checks.length} checks not passed`;
+    return `${verdict.unit.padEnd(width)}  ${style.statement(verdict.statement)}${' '.repeat(Math.max(1, 13 - word.length))}${style.dim(counted)}${cause ? `  ${cause}` : ''}`;
+  });
+  return `${lines.join('\n')}\n`;
 }

@@ -1,7 +1,7 @@
 export { colorWanted, createStyle } from './style.js';
 export type { TextStyle } from './style.js';
 export { renderMeasureText } from './measureText.js';
-export { renderCheckText } from './checkText.js';
+export { renderCheckSummary, renderCheckText } from './checkText.js';
 export type { UnitCheck } from './checkText.js';
 export { checkDocument } from './checkJson.js';
 export type { CheckDocument } from './checkJson.js';

@@ -11,6 +11,7 @@ interface CheckOptions extends StoreFlags {
   unit?: string;
   condition?: string;
   json?: boolean;
+  summary?: boolean;
   strict?: boolean;
   sampleRate?: string;
   interval?: string;
@@ -25,6 +26,7 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
     .option('--unit <serial>', 'serial number of the unit, instead of the one in the file names')
     .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
+    .option('--summary', 'one line per unit (statement, checks not passed, first likely cause) instead of the tables')
     .option('--strict', 'treat a conditional pass as a failure (exit 1)')
     .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
     .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
@@ -33,6 +35,7 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
       `
 Examples:
   benchproof check samples/captures/FK-0101_*.csv --spec samples/fh210-spec.yaml
+  benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --summary --no-store
   benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --json
   benchproof check bench/scope-01.csv --spec samples/fh210-spec.yaml --unit FK-0107 --condition mid
 
@@ -47,7 +50,7 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       const readOptions = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
       const startedAt = new Date().toISOString();
       // The stages load here, not at start-up: `benchproof --help` should not wait for them.
-      const [{ checkPlans, loadSpec, planCapture }, { createProgress }, { checkDocument, renderCheckText }, { storeCheckedUnits }] = await Promise.all([
+      const [{ checkPlans, loadSpec, planCapture }, { createProgress }, { checkDocument, renderCheckSummary, renderCheckText }, { storeCheckedUnits }] = await Promise.all([
         import('../checkRun.js'),
         import('../progress.js'),
         import('../../report/index.js'),
@@ -61,7 +64,8 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       // Every checked unit is stored by default, one transaction each; --no-store skips it.
       storeCheckedUnits(ctx, opts, units, startedAt, specText);
 
-      ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : renderCheckText(units, ctx.styleFor(cmd)));
+      const render = opts.summary ? renderCheckSummary : renderCheckText;
+      ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : render(units, ctx.styleFor(cmd)));
       ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));
       flagConditional(ctx, spec, units, Boolean(opts.strict));
     });
