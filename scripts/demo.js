@@ -17,9 +17,13 @@ if (!existsSync(join(root, 'dist', 'cli', 'main.js'))) {
   process.exit(2);
 }
 
+// Bold step titles only on a terminal, and never with NO_COLOR set (https://no-color.org).
+const colour = process.stdout.isTTY && !process.env.NO_COLOR && process.env.TERM !== 'dumb';
+const bold = (s) => (colour ? `\x1b[1m${s}\x1b[0m` : s);
+
 function step(title, args, { allowFail = false } = {}) {
   const shown = args.map((a) => (/^[\w./:@%+=-]+$/.test(a) ? a : `"${a}"`)).join(' ');
-  process.stdout.write(`\n\x1b[1m━━ ${title}\x1b[0m\n$ benchproof ${shown}\n\n`);
+  process.stdout.write(`\n${bold(`━━ ${title}`)}\n$ benchproof ${shown}\n\n`);
   const r = spawnSync(process.execPath, [bin, ...args], { cwd: root, stdio: 'inherit', env: process.env });
   if (r.status === 2 || r.status === 3 || (r.status !== 0 && !allowFail)) {
     process.stderr.write(`demo: step "${title}" ended with exit status ${r.status}\n`);
