@@ -62,13 +62,30 @@ function conditions(rec: UnitRecord): string {
 
 function causes(rec: UnitRecord): string {
   const list = latest(rec).diagnosis.causes;
-  if (list.length === 0) return '## Likely causes\n\nNone: nothing in the latest run points at a fault.';
+  if (list.length === 0) return `## Likely causes\n\nNone: nothing in the latest run points at a fault.${circuitFigures(rec)}`;
   const items = list.map((c, i) => {
     const lines = [`${i + 1}. **${md(c.title)}** (weight ${c.score.toFixed(2)})`, ...c.evidence.map((e) => `   - ${md(e)}`), `   - to confirm: ${md(c.confirm)}`];
     if (c.where) lines.push(`   - where to look: ${md(c.where)}`);
     return lines.join('\n');
   });
-  return `## Likely causes\n\n${items.join('\n')}`;
+  return `## Likely causes\n\n${items.join('\n')}${circuitFigures(rec)}`;
+}
+
+/** The circuit view (back-computed figures against the design), when the spec has a design section. */
+function circuitFigures(rec: UnitRecord): string {
+  const views = latest(rec).diagnosis.circuit ?? [];
+  return views
+    .map((v) => {
+      const rows = v.figures.map((f) => [
+        md(f.label),
+        formatMeasured(f.value, f.uncertainty, f.unit),
+        f.design === undefined ? '—' : formatQuantity(f.design, f.unit),
+        f.deviation === undefined ? '—' : `${f.deviation.toFixed(2)} %${f.withinTolerance === false ? ' (outside)' : ''}`,
+        md(f.note ?? ''),
+      ]);
+      return `\n\n### Circuit figures at ${md(v.condition)}\n\n${mdTable(['figure', 'from the captures (± U, k = 2)', 'design', 'deviation', 'note'], rows)}`;
+    })
+    .join('');
 }
 
 function history(rec: UnitRecord): string {
