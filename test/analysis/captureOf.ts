@@ -1,6 +1,7 @@
 /** Wraps synthesized signals into a Capture, as the reader would hand it to measureCapture. */
 import type { Capture, CaptureChannel, ClipInfo } from '../../src/types/index.js';
 import type { SynthSignal } from '../../src/synth/index.js';
+import { plainLayout } from '../helpers/plainLayout.js';
 
 export interface ChannelSpec {
   readonly name?: string;
@@ -28,21 +29,7 @@ export function captureOf(signals: readonly SynthSignal[], specs: readonly Chann
     path: 'synthetic.csv',
     sha256: '0'.repeat(64),
     size: 0,
-    layout: {
-      delimiter: ',',
-      decimalMark: '.',
-      headerLine: 1,
-      firstDataLine: 2,
-      lastDataLine: length + 1,
-      columns: [],
-      timeColumn: 0,
-      indexColumn: null,
-      timing: 'time-column',
-      resampled: false,
-      compressed: false,
-      bom: false,
-      lineEnding: 'lf',
-    },
+    layout: plainLayout(length),
     metadata: {},
     startTime: first.t0,
     sampleInterval: first.dt,

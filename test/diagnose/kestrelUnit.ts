@@ -8,6 +8,7 @@ import type { Spec } from '../../src/spec/index.js';
 import { KESTREL_CONDITIONS, KESTREL_UNITS, kestrelCapture } from '../../src/synth/index.js';
 import type { ScenarioCondition, SynthSignal, UnitTraits } from '../../src/synth/index.js';
 import type { Capture, CheckedCapture } from '../../src/types/index.js';
+import { plainLayout } from '../helpers/plainLayout.js';
 
 export interface SignalChannel {
   readonly name: string;
@@ -22,21 +23,7 @@ export function captureOf(path: string, channels: readonly SignalChannel[]): Cap
     path,
     sha256: '0'.repeat(64),
     size: values.length * 24,
-    layout: {
-      delimiter: ',',
-      decimalMark: '.',
-      headerLine: 1,
-      firstDataLine: 2,
-      lastDataLine: values.length + 1,
-      columns: [{ name: 'Time', unit: 's', scale: 1, siUnit: 's' }, ...channels.map((c) => ({ name: c.name, unit: 'V', scale: 1, siUnit: 'V' }))],
-      timeColumn: 0,
-      indexColumn: null,
-      timing: 'time-column',
-      resampled: false,
-      compressed: false,
-      bom: false,
-      lineEnding: 'lf',
-    },
+    layout: plainLayout(values.length, channels.map((c) => c.name)),
     metadata: {},
     startTime: t0,
     sampleInterval: dt,

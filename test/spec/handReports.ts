@@ -4,6 +4,7 @@
  */
 import type { Capture, ChannelReport, Measurement, MeasureReport, MeasurementId, Shape } from '../../src/types/index.js';
 import { MEASUREMENT_UNITS } from '../../src/types/index.js';
+import { plainLayout } from '../helpers/plainLayout.js';
 
 export type Values = Partial<Record<MeasurementId, number | null | [number, number | null]>>;
 
@@ -27,21 +28,7 @@ export function captureStub(path: string, names: readonly string[]): Capture {
     path,
     sha256: 'a'.repeat(64),
     size: 1234,
-    layout: {
-      delimiter: ',',
-      decimalMark: '.',
-      headerLine: 1,
-      firstDataLine: 2,
-      lastDataLine: 1001,
-      columns: [{ name: 'Time', unit: 's', scale: 1, siUnit: 's' }, ...names.map((n) => ({ name: n, unit: 'V', scale: 1, siUnit: 'V' }))],
-      timeColumn: 0,
-      indexColumn: null,
-      timing: 'time-column',
-      resampled: false,
-      compressed: false,
-      bom: false,
-      lineEnding: 'lf',
-    },
+    layout: plainLayout(1000, names),
     metadata: {},
     startTime: 0,
     sampleInterval: 1e-5,
