@@ -100,26 +100,52 @@ function withJson(r) {
 function summarize(runs) {
   const ok = runs.length > 0 && runs.every((r) => r.ok);
   const walls = runs.filter((r) => r.ok).map((r) => r.wall);
+  const cpus = runs.filter((r) => r.ok).map((r) => r.cpu);
   const rss = runs.map((r) => r.maxRss).filter(Number.isFinite);
   return {
     ok,
     error: ok ? null : (runs.find((r) => !r.ok)?.error ?? 'not run'),
     runs: walls,
     medianWall: ok ? median(walls) : null,
+    cpuRuns: cpus,
+    medianCpu: ok ? median(cpus) : null,
     maxRss: rss.length ? Math.max(...rss) : null,
   };
 }
 
+/** Stage runs per file: each is a fresh process (cold, as a user's run is); the median counts. */
+const STAGE_RUNS = 3;
+
 async function stageTimes(file, ctx) {
-  const r = await runTimed(process.execPath, [join(ctx.root, 'bench', 'stages.js'), file], { cwd: ctx.root, useTime: false });
-  const s = r.ok ? parseJson(r.stdout) : null;
-  if (!s) return { error: r.error ?? 'no JSON from bench/stages.js' };
-  return { ...s, file: relative(ctx.root, s.file) };
+  const runs = [];
+  for (let i = 0; i < STAGE_RUNS; i++) {
+    const r = await runTimed(process.execPath, [join(ctx.root, 'bench', 'stages.js'), file], { cwd: ctx.root, useTime: false });
+    const s = r.ok ? parseJson(r.stdout) : null;
+    if (!s) return { error: r.error ?? 'no JSON from bench/stages.js' };
+    runs.push(s);
+  }
+  return { ...medianOf(runs), file: relative(ctx.root, runs[0].file), runs: runs.length };
 }
 
 async function fftProbe(ctx) {
-  const r = await runTimed(process.execPath, [join(ctx.root, 'bench', 'stages.js'), '--fft', '4000000'], { cwd: ctx.root, useTime: false });
-  return r.ok ? (parseJson(r.stdout) ?? { error: 'no JSON' }) : { error: r.error };
+  const runs = [];
+  for (let i = 0; i < STAGE_RUNS; i++) {
+    const r = await runTimed(process.execPath, [join(ctx.root, 'bench', 'stages.js'), '--fft', '4000000'], { cwd: ctx.root, useTime: false });
+    const s = r.ok ? parseJson(r.stdout) : null;
+    if (!s) return { error: r.error ?? 'no JSON' };
+    runs.push(s);
+  }
+  return { ...medianOf(runs), runs: runs.length };
+}
+
+/** Field by field median of the stage reports (nested objects such as `cpu` too); other fields from the first. */
+function medianOf(reports) {
+  const out = { ...reports[0] };
+  for (const [key, value] of Object.entries(reports[0])) {
+    if (typeof value === 'number') out[key] = median(reports.map((r) => r[key]));
+    else if (value && typeof value === 'object') out[key] = medianOf(reports.map((r) => r[key]));
+  }
+  return out;
 }
 
 function growthOf(files) {

@@ -18,7 +18,8 @@ const cpuSeconds = (c0) => {
 async function stages(file) {
   const { readCapture } = await import('../dist/capture/index.js');
   const analysis = await import('../dist/analysis/index.js');
-  const { analyzeSpectrum } = await import('../dist/analysis/spectralAnalysis.js');
+  const spectral = await import('../dist/analysis/spectralAnalysis.js');
+  const { analyzeSpectrum } = spectral;
   let t = performance.now();
   let c = process.cpuUsage();
   const capture = await readCapture(file);
@@ -33,6 +34,8 @@ async function stages(file) {
   let method;
   if (typeof analysis.measureChannel === 'function') {
     method = 'measureChannel + analyzeSpectrum per channel';
+    // As measureCapture does: one transform buffer lent to every channel (when this build has it).
+    const buffer = spectral.spectralBufferLength ? new Float64Array(spectral.spectralBufferLength(capture.length)) : undefined;
     for (const ch of capture.channels) {
       const clipped = ch.clipped && ch.clipped.high + ch.clipped.low > 0 ? ch.clipped : undefined;
       t = performance.now();
@@ -45,6 +48,7 @@ async function stages(file) {
       const duty = a.results?.dutyCycle;
       analyzeSpectrum(ch.samples, dt, a.fundamental, a.shape, {
         clipped: clipped !== undefined,
+        ...(buffer ? { buffer } : {}),
         ...(a.shape === 'pulse' && duty?.ok ? { dutyCycle: duty.value } : {}),
       });
       spectrum += seconds(t);

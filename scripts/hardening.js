@@ -1,4 +1,5 @@
 #!/usr/bin/env node
+/* global process, setTimeout, clearTimeout */
 // The long hardening run (`npm run hardening`, after `npm run build`): the tests in test/hardening
 // with BENCHPROOF_HARDENING=long (thousands of fuzzed captures and specs, 100+ killed processes),
 // then a summary of inputs tried, crashes, hangs and records lost — all must be 0.

@@ -20,8 +20,18 @@ export function parseMaxRss(report) {
 }
 
 /**
+ * CPU seconds (user + system, all threads) from a `time -v` report, or null. Steadier than wall time
+ * on a shared machine: time spent waiting for another process's turn on a core is not counted.
+ */
+export function parseCpuSeconds(report) {
+  const user = /User time \(seconds\):\s*([\d.]+)/.exec(report);
+  const sys = /System time \(seconds\):\s*([\d.]+)/.exec(report);
+  return user && sys ? Number(user[1]) + Number(sys[1]) : null;
+}
+
+/**
  * Run `cmd args` (under GNU time when available). Never throws: returns
- * { ok, code, signal, wall, maxRss, stdout, stderr, error }.
+ * { ok, code, signal, wall, maxRss, cpu, stdout, stderr, error }.
  */
 export function runTimed(cmd, args, { cwd, timeoutMs = 15 * 60_000, useTime = existsSync(GNU_TIME) } = {}) {
   const report = join(tmpdir(), `benchproof-bench-${process.pid}-${serial++}.time`);
@@ -36,7 +46,7 @@ export function runTimed(cmd, args, { cwd, timeoutMs = 15 * 60_000, useTime = ex
     try {
       child = spawn(file, argv, { cwd, stdio: ['ignore', 'pipe', 'pipe'] });
     } catch (e) {
-      resolve({ ok: false, code: null, signal: null, wall: null, maxRss: null, stdout: '', stderr: '', error: String(e) });
+      resolve({ ok: false, code: null, signal: null, wall: null, maxRss: null, cpu: null, stdout: '', stderr: '', error: String(e) });
       return;
     }
     const timer = setTimeout(() => {
@@ -53,14 +63,17 @@ export function runTimed(cmd, args, { cwd, timeoutMs = 15 * 60_000, useTime = ex
       const wall = (performance.now() - t0) / 1000;
       clearTimeout(timer);
       let maxRss = null;
+      let cpu = null;
       if (useTime && existsSync(report)) {
-        maxRss = parseMaxRss(readFileSync(report, 'utf8'));
+        const text = readFileSync(report, 'utf8');
+        maxRss = parseMaxRss(text);
+        cpu = parseCpuSeconds(text);
         rmSync(report, { force: true });
       }
       const stderr = Buffer.concat(err).toString('utf8');
       const ok = code === 0 && !timedOut;
       const error = ok ? null : timedOut ? `timed out after ${timeoutMs / 1000} s` : `exit ${code ?? signal}: ${lastLines(stderr)}`;
-      resolve({ ok, code, signal, wall, maxRss, stdout: Buffer.concat(out).toString('utf8'), stderr, error });
+      resolve({ ok, code, signal, wall, maxRss, cpu, stdout: Buffer.concat(out).toString('utf8'), stderr, error });
     });
   });
 }

@@ -13,6 +13,9 @@ function fileRows(files) {
       bp.ok ? fmtSeconds(bp.medianWall) : `failed: ${bp.error ?? '?'}`,
       f.peer ? (f.peer.ok ? fmtSeconds(f.peer.medianWall) : 'failed') : '—',
       fmtRatio(f.ratio),
+      bp.ok ? fmtSeconds(bp.medianCpu) : '—',
+      f.peer?.ok ? fmtSeconds(f.peer.medianCpu) : '—',
+      fmtRatio(cpuRatio(f)),
       bp.ok ? fmtRate(f.bytes / bp.medianWall) : '—',
       bp.ok ? fmtSampleRate(samples / bp.medianWall) : '—',
       fmtMiB(bp.maxRss), f.peer ? fmtMiB(f.peer.maxRss) : '—',
@@ -22,7 +25,14 @@ function fileRows(files) {
   });
 }
 
-const FILE_HEADER = ['capture', 'rows', 'size', 'benchproof', 'peer', 'ratio', 'MB/s', 'samples/s', 'bp peak RSS', 'peer peak RSS', 'read+parse', 'time domain', 'spectrum'];
+/** benchproof / peer median CPU time (user + system), or null. */
+function cpuRatio(f) {
+  const a = f.benchproof?.medianCpu;
+  const b = f.peer?.medianCpu;
+  return Number.isFinite(a) && Number.isFinite(b) && b > 0 ? a / b : null;
+}
+
+const FILE_HEADER = ['capture', 'rows', 'size', 'benchproof', 'peer', 'ratio', 'bp CPU', 'peer CPU', 'CPU ratio', 'MB/s', 'samples/s', 'bp peak RSS', 'peer peak RSS', 'read+parse', 'time domain', 'spectrum'];
 
 function growthRows(growth) {
   return Object.entries(growth).flatMap(([kind, g]) => g.map((x) => [KIND[kind], x.label, fmtSeconds(x.wall), fmtRatio(x.vs1M), fmtRatio(x.perRowVs1M)]));
@@ -54,7 +64,11 @@ function sections(results, table) {
   const out = [['Whole-process runs (median wall time) and stages', table(FILE_HEADER, fileRows(files))]];
   const g = growthRows(growth);
   if (g.length) out.push(['Growth of benchproof end-to-end time', table(['capture', 'rows', 'wall', 'vs 1M', 'per row vs 1M'], g)]);
-  if (fft) out.push(['FFT wrapper', fft.error ? `failed: ${fft.error}` : `${fft.points} points padded to ${fft.size}: first transform ${fmtSeconds(fft.cold)} (includes building the tables), next ${fmtSeconds(fft.warm)}`]);
+  if (fft) {
+    const cpu = fft.cpu ? ` (CPU ${fmtSeconds(fft.cpu.cold)} and ${fmtSeconds(fft.cpu.warm)})` : '';
+    const runs = fft.runs ? `; median of ${fft.runs} processes` : '';
+    out.push(['FFT wrapper', fft.error ? `failed: ${fft.error}` : `${fft.points} points padded to ${fft.size}: first transform ${fmtSeconds(fft.cold)} (includes building the tables), next ${fmtSeconds(fft.warm)}${cpu}${runs}`]);
+  }
   if (accuracy) out.push([`Accuracy on gen_capture.py, ${accuracy.label} rows (relative error against the generator's constants)`, table(['ch', 'quantity', 'true', 'benchproof', 'error', 'peer', 'error', 'as accurate'], accuracyRows(accuracy.rows))]);
   out.push(['Targets', table(['target', 'status', 'measured', 'note'], targets.map((t) => [t.label, t.status, fmtTarget(t), t.note ?? '']))]);
   return out;

@@ -18,7 +18,10 @@ function speed1M({ files }) {
   const g1 = find(files, 'gen', 1e6);
   if (!g1) return skip('speed-1M', label, '1M not in --sizes');
   if (!Number.isFinite(g1.ratio)) return skip('speed-1M', label, g1.benchproof.error ?? g1.peer?.error ?? 'peer not run');
-  return judge('speed-1M', label, g1.ratio, LIMITS.speedVsPeer, g1.ratio <= LIMITS.speedVsPeer, 'benchproof / peer median wall time');
+  const a = g1.benchproof.medianCpu;
+  const b = g1.peer?.medianCpu;
+  const cpu = Number.isFinite(a) && Number.isFinite(b) && b > 0 ? `; CPU time ${(a / b).toFixed(2)}×` : '';
+  return judge('speed-1M', label, g1.ratio, LIMITS.speedVsPeer, g1.ratio <= LIMITS.speedVsPeer, `benchproof / peer median wall time${cpu}`);
 }
 
 function accuracy1M({ files }) {

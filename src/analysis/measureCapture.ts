@@ -10,7 +10,7 @@
 import type { Capture, CaptureChannel, CaptureWarning, ChannelReport, MeasureReport, Measurement, MeasurementId, MeasureResult } from '../types/index.js';
 import { MEASUREMENT_IDS } from '../types/index.js';
 import { MIN_SAMPLES, measureChannel } from './measureChannel.js';
-import { analyzeSpectrum } from './spectralAnalysis.js';
+import { analyzeSpectrum, spectralBufferLength } from './spectralAnalysis.js';
 import { unitFor } from './units.js';
 import { validRun } from './validRun.js';
 import { waveformPlot } from './waveformPlot.js';
@@ -27,6 +27,8 @@ export function measureCapture(capture: Capture, options: MeasureCaptureOptions 
   const { plotData = false } = options;
   const dt = capture.sampleInterval;
   if (!(dt > 0)) throw new RangeError(`measureCapture: sample interval ${dt} must be positive`);
+  // One transform buffer for every channel: fresh memory is slow to touch (shared/peer/MEASURED.md).
+  const buffer = new Float64Array(spectralBufferLength(capture.length));
   return {
     schemaVersion: 1,
     file: capture.path,
@@ -35,11 +37,11 @@ export function measureCapture(capture: Capture, options: MeasureCaptureOptions 
     samples: capture.length,
     duration: capture.length * dt,
     warnings: capture.warnings,
-    channels: capture.channels.map((ch) => channelReport(ch, capture, plotData)),
+    channels: capture.channels.map((ch) => channelReport(ch, capture, plotData, buffer)),
   };
 }
 
-function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean): ChannelReport {
+function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean, buffer: Float64Array): ChannelReport {
   const dt = capture.sampleInterval;
   const warnings: CaptureWarning[] = [];
   if (ch.unit === '') warnings.push({ code: 'unit-assumed', channel: ch.name, message: `channel ${ch.name} has no unit in the file; its values are taken as volts` });
@@ -60,6 +62,7 @@ function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean):
   const duty = a.results.dutyCycle;
   const spectral = analyzeSpectrum(x, dt, a.fundamental, a.shape, {
     plot: plotData,
+    buffer,
     clipped: clipped !== undefined,
     ...(a.shape === 'pulse' && duty?.ok ? { dutyCycle: duty.value } : {}),
   });

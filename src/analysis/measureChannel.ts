@@ -52,9 +52,9 @@ const NYQUIST_MARGIN = 3;
 export function measureChannel(samples: Float64Array, dt: number, options: ChannelOptions): ChannelAnalysis {
   const { unit } = options;
   const noise = noiseLevel(samples);
-  const [qLow, qHigh] = quantiles(samples, [0.005, 0.995]);
-  const span = qHigh - qLow;
   const range = extremes(samples);
+  const [qLow, qHigh] = quantiles(samples, [0.005, 0.995], range);
+  const span = qHigh - qLow;
   if (!(span > 0)) return noSignal(samples, range, noise, unit);
   const mid0 = (qLow + qHigh) / 2;
   const c0 = midCrossings(samples, mid0, hysteresis(span, noise));

@@ -22,9 +22,9 @@ export function extremes(samples: Float64Array): Range {
   return { min, max };
 }
 
-/** Quantiles of the samples at the given probabilities (each in 0…1). */
-export function quantiles(samples: Float64Array, probabilities: readonly number[]): number[] {
-  const { min, max } = extremes(samples);
+/** Quantiles of the samples at the given probabilities (each in 0…1); `range` saves a pass when the caller has it. */
+export function quantiles(samples: Float64Array, probabilities: readonly number[], range: Range = extremes(samples)): number[] {
+  const { min, max } = range;
   if (!(max > min)) return probabilities.map(() => min);
   const counts = new Float64Array(BINS);
   const scale = BINS / (max - min);

@@ -19,7 +19,7 @@ import { idealSeries } from './idealSeries.js';
 import { sfdr } from './sfdr.js';
 import { shapeError } from './shapeError.js';
 import { snr } from './snr.js';
-import { buildFrame, type SpectralFrame } from './spectralFrame.js';
+import { buildFrame, frameBufferLength, type SpectralFrame } from './spectralFrame.js';
 import { spectrumPlot } from './spectrumPlot.js';
 import { thd } from './thd.js';
 
@@ -32,6 +32,11 @@ export interface SpectralOptions {
   readonly clipped?: boolean;
   /** Pulse only: measured duty cycle in percent, for the ideal series (else estimated from A₂/A₁). */
   readonly dutyCycle?: number;
+  /**
+   * Working memory for the transform, reused between channels (spectralBufferLength values at
+   * least); overwritten. Without it each call allocates its own.
+   */
+  readonly buffer?: Float64Array;
 }
 
 export interface SpectralResult {
@@ -46,6 +51,11 @@ export interface SpectralResult {
 
 /** Longest span transformed at once (2^20 samples). */
 export const MAX_SPAN = 2 ** 20;
+
+/** Values the `buffer` option must hold for a record of `samples` samples. */
+export function spectralBufferLength(samples: number): number {
+  return frameBufferLength(Math.max(1, Math.min(samples, MAX_SPAN)));
+}
 const MIN_SAMPLES = 64;
 /** Sample rate the whole record is decimated to for the hum search when it is too long to transform at once. */
 const HUM_RATE = 4000;
@@ -65,13 +75,13 @@ export function analyzeSpectrum(
   shape: Shape,
   options: SpectralOptions = {},
 ): SpectralResult {
-  const { maxHarmonic = 50, plot = false, clipped = false, dutyCycle } = options;
+  const { maxHarmonic = 50, plot = false, clipped = false, dutyCycle, buffer } = options;
   if (!(dt > 0) || !Number.isFinite(dt)) throw new RangeError(`analyzeSpectrum: dt must be a positive finite number, got ${dt}`);
   if (!Number.isInteger(maxHarmonic) || maxHarmonic < 1) throw new RangeError(`analyzeSpectrum: maxHarmonic must be an integer ≥ 1, got ${maxHarmonic}`);
   const unusable = checkSamples(samples);
   if (unusable !== null) return withheldAll(unusable, shape);
   const fs = 1 / dt;
-  const frame = buildFrame(samples.subarray(0, Math.min(samples.length, MAX_SPAN)), fs, WINDOW);
+  const frame = buildFrame(samples.subarray(0, Math.min(samples.length, MAX_SPAN)), fs, WINDOW, undefined, buffer);
   const measurements: Measurements = {};
   const { table, method, reference } = measureAtFundamental(measurements, frame, fundamental, shape, maxHarmonic, clipped, dutyCycle);
   const humResult = measureHum(measurements, samples, fs, frame, fundamental, reference);

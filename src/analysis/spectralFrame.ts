@@ -28,20 +28,28 @@ export interface SpectralFrame {
   readonly response: (f: number) => number;
 }
 
+/**
+ * `buffer`, when given, is the transform's working memory (at least frameBufferLength(span.length)
+ * values): the frame's spectrum then lives in it until the buffer is used again. Reusing one buffer
+ * for every channel spares the fresh memory, which is slow to touch (shared/peer/MEASURED.md).
+ */
 export function buildFrame(
   span: Float64Array,
   sampleRate: number,
   window: WindowKind,
   response: (f: number) => number = () => 1,
+  buffer?: Float64Array,
 ): SpectralFrame {
   const length = span.length;
   const size = nextPowerOfTwo(length);
+  if (buffer !== undefined && buffer.length < size + 2) throw new RangeError(`buildFrame: buffer holds ${buffer.length} values, a ${length}-sample span needs ${size + 2}`);
   let mean = 0;
   for (let i = 0; i < length; i++) mean += span[i];
   mean /= length;
   // The window is written into the transform buffer, multiplied in place and transformed in place:
-  // one large array per frame (fresh memory is slow to touch, shared/peer/MEASURED.md).
-  const padded = windowSamples(window, length, new Float64Array(size + 2));
+  // one large array per frame, none when the caller lends one.
+  const padded = buffer === undefined ? new Float64Array(size + 2) : buffer.subarray(0, size + 2).fill(0, length, size);
+  windowSamples(window, length, padded);
   let s1 = 0;
   let s2 = 0;
   let ss = 0;
@@ -66,6 +74,11 @@ export function buildFrame(
     binWidth: sampleRate / size,
     response,
   };
+}
+
+/** Values a transform buffer for a span of `length` samples must hold. */
+export function frameBufferLength(length: number): number {
+  return nextPowerOfTwo(length) + 2;
 }
 
 /** W at an offset of `bins` DFT bins from a component. */

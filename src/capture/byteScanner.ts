@@ -7,7 +7,7 @@
 import type { DecimalMark, Delimiter } from '../types/index.js';
 import { lineTooLong, MAX_LINE_BYTES } from './lines.js';
 import type { RowSink } from './rowSink.js';
-import { EMPTY, MARKER, NUMBER, NumberScanner, TEXT } from './scanNumber.js';
+import { EMPTY, fastDecimal, MARKER, NUMBER, NumberScanner, TEXT } from './scanNumber.js';
 
 const SPACE = 32;
 const TAB = 9;
@@ -43,6 +43,7 @@ export class ByteScanner {
   /** Whether to try plainRow first: not for space-delimited layouts, nor after many misses. */
   private plain: boolean;
   private plainMisses = 0;
+  private readonly mark: number;
 
   constructor(
     private readonly layout: ScannerLayout,
@@ -59,6 +60,7 @@ export class ByteScanner {
     this.maxFields = layout.columnCount + 2;
     this.columnCount = layout.columnCount;
     this.plain = !this.spaces;
+    this.mark = layout.decimalMark.charCodeAt(0);
     this.vals = new Float64Array(this.maxFields);
     this.kinds = new Uint8Array(this.maxFields);
     this.exps = new Int32Array(this.maxFields);
@@ -92,9 +94,11 @@ export class ByteScanner {
   }
 
   private lines(b: Buffer, end: number): void {
+    // plainRow relies on a terminator at the end of the region (the last line may lack one).
+    const plain = this.plain && b[end - 1] === this.term;
     let pos = 0;
     while (pos < end) {
-      let stop = this.plain ? this.plainRow(b, pos, end) : -1;
+      let stop = plain && this.plain ? this.plainRow(b, pos) : -1;
       if (stop < 0) stop = this.row(b, pos, end);
       if (stop - pos > MAX_LINE_BYTES) throw lineTooLong(this.layout.file, this.line);
       this.line++;
@@ -104,26 +108,50 @@ export class ByteScanner {
 
   /**
    * The common row, read without the general path's checks: exactly columnCount unquoted numbers
-   * joined by single delimiters, then the terminator (a CR before an LF allowed). Such a row reads
-   * the same through row(); this path only drops the checks for blanks, quotes, empty fields and
-   * text. Returns the terminator's index, or −1 with nothing pushed to leave the row to row().
+   * joined by single delimiters, then the terminator (a CR before an LF allowed), each number within
+   * the exact fast path of NumberScanner (the same grammar: sign, digits, decimal mark, exponent).
+   * Such a row reads the same through row(). Returns the terminator's index, or −1 with nothing
+   * pushed to leave the row to row(). `b[limit − 1]` must be the terminator, which stops every loop.
    */
-  private plainRow(b: Buffer, s: number, limit: number): number {
-    const { vals, kinds, exps, num, delim, term, columnCount } = this;
+  private plainRow(b: Buffer, s: number): number {
+    const { vals, kinds, exps, delim, term, columnCount, mark } = this;
     let pos = s;
-    for (let n = 0; n < columnCount; n++) {
-      num.scanInto(b, pos, limit, vals, n);
-      if (num.kind !== NUMBER) return this.plainMiss();
-      kinds[n] = NUMBER;
-      exps[n] = num.quantumExp;
-      pos = num.end;
-      if (n + 1 < columnCount) {
-        if (pos >= limit || b[pos] !== delim) return this.plainMiss();
-        pos++;
+    let c = b[pos];
+    for (let n = 0; ; n++) {
+      const neg = c === 45;
+      if (neg || c === 43) c = b[++pos];
+      let mant = 0;
+      let digits = pos;
+      for (; c >= 48 && c <= 57; c = b[++pos]) mant = mant * 10 + (c - 48);
+      digits = pos - digits;
+      let frac = 0;
+      if (c === mark) {
+        const from = pos + 1;
+        for (c = b[++pos]; c >= 48 && c <= 57; c = b[++pos]) mant = mant * 10 + (c - 48);
+        frac = pos - from;
       }
+      if (digits + frac === 0) return this.plainMiss();
+      let exp = 0;
+      if (c === 101 || c === 69) {
+        c = b[++pos];
+        const expNeg = c === 45;
+        if (expNeg || c === 43) c = b[++pos];
+        const from = pos;
+        for (; c >= 48 && c <= 57 && exp < 1000; c = b[++pos]) exp = exp * 10 + (c - 48);
+        if (pos === from) return this.plainMiss();
+        if (expNeg) exp = -exp;
+      }
+      const v = fastDecimal(mant, exp - frac, neg);
+      if (v !== v) return this.plainMiss();
+      vals[n] = v;
+      kinds[n] = NUMBER;
+      exps[n] = exp - frac;
+      if (n + 1 === columnCount) break;
+      if (c !== delim) return this.plainMiss();
+      c = b[++pos];
     }
-    if (pos < limit && b[pos] === CR && term !== CR) pos++;
-    if (pos >= limit || b[pos] !== term) return this.plainMiss();
+    if (c === CR && term !== CR) c = b[++pos];
+    if (c !== term) return this.plainMiss();
     return this.pushRow(b, s, pos, columnCount);
   }
 

@@ -49,19 +49,23 @@ export function detectClipping(x: Float64Array): ClipInfo | null {
     } else if (v > min && v < above) above = v;
   }
   if (valid === 0 || max === min) return null;
-  const high = pinnedSamples(x, max, max - below, 1);
-  const low = pinnedSamples(x, min, above - min, -1);
+  const { high, low } = pinnedSamples(x, max, max - below, min, above - min);
   const limit = MIN_SHARE * valid;
   if (high < limit && low < limit) return null;
   return { high: high >= limit ? high : 0, low: low >= limit ? low : 0 };
 }
 
-/** Samples in runs at `level` that satisfy rules 1 and 2; `dir` is +1 for the top, −1 for the bottom. */
-function pinnedSamples(x: Float64Array, level: number, q: number, dir: number): number {
-  let total = 0;
+/**
+ * Samples in runs at the top (`max`, resolution qHigh) and at the bottom (`min`, qLow) that satisfy
+ * rules 1 to 3, found in one pass: the two levels differ, so their runs never touch.
+ */
+function pinnedSamples(x: Float64Array, max: number, qHigh: number, min: number, qLow: number): { high: number; low: number } {
+  let high = 0;
+  let low = 0;
   let i = 0;
   while (i < x.length) {
-    if (x[i] !== level) {
+    const level = x[i];
+    if (level !== max && level !== min) {
       i++;
       continue;
     }
@@ -69,14 +73,17 @@ function pinnedSamples(x: Float64Array, level: number, q: number, dir: number): 
     while (i < x.length && x[i] === level) i++;
     const run = i - a;
     if (run < MIN_RUN) continue;
+    const [dir, q] = level === max ? [1, qHigh] : [-1, qLow];
     const cap = Math.floor(run / APPROACH_RATIO) + 1;
     const before = a > 0 ? approach(x, a - 1, -1, level, q, dir, cap) : -1;
     const after = i < x.length ? approach(x, i, 1, level, q, dir, cap) : -1;
     if (before < 0 && after < 0) continue;
     if (run <= APPROACH_RATIO * Math.max(before, after)) continue;
-    if (cutsRamp(x, a - 1, -1, level, q, dir) || cutsRamp(x, i, 1, level, q, dir)) total += run;
+    if (!cutsRamp(x, a - 1, -1, level, q, dir) && !cutsRamp(x, i, 1, level, q, dir)) continue;
+    if (dir > 0) high += run;
+    else low += run;
   }
-  return total;
+  return { high, low };
 }
 
 /** Consecutive samples from `from` (walking by `step`) within 2q of the level, counted up to `cap`. */

@@ -13,11 +13,15 @@ export function captureError(code: string, file: string, p: CaptureProblem): Ben
     code: `capture.${code}`,
     file,
     ...(p.line !== undefined ? { line: p.line } : {}),
-    problem: p.problem,
-    expected: p.expected,
-    fix: p.fix,
+    // Problems quote the file, which may hold line breaks (a lone CR, a quoted field); each field
+    // stays one line of the three-line message.
+    problem: oneLine(p.problem),
+    expected: oneLine(p.expected),
+    fix: oneLine(p.fix),
   });
 }
+
+const oneLine = (s: string): string => s.replace(/[\r\n]+/g, ' ');
 
 /** The generic "expected" text for a capture's layout. */
 export const EXPECTED_CSV =

@@ -10,7 +10,6 @@ import { captureError } from './errors.js';
 import { MAX_LINE_BYTES, sampleLines, SNIFF_BYTES } from './lines.js';
 import type { SampleLines } from './lines.js';
 import { readMetadata } from './metadata.js';
-import { readWithPapa } from './papaRows.js';
 import type { ColumnRoles } from './roles.js';
 import { columnRoles } from './roles.js';
 import { RowSink, SKIP, X_COLUMN } from './rowSink.js';
@@ -46,6 +45,8 @@ export async function readCapture(path: string, options: ReadCaptureOptions = {}
     const rest: AsyncIterable<Buffer> = { [Symbol.asyncIterator]: () => chunks };
     const data = sample.subarray(sniffed.dataOffset);
     if (sniffed.quotes === 'complex') {
+      // papaparse loads only for the quoted layouts that need it, not at every start.
+      const { readWithPapa } = await import('./papaRows.js');
       await readWithPapa(data, rest, { ...sniffed, lineEnding: lines.lineEnding, firstLine: sniffed.firstDataLine }, sink);
     } else {
       const scanner = new ByteScanner({ ...sniffed, terminator: lines.terminator, firstLine: sniffed.firstDataLine, file: path }, sink);
@@ -91,12 +92,21 @@ async function gatherSample(chunks: AsyncIterator<Buffer>): Promise<{ sample: Bu
   }
 }
 
-/** Rows the file will hold, from the sniffed bytes per row, so that columns are allocated once. */
+/**
+ * Rows the file will hold, so that the columns are allocated once. It errs high: the shortest
+ * sniffed row, less its minus signs (later rows may lose theirs: times and levels change sign), sets
+ * the bytes per row. Capacity never written costs no memory (the pages are never touched), while
+ * a short guess costs a second, larger set of columns and a copy.
+ */
 function estimateRows(lines: SampleLines, s: Sniffed, size: number): number {
   const data = lines.lines.filter((l) => l.line >= s.firstDataLine);
   if (data.length < 2) return 1024;
-  const perRow = (data[data.length - 1].start - s.dataOffset) / (data.length - 1);
-  return Math.ceil(((size - s.dataOffset) / Math.max(1, perRow)) * 1.02) + 16;
+  let shortest = Infinity;
+  for (let i = 0; i + 1 < data.length; i++) {
+    const bytes = data[i + 1].start - data[i].start - (data[i].text.split('-').length - 1);
+    if (bytes < shortest) shortest = bytes;
+  }
+  return Math.ceil((size - s.dataOffset) / Math.max(2, shortest)) + 16;
 }
 
 /** File columns of the channels to keep: all, or the one named by --channel (name or 1-based number). */

@@ -30,8 +30,8 @@ export function columnRoles(s: Sniffed, verticalUnit: string | undefined, file: 
     const i = raw.findIndex((c) => INDEX_NAME.test(c.name.trim()));
     if (t >= 0) time = t;
     else if (i >= 0) index = i;
-  } else if (s.columnCount >= 2 && rises(s.sampleRows)) {
-    if (countsByOne(s.sampleRows)) index = 0;
+  } else if (s.columnCount >= 2 && rises(s.sampleRows())) {
+    if (countsByOne(s.sampleRows())) index = 0;
     else time = 0;
   }
   const x = time ?? index;

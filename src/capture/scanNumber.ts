@@ -19,6 +19,16 @@ const POW10 = Array.from({ length: 23 }, (_, i) => Number(`1e${i}`));
 /** 10^15: mantissas below it have at most 15 significant digits (exact in binary64). */
 const FAST_LIMIT = 1e15;
 
+/**
+ * m·10^k as one correctly rounded operation when that is exact (Clinger's fast path: m < 10^15,
+ * |k| ≤ 22), else NaN, for callers that then read the number the slow way.
+ */
+export function fastDecimal(mant: number, k: number, neg: boolean): number {
+  if (mant >= FAST_LIMIT || k < -22 || k > 22) return NaN;
+  const v = k >= 0 ? mant * POW10[k] : mant / POW10[-k];
+  return neg ? -v : v;
+}
+
 /** Reads one number token from bytes; results land in the fields so the hot loop allocates nothing. */
 export class NumberScanner {
   /** Index just past the token. */

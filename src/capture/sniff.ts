@@ -35,8 +35,12 @@ export interface Sniffed {
   readonly firstDataLine: number;
   /** Byte offset of the first data row in the sample. */
   readonly dataOffset: number;
-  /** Numbers of the sniffed data rows (file units), for telling a time column from data. */
-  readonly sampleRows: readonly (readonly number[])[];
+  /**
+   * Numbers of the sniffed data rows (file units), for telling a time column from data. Read on
+   * first call and kept: only a capture without a header needs them, and reading some 4 000 fields
+   * as text is a fair share of a file's fixed cost.
+   */
+  readonly sampleRows: () => readonly (readonly number[])[];
 }
 
 interface Reading {
@@ -53,8 +57,8 @@ export function sniffLayout(s: SampleLines, file: string): Sniffed {
   // The layout is chosen on the first lines (enough for a preamble and a block of data); the
   // whole 64 KiB is used only when they hold no data.
   const first = lines.slice(0, CHOOSE_LINES);
-  let readings = PAIRS.map((pair) => readAs(first, pair)).filter((r): r is Reading => r !== null);
-  if (readings.length === 0 && lines.length > first.length) readings = PAIRS.map((pair) => readAs(lines, pair)).filter((r): r is Reading => r !== null);
+  let readings = readAll(first);
+  if (readings.length === 0 && lines.length > first.length) readings = readAll(lines);
   if (readings.length === 0) throw noData(file, headerOnly(lines, s.wholeFile) ? 'header-only' : 'no-numeric-data', lines[lines.length - 1].line + 1, s.wholeFile);
   const chosen = choose(readings, lines, file);
   const [delimiter, decimalMark] = chosen.pair;
@@ -65,6 +69,7 @@ export function sniffLayout(s: SampleLines, file: string): Sniffed {
   const columns = trailing ? chosen.columns - 1 : chosen.columns;
   const header = findHeader(lines, chosen.start, delimiter, decimalMark, columns, trailing);
   const preambleEnd = header ? chosen.start - 1 : chosen.start;
+  let rows: number[][] | undefined;
   return {
     delimiter,
     decimalMark,
@@ -76,7 +81,7 @@ export function sniffLayout(s: SampleLines, file: string): Sniffed {
     preamble: lines.slice(0, preambleEnd).map((l) => keyValue(l.text, delimiter)),
     firstDataLine: lines[chosen.start].line,
     dataOffset: lines[chosen.start].start,
-    sampleRows: numericRows(dataSplit.slice(0, 2000).map((x) => x.fields.slice(0, columns)), decimalMark),
+    sampleRows: () => (rows ??= numericRows(dataSplit.slice(0, 2000).map((x) => x.fields.slice(0, columns)), decimalMark)),
   };
 }
 
@@ -85,9 +90,15 @@ function numericRows(rows: readonly string[][], decimalMark: DecimalMark): numbe
   return parsed.filter((r) => r.every((p) => p.kind !== TEXT)).map((r) => r.map((p) => p.value));
 }
 
-function readAs(lines: readonly SampleLine[], pair: readonly [Delimiter, DecimalMark]): Reading | null {
-  const counts = lines.map((l) => {
-    const { fields } = splitFields(l.text, pair[0]);
+/** Every pair's reading; the lines are split once per delimiter, as two pairs share each one. */
+function readAll(lines: readonly SampleLine[]): Reading[] {
+  const splits = new Map<Delimiter, string[][]>();
+  const fieldsBy = (d: Delimiter): string[][] => splits.get(d) ?? splits.set(d, lines.map((l) => splitFields(l.text, d).fields)).get(d)!;
+  return PAIRS.map((pair) => readAs(lines, pair, fieldsBy(pair[0]))).filter((r): r is Reading => r !== null);
+}
+
+function readAs(lines: readonly SampleLine[], pair: readonly [Delimiter, DecimalMark], split: readonly (readonly string[])[]): Reading | null {
+  const counts = split.map((fields) => {
     const kinds = fields.map((f) => parseNumberText(f, pair[1]).kind);
     return kinds.includes(TEXT) || !kinds.includes(NUMBER) ? 0 : fields.length;
   });
@@ -102,9 +113,9 @@ function readAs(lines: readonly SampleLine[], pair: readonly [Delimiter, Decimal
   const first = runs.find((r) => r.len >= Math.min(3, longest))!;
   const columns = counts[first.start];
   const score = counts.slice(first.start).filter((c) => c === columns).length;
-  const signature = lines
+  const signature = split
     .slice(first.start, first.start + 3)
-    .map((l) => splitFields(l.text, pair[0]).fields.map((f) => parseNumberText(f, pair[1]).value).join('|'))
+    .map((fields) => fields.map((f) => parseNumberText(f, pair[1]).value).join('|'))
     .join('/');
   return { pair, start: first.start, columns, score, signature: `${first.start}:${columns}:${signature}` };
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { parseArgs, parseSize, runsFor, sizeLabel } from '../../bench/lib/args.js';
-import { parseMaxRss } from '../../bench/lib/proc.js';
+import { parseCpuSeconds, parseMaxRss } from '../../bench/lib/proc.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
 // Row counts are our own notation for the harness flags (k = 10^3, M = 10^6, SI prefixes).
@@ -49,5 +49,12 @@ describe('peak memory from GNU time', () => {
     // GNU time reports kilobytes of 1024 bytes (getrusage ru_maxrss on Linux, from memory).
     expectWithin(parseMaxRss(report), 140212 * 1024, { abs: 0 }, 'GNU time -v format, from memory');
     expect(parseMaxRss('no such line')).toBeNull();
+  });
+
+  it('parseCpuSeconds adds the user and system lines of a `time -v` report', () => {
+    const report = '\tUser time (seconds): 0.71\n\tSystem time (seconds): 0.19\n\tMaximum resident set size (kbytes): 140212\n';
+    // user + system = the process's CPU time, all threads (getrusage ru_utime + ru_stime, from memory).
+    expectWithin(parseCpuSeconds(report), 0.9, { abs: 1e-12 }, 'GNU time -v format, from memory');
+    expect(parseCpuSeconds('\tUser time (seconds): 0.71\n')).toBeNull();
   });
 });

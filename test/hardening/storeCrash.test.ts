@@ -43,13 +43,15 @@ function settle(t: Tally, dataDir: string, reported: readonly { id: number; unit
 }
 
 /** A process that ended on its own must have ended well: 0/1 with its run reported; 2 or 3 is a failure. */
-function judgeExit(t: Tally, f: Finished, what: string): void {
-  if (f.signal !== null) return;
+function judgeExit(t: Tally, f: Finished, what: string): number {
+  if (f.signal !== null) return 0;
   const stored = reportedRuns(f.stderr).length + watchedRuns(f.stdout).length;
   if (f.code === 3 || f.code === 2 || ((f.code === 0 || f.code === 1) && stored === 0 && what.startsWith('check'))) {
     t.crashes++;
     t.notes.push(`${what} exited ${f.code}: ${f.stderr.split('\n').slice(0, 2).join(' / ')}`);
+    return 1;
   }
+  return 0;
 }
 
 describe.skipIf(!builtCli())('records when benchproof processes are killed (built CLI)', () => {
@@ -102,6 +104,7 @@ describe.skipIf(!builtCli())('records when benchproof processes are killed (buil
     const drop = join(b.root, 'drop');
     const env = { BENCHPROOF_DATA: b.data };
     const rand = seeded(seedFor(8));
+    let failed = 0;
     const reported: { id: number; unit: string }[] = [];
     const dropped: string[] = [];
     const iterations = scaled(2, 40);
@@ -117,16 +120,17 @@ describe.skipIf(!builtCli())('records when benchproof processes are killed (buil
       w.child.kill('SIGKILL');
       const f = await w.done;
       tally.inputs++;
-      judgeExit(tally, f, 'watch');
+      failed += judgeExit(tally, f, 'watch');
       reported.push(...watchedRuns(f.stdout));
     }
     const final = await drainWatch(startCli(['watch', drop, '--spec', b.spec, '--json', '--settle', '150'], { env }), dropped.length);
     tally.inputs++;
-    judgeExit(tally, final, 'watch (not killed)');
+    failed += judgeExit(tally, final, 'watch (not killed)');
     reported.push(...watchedRuns(final.stdout));
     const audit = settle(tally, b.data, reported);
     expect(audit.problems).toEqual([]);
     expect(tally.lost, tally.notes.join('\n')).toBe(0);
+    expect(failed, tally.notes.join('\n')).toBe(0);
     // Every dropped capture ends recorded exactly once, whatever the kills interrupted.
     const units = [...audit.runs.values()].sort();
     expect(units).toEqual(dropped.map((f) => f.split('_')[0]).sort());

@@ -75,10 +75,4 @@ describe('watchFolder', { timeout: 180_000 }, () => {
     expect(settled.map((f) => f.name)).toEqual(['kept.csv']);
   });
 
-  it('watchFolder also sees a landing file when it polls instead of waiting for change notices', async () => {
-    const { settled } = await start({ poll: true });
-    writeFileSync(join(dir, 'FK-0102_low.csv'), 'polled');
-    await waitFor(() => settled.length >= 1, 'the polled file');
-    expect(settled).toEqual([{ name: 'FK-0102_low.csv', size: 6 }]);
-  });
 });

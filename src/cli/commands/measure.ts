@@ -3,7 +3,7 @@ import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
 import type { MeasureReport } from '../../types/index.js';
 import { parsePositive } from '../options.js';
-import type { Progress } from '../progress.js';
+import { createProgress } from '../progress.js';
 
 interface MeasureOptions {
   channel?: string;
@@ -41,7 +41,7 @@ Examples:
       };
       // The stages load here, not at start-up (only what this command needs: no spec, records or report).
       const [{ readCapture }, { measureCapture }] = await Promise.all([import('../../capture/index.js'), import('../../analysis/index.js')]);
-      const progress = await progressFor(ctx, json);
+      const progress = createProgress(ctx, json);
       const reports: MeasureReport[] = [];
       try {
         for (const file of files) {
@@ -54,8 +54,7 @@ Examples:
               progress.update(done);
             },
           });
-          const report = measureCapture({ ...capture, path: file }, { plotData: Boolean(opts.plotData) });
-          reports.push(report);
+          reports.push(measureCapture({ ...capture, path: file }, { plotData: Boolean(opts.plotData) }));
         }
       } finally {
         progress.stop();
@@ -70,9 +69,3 @@ Examples:
     });
 }
 
-/** The progress bar only when one may be drawn: cli-progress is not even loaded otherwise. */
-async function progressFor(ctx: CommandContext, json: boolean): Promise<Progress> {
-  if (!ctx.progressAllowed(json)) return { start() {}, update() {}, stop() {} };
-  const { createProgress } = await import('../progress.js');
-  return createProgress(ctx, json);
-}

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { isPowerOfTwo, nextPowerOfTwo, realSpectrum } from '../../../src/analysis/spectrum.js';
+import FFT from 'fft.js';
+import { isPowerOfTwo, nextPowerOfTwo, realSpectrum, spectrumInPlace } from '../../../src/analysis/spectrum.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 /** Plain O(M²) DFT, X[k] = Σ x[i]·e^(−2πik·i/M): the textbook definition, independent of fft.js. */
@@ -39,6 +40,37 @@ describe('realSpectrum', () => {
       }),
       { seed: 1241, numRuns: 60 },
     );
+  });
+
+  it('realSpectrum matches fft.js, an independent FFT library, bin by bin at 2^10 to 2^18 points', () => {
+    for (const m of [2 ** 10, 2 ** 13, 2 ** 16, 2 ** 18]) {
+      let seed = 20_201;
+      const x = Float64Array.from({ length: m }, (_, i) => {
+        seed = (seed * 16_807) % 2_147_483_647;
+        return seed / 2_147_483_647 - 0.5 + Math.sin(0.37 * i) + 3 * Math.cos((2 * Math.PI * 17.25 * i) / m);
+      });
+      const reference = new FFT(m);
+      const out = new Float64Array(2 * m);
+      reference.realTransform(out, x);
+      const s = realSpectrum(x);
+      let peak = 0;
+      for (let k = 0; k < s.bins; k++) peak = Math.max(peak, Math.hypot(out[2 * k], out[2 * k + 1]));
+      for (let k = 0; k < s.bins; k++) {
+        // Both are O(ε·log M) accurate; 1e-13 of the largest bin is far above either's rounding.
+        expectWithin(s.re(k), out[2 * k], { abs: 1e-13 * peak }, 'fft.js 4.0.4 realTransform');
+        expectWithin(s.im(k), out[2 * k + 1], { abs: 1e-13 * peak }, 'fft.js 4.0.4 realTransform');
+      }
+    }
+  });
+
+  it('spectrumInPlace gives the same bins as realSpectrum and refuses a buffer of the wrong length', () => {
+    const x = Float64Array.from({ length: 256 }, (_, i) => Math.sin(i / 3) + (i % 7));
+    const buffer = new Float64Array(258);
+    buffer.set(x);
+    const a = spectrumInPlace(buffer, 256);
+    const b = realSpectrum(x);
+    for (let k = 0; k < b.bins; k++) expect([a.re(k), a.im(k)]).toEqual([b.re(k), b.im(k)]);
+    expect(() => spectrumInPlace(new Float64Array(256), 256)).toThrow(/258/);
   });
 
   it('realSpectrum puts a unit cosine at bin k with magnitude M/2 and phase 0', () => {
