@@ -1,6 +1,7 @@
 /**
  * Typed declaration for fft.js 4.0.4 (its bundled declaration types every argument as `any`).
- * Only src/analysis/spectrum.ts imports this module; every other file goes through that wrapper.
+ * No source file imports it any more (spectrum.ts runs our own kernel, realFft.ts); the tests use it
+ * as an independent reference FFT (test/analysis/spectral/spectrum.test.ts).
  * Contract taken from the library's source: the size must be a power of two greater than 1,
  * `realTransform` writes bins 0…size/2 of an interleaved [re, im, re, im, …] buffer of length
  * 2·size and refuses to work in place.

@@ -4,9 +4,9 @@
  *
  * Methods: F. J. Harris, Proc. IEEE 66(1), 1978 (windows); IEEE Std 1057 / 1241 (multi-harmonic
  * least-squares fit, SINAD, ENOB, SFDR); each file names its own source. One span of at most
- * 2^20 samples is transformed (fft.js instances cost far more to build than to run at larger
- * sizes, see shared/peer/MEASURED.md); longer records are also decimated whole for the hum search,
- * which needs the full duration rather than the full bandwidth.
+ * 2^20 samples is transformed (a 2^22-point transform needs 32 MB of fresh memory and some 0.3 s
+ * on the bench machine, see DEVELOPERS.md, Performance); longer records are also decimated whole
+ * for the hum search, which needs the full duration rather than the full bandwidth.
  */
 import type { Harmonic, MeasureResult, MeasurementId, Shape, SpectrumPlot } from '../types/index.js';
 import { decimate } from './decimate.js';

@@ -55,6 +55,23 @@ export type CaptureOutcome =
       readonly recordError?: BenchError | Error;
     }
   | { readonly status: 'recorded-already'; readonly file: string; readonly unit: string; readonly condition: string; readonly runId: number }
+  | {
+      /** watch --calibrate: one capture placed at its calibration step; the iteration once every step is in. */
+      readonly status: 'calibration-step';
+      readonly file: string;
+      readonly unit: string;
+      readonly step: string;
+      readonly statement: Statement;
+      readonly cents: number | null;
+      readonly missing: readonly string[];
+      readonly iteration?: {
+        readonly statement: Statement;
+        readonly meetsLimits: boolean;
+        readonly guidance: readonly string[];
+        readonly calibrationId?: number;
+        readonly number?: number;
+      };
+    }
   | { readonly status: 'unmatched' | 'error'; readonly file: string; readonly error: BenchError | Error };
 
 /** Handles one settled file, given as the path the user would write; never throws. */

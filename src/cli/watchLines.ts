@@ -23,6 +23,7 @@ export function emptyTally(): WatchTally {
 
 export function countOutcome(tally: WatchTally, o: CaptureOutcome): void {
   if (o.status === 'checked') tally.statements[o.statement] += 1;
+  else if (o.status === 'calibration-step') tally.statements[o.iteration?.statement ?? o.statement] += o.iteration ? 1 : 0;
   else if (o.status === 'recorded-already') tally.recordedAlready += 1;
   else if (o.status === 'unmatched') tally.unmatched += 1;
   else tally.errors += 1;
@@ -45,6 +46,15 @@ export function outcomeLines(o: CaptureOutcome, json: boolean, style: TextStyle,
       const unit = `unit ${style.statement(o.runStatement)}`;
       return { stdout: `${name}  ${o.unit}  ${o.condition}  ${style.statement(o.statement)}${cause}  (${unit}; run #${o.runId}${record})\n` };
     }
+    case 'calibration-step': {
+      const cents = o.cents === null ? 'not measured' : `${o.cents >= 0 ? '+' : '−'}${Math.abs(o.cents).toFixed(1)} cents`;
+      const head = `${name}  ${o.unit}  step ${o.step}  ${cents}  ${style.statement(o.statement)}`;
+      if (!o.iteration) return { stdout: `${head}  (waiting for ${o.missing.join(', ')})\n` };
+      const it = o.iteration;
+      const where = it.calibrationId !== undefined ? ` ${it.number} of calibration run #${it.calibrationId}` : '';
+      const guidance = it.guidance.map((g) => `    ${g}\n`).join('');
+      return { stdout: `${head}\n  iteration${where}: ${style.statement(it.statement)}${it.meetsLimits ? ' (meets the calibration limits)' : ''}\n${guidance}` };
+    }
     case 'recorded-already':
       return { stderr: `benchproof: ${name}: already recorded for ${o.unit} at ${o.condition} (run #${o.runId}); not stored again\n` };
     case 'unmatched':
@@ -66,6 +76,10 @@ function outcomeJson(o: CaptureOutcome): OutcomeLines {
     }
     case 'recorded-already':
       return { stderr: line({ event: o.status, file: o.file, unit: o.unit, condition: o.condition, runId: o.runId }) };
+    case 'calibration-step': {
+      const { status, ...rest } = o;
+      return { stdout: line({ event: status, ...rest, words: STATEMENT_WORDS[o.statement] }) };
+    }
     default:
       return { stderr: line({ event: o.status, file: o.file, error: errorJson(o.error) }) };
   }

@@ -3,8 +3,11 @@ import type { CommandContext } from '../context.js';
 import { parsePositive } from '../options.js';
 import { addDataOption } from '../dataOptions.js';
 import type { StoreFlags } from '../dataOptions.js';
+import { BenchError } from '../../types/index.js';
 
 interface WatchOptions extends StoreFlags {
+  calibrate?: boolean;
+  iteration?: string;
   spec: string;
   unit?: string;
   condition?: string;
@@ -30,6 +33,8 @@ export function registerWatch(program: Command, ctx: CommandContext): Command {
     .option('--settle <ms>', 'a file is read once its size and time have not changed for this long', String(DEFAULT_SETTLE_MS))
     .option('--new-only', 'skip the files already in the folder at start (by default they are checked unless recorded)')
     .option('--poll', 'look at the folder twice a second instead of waiting for change notices (for network shares)')
+    .option('--calibrate', 'a calibration is in progress: each capture is a step of --unit (the spec\'s calibration pattern); each full set is one iteration')
+    .option('--iteration <label>', 'with --calibrate: a label for the iterations of this session')
     .option('--report-dir <dir>', "after each capture, write the unit's HTML record into this folder")
     .option('--json', 'one JSON object per line (NDJSON, schemaVersion 1) instead of text lines')
     .option('--operator <name>', 'who ran the tests (default: BENCHPROOF_OPERATOR, else the login name)')
@@ -56,6 +61,7 @@ Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit stat
       const settleMs = parsePositive('--settle', opts.settle) ?? DEFAULT_SETTLE_MS;
       const timing = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
       const { runWatchSession } = await import('../watchSession.js');
+      const onCapture = opts.calibrate ? (await import('../watchCalibration.js')).calibrateEachCapture(requireUnit(opts.unit), opts, opts.iteration) : undefined;
       const stop = stopOnSignals();
       try {
         await runWatchSession(
@@ -63,6 +69,7 @@ Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit stat
           {
             dir, specFile: opts.spec, overrides: { unit: opts.unit, condition: opts.condition }, flags: opts, settleMs,
             newOnly: Boolean(opts.newOnly), poll: Boolean(opts.poll), reportDir: opts.reportDir, json, timing, style: ctx.styleFor(cmd),
+            ...(onCapture ? { onCapture } : {}),
           },
           stop.signal,
         );
@@ -71,6 +78,18 @@ Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit stat
       }
       ctx.exitCode = 0;
     });
+}
+
+/** A calibration session belongs to one unit: --calibrate needs --unit. */
+function requireUnit(unit: string | undefined): string {
+  if (unit) return unit;
+  throw new BenchError({
+    code: 'usage.missing-unit',
+    file: '-',
+    problem: '--calibrate was given without --unit',
+    expected: 'the serial of the unit being calibrated',
+    fix: 'add --unit SERIAL, e.g. benchproof watch DIR --spec SPEC --calibrate --unit FK-0104',
+  });
 }
 
 /**
