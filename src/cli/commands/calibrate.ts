@@ -3,7 +3,7 @@ import type { CommandContext } from '../context.js';
 import type { CalibrationFlags, MeasuredStep } from '../calibrateRun.js';
 import { parsePositive } from '../options.js';
 import { createProgress } from '../progress.js';
-import { addRecordingOptions } from '../store.js';
+import { addRecordingOptions } from '../dataOptions.js';
 
 interface CalibrateOptions extends CalibrationFlags {
   spec: string;
