@@ -5,20 +5,17 @@
  * the CSV reader) load only when a check actually runs.
  */
 import { readFileSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { readCapture } from '../capture/index.js';
 import { measureCapture } from '../analysis/index.js';
 import { bindCapture, decideUnits, parseSpec } from '../spec/index.js';
 import type { CapturePlan, Spec } from '../spec/index.js';
 import { diagnoseUnit } from '../diagnose/index.js';
-import { sha256Hex } from '../records/index.js';
 import { BenchError } from '../types/index.js';
-import type { CheckedCapture, NewRun, ReadCaptureOptions } from '../types/index.js';
+import type { CheckedCapture, ReadCaptureOptions } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { resolvePath } from './context.js';
 import type { Progress } from './progress.js';
 import type { CheckedUnit } from './store.js';
-import { TOOL_VERSION } from './version.js';
 
 export { planCapture, worstStatement } from '../spec/index.js';
 
@@ -79,26 +76,5 @@ export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonl
 }
 
 /** Who stored a run and from where. */
-export interface RunAuthor {
-  readonly operator: string;
-  readonly station: string;
-}
-
-/**
- * The run one checked unit is stored as. `specText` is kept only when it is exactly the text the
- * spec's SHA-256 was taken of; capture bytes are read again from their files for the archive.
- */
-export function runOf(ctx: CommandContext, { verdict, diagnosis }: CheckedUnit, author: RunAuthor, startedAt: string, specText?: string): NewRun {
-  const text = specText !== undefined && sha256Hex(specText) === verdict.spec.sha256 ? specText : undefined;
-  return {
-    unit: verdict.unit,
-    startedAt,
-    operator: author.operator,
-    station: author.station,
-    spec: { name: verdict.spec.name, revision: verdict.spec.revision, sha256: verdict.spec.sha256, ...(text ? { text } : {}) },
-    toolVersion: TOOL_VERSION,
-    verdict,
-    diagnosis,
-    captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: resolve(ctx.io.cwd, c.path) })),
-  };
-}
+export { runOf } from './store.js';
+export type { RunAuthor } from './store.js';

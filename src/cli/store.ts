@@ -41,19 +41,8 @@ export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units:
   const station = stationName();
   const stored: StoredRun[] = [];
   try {
-    for (const { verdict, diagnosis } of units) {
-      const text = specText !== undefined && sha256Hex(specText) === verdict.spec.sha256 ? specText : undefined;
-      const run: NewRun = {
-        unit: verdict.unit,
-        startedAt,
-        operator,
-        station,
-        spec: { name: verdict.spec.name, revision: verdict.spec.revision, sha256: verdict.spec.sha256, ...(text ? { text } : {}) },
-        toolVersion: TOOL_VERSION,
-        verdict,
-        diagnosis,
-        captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: resolve(ctx.io.cwd, c.path) })),
-      };
+    for (const unit of units) {
+      const run = runOf(ctx, unit, { operator, station }, startedAt, specText);
       stored.push(store.saveRun(run));
     }
   } finally {
@@ -99,4 +88,28 @@ export function unknownSpec(name: string, known: readonly string[], location: Da
     expected: known.length ? `one of: ${known.map((k) => `"${k}"`).join(', ')}` : 'a spec that `benchproof check` has stored runs for',
     fix: near.length ? `did you mean --spec ${quoteArg(near[0])}?` : 'leave out --spec to report every spec',
   });
+}
+
+export interface RunAuthor {
+  readonly operator: string;
+  readonly station: string;
+}
+
+/**
+ * The run one checked unit is stored as. `specText` is kept only when it is exactly the text the
+ * spec's SHA-256 was taken of; capture bytes are read again from their files for the archive.
+ */
+export function runOf(ctx: CommandContext, { verdict, diagnosis }: CheckedUnit, author: RunAuthor, startedAt: string, specText?: string): NewRun {
+  const text = specText !== undefined && sha256Hex(specText) === verdict.spec.sha256 ? specText : undefined;
+  return {
+    unit: verdict.unit,
+    startedAt,
+    operator: author.operator,
+    station: author.station,
+    spec: { name: verdict.spec.name, revision: verdict.spec.revision, sha256: verdict.spec.sha256, ...(text ? { text } : {}) },
+    toolVersion: TOOL_VERSION,
+    verdict,
+    diagnosis,
+    captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: resolve(ctx.io.cwd, c.path) })),
+  };
 }
