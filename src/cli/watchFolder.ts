@@ -1,11 +1,18 @@
 /**
- * Files landing in one folder (chokidar), each reported once it has stopped growing: its size and
- * modification time unchanged over a whole settle time. Scopes and copy tools write slowly, and a
- * file read half-written would be checked as a short (or corrupt) capture. Only files directly in
- * the folder are watched, never its subfolders (a data folder kept inside it stays out of sight).
+ * Files landing in one folder, each reported once it has stopped growing: its size and modification
+ * time unchanged over a whole settle time. Scopes and copy tools write slowly, and a file read
+ * half-written would be checked as a short (or corrupt) capture. Only files directly in the folder
+ * are watched, never its subfolders (a data folder kept inside it stays out of sight).
+ *
+ * Change notices (chokidar, or its polling on network shares) are only a hint of where to look.
+ * They can miss a file: one written between the event source's first listing and its baseline is in
+ * neither, and a share may drop notices altogether. So the folder is also listed by itself when the
+ * source reports ready and every `reconcileMs` after that (names, sizes and times only), and every
+ * file present that has not been reported at its current size and time is looked at. Each version
+ * of a file (path, size, modification time) is reported exactly once, whichever path found it.
  */
-import { stat } from 'node:fs/promises';
-import { resolve } from 'node:path';
+import { readdir, stat } from 'node:fs/promises';
+import { join, resolve } from 'node:path';
 import { watch } from 'chokidar';
 
 export interface FolderWatchOptions {
@@ -19,10 +26,25 @@ export interface FolderWatchOptions {
   readonly ignore: (name: string) => boolean;
   readonly onSettled: (path: string) => void;
   readonly onError: (err: Error) => void;
+  /** How often the folder is listed to catch what the change notices missed, in ms. */
+  readonly reconcileMs?: number;
+  /** Where change notices come from; chokidar by default (tests pass a controlled one). */
+  readonly source?: FolderEventSource;
 }
 
+/** Change notices for the files directly in one folder. */
+export interface FolderEvents {
+  on(event: 'add' | 'change' | 'unlink', listener: (path: string) => void): void;
+  on(event: 'error', listener: (err: unknown) => void): void;
+  /** Resolves once the source has scanned the folder and notices flow. */
+  readonly ready: Promise<void>;
+  close(): Promise<void>;
+}
+
+export type FolderEventSource = (dir: string, settings: { readonly poll: boolean; readonly ignore: (name: string) => boolean }) => FolderEvents;
+
 export interface FolderWatch {
-  /** Resolves once the folder has been scanned and events flow. */
+  /** Resolves once the folder has been listed and change notices flow. */
   readonly ready: Promise<void>;
   /** Files seen but not yet settled. */
   pending(): number;
@@ -30,46 +52,118 @@ export interface FolderWatch {
 }
 
 const POLL_INTERVAL_MS = 500;
+/** Four poll intervals: cheap (one listing), and a missed file waits at most this long. */
+const RECONCILE_MS = 4 * POLL_INTERVAL_MS;
 
-interface Seen {
+interface Version {
   readonly size: number;
   readonly mtimeMs: number;
+}
+
+interface Seen extends Version {
   readonly timer: NodeJS.Timeout;
 }
 
 export function watchFolder(dir: string, options: FolderWatchOptions): FolderWatch {
-  const { settleMs, includeExisting, ignore, onSettled, onError, poll = false } = options;
+  const { settleMs, includeExisting, ignore, onSettled, onError, poll = false, reconcileMs = RECONCILE_MS, source = chokidarSource } = options;
   const seen = new Map<string, Seen>();
+  /** The version of each file last reported (or, without includeExisting, found there at start). */
+  const reported = new Map<string, Version>();
   let closed = false;
+  let reconcileTimer: NodeJS.Timeout | undefined;
+  const fail = (err: unknown): void => onError(err instanceof Error ? err : new Error(String(err)));
   const forget = (path: string): void => {
     clearTimeout(seen.get(path)?.timer);
     seen.delete(path);
   };
-  // Each event (re)starts the clock with the file's size and time as they are now; when the clock
+  const sameVersion = (a: Version | undefined, b: Version): boolean => a !== undefined && a.size === b.size && a.mtimeMs === b.mtimeMs;
+  const wait = (path: string, now: Version): void => {
+    const timer = setTimeout(() => void confirm(path, now).catch(fail), settleMs);
+    seen.set(path, { size: now.size, mtimeMs: now.mtimeMs, timer });
+  };
+  // Each look (re)starts the clock with the file's size and time as they are now; when the clock
   // runs out and both are unchanged, the file has settled. Otherwise the clock starts again.
   const look = async (path: string): Promise<void> => {
     const now = await stat(path).catch(() => undefined);
     forget(path);
-    if (closed || !now?.isFile()) return;
-    const timer = setTimeout(() => void confirm(path, now.size, now.mtimeMs), settleMs);
-    seen.set(path, { size: now.size, mtimeMs: now.mtimeMs, timer });
+    if (closed || !now?.isFile() || sameVersion(reported.get(path), now)) return;
+    wait(path, now);
   };
-  const confirm = async (path: string, size: number, mtimeMs: number): Promise<void> => {
+  const confirm = async (path: string, expected: Version): Promise<void> => {
     const now = await stat(path).catch(() => undefined);
-    const current = seen.get(path);
-    if (closed || current === undefined || current.size !== size || current.mtimeMs !== mtimeMs) return; // a newer event took over
-    if (now?.isFile() && now.size === size && now.mtimeMs === mtimeMs) {
-      seen.delete(path);
-      onSettled(path);
-      return;
-    }
+    if (closed || !sameVersion(seen.get(path), expected)) return; // a newer look took over
     if (!now?.isFile()) return forget(path);
-    const timer = setTimeout(() => void confirm(path, now.size, now.mtimeMs), settleMs);
-    seen.set(path, { size: now.size, mtimeMs: now.mtimeMs, timer });
+    if (!sameVersion(now, expected)) return wait(path, now);
+    seen.delete(path);
+    if (sameVersion(reported.get(path), now)) return; // found twice: by a notice and by a listing
+    reported.set(path, { size: now.size, mtimeMs: now.mtimeMs });
+    onSettled(path);
   };
+  const list = async (): Promise<Map<string, Version>> => {
+    const found = new Map<string, Version>();
+    const names = await readdir(dir).catch(() => [] as string[]);
+    for (const name of names) {
+      if (ignore(name)) continue;
+      const path = join(dir, name);
+      const now = await stat(path).catch(() => undefined);
+      if (now?.isFile()) found.set(path, { size: now.size, mtimeMs: now.mtimeMs });
+    }
+    return found;
+  };
+  const reconcile = async (): Promise<void> => {
+    const found = await list();
+    if (closed) return;
+    for (const path of reported.keys()) if (!found.has(path)) reported.delete(path);
+    for (const [path, version] of found) {
+      if (!seen.has(path) && !sameVersion(reported.get(path), version)) await look(path);
+    }
+  };
+  const reconcileLater = (): void => {
+    if (closed) return;
+    reconcileTimer = setTimeout(() => {
+      void reconcile()
+        .catch(fail)
+        .finally(reconcileLater);
+    }, reconcileMs);
+  };
+
+  // The baseline is taken before the event source starts, so a file landing while it starts is
+  // either in the baseline (and then, without includeExisting, not a new capture) or found later.
+  const baseline = list();
+  const events = baseline.then((found) => {
+    if (!includeExisting) for (const [path, version] of found) reported.set(path, version);
+    const started = source(dir, { poll, ignore });
+    const onEvent = (path: string): void => void look(resolve(dir, path)).catch(fail);
+    started.on('add', onEvent);
+    started.on('change', onEvent);
+    started.on('unlink', (path) => forget(resolve(dir, path)));
+    started.on('error', fail);
+    return started;
+  });
+  const ready = events.then(async (started) => {
+    await started.ready;
+    await reconcile();
+    reconcileLater();
+  });
+  ready.catch(fail);
+  return {
+    ready,
+    pending: () => seen.size,
+    close: async () => {
+      closed = true;
+      clearTimeout(reconcileTimer);
+      for (const path of [...seen.keys()]) forget(path);
+      await (await events).close();
+    },
+  };
+}
+
+/** chokidar on the folder itself (depth 0), polling when asked. */
+export const chokidarSource: FolderEventSource = (dir, { poll, ignore }) => {
   const watcher = watch(dir, {
     depth: 0,
-    ignoreInitial: !includeExisting,
+    // Files already there come from the watch's own listing, never from the source.
+    ignoreInitial: true,
     ignored: (path, stats) => resolve(path) !== resolve(dir) && stats?.isDirectory() !== true && ignore(baseName(path)),
     persistent: true,
     // A share mounted from another computer sends no change notices for files that computer writes.
@@ -77,18 +171,11 @@ export function watchFolder(dir: string, options: FolderWatchOptions): FolderWat
     interval: POLL_INTERVAL_MS,
     binaryInterval: POLL_INTERVAL_MS,
   });
-  const onEvent = (path: string): void => void look(path).catch(onError);
-  watcher.on('add', onEvent).on('change', onEvent).on('unlink', forget).on('error', (err) => onError(err instanceof Error ? err : new Error(String(err))));
   const ready = new Promise<void>((done) => watcher.once('ready', done));
-  return {
-    ready,
-    pending: () => seen.size,
-    close: async () => {
-      closed = true;
-      for (const path of [...seen.keys()]) forget(path);
-      await watcher.close();
-    },
+  const on = (event: 'add' | 'change' | 'unlink' | 'error', listener: (arg: never) => void): void => {
+    watcher.on(event, listener as (...args: unknown[]) => void);
   };
-}
+  return { on, ready, close: () => watcher.close() };
+};
 
 const baseName = (path: string): string => path.split(/[\\/]/).pop() ?? path;

@@ -6,7 +6,7 @@ import { afterEach, beforeEach } from 'vitest';
 import { statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { watchFolder } from '../../../src/cli/watchFolder.js';
-import type { FolderWatch } from '../../../src/cli/watchFolder.js';
+import type { FolderEventSource, FolderWatch } from '../../../src/cli/watchFolder.js';
 import { makeTempDir, removeTempDir } from '../../records/helpers/tempData.js';
 
 export interface StartOptions {
@@ -14,6 +14,8 @@ export interface StartOptions {
   readonly includeExisting?: boolean;
   readonly poll?: boolean;
   readonly ignore?: (name: string) => boolean;
+  readonly reconcileMs?: number;
+  readonly source?: FolderEventSource;
 }
 
 export interface FolderWatchFixture {
@@ -55,6 +57,8 @@ export function useFolderWatch(): FolderWatchFixture {
         ignore: options.ignore ?? (() => false),
         onSettled: (path) => settled.push({ name: basename(path), size: statSync(path).size }),
         onError: (err) => errors.push(err),
+        ...(options.reconcileMs === undefined ? {} : { reconcileMs: options.reconcileMs }),
+        ...(options.source === undefined ? {} : { source: options.source }),
       });
       await watch.ready;
       return { settled, errors };
