@@ -4,18 +4,17 @@
  * stored as. Commands import this module lazily inside their action, so the stages (zod, fft.js,
  * the CSV reader) load only when a check actually runs.
  */
-import { readFileSync } from 'node:fs';
 import { readCapture } from '../capture/index.js';
 import { measureCapture } from '../analysis/index.js';
-import { bindCapture, decideUnits, parseSpec } from '../spec/index.js';
+import { SPEC_MAX_BYTES, bindCapture, decideUnits, parseSpec } from '../spec/index.js';
 import type { CapturePlan, Spec } from '../spec/index.js';
 import { diagnoseUnit } from '../diagnose/index.js';
-import { BenchError } from '../types/index.js';
 import type { CheckedCapture, ReadCaptureOptions } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { resolvePath } from './context.js';
 import type { Progress } from './progress.js';
 import type { CheckedUnit } from './store.js';
+import { readSpecFile } from './specFile.js';
 
 export { planCapture, worstStatement } from '../spec/index.js';
 
@@ -26,22 +25,8 @@ export interface LoadedSpec {
 }
 
 export function loadSpec(ctx: CommandContext, file: string): LoadedSpec {
-  const text = readSpecText(ctx, file);
+  const text = readSpecFile(ctx, file, SPEC_MAX_BYTES, '--spec samples/fh210-spec.yaml');
   return { spec: parseSpec(text, file), text };
-}
-
-function readSpecText(ctx: CommandContext, file: string): string {
-  try {
-    return readFileSync(resolvePath(ctx.io.cwd, file), 'utf8');
-  } catch (err) {
-    throw new BenchError({
-      code: 'spec.unreadable',
-      file,
-      problem: `cannot read the spec (${(err as NodeJS.ErrnoException).code ?? 'read error'})`,
-      expected: 'a readable YAML or JSON spec file',
-      fix: 'check the path given to --spec, e.g. --spec samples/fh210-spec.yaml',
-    });
-  }
 }
 
 /** Timing given on the command line, for files without a time column. */

@@ -5,7 +5,6 @@
  * the operator, the station and the one-line notices are in dataOptions.ts, re-exported here; that
  * file loads no records code, so commands can register their options without loading SQLite.
  */
-import { renameSync, rmSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { CommandContext } from './context.js';
 import { nearestNames, openStore, sha256Hex } from '../records/index.js';
@@ -13,6 +12,7 @@ import type { RecordStore } from '../records/index.js';
 import type { Diagnosis, NewRun, StoredRun, UnitVerdict } from '../types/index.js';
 import { BenchError, STATEMENT_WORDS } from '../types/index.js';
 import { TOOL_VERSION } from './version.js';
+import { writeOutputFile } from './outputFile.js';
 import { notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
 import type { DataLocation, StoreFlags } from './dataOptions.js';
 
@@ -58,24 +58,12 @@ export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units:
   return stored;
 }
 
-/** Write a report file whole (temporary name, then rename), so a reader never sees half a report. */
-export function writeReportFile(ctx: CommandContext, file: string, text: string): string {
-  const target = resolve(ctx.io.cwd, file);
-  const temp = `${target}.${process.pid}.part`;
-  try {
-    writeFileSync(temp, text);
-    renameSync(temp, target);
-  } catch (err) {
-    rmSync(temp, { force: true });
-    throw new BenchError({
-      code: 'output.cannot-write',
-      file,
-      problem: `the report could not be written (${(err as { code?: string }).code ?? 'write error'})`,
-      expected: 'a file path in an existing folder this user may write to',
-      fix: 'choose another --out path, or create its folder first',
-    });
-  }
-  return target;
+/**
+ * Write a report file whole by the rules every output follows (outputFile.ts): a regular file or a
+ * new name, never a link, never inside the data folder, replaced only through a temporary name.
+ */
+export function writeReportFile(ctx: CommandContext, file: string, text: string, dataDir: string, option = '--out'): string {
+  return writeOutputFile(ctx, file, text, { option, replace: true, dataDir });
 }
 
 /** A --spec name with no stored runs, with the nearest stored names. */

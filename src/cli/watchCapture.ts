@@ -169,6 +169,6 @@ async function refreshRecord(env: WatchEnv, unit: string): Promise<string | unde
   const { renderRecordHtml } = await import('../report/index.js');
   const source = { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: env.location.shown };
   const file = join(env.reportDir, `${unit.replace(/[^\w.-]/g, '_')}-record.html`);
-  writeReportFile(env.ctx, file, renderRecordHtml({ ...rec, source }));
+  writeReportFile(env.ctx, file, renderRecordHtml({ ...rec, source }), env.location.dir, '--report-dir');
   return file;
 }

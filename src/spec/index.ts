@@ -1,5 +1,6 @@
 // Public names of the spec stage, one per line. Other stages import from here only.
 export { parseSpec } from './parseSpec.js';
+export { SPEC_MAX_BYTES } from './parseSpec.js';
 export { parseQuantity } from './quantity.js';
 export { formatQuantity } from './quantity.js';
 export { valueIn } from './quantity.js';

@@ -12,7 +12,23 @@ import type { SpecIssue } from './specIssues.js';
 import { resolveSpec } from './resolveSpec.js';
 import type { Spec } from './specTypes.js';
 
+/**
+ * The largest spec read, in bytes of UTF-8. A module spec is a few KiB; the limit keeps parsing and
+ * validation of a wrong or hostile file short (common practice, no source).
+ */
+export const SPEC_MAX_BYTES = 1 << 20;
+
 export function parseSpec(text: string, file: string): Spec {
+  // Characters are at most as many as UTF-8 bytes, so only a long text needs counting.
+  if (text.length > SPEC_MAX_BYTES / 4 && Buffer.byteLength(text) > SPEC_MAX_BYTES) {
+    throw specError(file, [{
+      code: 'spec.too-large',
+      file,
+      problem: `the spec is larger than ${SPEC_MAX_BYTES / 1024 / 1024} MiB, the largest spec benchproof reads`,
+      expected: `a spec of at most ${SPEC_MAX_BYTES} bytes (a full module spec is a few KiB)`,
+      fix: 'check that this is the spec and not a capture or another file; split a huge spec per module',
+    }]);
+  }
   const counter = new LineCounter();
   // logLevel 'error': yaml's own warnings (e.g. a map used as a key) would go to stderr unasked.
   const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: true, logLevel: 'error' });

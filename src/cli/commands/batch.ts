@@ -3,7 +3,8 @@ import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { BenchError } from '../../types/index.js';
 import type { BatchReport } from '../../types/index.js';
-import { addDataOption, notice, quoteArg } from '../dataOptions.js';
+import { addDataOption, notice, quoteArg, resolveDataDir } from '../dataOptions.js';
+import { checkOutputPath } from '../outputFile.js';
 import type { StoreFlags } from '../dataOptions.js';
 import { TOOL_VERSION } from '../version.js';
 
@@ -48,7 +49,11 @@ Examples:
         import('../../records/index.js'),
         import('../../report/index.js'),
       ]);
-      const { store, location } = openDataStore(ctx, opts, 'read');
+      const out = opts.out ?? opts.output;
+      const location = resolveDataDir(ctx, opts);
+      // Refused before the records are read: a link, a device, a path in the data folder (outputFile.ts).
+      if (out !== undefined) checkOutputPath(ctx, out, { option: '--out', replace: true, dataDir: location.dir });
+      const { store } = openDataStore(ctx, opts, 'read');
       let report: BatchReport;
       try {
         const specs = store.specNames();
@@ -59,12 +64,11 @@ Examples:
         store.close();
       }
       const text = reportStage[RENDERER[format]](report);
-      const out = opts.out ?? opts.output;
       if (out === undefined) {
         ctx.io.stdout(text);
         return;
       }
-      writeReportFile(ctx, out, text);
+      writeReportFile(ctx, out, text, location.dir);
       const units = report.specs.flatMap((s) => s.units);
       const worst = units.find((u) => u.latest !== 'pass' && u.latest !== 'conditional-pass') ?? units[0];
       notice(

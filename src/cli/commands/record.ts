@@ -3,7 +3,8 @@ import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { BenchError, STATEMENT_WORDS } from '../../types/index.js';
 import type { UnitRecord } from '../../types/index.js';
-import { addDataOption, notice, quoteArg } from '../dataOptions.js';
+import { addDataOption, notice, quoteArg, resolveDataDir } from '../dataOptions.js';
+import { checkOutputPath } from '../outputFile.js';
 import type { DataLocation, StoreFlags } from '../dataOptions.js';
 import { TOOL_VERSION } from '../version.js';
 
@@ -44,7 +45,11 @@ Examples:
         import('../../records/index.js'),
         import('../../report/index.js'),
       ]);
-      const { store, location } = openDataStore(ctx, opts, 'read');
+      const out = opts.out ?? opts.output;
+      const location = resolveDataDir(ctx, opts);
+      // Refused before the records are read: a link, a device, a path in the data folder (outputFile.ts).
+      if (out !== undefined) checkOutputPath(ctx, out, { option: '--out', replace: true, dataDir: location.dir });
+      const { store } = openDataStore(ctx, opts, 'read');
       let rec: UnitRecord | undefined;
       try {
         rec = store.unitRecord(serial);
@@ -58,12 +63,11 @@ Examples:
       if (changed.length) {
         ctx.io.stderr(`benchproof: warning: run ${changed.map((r) => `#${r.id}`).join(', ')} of ${doc.unit} no longer match(es) the fingerprint taken when stored; do not rely on it\n`);
       }
-      const out = opts.out ?? opts.output;
       if (out === undefined) {
         ctx.io.stdout(text);
         return;
       }
-      writeReportFile(ctx, out, text);
+      writeReportFile(ctx, out, text, location.dir);
       const warn = changed.length ? `, ${changed.length} run(s) CHANGED since stored` : '';
       notice(
         ctx,

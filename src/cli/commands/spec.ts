@@ -1,9 +1,13 @@
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
 import type { GoldenCapture } from '../../spec/index.js';
 import { BenchError } from '../../types/index.js';
+import { resolveDataDir } from '../dataOptions.js';
+import { checkOutputPath, writeOutputFile } from '../outputFile.js';
+import type { OutputRules } from '../outputFile.js';
+import { readSpecFile } from '../specFile.js';
 
 interface InitOptions {
   from: string[];
@@ -45,8 +49,8 @@ Examples:
     .action(async (file: string, opts: { json?: boolean }) => {
       ctx.json = Boolean(opts.json);
       // The spec stage (zod, yaml) loads here, not at start-up.
-      const { parseSpec } = await import('../../spec/index.js');
-      const parsed = parseSpec(readText(ctx, file), file);
+      const { parseSpec, SPEC_MAX_BYTES } = await import('../../spec/index.js');
+      const parsed = parseSpec(readSpecFile(ctx, file, SPEC_MAX_BYTES, 'benchproof spec validate samples/fh210-spec.yaml'), file);
       if (opts.json) {
         ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, valid: true, spec: parsed }, null, 2)}\n`);
         return;
@@ -92,6 +96,9 @@ async function init(ctx: CommandContext, opts: InitOptions): Promise<void> {
   if (existsSync(target) && !opts.force) {
     throw new BenchError({ code: 'init.output-exists', file: opts.out, problem: 'the output file exists already and is left untouched', expected: 'a new file name, or --force to replace it', fix: `choose another name, or add --force to overwrite ${opts.out}` });
   }
+  // The same rules as every output file (outputFile.ts), checked before any capture is read.
+  const rules: OutputRules = { option: '-o', replace: Boolean(opts.force), inputs: opts.from, dataDir: resolveDataDir(ctx, {}).dir };
+  checkOutputPath(ctx, opts.out, rules);
   const golden: GoldenCapture[] = [];
   for (const plan of planGolden(pattern, opts.from)) {
     const capture = await readCapture(resolvePath(ctx.io.cwd, plan.path));
@@ -99,7 +106,7 @@ async function init(ctx: CommandContext, opts: InitOptions): Promise<void> {
   }
   const text = writeDraftSpec(golden, { tolerance, pattern, ...(opts.name ? { name: opts.name } : {}) });
   const drafted = parseSpec(text, opts.out);
-  writeFileSync(target, text);
+  writeOutputFile(ctx, opts.out, text, rules);
   const checks = drafted.conditions.reduce((n, c) => n + c.checks.length, 0);
   ctx.io.stderr(`wrote ${opts.out}: ${drafted.outputs.length} outputs, ${drafted.conditions.length} conditions, ${checks} checks. Edit names and limits, then: benchproof check <captures…> --spec ${opts.out}\n`);
 }
@@ -108,12 +115,4 @@ function parseTolerance(raw: string, parseQuantity: (text: string) => { value: n
   const q = parseQuantity(raw);
   if (q && q.unit === '%' && q.value > 0 && q.value < 100) return q.value / 100;
   throw new BenchError({ code: 'usage.bad-tolerance', file: '-', problem: `--tolerance got "${raw}", which is not a percentage between 0 and 100`, expected: 'a percentage such as 2% or 1.5 %', fix: 'write --tolerance 2%' });
-}
-
-function readText(ctx: CommandContext, file: string): string {
-  try {
-    return readFileSync(resolvePath(ctx.io.cwd, file), 'utf8');
-  } catch (err) {
-    throw new BenchError({ code: 'spec.unreadable', file, problem: `cannot read the spec (${(err as NodeJS.ErrnoException).code ?? 'read error'})`, expected: 'a readable YAML or JSON spec file', fix: 'check the path, e.g. benchproof spec validate samples/fh210-spec.yaml' });
-  }
 }
