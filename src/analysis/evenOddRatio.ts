@@ -6,10 +6,12 @@
  * energy betrays an asymmetric triangle or a duty cycle off 50 %.
  *
  * Each A_n² carries a noise bias of 2σ_A² (two quadratures). When E (or O) is not above four
- * times its bias the ratio is withheld as below the noise, with the bound in the detail.
+ * times its bias the ratio is withheld as below the noise; when only the even side is, the ratio
+ * comes with that upper bound.
  */
 import type { MeasureResult } from '../types/index.js';
 import type { HarmonicAnalysis } from './harmonicAnalysis.js';
+import { bounded } from './measureResult.js';
 
 const DETECT = 4;
 
@@ -39,7 +41,12 @@ export function evenOddRatio(h: HarmonicAnalysis): MeasureResult {
   }
   if (even <= evenFloor) {
     const bound = 10 * Math.log10(evenFloor / odd);
-    return { ok: false, reason: 'below-noise', detail: `even harmonics 2–${reported} are below the noise: the ratio is below ${bound.toFixed(1)} dB` };
+    return bounded(
+      'upper',
+      bound,
+      `even harmonics 2–${reported} are below the noise: the ratio is below ${bound.toFixed(1)} dB`,
+      `upper bound: even harmonics 2–${reported} all under ${DETECT} times their noise bias 2σ_A², over the power of odd harmonics 3–${reported}`,
+    );
   }
   const u = (10 / Math.LN10) * Math.hypot((2 * h.amplitudeSigma) / Math.sqrt(even), (2 * h.amplitudeSigma) / Math.sqrt(odd));
   return {

@@ -12,12 +12,18 @@
  *   the median of the clean bins from 20 to 300 Hz over ln 2 (median of an exponential law).
  * - Its frequency comes from a Gaussian interpolation of the peak and neighbours; its amplitude
  *   from a least-squares fit of one tone there (harmonicFit.ts), so there is no scallop loss.
- * The level is the rss of the family's components over the fundamental, in dBc. Nothing found:
- * no measurement (absent), as the component is below the noise floor.
+ * The level is the rss of the family's components over the fundamental, in dBc.
+ * Nothing found: an upper bound instead of a value. A tone of peak A that lies δ DFT bins off a bin
+ * centre reads |X| = A·|W(δ)|/2 (Heinzel et al. 2002, §9), least at δ = ½, so any tone reaching
+ * (√20 + 2)·√(noise) at the worst offset (the detection level plus two standard deviations of the
+ * noise along the tone, common practice, no source) stands above the threshold; each of the two
+ * components of either family is below that, so the family's rss is below √2 times it. Where a
+ * harmonic of the fundamental covers a mains frequency the bound would not hold, and hum is withheld.
  */
 import type { MeasureResult } from '../types/index.js';
 import { fitHarmonics } from './harmonicFit.js';
-import type { SpectralFrame } from './spectralFrame.js';
+import { bounded } from './measureResult.js';
+import { frameKernel, type SpectralFrame } from './spectralFrame.js';
 
 export interface HumComponent {
   readonly frequency: number;
@@ -33,7 +39,12 @@ export interface HumFinding {
   readonly humLevel: MeasureResult;
 }
 
-export type HumOutcome = HumFinding | { readonly withheld: MeasureResult & { ok: false } } | null;
+/** Nothing stood out: the hum level is below a bound (absent without a fundamental to refer it to). */
+export interface HumBound {
+  readonly bound: MeasureResult & { ok: false };
+}
+
+export type HumOutcome = HumFinding | HumBound | { readonly withheld: MeasureResult & { ok: false } } | null;
 
 /** Shortest span that resolves 50 Hz from 60 Hz with the 4-term Blackman-Harris main lobe (±4/T). */
 export const MIN_HUM_SPAN = 0.4;
@@ -55,8 +66,27 @@ export function hum(frame: SpectralFrame, fundamental: number | null, sourceRate
   if (noise === null) return null;
   const families = ([50, 60] as const).map((mains) => findFamily(frame, blocked, noise, mains));
   const best = families.reduce((a, b) => (rss(b.components) > rss(a.components) ? b : a));
-  if (best.components.length === 0) return null;
+  if (best.components.length === 0) return noneFound(frame, blocked, noise, reference);
   return describe(best.mains, best.components, reference);
+}
+
+const MAINS_LINES = [50, 60, 100, 120] as const;
+
+function noneFound(frame: SpectralFrame, blocked: Uint8Array, noise: number, reference: number | null): HumOutcome {
+  const covered = MAINS_LINES.filter((f) => blocked[Math.round(f / frame.binWidth)] === 1);
+  if (covered.length > 0) {
+    const why = `no hum stands out, but harmonics of the fundamental cover ${covered.join(', ')} Hz, where hum could hide; capture at a frequency whose harmonics miss the mains lines to bound it`;
+    return { withheld: { ok: false, reason: 'not-applicable', detail: why } };
+  }
+  if (reference === null || !(reference > 0)) return null;
+  const edge = Math.hypot(frameKernel(frame, 0.5).re, frameKernel(frame, 0.5).im);
+  const weakest = Math.min(...MAINS_LINES.map((f) => frame.response(f)));
+  const component = (2 * (Math.sqrt(DETECT) + 2) * Math.sqrt(noise)) / (edge * weakest);
+  const level = 20 * Math.log10((Math.SQRT2 * component) / reference);
+  const each = (20 * Math.log10(component / reference)).toFixed(1);
+  const detail = `no 50/60 Hz mains component or 100/120 Hz ripple stands above the noise; each would show from ${each} dBc`;
+  const method = `upper bound: no component of either mains family above ${each} dBc (13 dB over the local noise at the least favourable bin offset, plus 2σ), so the family's rss is below ${level.toFixed(1)} dBc`;
+  return { bound: bounded('upper', level, detail, method) as MeasureResult & { ok: false } };
 }
 
 function rss(c: readonly HumComponent[]): number {

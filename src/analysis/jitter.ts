@@ -7,13 +7,13 @@
  * The capture itself adds timing scatter: additive noise σ moves a crossing by σ/slope, and an edge
  * that falls between samples is known only to ±½ sample. When the observed scatter is not clearly
  * above that floor (1.5 times), the oscillator's own jitter cannot be told from the capture's and the
- * value is withheld. Standard uncertainty of a standard deviation of n normal values: s/√(2(n − 1))
+ * value is withheld, with the observed scatter plus 2u as an upper bound on the oscillator's own. Standard uncertainty of a standard deviation of n normal values: s/√(2(n − 1))
  * (common result, e.g. Taylor, An Introduction to Error Analysis, §5.8; from memory).
  */
 import type { MeasureResult } from '../types/index.js';
 import type { Crossings } from './midCrossings.js';
 import type { PeriodFit } from './periodFit.js';
-import { measured, withheld } from './measureResult.js';
+import { bounded, measured, withheld } from './measureResult.js';
 import { standardDeviation } from './stats.js';
 
 export const MIN_PERIODS = 4;
@@ -29,9 +29,14 @@ export function jitter(fit: PeriodFit | null, c: Crossings, noise: number, span:
   const word = periods === fit.risingPeriods ? 'rising' : 'falling';
   const floor = timingFloor(word === 'rising' ? c.risingSteps : c.fallingSteps, noise, span);
   if (s <= FLOOR_FACTOR * floor) {
-    return withheld(
-      'below-noise',
+    // Own and capture scatter add in quadrature, so the oscillator's own jitter is at most the observed
+    // scatter; its upper bound is s + 2u(s) (k = 2).
+    const bound = s * (1 + 2 / Math.sqrt(2 * (n - 1))) * dt;
+    return bounded(
+      'upper',
+      bound,
       `the period scatter (${fmt(s * dt)}) is within what the capture's noise and sample spacing alone produce (${fmt(floor * dt)}); raise the sample rate or reduce the noise to see the oscillator's own jitter`,
+      `upper bound: the standard deviation of ${n} periods between ${word} mid-reference crossings, plus 2u, holds the oscillator's own jitter and the capture's timing floor (${fmt(floor * dt)}) together`,
     );
   }
   return measured(s * dt, (s / Math.sqrt(2 * (n - 1))) * dt, 's', `standard deviation of ${n} periods between ${word} mid-reference crossings (capture timing floor ${fmt(floor * dt)})`);

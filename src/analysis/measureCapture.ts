@@ -109,7 +109,8 @@ function toMeasurements(results: Partial<Record<MeasurementId, MeasureResult>>, 
     } else if (r.ok) {
       out[id] = { value: null, unit, uncertainty: null, reason: 'fit-failed', note: `the method gave no finite value (${r.method})` };
     } else {
-      out[id] = { value: null, unit, uncertainty: null, reason: r.reason, note: r.detail };
+      const bound = r.bound && Number.isFinite(r.bound.value) ? { bound: r.bound, ...(r.method ? { method: r.method } : {}) } : {};
+      out[id] = { value: null, unit, uncertainty: null, reason: r.reason, note: r.detail, ...bound };
     }
   }
   return out;

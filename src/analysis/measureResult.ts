@@ -1,5 +1,5 @@
 /** Builders for the MeasureResult union (src/types/measurement.ts): a value with its reason, never NaN. */
-import type { MeasureResult, WithheldReason } from '../types/index.js';
+import type { MeasureResult, MeasurementBound, WithheldReason } from '../types/index.js';
 
 /**
  * A measured value. A non-finite value is a bug in the caller's method (it should have withheld),
@@ -13,4 +13,13 @@ export function measured(value: number, uncertainty: number | null, unit: string
 
 export function withheld(reason: WithheldReason, detail: string): MeasureResult {
   return { ok: false, reason, detail };
+}
+
+/**
+ * Nothing detected beyond a level: withheld as below the noise, with the one-sided bound and how it
+ * was set. A non-finite bound is a bug in the caller's method, as for `measured`.
+ */
+export function bounded(kind: MeasurementBound['kind'], value: number, detail: string, method: string): MeasureResult {
+  if (!Number.isFinite(value)) throw new RangeError(`bounded: bound ${value} is not finite (${method})`);
+  return { ok: false, reason: 'below-noise', detail, bound: { kind, value }, method };
 }

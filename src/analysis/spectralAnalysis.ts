@@ -205,6 +205,11 @@ function measureHum(
     m.humLevel = found.withheld;
     return undefined;
   }
+  if ('bound' in found) {
+    m.humFrequency = { ok: false, reason: 'below-noise', detail: found.bound.detail };
+    m.humLevel = found.bound;
+    return undefined;
+  }
   m.humFrequency = found.humFrequency;
   m.humLevel = found.humLevel;
   return { mains: found.mains, components: found.components };

@@ -47,7 +47,7 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string
 function table(checks: readonly CheckVerdict[], style: TextStyle): string[] {
   const rows = checks.map((c) => [
     c.measurement,
-    c.value === null ? '—' : formatMeasured(c.value, c.expandedUncertainty, c.unit),
+    c.value === null ? (c.bound ? `${c.bound.kind === 'upper' ? '<' : '>'} ${formatQuantity(c.bound.value, c.unit, 3)}` : '—') : formatMeasured(c.value, c.expandedUncertainty, c.unit),
     formatLimits(c.lower, c.upper, c.unit),
     c.margin === null ? '—' : `${c.margin >= 0 ? '+' : '−'}${formatQuantity(Math.abs(c.margin), c.unit, 3)}`,
   ]);

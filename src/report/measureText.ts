@@ -98,7 +98,19 @@ function renderChannel(ch: ChannelReport, style: TextStyle): string[] {
 }
 
 function cellsOf(m: Measurement): { value: string; unit: string; uncertainty: string | null } | null {
+  if (m.value === null && m.bound) {
+    // Nothing detected beyond a level: shown as that bound, e.g. "< −72.0 dBc".
+    const p = quantityParts(outward(m.bound.value, m.bound.kind), m.unit, null);
+    return { value: `${m.bound.kind === 'upper' ? '<' : '>'} ${p.value}`, unit: p.unit, uncertainty: null };
+  }
   return m.value === null ? null : quantityParts(m.value, m.unit, m.uncertainty);
+}
+
+/** A bound rounded to 3 significant digits away from the side it bounds, so the shown bound still holds. */
+function outward(v: number, kind: 'upper' | 'lower'): number {
+  if (v === 0) return 0;
+  const step = 10 ** (Math.floor(Math.log10(Math.abs(v))) - 2);
+  return (kind === 'upper' ? Math.ceil(v / step - 1e-9) : Math.floor(v / step + 1e-9)) * step;
 }
 
 function renderHarmonics(ch: ChannelReport, style: TextStyle): string[] {

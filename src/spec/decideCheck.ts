@@ -55,3 +55,29 @@ function sideStatement(d: number, w: number, rule: DecisionRule, eps: number): D
   if (cmp(d, -w) >= 0) return 'conditional-fail';
   return 'fail';
 }
+
+/**
+ * A decision on a one-sided bound instead of a value (nothing detected above an upper bound B, or
+ * below a lower one). The bound is the far end of the interval the quantity lies in, already on the
+ * safe side of its uncertainty, so it is read as ILAC-G8 §4.2 reads a value whose whole interval
+ * lies on one side of a limit, under every rule: an upper bound at or inside an upper limit is a pass,
+ * one below a lower limit a fail; a bound that reaches past a limit it cannot settle decides nothing
+ * (null: not measured). Margin is the signed distance from the bound to the limit it was decided on.
+ */
+export function decideBound(
+  bound: { readonly kind: 'upper' | 'lower'; readonly value: number },
+  limit: { readonly lower: number | null; readonly upper: number | null },
+): { readonly statement: 'pass' | 'fail'; readonly margin: number } | null {
+  if (!Number.isFinite(bound.value)) throw new RangeError(`decideBound: bound ${bound.value} is not finite`);
+  if (limit.lower === null && limit.upper === null) throw new RangeError('decideBound: a limit needs at least one side');
+  const b = bound.value;
+  const eps = 1e-12 * Math.max(Math.abs(b), Math.abs(limit.upper ?? 0), Math.abs(limit.lower ?? 0));
+  if (bound.kind === 'upper') {
+    if (limit.lower !== null && b < limit.lower - eps) return { statement: 'fail', margin: b - limit.lower };
+    if (limit.lower === null && limit.upper !== null && b <= limit.upper + eps) return { statement: 'pass', margin: limit.upper - b };
+    return null;
+  }
+  if (limit.upper !== null && b > limit.upper + eps) return { statement: 'fail', margin: limit.upper - b };
+  if (limit.upper === null && limit.lower !== null && b >= limit.lower - eps) return { statement: 'pass', margin: b - limit.lower };
+  return null;
+}

@@ -5,10 +5,12 @@
  *
  * U = 2u (k = 2, GUM §6.2–6.3). When the analysis gives no uncertainty (u null) the check is decided
  * with no guard band and says so in its note: we neither invent a U nor refuse a decision we can make.
+ * A measurement that found nothing above (or below) a level carries that bound instead of a value, and
+ * the check is decided on it (decideBound): a clean unit passes an upper limit on hum.
  */
 import { BenchError, MEASUREMENT_UNITS } from '../types/index.js';
-import type { CheckedCapture, CheckVerdict, ConditionVerdict, Measurement, UnitVerdict } from '../types/index.js';
-import { decideCheck, worstStatement } from './decideCheck.js';
+import type { CheckedCapture, CheckVerdict, ConditionVerdict, Measurement, MeasurementBound, UnitVerdict } from '../types/index.js';
+import { decideBound, decideCheck, worstStatement } from './decideCheck.js';
 import { formatQuantity } from './quantity.js';
 import type { Spec, SpecCheck } from './specTypes.js';
 
@@ -76,6 +78,7 @@ function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: re
     nominal: check.limit.nominal,
   };
   const { m, missing } = findMeasurement(check, condition, captures);
+  if (m && m.value === null && m.bound) return decideOnBound(check, base, m, m.bound);
   if (!m || m.value === null) {
     const note = missing ?? `withheld: ${m?.note ?? m?.reason ?? 'no reason given'}`;
     return { ...base, value: null, expandedUncertainty: null, guard: 0, margin: null, statement: 'not-measured', note, ...(check.hint ? { hint: check.hint } : {}) };
@@ -97,5 +100,28 @@ function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: re
     statement: d.statement,
     ...(notes.length ? { note: notes.join('; ') } : {}),
     ...(check.hint && d.statement !== 'pass' ? { hint: check.hint } : {}),
+  };
+}
+
+type Base = Pick<CheckVerdict, 'output' | 'condition' | 'measurement' | 'unit' | 'lower' | 'upper' | 'nominal'>;
+
+/** A check decided on a bound: pass or fail when the bound settles it, else not measured with the bound shown. */
+function decideOnBound(check: SpecCheck, base: Base, m: Measurement, bound: MeasurementBound): CheckVerdict {
+  const d = decideBound(bound, check.limit);
+  const rel = bound.kind === 'upper' ? '<' : '>';
+  const shown = `${rel} ${formatQuantity(bound.value, base.unit, 3)}`;
+  const note = d
+    ? `nothing detected: ${shown} (${m.method ?? m.note ?? 'detection bound'}); decided on that bound`
+    : `nothing detected, but the bound (${shown}) does not settle the limit: ${m.note ?? 'capture with less noise'}`;
+  return {
+    ...base,
+    value: null,
+    bound,
+    expandedUncertainty: null,
+    guard: 0,
+    margin: d ? d.margin : null,
+    statement: d ? d.statement : 'not-measured',
+    note,
+    ...(check.hint && d?.statement !== 'pass' ? { hint: check.hint } : {}),
   };
 }

@@ -20,6 +20,7 @@ export type { SpecCheck } from './specTypes.js';
 export type { SpecCondition } from './specTypes.js';
 export type { SpecOutput } from './specTypes.js';
 export { decideCheck } from './decideCheck.js';
+export { decideBound } from './decideCheck.js';
 export { worstStatement } from './decideCheck.js';
 export type { Decision } from './decideCheck.js';
 export { decideUnit } from './decideUnits.js';

@@ -18,6 +18,7 @@ export type {
   MeasureReport,
   MeasureResult,
   Measurement,
+  MeasurementBound,
   MeasurementId,
   Shape,
   SpectrumPlot,

@@ -102,7 +102,26 @@ export type MeasureResult =
       readonly unit: string;
       readonly method: string;
     }
-  | { readonly ok: false; readonly reason: WithheldReason; readonly detail: string };
+  | {
+      readonly ok: false;
+      readonly reason: WithheldReason;
+      readonly detail: string;
+      /** What was found instead of a value: nothing above this level (upper) or below it (lower). */
+      readonly bound?: MeasurementBound;
+      /** How the bound was set (only with `bound`). */
+      readonly method?: string;
+    };
+
+/**
+ * A one-sided bound given in place of a value that could not be measured: `upper` means the
+ * quantity is below `value` (nothing was detected above it), `lower` that it is above `value`.
+ * The bound is already on the safe side of the measurement's uncertainty, so a decision reads it as
+ * a value with no further guard band.
+ */
+export interface MeasurementBound {
+  readonly kind: 'upper' | 'lower';
+  readonly value: number;
+}
 
 /** One measurement in the JSON contract. */
 export interface Measurement {
@@ -116,6 +135,8 @@ export interface Measurement {
   readonly reason?: WithheldReason;
   /** How it was measured, e.g. 'least-squares fit of 41 rising mid-reference crossings'. */
   readonly method?: string;
+  /** Only when value is null: the one-sided bound found instead (e.g. hum below −72 dBc), in `unit`. */
+  readonly bound?: MeasurementBound;
 }
 
 export interface Harmonic {

@@ -1,5 +1,5 @@
 /** Decisions against a design spec: ILAC-G8:09/2019 statements per check, per condition, per unit. */
-import type { MeasureReport, Shape } from './measurement.js';
+import type { MeasureReport, MeasurementBound, Shape } from './measurement.js';
 
 /** ILAC-G8:09/2019 §4.2.3 statements, plus 'not-measured' for a withheld measurement (never a pass). */
 export type Statement = 'pass' | 'conditional-pass' | 'conditional-fail' | 'fail' | 'not-measured';
@@ -23,6 +23,8 @@ export interface CheckVerdict {
   readonly measurement: string;
   readonly unit: string;
   readonly value: number | null;
+  /** When value is null: the one-sided bound the check was decided on (e.g. hum below −72 dBc). */
+  readonly bound?: MeasurementBound;
   /** Expanded uncertainty U (k = 2), null when none could be estimated. */
   readonly expandedUncertainty: number | null;
   /** Tolerance limits (null = unbounded on that side). */

@@ -26,11 +26,11 @@ describe('hum', () => {
     expect(r.measurements.humLevel?.ok && r.measurements.humLevel.method).toMatch(/2nd mains harmonic/);
   });
 
-  it('hum is absent when no mains component rises above the noise', () => {
+  it('hum gives an upper bound on its level, no value, when no mains component rises above the noise', () => {
     const sig = synthesize({ shape: 'triangle', frequency: 261.63, amplitude: 3, sampleRate: 20_000, samples: 20_000, bandLimited: true, noise: 1e-3, seed: 4 });
     const r = analyzeSpectrum(sig.values, sig.dt, 261.63, 'triangle');
-    expect(r.measurements.humFrequency).toBeUndefined();
-    expect(r.measurements.humLevel).toBeUndefined();
+    expect(r.measurements.humFrequency).toMatchObject({ ok: false, reason: 'below-noise' });
+    expect(r.measurements.humLevel).toMatchObject({ ok: false, reason: 'below-noise', bound: { kind: 'upper' } });
     expect(r.hum).toBeUndefined();
   });
 
