@@ -19,6 +19,11 @@ import { TOOL_VERSION } from './version.js';
 export async function run(argv: readonly string[], io: CliIo = processIo()): Promise<number> {
   const ctx = createContext(io);
   const program = buildProgram(ctx);
+  // Nothing asked: the help is the answer, on stdout (commander would print it as an error).
+  if (argv.length === 0) {
+    ctx.io.stdout(program.helpInformation());
+    return 0;
+  }
   try {
     await program.parseAsync([...argv], { from: 'user' });
     return ctx.exitCode;
@@ -33,7 +38,7 @@ export function buildProgram(ctx: CommandContext): Command {
     .version(TOOL_VERSION, '--version', 'print the version')
     .option('--no-color', 'never colour the output')
     .showSuggestionAfterError(true)
-    .configureOutput({ writeOut: ctx.io.stdout, writeErr: ctx.io.stderr })
+    .configureOutput(parserOutput(ctx))
     .exitOverride();
   program.addHelpText(
     'after',
@@ -51,7 +56,7 @@ Start with \`npm run demo\`; each command has --help with examples.`,
   });
   for (const register of COMMANDS) {
     const cmd = register(program, ctx);
-    cmd.exitOverride().configureOutput({ writeOut: ctx.io.stdout, writeErr: ctx.io.stderr });
+    cmd.exitOverride().configureOutput(parserOutput(ctx));
     cmd.showSuggestionAfterError(true);
   }
   return program;
@@ -59,11 +64,10 @@ Start with \`npm run demo\`; each command has --help with examples.`,
 
 function handleError(err: unknown, ctx: CommandContext, argv: readonly string[]): number {
   if (err instanceof CommanderError) {
-    // Help and version are successes; every usage mistake exits 2 (commander would use 1).
+    // Help and version are successes; every usage mistake is a BenchError like any other, exit 2.
     if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
     if (err.exitCode === 0) return 0;
-    if (err.code === 'commander.unknownOption') hintFileLikeOption(err.message, ctx);
-    return 2;
+    err = usageError(err);
   }
   const wantsJson = ctx.json || argv.includes('--json');
   if (isBenchError(err)) {
@@ -83,11 +87,37 @@ function handleError(err: unknown, ctx: CommandContext, argv: readonly string[])
 }
 
 /**
- * A file whose name starts with a dash (`-x.csv`, `--json.csv`) reads as an option; options never
- * hold a dot, so one that does was meant as a file: say how to name it.
+ * commander writes help through `writeOut`; its own error texts are dropped here, because
+ * handleError renders every parser error as a BenchError (three lines, or JSON with --json).
  */
-function hintFileLikeOption(message: string, ctx: CommandContext): void {
-  const option = /'(-[^']*)'/.exec(message)?.[1];
-  if (!option || !option.includes('.')) return;
-  ctx.io.stderr(`  fix: a file name that starts with "-" reads as an option: write ./${option}, or put -- before the file names\n`);
+function parserOutput(ctx: CommandContext): { writeOut: (s: string) => void; writeErr: (s: string) => void; outputError: () => void } {
+  return { writeOut: ctx.io.stdout, writeErr: ctx.io.stderr, outputError: () => undefined };
 }
+
+/** The parser's mistakes in the tool's own error form: a stable code, what was expected, a fix. */
+function usageError(err: CommanderError): BenchError {
+  const said = err.message.replace(/^error:\s*/, '').split('\n');
+  const problem = said[0] ?? err.message;
+  const hint = said.slice(1).join(' ').trim();
+  const quoted = /'([^']*)'/.exec(problem)?.[1] ?? '';
+  const fields = USAGE[err.code] ?? { code: 'usage.invalid', expected: 'the command line that --help shows', fix: 'run benchproof --help' };
+  const nearest = /Did you mean ([^?]+)\?/.exec(hint)?.[1];
+  let fix = nearest !== undefined ? `did you mean ${nearest}? (benchproof --help lists every command and option)` : fields.fix;
+  if (quoted && (err.code === 'commander.optionMissingArgument' || err.code === 'commander.missingMandatoryOptionValue')) fix = `write ${quoted}, with its value`;
+  const choices = /Allowed choices are ([^.]+)\./.exec(problem)?.[1];
+  const expected = choices !== undefined ? `one of ${choices}` : fields.expected;
+  // A file whose name starts with a dash (`-x.csv`) reads as an option; options never hold a dot.
+  if (err.code === 'commander.unknownOption' && quoted.includes('.')) fix = `a file name that starts with "-" reads as an option: write ./${quoted}, or put -- before the file names`;
+  return new BenchError({ code: fields.code, file: '-', problem: problem.replace(/\s*Allowed choices are [^.]+\./, ''), expected, fix });
+}
+
+const USAGE: Readonly<Record<string, { code: string; expected: string; fix: string }>> = {
+  'commander.unknownCommand': { code: 'usage.unknown-command', expected: 'one of the commands that benchproof --help lists', fix: 'run benchproof --help' },
+  'commander.unknownOption': { code: 'usage.unknown-option', expected: "an option that the command's --help lists", fix: 'run the command with --help to see its options' },
+  'commander.missingMandatoryOptionValue': { code: 'usage.missing-option', expected: 'every required option given', fix: 'add the option named above' },
+  'commander.optionMissingArgument': { code: 'usage.missing-value', expected: 'a value after the option', fix: 'write the value after the option, e.g. --spec samples/fh210-spec.yaml' },
+  'commander.missingArgument': { code: 'usage.missing-argument', expected: 'the arguments the command needs', fix: 'run the command with --help to see its arguments' },
+  'commander.excessArguments': { code: 'usage.extra-argument', expected: 'no more arguments than the command takes', fix: 'remove the extra arguments, or quote a name that holds spaces' },
+  'commander.invalidArgument': { code: 'usage.invalid-value', expected: 'one of the values the option accepts', fix: 'run the command with --help to see the accepted values' },
+  'commander.conflictingOption': { code: 'usage.conflicting-options', expected: 'at most one of the options named', fix: 'keep one of the two options' },
+};

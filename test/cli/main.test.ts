@@ -14,13 +14,41 @@ describe('benchproof command line', () => {
     const r = await runCli(['mesure', 'x.csv']);
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
-    expect(r.stderr).toContain('(Did you mean measure?)');
+    expect(r.stderr).toMatchInlineSnapshot(`
+      "-: unknown command 'mesure'
+        expected: one of the commands that benchproof --help lists
+        fix: did you mean measure? (benchproof --help lists every command and option)
+      "
+    `);
+  });
+
+  it('prints a parser error as one JSON object on stderr with --json, and nothing on stdout', async () => {
+    const r = await runCli(['check', 'x.csv', '--json']);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(JSON.parse(r.stderr)).toEqual({
+      error: { code: 'usage.missing-option', file: '-', problem: "required option '--spec <file>' not specified", expected: 'every required option given', fix: 'write --spec <file>, with its value', exitCode: 2 },
+    });
+  });
+
+  it('names the accepted values when an option gets one it does not accept', async () => {
+    const r = await runCli(['record', 'FK-0101', '--format', 'docx']);
+    expect(r.code).toBe(2);
+    expect(r.stderr.split('\n')[1]).toBe('  expected: one of md, html, json');
+  });
+
+  it('prints the help on stdout and exits 0 when run with no arguments', async () => {
+    const r = await runCli([]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toContain('Usage: benchproof');
+    expect(r.stderr).toBe('');
   });
 
   it('exits 2 on an unknown flag and names it', async () => {
     const r = await runCli(['measure', 'x.csv', '--frobnicate']);
     expect(r.code).toBe(2);
-    expect(r.stderr).toContain("unknown option '--frobnicate'");
+    expect(r.stderr).toContain("-: unknown option '--frobnicate'");
+    expect(r.stderr).toContain('fix: run the command with --help to see its options');
   });
 
   it('prints the version from package.json and exits 0', async () => {
