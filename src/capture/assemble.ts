@@ -1,5 +1,5 @@
 /** The Capture built from the rows read: time base, channels with their checks, warnings, provenance. */
-import type { Capture, CaptureChannel, CaptureWarning, ReadCaptureOptions } from '../types/index.js';
+import type { Capture, CaptureChannel, CaptureReading, CaptureWarning, ReadCaptureOptions } from '../types/index.js';
 import { detectClipping } from './clipping.js';
 import { captureError } from './errors.js';
 import type { SampleLines } from './lines.js';
@@ -9,7 +9,9 @@ import type { RowSink } from './rowSink.js';
 import type { Sniffed } from './sniff.js';
 import type { CaptureSource } from './source.js';
 import type { TimeAxis } from './timeAxis.js';
+import { findSplice } from './splice.js';
 import { resolveTiming } from './timing.js';
+import type { Timing } from './timing.js';
 
 export interface AssembleInput {
   readonly path: string;
@@ -27,6 +29,14 @@ export interface AssembleInput {
 
 export function assembleCapture(a: AssembleInput): Capture {
   const { path, sink, roles, sniffed } = a;
+  const wanted = a.options.segment ?? 1;
+  if (wanted > sink.segments) {
+    throw captureError('unknown-segment', path, {
+      problem: `acquisition ${wanted} was asked for, but the file holds ${sink.segments}`,
+      expected: `--segment from 1 to ${sink.segments}`,
+      fix: `give --segment ${sink.segments} or less, or leave it out to read the first`,
+    });
+  }
   if (sink.length < 2) {
     throw captureError('too-few-rows', path, {
       line: sniffed.firstDataLine,
@@ -47,7 +57,9 @@ export function assembleCapture(a: AssembleInput): Capture {
     firstDataLine: sniffed.firstDataLine,
   });
   const warnings: CaptureWarning[] = [...timing.warnings, ...fileWarnings(a)];
-  const channels = a.kept.map((col, k) => channelOf(a, col, k, timing.channels[k], warnings));
+  applyOffsets(a, timing.channels);
+  const cut = cutAtSplice(a, timing, warnings);
+  const channels = a.kept.map((col, k) => channelOf(a, col, k, cut.channels[k], warnings));
   return {
     path,
     sha256: a.source.digest(),
@@ -66,9 +78,10 @@ export function assembleCapture(a: AssembleInput): Capture {
       compressed: a.source.compressed,
       bom: a.lines.bom,
       lineEnding: a.lines.lineEnding,
+      reading: readingOf(a, timing),
     },
     metadata: metadataRecord(sniffed.preamble),
-    startTime: timing.startTime,
+    startTime: cut.startTime,
     sampleInterval: timing.sampleInterval,
     length: channels[0].samples.length,
     channels,
@@ -105,8 +118,83 @@ function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Arr
   };
 }
 
+/** Converter codes with an origin: v = code·step + (origin − reference·step); the step was applied while reading. */
+function applyOffsets(a: AssembleInput, channels: Float64Array[]): void {
+  a.kept.forEach((col, k) => {
+    const off = a.roles.offsets[col];
+    if (off === 0) return;
+    const x = channels[k];
+    for (let i = 0; i < x.length; i++) x[i] += off;
+  });
+}
+
+/** A record spliced from two: keep the longer continuous side of the break, and say so. */
+function cutAtSplice(a: AssembleInput, timing: Timing, warnings: CaptureWarning[]): { channels: Float64Array[]; startTime: number } {
+  const splice = findSplice(timing.channels);
+  if (!splice) return { channels: timing.channels, startTime: timing.startTime };
+  const n = timing.channels[0].length;
+  const head = splice.at >= n - splice.at;
+  const [from, to] = head ? [0, splice.at] : [splice.at, n];
+  const name = a.roles.columns[a.kept[splice.channel]].name;
+  warnings.push({
+    code: 'spliced',
+    channel: name,
+    ...(timing.resampled ? {} : { line: a.sink.firstLine + splice.at }),
+    message: `${name} jumps by ${splice.step.toPrecision(3)} between samples ${splice.at} and ${splice.at + 1}, far more than the signal moves anywhere else: the record looks spliced; samples ${from + 1}–${to} (the longer continuous part) were kept and ${n - (to - from)} dropped`,
+  });
+  return { channels: timing.channels.map((c) => c.subarray(from, to)), startTime: timing.startTime + from * timing.sampleInterval };
+}
+
+/** What the reader made of the file, for `inspect` and the record. */
+function readingOf(a: AssembleInput, timing: Timing): CaptureReading {
+  const { sniffed, roles, meta, options, sink } = a;
+  const intervalSource =
+    timing.timing === 'option' ? 'the --interval or --sample-rate setting'
+    : timing.timing === 'metadata' ? `preamble key "${meta.interval?.key ?? ''}"`
+    : roles.timeColumn !== null ? `time column "${roles.columns[roles.timeColumn].name}"`
+    : 'time column';
+  const settings: Record<string, unknown> = {};
+  for (const k of ['delimiter', 'decimalMark', 'skipRows', 'headerRows', 'timeColumn', 'channelUnit', 'scale', 'segment', 'sampleRate', 'interval'] as const) {
+    if (options[k] !== undefined) settings[k] = options[k];
+  }
+  return {
+    profile: options.profile ?? null,
+    settings,
+    skippedLines: sniffed.skippedLines,
+    preambleLines: sniffed.preambleLines,
+    headerLines: sniffed.headerLines,
+    unitsLine: sniffed.unitsLine,
+    sharedLines: sniffed.sharedLines,
+    ignoredColumns: roles.columns.map((_, c) => c).filter((c) => c !== roles.timeColumn && c !== roles.indexColumn && !roles.channelColumns.includes(c)),
+    recognised: meta.recognised,
+    xFoundBy: roles.xFoundBy,
+    intervalSource,
+    channels: a.kept.map((col) => ({ name: roles.columns[col].name, unitFrom: roles.unitSources[col], scale: roles.columns[col].scale, offset: roles.offsets[col] })),
+    segments: sink.segments,
+    segmentRead: options.segment ?? 1,
+  };
+}
+
 function fileWarnings(a: AssembleInput): CaptureWarning[] {
   const out: CaptureWarning[] = [];
+  if (a.sink.segments > 1) {
+    const k = a.options.segment ?? 1;
+    out.push({
+      code: 'segments',
+      message: `the file holds ${a.sink.segments} acquisitions (the time starts again on line${a.sink.segmentLines.length > 1 ? 's' : ''} ${a.sink.segmentLines.slice(0, 5).join(', ')}${a.sink.segmentLines.length > 5 ? ', …' : ''}); acquisition ${k} was read; choose another with --segment N`,
+    });
+  }
+  for (const col of a.kept) {
+    if (a.roles.unitSources[col] === 'counts') {
+      const name = a.roles.columns[col].name;
+      const perDiv = a.meta.voltsPerDivision;
+      out.push({
+        code: 'raw-counts',
+        channel: name,
+        message: `${name} holds whole numbers with no unit and the file states no volts per converter step${perDiv !== undefined ? ` (only ${perDiv} V per division, which does not say how many steps a division holds)` : ''}: its values are converter counts, not volts; give --scale with volts per count (and --channel-unit V) to convert`,
+      });
+    }
+  }
   const p = a.sink.pending;
   if (p) {
     const more = p.count > 1 ? ` and ${p.count - 1} line(s) after it` : '';

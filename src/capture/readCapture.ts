@@ -20,19 +20,24 @@ import { TimeAxis } from './timeAxis.js';
 import { givenInterval, noTimeBase } from './timing.js';
 
 export async function readCapture(path: string, options: ReadCaptureOptions = {}): Promise<Capture> {
+  return (await readCaptureLines(path, options)).capture;
+}
+
+/** The capture and the opening lines it was sniffed from (for `inspect`). */
+export async function readCaptureLines(path: string, options: ReadCaptureOptions = {}): Promise<{ capture: Capture; lines: SampleLines; sniffed: Sniffed }> {
   checkOptions(options);
   const source = await openSource(path, options.onProgress);
   const chunks = source.chunks[Symbol.asyncIterator]();
   try {
     const { sample, done } = await gatherSample(chunks);
     const lines = sampleLines(sample, done, path);
-    const sniffed = sniffLayout(lines, path);
+    const sniffed = sniffLayout(lines, path, options);
     const meta = readMetadata(sniffed.preamble, sniffed.decimalMark);
-    const roles = columnRoles(sniffed, meta.verticalUnit, path);
+    const roles = columnRoles(sniffed, meta, options, path);
     const kept = selectChannels(roles, options.channel, path);
     const x = roles.timeColumn ?? roles.indexColumn;
     if (x === null && givenInterval(options, meta) === null) throw noTimeBase(path, sniffed.firstDataLine);
-    const axis = x === null ? null : new TimeAxis(path, x === roles.timeColumn ? 'time' : 'sample-index');
+    const axis = x === null ? null : new TimeAxis(path, x === roles.timeColumn ? 'time' : 'sample-index', x === roles.timeColumn);
     const sink = new RowSink({
       file: path,
       columnCount: sniffed.columnCount,
@@ -41,6 +46,8 @@ export async function readCapture(path: string, options: ReadCaptureOptions = {}
       scales: Float64Array.from(roles.columns, (c) => c.scale),
       axis,
       capacity: source.compressed ? 1 << 16 : estimateRows(lines, sniffed, source.size),
+      leadColumn: x ?? kept[0] ?? 0,
+      ...(options.segment !== undefined ? { segment: options.segment } : {}),
     });
     const rest: AsyncIterable<Buffer> = { [Symbol.asyncIterator]: () => chunks };
     const data = sample.subarray(sniffed.dataOffset);
@@ -54,7 +61,8 @@ export async function readCapture(path: string, options: ReadCaptureOptions = {}
       for await (const chunk of rest) scanner.feed(chunk);
       scanner.end();
     }
-    return assembleCapture({ path, options, source, lines, sniffed, meta, roles, kept, sink, axis });
+    const capture = assembleCapture({ path, options, source, lines, sniffed, meta, roles, kept, sink, axis });
+    return { capture, lines, sniffed };
   } finally {
     await chunks.return?.();
   }

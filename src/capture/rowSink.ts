@@ -8,6 +8,7 @@
 import { captureError } from './errors.js';
 import { EMPTY, NUMBER, TEXT } from './scanNumber.js';
 import type { TimeAxis } from './timeAxis.js';
+import { SAME_SEGMENT } from './timeAxis.js';
 
 /**
  * Values at or beyond 9.9e37 are instrument overflow markers: SCPI writes 9.9E37 for infinity and
@@ -27,6 +28,10 @@ export interface SinkConfig {
   readonly capacity: number;
   /** Most samples held over all kept channels (default MAX_SAMPLES; smaller in tests). */
   readonly maxSamples?: number;
+  /** The column whose text marks a row as text (the x column, else the first data column). */
+  readonly leadColumn?: number;
+  /** Which acquisition to keep when the time restarts (1-based, default 1). */
+  readonly segment?: number;
 }
 
 /**
@@ -63,12 +68,23 @@ export class RowSink {
   /** File column and scale of each kept channel, in the order of `columns`. */
   private readonly channelColumns: Int32Array;
   private readonly channelScales: Float64Array;
+  private readonly lead: number;
+  /** Acquisitions seen (the time fell back to its first value) and the lines where each began. */
+  segments = 1;
+  readonly segmentLines: number[] = [];
+  private readonly wanted: number;
+  /** True while the rows belong to another acquisition than the one kept. */
+  private skipping: boolean;
+  private lastX = 0;
 
   constructor(private readonly cfg: SinkConfig) {
     const kept = [...cfg.targets.keys()].filter((c) => cfg.targets[c] >= 0).sort((a, b) => cfg.targets[a] - cfg.targets[b]);
     this.channelColumns = Int32Array.from(kept);
     this.channelScales = Float64Array.from(kept, (c) => cfg.scales[c]);
     this.xColumn = cfg.targets.indexOf(X_COLUMN);
+    this.lead = cfg.leadColumn ?? 0;
+    this.wanted = cfg.segment ?? 1;
+    this.skipping = this.wanted !== 1;
     this.columnCount = cfg.columnCount;
     this.trailingDelimiter = cfg.trailingDelimiter;
     this.maxRows = Math.floor((cfg.maxSamples ?? MAX_SAMPLES) / Math.max(1, kept.length));
@@ -83,16 +99,18 @@ export class RowSink {
     const C = this.columnCount;
     let n = fieldCount;
     if (this.trailingDelimiter && n === C + 1 && kinds[C] === EMPTY) n = C;
-    if (n !== C || kinds[0] === TEXT || isTextRow(kinds, n)) return this.hold(n, line);
+    if (n !== C || kinds[this.lead] === TEXT || isTextRow(kinds, n)) return this.hold(n, line);
     if (this.pending) throw this.pendingError(this.pending);
-    const row = this.length;
-    if (row === this.capacity) this.grow();
     const x = this.xColumn;
     if (x >= 0) {
       const t = vals[x];
       if (kinds[x] !== NUMBER || !(t < OVERFLOW_MARKER && t > -OVERFLOW_MARKER)) throw this.badTime(line);
-      this.cfg.axis!.push(vals, x, exps[x], line);
+      if (this.segments > this.wanted) return this.afterKept(t, line);
+      if (this.cfg.axis!.push(vals, x, exps[x], line) !== SAME_SEGMENT && !this.newSegment(vals, x, exps[x], line)) return true;
+      if (this.skipping) return true;
     }
+    const row = this.length;
+    if (row === this.capacity) this.grow();
     const { channelColumns, channelScales, columns } = this;
     for (let k = 0; k < channelColumns.length; k++) {
       const c = channelColumns[k];
@@ -106,6 +124,28 @@ export class RowSink {
     if (row === 0) this.firstLine = line;
     this.lastLine = line;
     this.length = row + 1;
+    return true;
+  }
+
+  /** The time fell back: a new acquisition starts on this row. Returns whether to keep the row. */
+  private newSegment(vals: Float64Array, x: number, exp: number, line: number): boolean {
+    this.segments++;
+    this.segmentLines.push(line);
+    this.lastX = vals[x];
+    if (this.segments > this.wanted) return false;
+    this.skipping = this.segments !== this.wanted;
+    this.cfg.axis!.reset();
+    this.cfg.axis!.push(vals, x, exp, line);
+    return !this.skipping;
+  }
+
+  /** Rows after the kept acquisition: only counted, for the warning. */
+  private afterKept(t: number, line: number): true {
+    if (t < this.lastX) {
+      this.segments++;
+      this.segmentLines.push(line);
+    }
+    this.lastX = t;
     return true;
   }
 

@@ -12,6 +12,7 @@ import type { DecimalMark, Delimiter } from '../types/index.js';
 import { captureError, EXPECTED_CSV } from './errors.js';
 import { splitFields } from './fields.js';
 import type { SampleLine, SampleLines } from './lines.js';
+import { readHeaderRows } from './headerRows.js';
 import { NUMBER, parseNumberText, TEXT } from './scanNumber.js';
 
 export const MAX_COLUMNS = 1024;
@@ -29,18 +30,43 @@ export interface Sniffed {
   readonly columnCount: number;
   /** Every data row ends with one extra delimiter. */
   readonly trailingDelimiter: boolean;
+  /** The first header row (names, or units alone), null when the data has none. */
   readonly headerLine: number | null;
+  /** Per column, the names-row cell; null without a names row. */
   readonly headerCells: readonly string[] | null;
+  /** Per column, the units-row cell ('' when blank); null without a units row. */
+  readonly unitCells: readonly string[] | null;
+  readonly unitsLine: number | null;
+  /** Lines read as header rows. */
+  readonly headerLines: readonly number[];
   readonly preamble: readonly (readonly [string, string])[];
+  /** Lines of the preamble (key–value lines above the header). */
+  readonly preambleLines: readonly number[];
+  /** Data rows whose empty columns carry preamble entries (`Record Length,2500,,0.0012,0.04`). */
+  readonly sharedLines: readonly number[];
+  /** Columns that hold no numbers in the data rows: never channels, never read. */
+  readonly ignoredColumns: readonly number[];
   readonly firstDataLine: number;
   /** Byte offset of the first data row in the sample. */
   readonly dataOffset: number;
+  /** Lines dropped by --skip-rows. */
+  readonly skippedLines: number;
   /**
-   * Numbers of the sniffed data rows (file units), for telling a time column from data. Read on
-   * first call and kept: only a capture without a header needs them, and reading some 4 000 fields
-   * as text is a fair share of a file's fixed cost.
+   * Numbers of the sniffed data rows (file units; NaN for an empty or text cell), for telling a
+   * time column from data. Read on first call and kept: reading some 4 000 fields as text is a
+   * fair share of a file's fixed cost.
    */
   readonly sampleRows: () => readonly (readonly number[])[];
+  /** Per column: every number of the sniffed data rows is written without decimals (`-12`, `140`). */
+  readonly integerWritten: () => readonly boolean[];
+}
+
+/** What the user said about the layout (--delimiter, --decimal, --skip-rows, --header-rows). */
+export interface LayoutHints {
+  readonly delimiter?: Delimiter;
+  readonly decimalMark?: DecimalMark;
+  readonly skipRows?: number;
+  readonly headerRows?: number;
 }
 
 interface Reading {
@@ -51,14 +77,17 @@ interface Reading {
   readonly signature: string;
 }
 
-export function sniffLayout(s: SampleLines, file: string): Sniffed {
-  const { lines } = s;
-  if (lines.length === 0) throw noData(file, 'empty', 1, s.wholeFile);
+export function sniffLayout(s: SampleLines, file: string, hints: LayoutHints = {}): Sniffed {
+  const skip = hints.skipRows ?? 0;
+  const lines = skip > 0 ? s.lines.filter((l) => l.line > skip) : s.lines;
+  if (lines.length === 0) throw noData(file, s.lines.length === 0 ? 'empty' : 'no-numeric-data', (s.lines.at(-1)?.line ?? 0) + 1, s.wholeFile);
+  const pairs = PAIRS.filter(([d, m]) => (hints.delimiter ?? d) === d && (hints.decimalMark ?? m) === m);
+  if (pairs.length === 0) pairs.push([hints.delimiter!, hints.decimalMark!]);
   // The layout is chosen on the first lines (enough for a preamble and a block of data); the
   // whole 64 KiB is used only when they hold no data.
   const first = lines.slice(0, CHOOSE_LINES);
-  let readings = readAll(first);
-  if (readings.length === 0 && lines.length > first.length) readings = readAll(lines);
+  let readings = readAll(first, pairs);
+  if (readings.length === 0 && lines.length > first.length) readings = readAll(lines, pairs);
   if (readings.length === 0) throw noData(file, headerOnly(lines, s.wholeFile) ? 'header-only' : 'no-numeric-data', lines[lines.length - 1].line + 1, s.wholeFile);
   const chosen = choose(readings, lines, file);
   const [delimiter, decimalMark] = chosen.pair;
@@ -67,34 +96,84 @@ export function sniffLayout(s: SampleLines, file: string): Sniffed {
   const dataSplit = split.filter((x) => x.fields.length === chosen.columns);
   const trailing = delimiter !== ' ' && chosen.columns > 1 && dataSplit.every((x) => x.fields[chosen.columns - 1] === '');
   const columns = trailing ? chosen.columns - 1 : chosen.columns;
-  const header = findHeader(lines, chosen.start, delimiter, decimalMark, columns, trailing);
-  const preambleEnd = header ? chosen.start - 1 : chosen.start;
+  const kinds = dataSplit.slice(0, 200).map((x) => x.fields.slice(0, columns).map((f) => parseNumberText(f, decimalMark).kind));
+  const ignored = Array.from({ length: columns }, (_, c) => c).filter((c) => !kinds.some((k) => k[c] === NUMBER));
+  const dataColumns = Array.from({ length: columns }, (_, c) => c).filter((c) => !ignored.includes(c));
+  const start = sharedStart(lines, chosen.start, { delimiter, decimalMark, columns: chosen.columns, dataColumns });
+  const header = readHeaderRows(lines, start, { delimiter, decimalMark, columns, dataColumns, file, ...(hints.headerRows !== undefined ? { forced: hints.headerRows } : {}) });
+  const preambleEnd = start - header.lines.length;
+  const shared = lines.slice(start, chosen.start);
+  const preamble = [
+    ...lines.slice(0, preambleEnd).map((l) => keyValue(l.text, delimiter)),
+    ...header.pairs,
+    ...shared.map((l) => sideEntry(splitFields(l.text, delimiter).fields, ignored)).filter((e): e is readonly [string, string] => e !== null),
+  ];
   let rows: number[][] | undefined;
+  let integers: boolean[] | undefined;
+  const sampleText = (): string[][] => dataSplit.slice(0, 2000).map((x) => x.fields.slice(0, columns));
   return {
     delimiter,
     decimalMark,
     quotes: split.some((x) => x.complexQuotes) ? 'complex' : split.some((x) => x.quoted) ? 'simple' : 'none',
     columnCount: columns,
     trailingDelimiter: trailing,
-    headerLine: header ? lines[chosen.start - 1].line : null,
-    headerCells: header,
-    preamble: lines.slice(0, preambleEnd).map((l) => keyValue(l.text, delimiter)),
-    firstDataLine: lines[chosen.start].line,
-    dataOffset: lines[chosen.start].start,
-    sampleRows: () => (rows ??= numericRows(dataSplit.slice(0, 2000).map((x) => x.fields.slice(0, columns)), decimalMark)),
+    headerLine: header.lines[0] ?? null,
+    headerCells: header.names,
+    unitCells: header.units,
+    unitsLine: header.unitsLine,
+    headerLines: header.lines,
+    preamble,
+    preambleLines: lines.slice(0, preambleEnd).map((l) => l.line),
+    sharedLines: shared.map((l) => l.line),
+    ignoredColumns: ignored,
+    firstDataLine: lines[start].line,
+    dataOffset: lines[start].start,
+    skippedLines: skip,
+    sampleRows: () => (rows ??= numericRows(sampleText(), decimalMark)),
+    integerWritten: () => (integers ??= integerColumns(sampleText(), columns, decimalMark)),
   };
 }
 
+/**
+ * Rows just above the data block that hold numbers in every data column and text only in columns
+ * that are empty in the data: the data started there, with preamble entries beside it.
+ */
+function sharedStart(lines: readonly SampleLine[], start: number, ctx: { delimiter: Delimiter; decimalMark: DecimalMark; columns: number; dataColumns: readonly number[] }): number {
+  if (ctx.dataColumns.length === 0) return start;
+  let at = start;
+  while (at > 0) {
+    const fields = splitFields(lines[at - 1].text, ctx.delimiter).fields;
+    if (fields.length !== ctx.columns) break;
+    if (!ctx.dataColumns.every((c) => parseNumberText(fields[c], ctx.decimalMark).kind === NUMBER)) break;
+    at--;
+  }
+  return at;
+}
+
+/** The cells of a shared row outside the data columns as (key, value): the first non-empty cell is the key. */
+function sideEntry(fields: readonly string[], ignored: readonly number[]): readonly [string, string] | null {
+  const cells = ignored.map((c) => fields[c] ?? '').filter((f) => f !== '');
+  return cells.length === 0 ? null : [cells[0], cells.slice(1).join(' ')];
+}
+
+function integerColumns(rows: readonly string[][], columns: number, decimalMark: DecimalMark): boolean[] {
+  return Array.from({ length: columns }, (_, c) =>
+    rows.every((r) => {
+      const p = parseNumberText(r[c] ?? '', decimalMark);
+      return p.kind !== NUMBER || p.quantumExp >= 0;
+    }),
+  );
+}
+
 function numericRows(rows: readonly string[][], decimalMark: DecimalMark): number[][] {
-  const parsed = rows.map((r) => r.map((f) => parseNumberText(f, decimalMark)));
-  return parsed.filter((r) => r.every((p) => p.kind !== TEXT)).map((r) => r.map((p) => p.value));
+  return rows.map((r) => r.map((f) => parseNumberText(f, decimalMark).value));
 }
 
 /** Every pair's reading; the lines are split once per delimiter, as two pairs share each one. */
-function readAll(lines: readonly SampleLine[]): Reading[] {
+function readAll(lines: readonly SampleLine[], pairs: readonly (readonly [Delimiter, DecimalMark])[]): Reading[] {
   const splits = new Map<Delimiter, string[][]>();
   const fieldsBy = (d: Delimiter): string[][] => splits.get(d) ?? splits.set(d, lines.map((l) => splitFields(l.text, d).fields)).get(d)!;
-  return PAIRS.map((pair) => readAs(lines, pair, fieldsBy(pair[0]))).filter((r): r is Reading => r !== null);
+  return pairs.map((pair) => readAs(lines, pair, fieldsBy(pair[0]))).filter((r): r is Reading => r !== null);
 }
 
 function readAs(lines: readonly SampleLine[], pair: readonly [Delimiter, DecimalMark], split: readonly (readonly string[])[]): Reading | null {
@@ -146,22 +225,6 @@ function choose(readings: readonly Reading[], lines: readonly SampleLine[], file
 function describe(r: Reading): string {
   const d = r.pair[0] === '\t' ? 'tab' : r.pair[0] === ' ' ? 'space' : `"${r.pair[0]}"`;
   return `${r.columns} column(s) split by ${d} with decimal "${r.pair[1]}"`;
-}
-
-function findHeader(
-  lines: readonly SampleLine[],
-  start: number,
-  delimiter: Delimiter,
-  decimalMark: DecimalMark,
-  columns: number,
-  trailing: boolean,
-): string[] | null {
-  if (start === 0) return null;
-  const text = lines[start - 1].text.replace(/^\s*#\s*/, '');
-  const fields = splitFields(text, delimiter).fields;
-  if (trailing && fields[fields.length - 1] === '') fields.pop();
-  if (fields.length !== columns) return null;
-  return fields.some((f) => parseNumberText(f, decimalMark).kind === NUMBER) ? null : fields;
 }
 
 /**

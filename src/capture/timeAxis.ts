@@ -8,12 +8,28 @@
  * below 1e-4 of a sample are beneath anything resampling could correct), capped at d/2 so that one
  * missing sample is always caught. On the first miss the column switches to being stored: the rows
  * before it passed the check and are rebuilt as t0 + i·d.
+ *
+ * A time column printed with fewer digits than its step needs repeats stamps (`0.00001` twice or
+ * more): such a column is stored too, and resolveTiming rebuilds the uniform grid from it. A time
+ * that falls back to the first one (within a step) starts a new acquisition: push returns
+ * NEW_SEGMENT and the caller decides what to keep.
  */
 import { captureError } from './errors.js';
 
 export type AxisResult =
   | { readonly uniform: true; readonly t0: number; readonly step: number; readonly count: number }
-  | { readonly uniform: false; readonly times: Float64Array; readonly firstIrregularLine: number };
+  | {
+      readonly uniform: false;
+      readonly times: Float64Array;
+      readonly firstIrregularLine: number;
+      /** Line of the first repeated stamp, when stamps repeat. */
+      readonly firstRepeatLine?: number;
+      /** Coarsest print resolution of the column (10^exponent of its last written digit). */
+      readonly quantum: number;
+    };
+
+export const SAME_SEGMENT = 0;
+export const NEW_SEGMENT = 1;
 
 export class TimeAxis {
   private count = 0;
@@ -26,14 +42,29 @@ export class TimeAxis {
   private maxQ = 0;
   private times: Float64Array | null = null;
   private firstIrregularLine = 0;
+  private firstRepeatLine = 0;
 
   constructor(
     private readonly file: string,
     private readonly label: string,
+    /** Repeated stamps are a coarse print of time (true for a time column, not for an index). */
+    private readonly repeatsAllowed = false,
   ) {}
 
-  /** Takes src[at] (read from the array so that no boxed double is passed per row). */
-  push(src: Float64Array, at: number, quantumExp: number, line: number): void {
+  /** Forgets every row: the next push starts a new acquisition. */
+  reset(): void {
+    this.count = 0;
+    this.nextAnchor = 2;
+    this.times = null;
+    this.firstIrregularLine = 0;
+    this.firstRepeatLine = 0;
+  }
+
+  /**
+   * Takes src[at] (read from the array so that no boxed double is passed per row). Returns
+   * NEW_SEGMENT, taking nothing, when the time falls back to the first one: a new acquisition.
+   */
+  push(src: Float64Array, at: number, quantumExp: number, line: number): number {
     const t = src[at];
     const n = this.count;
     if (quantumExp > this.maxQExp) {
@@ -43,7 +74,12 @@ export class TimeAxis {
     if (n === 0) this.t0 = t;
     else {
       const step = t - this.prev;
-      if (!(step > 0)) throw this.notIncreasing(t, line, step);
+      if (!(step > 0)) {
+        if (step < 0 && n > 2 && Math.abs(t - this.t0) <= Math.max(0.5 * Math.abs(this.d), this.maxQ)) return NEW_SEGMENT;
+        if (!(step === 0 && this.repeatsAllowed)) throw this.notIncreasing(t, line, step);
+        if (this.firstRepeatLine === 0) this.firstRepeatLine = line;
+        if (this.times === null) this.storeFrom(n, line);
+      }
       // The check is written out here, not called, so that no boxed double is passed per row.
       if (this.times === null && n === 1) this.d = step;
       else if (this.times === null) {
@@ -63,10 +99,19 @@ export class TimeAxis {
     this.prev = t;
     this.prevLine = line;
     this.count = n + 1;
+    return SAME_SEGMENT;
   }
 
   finish(): AxisResult {
-    if (this.times !== null) return { uniform: false, times: this.times.subarray(0, this.count), firstIrregularLine: this.firstIrregularLine };
+    if (this.times !== null) {
+      return {
+        uniform: false,
+        times: this.times.subarray(0, this.count),
+        firstIrregularLine: this.firstIrregularLine,
+        ...(this.firstRepeatLine > 0 ? { firstRepeatLine: this.firstRepeatLine } : {}),
+        quantum: this.maxQ,
+      };
+    }
     const step = this.count > 1 ? (this.prev - this.t0) / (this.count - 1) : NaN;
     return { uniform: true, t0: this.t0, step, count: this.count };
   }

@@ -11,6 +11,8 @@ import type { AxisResult } from './timeAxis.js';
 /** A resampled grid may hold at most this many times the rows read (and never more than 2^27 points). */
 const MAX_GRID_GROWTH = 8;
 const MAX_GRID_POINTS = 2 ** 27;
+/** Fewest rows from which a time base is rebuilt out of repeated stamps. */
+const MIN_REBUILT_ROWS = 16;
 
 export interface TimingInput {
   readonly file: string;
@@ -54,6 +56,7 @@ export function resolveTiming(input: TimingInput): Timing {
   const given = givenInterval(options, meta);
   const warnings: CaptureWarning[] = [];
   if (xKind !== 'time' && given === null) throw noTimeBase(file, input.firstDataLine);
+  if (axis && !axis.uniform && axis.firstRepeatLine !== undefined) return rebuildRepeated(input, axis, given);
   const unitScale = xKind === 'time' ? input.xScale : given!.value;
   const timing: CaptureLayout['timing'] = xKind === 'time' ? 'time-column' : given!.from;
   const start = (t0File: number): number => (xKind === 'time' ? t0File * unitScale : meta.startTime ?? 0);
@@ -86,4 +89,62 @@ export function resolveTiming(input: TimingInput): Timing {
     message: `the ${xKind === 'time' ? 'time' : 'sample-index'} steps are not uniform from line ${firstIrregularLine} on; ${times.length} rows were resampled by linear interpolation onto ${points} points every ${interval} s`,
   });
   return { startTime: start(r.t0), sampleInterval: interval, timing, resampled: true, channels: r.channels, warnings };
+}
+
+/**
+ * A time column printed with fewer digits than its step needs: each stamp is the true time rounded
+ * to the print resolution q, so the true times lie on a uniform grid within q of every stamp. The
+ * step is the stated interval when there is one, else the least-squares slope of stamp against row
+ * (its error falls as 1/n^1.5, far below q/n); the grid is accepted only when every stamp lies
+ * within q of it, else the repeats are real and the column is refused as before.
+ */
+function rebuildRepeated(input: TimingInput, axis: Extract<AxisResult, { uniform: false }>, given: ReturnType<typeof givenInterval>): Timing {
+  const { times, quantum } = axis;
+  const scale = input.xScale;
+  const n = times.length;
+  let d: number;
+  if (given) d = given.value / scale;
+  else {
+    const mi = (n - 1) / 2;
+    let mt = 0;
+    for (let i = 0; i < n; i++) mt += times[i];
+    mt /= n;
+    let sxy = 0;
+    let sxx = 0;
+    for (let i = 0; i < n; i++) {
+      sxy += (i - mi) * (times[i] - mt);
+      sxx += (i - mi) * (i - mi);
+    }
+    d = sxy / sxx;
+  }
+  let a = 0;
+  for (let i = 0; i < n; i++) a += times[i] - i * d;
+  a /= n;
+  let worst = 0;
+  for (let i = 0; i < n; i++) worst = Math.max(worst, Math.abs(times[i] - (a + i * d)));
+  // Repeats are explained by printing only when the step is finer than the print resolution.
+  if (!(d > 0) || n < MIN_REBUILT_ROWS || d >= quantum || worst > 1.01 * quantum + 1e-12 * Math.abs(times[n - 1])) {
+    throw captureError('time-repeated', input.file, {
+      line: axis.firstRepeatLine,
+      problem: `the time column repeats a value on line ${axis.firstRepeatLine}, and its stamps do not lie on one uniform grid within their printed resolution ${quantum}`,
+      expected: 'a time column that increases on every row (or repeats only because it is printed with too few digits)',
+      fix: 'export the time with more digits, or drop the time column and give --sample-rate',
+    });
+  }
+  const interval = d * scale;
+  const source = given ? (given.from === 'option' ? 'the flag' : 'the preamble') : 'a straight-line fit of the stamps';
+  return {
+    startTime: a * scale,
+    sampleInterval: interval,
+    timing: given ? given.from : 'time-column',
+    resampled: false,
+    channels: input.channels,
+    warnings: [
+      {
+        code: 'time-rebuilt',
+        line: axis.firstRepeatLine,
+        message: `the time column repeats stamps from line ${axis.firstRepeatLine} on (printed to ${quantum * scale} s, coarser than the ${interval} s step); the uniform time base was rebuilt from the ${n} rows and the interval of ${source}`,
+      },
+    ],
+  };
 }

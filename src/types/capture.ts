@@ -35,6 +35,55 @@ export interface CaptureLayout {
   readonly compressed: boolean;
   readonly bom: boolean;
   readonly lineEnding: 'lf' | 'crlf' | 'cr' | 'mixed';
+  /** How the file was understood, line by line and column by column (added with `inspect`). */
+  readonly reading?: CaptureReading;
+}
+
+/** What the reader made of a file: which lines are what, where each number came from. */
+export interface CaptureReading {
+  /** The reading profile used (its name and path, or `spec` for a spec's `captures.reading`), null for none. */
+  readonly profile: string | null;
+  /** Reading settings in force (profile and flags merged). */
+  readonly settings: ReadingSettings;
+  readonly skippedLines: number;
+  readonly preambleLines: readonly number[];
+  readonly headerLines: readonly number[];
+  readonly unitsLine: number | null;
+  /** Data rows that also carry preamble entries in their empty columns. */
+  readonly sharedLines: readonly number[];
+  /** Columns (0-based) that are empty in the data, or an index beside a time column: not read. */
+  readonly ignoredColumns: readonly number[];
+  /** Preamble keys understood, as written, with what they gave. */
+  readonly recognised: readonly { readonly key: string; readonly meaning: string; readonly value: number | string }[];
+  /** How the x column was found: by name, by unit, because it rises, by option; null without one. */
+  readonly xFoundBy: string | null;
+  /** Where the sample interval came from, in words (`time column`, `preamble key "Sample Interval"`). */
+  readonly intervalSource: string;
+  /** Per kept channel: where its unit and scale came from, and the scale and offset applied. */
+  readonly channels: readonly { readonly name: string; readonly unitFrom: string; readonly scale: number; readonly offset: number }[];
+  /** Acquisitions found in the file (time restarting), and which one was read (1-based). */
+  readonly segments: number;
+  readonly segmentRead: number;
+}
+
+/** How to read a capture when inference cannot tell, from flags, a reading profile or a spec. */
+export interface ReadingSettings {
+  readonly delimiter?: Delimiter;
+  readonly decimalMark?: DecimalMark;
+  /** File lines to drop before looking for the layout. */
+  readonly skipRows?: number;
+  /** Header rows just above the data: 0, 1 (names) or 2 (names, then units). */
+  readonly headerRows?: number;
+  /** The x column: 1-based number, name, or 'none'. */
+  readonly timeColumn?: number | string;
+  /** Unit of channels that state none: one for all, or per channel name or 1-based number. */
+  readonly channelUnit?: string | Readonly<Record<string, string>>;
+  /** Factor from the file's numbers to the channel's unit: one for all, or per channel. */
+  readonly scale?: number | Readonly<Record<string, number>>;
+  /** Which acquisition to read when the file holds several (1-based). */
+  readonly segment?: number;
+  readonly sampleRate?: number;
+  readonly interval?: number;
 }
 
 export interface CaptureWarning {
@@ -85,8 +134,10 @@ export interface Capture {
   readonly warnings: readonly CaptureWarning[];
 }
 
-/** Options a user can give the reader on the command line. */
-export interface ReadCaptureOptions {
+/** Options a user can give the reader on the command line (or a reading profile). */
+export interface ReadCaptureOptions extends ReadingSettings {
+  /** Name of the reading profile the settings came from, recorded with the capture. */
+  readonly profile?: string;
   /** Sample rate in Hz, used when the file has no time column or metadata. */
   readonly sampleRate?: number;
   /** Sample interval in seconds, the same purpose as sampleRate. */

@@ -54,7 +54,7 @@ describe('readMetadata', () => {
 
   it('ignores a trigger time without a time unit and keys it does not know', () => {
     const m = readMetadata([['Trigger time', '2026-12-01 10:12'], ['Probe', 'x10'], ['Trigger delay', '12']], '.');
-    expect(m).toEqual({ interval: undefined, verticalUnit: undefined, recordLength: undefined, startTime: undefined });
+    expect(m).toEqual({ recognised: [] });
   });
 });
 
