@@ -2,14 +2,13 @@
  * The rows between the preamble and the data: none, a row of names, a row of units alone
  * (`(ms)	(V)	(V)`), or names over units (`Time,CH1` / `Second,Volt`). Each way of reading the rows
  * just above the data is a candidate; each is scored by what it explains (a name for each data
- * column, a unit for each, one point per row read), and the best is kept. Two candidates that tie
- * with different results leave the layout ambiguous: the user says it with --header-rows.
+ * column, a unit for each, one point per column-wise pair), and the best is kept; of candidates
+ * that give the same columns, the one that reads more rows. --header-rows overrides the choice.
  *
  * A names row may run past the data columns (`X,CH1,Start,Increment`): its extra cells name the
  * value under them in the row below (`Sequence,Volt,-0.0012,2e-6`), a column-wise preamble.
  */
 import type { DecimalMark, Delimiter } from '../types/index.js';
-import { captureError } from './errors.js';
 import { splitFields } from './fields.js';
 import type { SampleLine } from './lines.js';
 import { NUMBER, parseNumberText, TEXT } from './scanNumber.js';
@@ -38,7 +37,6 @@ export interface HeaderContext {
   readonly columns: number;
   /** Columns that hold data (the others are empty in the data rows). */
   readonly dataColumns: readonly number[];
-  readonly file: string;
   /** Exactly this many header rows (--header-rows), or undefined to choose. */
   readonly forced?: number;
 }
@@ -62,12 +60,9 @@ export function readHeaderRows(lines: readonly SampleLine[], start: number, ctx:
   // Names over units may run past the data columns together (a column-wise preamble).
   const extra = r1 !== null && r2 !== null && r2.cells.length > ctx.columns && r1.cells.length === r2.cells.length;
   if (r1 && r2 && isUnitsRow(r1.cells, ctx, extra) && isNamesRow(r2.cells, ctx, extra)) candidates.push(reading(r2, r1, ctx));
-  const best = Math.max(...candidates.map((c) => c.score));
-  const top = candidates.filter((c) => c.score === best);
-  const distinct = new Map(top.map((c) => [JSON.stringify([effective(c, ctx)]), c]));
-  if (distinct.size > 1) throw ambiguous(ctx.file, top, start < lines.length ? lines[start].line : 1);
-  // Of readings that give the same columns, the one that reads more rows explains more of the file.
-  return top.reduce((a, b) => (b.lines.length > a.lines.length ? b : a));
+  // A names row reads its unit cells as units too, so readings that score the same give the same
+  // columns; the one that reads more rows explains more of the file.
+  return candidates.reduce((a, b) => (b.score > a.score || (b.score === a.score && b.lines.length > a.lines.length) ? b : a));
 }
 
 function forcedReading(n: number, r1: Row | null, r2: Row | null, ctx: HeaderContext, none: HeaderReading): HeaderReading {
@@ -111,14 +106,6 @@ function score(r: HeaderReading, ctx: HeaderContext): number {
   return s;
 }
 
-/** What a reading gives each data column: name and unit. */
-function effective(r: HeaderReading, ctx: HeaderContext): string[] {
-  return ctx.dataColumns.map((c) => {
-    const cell = r.names ? parseHeaderCell(r.names[c]) : { name: '', unit: '' };
-    return `${cell.name}|${r.units?.[c] || cell.unit}`;
-  });
-}
-
 function dataCells(cells: readonly string[], ctx: HeaderContext): string[] {
   return ctx.dataColumns.map((c) => cells[c] ?? '');
 }
@@ -141,14 +128,4 @@ function hasNames(cells: readonly string[], ctx: HeaderContext): boolean {
 function isUnitsRow(cells: readonly string[], ctx: HeaderContext, extra: boolean): boolean {
   if (!isNamesRow(cells, ctx, extra)) return false;
   return dataCells(cells, ctx).every((f) => f === '' || parseUnitCell(f) !== null || INDEX_UNIT.test(f.replace(/^[([{]\s*|\s*[)\]}]$/g, '')));
-}
-
-function ambiguous(file: string, top: readonly HeaderReading[], line: number) {
-  const ways = top.map((c) => (c.lines.length === 0 ? 'no header row' : c.namesLine !== null && c.unitsLine !== null ? `names on line ${c.namesLine} and units on line ${c.unitsLine}` : c.namesLine !== null ? `names on line ${c.namesLine}` : `units on line ${c.unitsLine}`));
-  return captureError('ambiguous-layout', file, {
-    line,
-    problem: `the rows above the data can be read in ${top.length} ways that explain the file equally well: ${ways.join(', or ')}`,
-    expected: 'one reading of the header rows',
-    fix: 'say how many header rows there are with --header-rows N (0, 1 or 2), or in a reading profile',
-  });
 }

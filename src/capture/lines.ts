@@ -67,7 +67,7 @@ export function sampleLines(sample: Buffer, endOfFile: boolean, file: string): S
 /** UTF-8 text, or Latin-1 for older exports that write `µ` as the single byte 0xB5. */
 function decodeLine(b: Buffer, start: number, end: number): string {
   const utf8 = b.toString('utf8', start, end);
-  return (utf8.includes('\uFFFD') ? b.toString('latin1', start, end) : utf8).replace(/\r$/, '');
+  return (utf8.includes('\uFFFD') ? b.toString('latin1', start, end) : utf8).replace(/\r+$/, '');
 }
 
 export function lineTooLong(file: string, line: number) {

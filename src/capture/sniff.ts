@@ -100,7 +100,7 @@ export function sniffLayout(s: SampleLines, file: string, hints: LayoutHints = {
   const ignored = Array.from({ length: columns }, (_, c) => c).filter((c) => !kinds.some((k) => k[c] === NUMBER));
   const dataColumns = Array.from({ length: columns }, (_, c) => c).filter((c) => !ignored.includes(c));
   const start = sharedStart(lines, chosen.start, { delimiter, decimalMark, columns: chosen.columns, dataColumns });
-  const header = readHeaderRows(lines, start, { delimiter, decimalMark, columns, dataColumns, file, ...(hints.headerRows !== undefined ? { forced: hints.headerRows } : {}) });
+  const header = readHeaderRows(lines, start, { delimiter, decimalMark, columns, dataColumns, ...(hints.headerRows !== undefined ? { forced: hints.headerRows } : {}) });
   const preambleEnd = start - header.lines.length;
   const shared = lines.slice(start, chosen.start);
   const preamble = [
@@ -212,8 +212,8 @@ function choose(readings: readonly Reading[], lines: readonly SampleLine[], file
     throw captureError('ambiguous-layout', file, {
       line: lines[r.start].line,
       problem: `the rows can be read in ${groups.length} ways (e.g. "${lines[r.start].text.slice(0, 40)}" as ${groups.map(([g]) => describe(g)).join(' or as ')})`,
-      expected: 'a delimiter that cannot be a decimal mark: "1,5;2,5" (semicolon) or "1.5,2.5" (comma)',
-      fix: 'add a header row naming each column, or export with ";" between fields when numbers use a decimal comma',
+      expected: 'a delimiter that cannot be a decimal mark: "1,5;2,5" (semicolon) or "1.5,2.5" (comma), or a header row naming each column',
+      fix: 'say how the file is written: --delimiter comma --decimal point (or --delimiter semicolon --decimal comma), or put it in a reading profile',
     });
   }
   // Within one reading, prefer the delimiter that actually occurs in the data (a tab over spaces).

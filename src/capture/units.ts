@@ -96,7 +96,7 @@ export function parseHeaderCell(cell: string): { name: string; unit: string } {
     return { name: bracket[1], unit: bracket[2] };
   }
   const slash = /^(.*?\S)\s*\/\s*(\S+)$/.exec(s);
-  if (slash && slash[1].length >= 2 && parseUnit(slash[2])) return { name: slash[1], unit: slash[2] };
+  if (slash && (slash[1].length >= 2 || /\s\/\s/.test(s)) && parseUnit(slash[2])) return { name: slash[1], unit: slash[2] };
   const inUnit = /^(.+?)\s+in\s+(\S+)$/i.exec(s);
   if (inUnit && parseUnit(inUnit[2])) return { name: inUnit[1], unit: inUnit[2] };
   const suffix = /^(.+?)_([A-Za-zµμ/]+)$/.exec(s);
