@@ -16,6 +16,8 @@ export interface StoreFlags {
   operator?: string;
   /** false with --no-store. */
   store?: boolean;
+  /** --allow-unverified: read the records even when some fail verification, those marked. */
+  allowUnverified?: boolean;
 }
 
 export interface DataLocation {
@@ -26,7 +28,9 @@ export interface DataLocation {
 }
 
 export function addDataOption(cmd: Command): Command {
-  return cmd.option('--data <dir>', `data folder of the records (default: BENCHPROOF_DATA, else ./${DEFAULT_DATA_FOLDER})`);
+  return cmd
+    .option('--data <dir>', `data folder of the records (default: BENCHPROOF_DATA, else ./${DEFAULT_DATA_FOLDER})`)
+    .option('--allow-unverified', 'read the records even when some runs fail verification (changed, damaged or deleted); those runs are named and marked');
 }
 
 /** For `check`: --data, --operator and --no-store. */

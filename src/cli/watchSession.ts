@@ -12,7 +12,7 @@ import { BenchError } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { loadSpec, planCapture } from './checkRun.js';
 import type { TimingOptions } from './checkRun.js';
-import { openDataStore, resolveOperator, stationName } from './store.js';
+import { openVerifiedStore, resolveOperator, stationName } from './store.js';
 import type { StoreFlags } from './store.js';
 import { checkEachCapture } from './watchCapture.js';
 import type { CaptureHandlerFactory, CaptureOutcome, WatchEnv } from './watchCapture.js';
@@ -45,7 +45,8 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
   const { spec, text } = loadSpec(ctx, settings.specFile);
   checkOverrides(spec, settings.overrides);
   const reportDir = settings.reportDir === undefined ? undefined : makeReportDir(ctx, settings.reportDir);
-  const { store, location } = openDataStore(ctx, settings.flags, 'write');
+  // The records are verified once at the start: watch looks up what is recorded already.
+  const { store, location } = openVerifiedStore(ctx, settings.flags, 'write');
   try {
     const env: WatchEnv = {
       ctx, spec, specText: text, store, location, overrides: settings.overrides, timing: settings.timing, reportDir,

@@ -3,8 +3,10 @@
  * re-hashed and compared with the digest stored with it, so a changed record shows as `intact: false`.
  */
 import type { Database } from 'better-sqlite3';
-import type { CalibrationIteration, StoredCalibrationIteration, StoredCalibrationRun, StoredCapture, UnitRecord } from '../types/index.js';
+import type { StoredCalibrationIteration, StoredCalibrationRun, StoredCapture, UnitRecord } from '../types/index.js';
 import { iterationDigest } from './calibrationDigest.js';
+import type { DamagedRow } from './readRuns.js';
+import { parseIteration } from './rowShape.js';
 
 interface RunRow {
   id: number;
@@ -40,9 +42,17 @@ interface CaptureRow {
   file: string;
 }
 
+/** The unit's calibration runs with their readable iterations (a damaged iteration is left out). */
 export function readCalibrations(db: Database, unit: string): StoredCalibrationRun[] {
-  const runs = db.prepare('SELECT * FROM calibration_runs WHERE unit = ? ORDER BY id').all(unit) as RunRow[];
-  if (runs.length === 0) return [];
+  return readCalibrationRows(db, unit).runs;
+}
+
+/** Calibration runs (of one unit, or all), with the iterations that could not be read beside them. */
+export function readCalibrationRows(db: Database, unit?: string): { runs: StoredCalibrationRun[]; damaged: DamagedRow[] } {
+  const runs = (unit === undefined
+    ? db.prepare('SELECT * FROM calibration_runs ORDER BY id').all()
+    : db.prepare('SELECT * FROM calibration_runs WHERE unit = ? ORDER BY id').all(unit)) as RunRow[];
+  if (runs.length === 0) return { runs: [], damaged: [] };
   const ids = JSON.stringify(runs.map((r) => r.id));
   const iterations = db.prepare('SELECT * FROM calibration_iterations WHERE calibration_id IN (SELECT value FROM json_each(?)) ORDER BY calibration_id, number').all(ids) as IterationRow[];
   const captures = db
@@ -52,16 +62,25 @@ export function readCalibrations(db: Database, unit: string): StoredCalibrationR
        WHERE cc.iteration_id IN (SELECT value FROM json_each(?)) ORDER BY cc.iteration_id, cc.seq`,
     )
     .all(JSON.stringify(iterations.map((i) => i.id))) as CaptureRow[];
-  return runs.map((run) => {
-    const its = iterations.filter((i) => i.calibration_id === run.id).map((row) => toIteration(run, row, captures.filter((c) => c.iteration_id === row.id)));
+  const damaged: DamagedRow[] = [];
+  const out = runs.map((run) => {
+    const its: StoredCalibrationIteration[] = [];
+    for (const row of iterations.filter((i) => i.calibration_id === run.id)) {
+      const it = toIteration(run, row, captures.filter((c) => c.iteration_id === row.id));
+      if ('problem' in it) damaged.push(it);
+      else its.push(it);
+    }
     const spec = { name: run.spec_name, revision: run.spec_revision, sha256: run.spec_sha256 };
     return { id: run.id, unit: run.unit, spec, startedAt: run.started_at, complete: its.some((i) => i.result.meetsLimits), iterations: its };
   });
+  return { runs: out, damaged };
 }
 
-function toIteration(run: RunRow, row: IterationRow, rows: readonly CaptureRow[]): StoredCalibrationIteration {
+function toIteration(run: RunRow, row: IterationRow, rows: readonly CaptureRow[]): StoredCalibrationIteration | DamagedRow {
   const captures: StoredCapture[] = rows.map((c) => ({ path: c.original_path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.step, archivePath: c.file }));
-  const result = JSON.parse(row.result_json) as CalibrationIteration;
+  const parsed = parseIteration(row.result_json);
+  if (!parsed.ok) return { kind: 'calibration', id: row.id, unit: String(run.unit), problem: parsed.problem };
+  const result = parsed.value;
   const spec = { name: run.spec_name, revision: run.spec_revision, sha256: run.spec_sha256 };
   const base = { unit: run.unit, startedAt: row.started_at, operator: row.operator, station: row.station, spec, toolVersion: row.tool_version, result, captures };
   const intact = iterationDigest(base) === row.digest && result.statement === row.statement && result.meetsLimits === (row.meets_limits === 1) && result.unit === run.unit;

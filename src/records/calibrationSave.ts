@@ -10,6 +10,7 @@ import type { NewCalibrationIteration, StoredCapture, StoredCalibrationIteration
 import { archiveCapture } from './archive.js';
 import { iterationDigest } from './calibrationDigest.js';
 import { sha256Hex } from './digest.js';
+import { appendLink } from './chain.js';
 
 export interface SavedIteration {
   /** The calibration run it belongs to, and whether this iteration started it. */
@@ -36,6 +37,7 @@ export function saveCalibration(db: Database, dataDir: string, it: NewCalibratio
         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
       .run(calibrationId, number, startedAt, storedAt, it.operator, it.station, it.toolVersion, it.result.statement, it.result.meetsLimits ? 1 : 0, JSON.stringify(it.result), digest);
     const id = Number(info.lastInsertRowid);
+    appendLink(db, 'calibration', id, digest);
     const blob = db.prepare('INSERT OR IGNORE INTO blobs (sha256, size, file, first_stored_at) VALUES (?, ?, ?, ?)');
     const link = db.prepare('INSERT INTO calibration_captures (iteration_id, seq, sha256, original_path, size, layout, step) VALUES (?, ?, ?, ?, ?, ?, ?)');
     captures.forEach((c, i) => {

@@ -12,6 +12,8 @@ export { summarizeBatch, ROUGH_BELOW_UNITS } from './summarizeBatch.js';
 export type { BatchFilter } from './summarizeBatch.js';
 export { compareSerials } from './unitSummaries.js';
 export { storeError } from './storeErrors.js';
+export type { AuditProblem, AuditProblemKind, StoreAudit } from './auditStore.js';
+export { CHAIN_START, chainLink } from './chain.js';
 export { nearestNames } from './nearestNames.js';
 export type { CaptureKey, SaveOnceResult } from './captureSeen.js';
 export type { SavedIteration } from './calibrationSave.js';

@@ -9,6 +9,7 @@ import { BenchError } from '../types/index.js';
 import { migrateTo1 } from './migration1.js';
 import { migrateTo2 } from './migration2.js';
 import { migrateTo3 } from './migration3.js';
+import { migrateTo4 } from './migration4.js';
 
 export interface Migration {
   readonly version: number;
@@ -20,6 +21,7 @@ export const MIGRATIONS: readonly Migration[] = [
   { version: 1, name: 'runs, checks, causes and content-addressed captures', up: migrateTo1 },
   { version: 2, name: 'every measured value with its uncertainty; append-only triggers', up: migrateTo2 },
   { version: 3, name: 'calibration runs with their iterations', up: migrateTo3 },
+  { version: 4, name: 'hash chain over every stored run and iteration', up: migrateTo4 },
 ];
 
 export const LATEST_SCHEMA: number = MIGRATIONS[MIGRATIONS.length - 1].version;
@@ -28,15 +30,32 @@ export function schemaVersion(db: Database): number {
   return db.pragma('user_version', { simple: true }) as number;
 }
 
-/** Bring the database up to `upTo` (the latest by default); returns the version it ends at. */
+/** Tables every benchproof store has once migrated; a database without them is not one. */
+const REQUIRED_TABLES = ['schema_migrations', 'specs', 'runs', 'blobs', 'run_captures', 'calibration_iterations', 'chain'];
+
+/**
+ * Bring the database up to `upTo` (the latest by default); returns the version it ends at. A version
+ * that disagrees with the database (negative, reset to 0 over existing tables as an SQL dump restore
+ * leaves it, or other than the steps `schema_migrations` says ran) is refused, never migrated over.
+ */
 export function applyMigrations(db: Database, dir: string, upTo: number = LATEST_SCHEMA): number {
-  const found = schemaVersion(db);
-  if (found > LATEST_SCHEMA) throw newerSchemaError(dir, found);
+  // One read transaction: the version and the tables are seen in one snapshot, even while another
+  // process applies a step.
+  const found = db.transaction(() => {
+    const v = schemaVersion(db);
+    if (v > LATEST_SCHEMA) throw newerSchemaError(dir, v);
+    checkVersionAgrees(db, dir, v);
+    return v;
+  })();
   for (const step of MIGRATIONS) {
     if (step.version > upTo) break;
     db.transaction(() => {
       if (schemaVersion(db) >= step.version) return;
-      step.up(db);
+      try {
+        step.up(db);
+      } catch (err) {
+        throw mismatchError(dir, found, `migrating to schema ${step.version} failed (${(err as Error).message})`);
+      }
       db.prepare('INSERT INTO schema_migrations (version, name, applied_at) VALUES (?, ?, ?)').run(
         step.version,
         step.name,
@@ -45,7 +64,43 @@ export function applyMigrations(db: Database, dir: string, upTo: number = LATEST
       db.pragma(`user_version = ${step.version}`);
     }).immediate();
   }
-  return schemaVersion(db);
+  const version = schemaVersion(db);
+  if (version === LATEST_SCHEMA) {
+    const missing = REQUIRED_TABLES.filter((t) => !tableExists(db, t));
+    if (missing.length) throw mismatchError(dir, version, `the tables ${missing.join(', ')} are missing`);
+  }
+  return version;
+}
+
+function tableExists(db: Database, name: string): boolean {
+  return db.prepare("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?").get(name) !== undefined;
+}
+
+function checkVersionAgrees(db: Database, dir: string, found: number): void {
+  if (!Number.isInteger(found) || found < 0) throw mismatchError(dir, found, 'a schema version below 0 is never written by benchproof');
+  const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%'").all() as { name: string }[]).map((r) => r.name);
+  if (found === 0) {
+    if (tables.length === 0) return;
+    const ran = tables.includes('schema_migrations') ? lastStep(db) : null;
+    throw mismatchError(dir, found, ran === null ? `the database holds tables (${tables.slice(0, 4).join(', ')}) that are not a benchproof store's` : `its own migration log says schema ${ran} (an SQL dump does not carry the schema version)`);
+  }
+  const ran = tables.includes('schema_migrations') ? lastStep(db) : null;
+  if (ran !== found) throw mismatchError(dir, found, ran === null ? 'the migration log is missing' : `its own migration log says schema ${ran}`);
+}
+
+function lastStep(db: Database): number | null {
+  const row = db.prepare('SELECT MAX(version) AS v FROM schema_migrations').get() as { v: number | null } | undefined;
+  return row?.v ?? null;
+}
+
+function mismatchError(dir: string, found: number, why: string): BenchError {
+  return new BenchError({
+    code: 'records.schema-mismatch',
+    file: dir,
+    problem: `the record database says schema version ${found}, but ${why}; it was left untouched`,
+    expected: `a benchproof store at schema 1 to ${LATEST_SCHEMA} whose version agrees with its tables`,
+    fix: 'restore records.db from your last backup (a copy of the file, not an SQL dump), or give another folder with --data DIR',
+  });
 }
 
 function newerSchemaError(dir: string, found: number): BenchError {

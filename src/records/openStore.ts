@@ -5,7 +5,7 @@
  */
 import Database from 'better-sqlite3';
 import type { Database as Db } from 'better-sqlite3';
-import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { existsSync, lstatSync, mkdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import type { NewCalibrationIteration, NewRun, StoredCalibrationRun, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
 import { removeStaleTemps } from './archive.js';
@@ -14,7 +14,10 @@ import { distinct, readRuns, specText } from './readRuns.js';
 import type { RunFilter } from './readRuns.js';
 import { saveRun } from './saveRun.js';
 import type { SaveHooks } from './saveRun.js';
-import { missingError, noRecordsError, openError, storeError } from './storeErrors.js';
+import { damagedFileError, missingError, noRecordsError, openError, storeError } from './storeErrors.js';
+import { auditStore } from './auditStore.js';
+import type { StoreAudit } from './auditStore.js';
+import { chainHead } from './chain.js';
 import { buildUnitRecord, listUnits } from './unitSummaries.js';
 import { calibratedSerials, readCalibrations, withCalibrations } from './calibrationRead.js';
 import { saveCalibration } from './calibrationSave.js';
@@ -58,6 +61,13 @@ export interface RecordStore {
   saveCalibration(iteration: NewCalibrationIteration): SavedIteration;
   /** The unit's calibration runs with their iterations, oldest first. */
   calibrations(serial: string): StoredCalibrationRun[];
+  /**
+   * Verify the whole store (fingerprints, hash chain, archived captures; auditStore.ts). Computed once
+   * per open store; runs() and unitRecord() mark every run it names as not intact.
+   */
+  audit(): StoreAudit;
+  /** The newest link of the hash chain. */
+  chainHead(): string;
 }
 
 export function openStore(dir: string, options: OpenStoreOptions = {}): RecordStore {
@@ -85,8 +95,11 @@ function prepareFolder(dir: string, mode: 'write' | 'read', label: string): void
   if (existsSync(dir)) {
     if (!statSync(dir).isDirectory()) throw missingError(label);
     if (mode === 'read' && !existsSync(join(dir, DATABASE_FILE))) throw noRecordsError(label);
+    checkDatabaseFile(join(dir, DATABASE_FILE), label);
     return;
   }
+  // A link whose target is gone: neither created through nor taken for a missing folder to make.
+  if (isLink(dir)) throw missingError(label);
   if (mode === 'read') throw noRecordsError(label);
   try {
     mkdirSync(dir);
@@ -95,6 +108,29 @@ function prepareFolder(dir: string, mode: 'write' | 'read', label: string): void
     if ((err as { code?: string }).code === 'EEXIST' && statSync(dir).isDirectory()) return;
     throw storeError(err, label);
   }
+}
+
+function isLink(path: string): boolean {
+  try {
+    return lstatSync(path).isSymbolicLink();
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * SQLite takes an empty file for a new, empty database; an empty records.db, or one that is not a
+ * regular file, is a damaged store (records lost), never a fresh start.
+ */
+function checkDatabaseFile(file: string, label: string): void {
+  let st;
+  try {
+    st = statSync(file);
+  } catch {
+    return; // not there yet: a new store
+  }
+  if (!st.isFile()) throw damagedFileError(label, 'records.db is not a regular file');
+  if (st.size === 0) throw damagedFileError(label, 'records.db is empty (0 bytes): the records it held are gone');
 }
 
 function guarded<T>(label: string, fn: () => T): T {
@@ -106,14 +142,25 @@ function guarded<T>(label: string, fn: () => T): T {
 }
 
 function wrap(db: Db, dir: string, dbFile: string, version: number, label: string): RecordStore {
+  let audited: StoreAudit | undefined;
+  const audit = (): StoreAudit => (audited ??= guarded(label, () => auditStore(db, dir)));
+  const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set(audit().problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
+  const mark = (runs: StoredRun[]): StoredRun[] => {
+    const bad = flagged('run');
+    return runs.map((r) => (r.intact && bad.has(r.id) ? { ...r, intact: false } : r));
+  };
+  const markCalibrations = (list: StoredCalibrationRun[]): StoredCalibrationRun[] => {
+    const bad = flagged('calibration');
+    return list.map((c) => ({ ...c, iterations: c.iterations.map((i) => (i.intact && bad.has(i.id) ? { ...i, intact: false } : i)) }));
+  };
   return {
     dir,
     dbFile,
     schemaVersion: version,
     saveRun: (run, hooks) => guarded(label, () => saveRun(db, dir, run, hooks)),
-    listUnits: (filter = {}) => guarded(label, () => listUnits(db, filter.spec)),
-    unitRecord: (serial) => guarded(label, () => withCalibrations(buildUnitRecord(serial, readRuns(db, { unit: serial })), serial, readCalibrations(db, serial))),
-    runs: (filter) => guarded(label, () => readRuns(db, filter)),
+    listUnits: (filter = {}) => guarded(label, () => withUnverified(listUnits(db, filter.spec), audit())),
+    unitRecord: (serial) => guarded(label, () => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial)))),
+    runs: (filter) => guarded(label, () => mark(readRuns(db, filter))),
     unitSerials: () => guarded(label, () => [...new Set([...distinct(db, 'unit'), ...calibratedSerials(db)])].sort()),
     specNames: () => guarded(label, () => distinct(db, 'spec_name')),
     specText: (sha256) => guarded(label, () => specText(db, sha256)),
@@ -122,8 +169,20 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     captureRecorded: (key) => guarded(label, () => captureRecorded(db, key)),
     saveRunOnce: (run, hooks) => guarded(label, () => saveRunOnce(db, dir, run, hooks)),
     saveCalibration: (iteration) => guarded(label, () => saveCalibration(db, dir, iteration)),
-    calibrations: (serial) => guarded(label, () => readCalibrations(db, serial)),
+    calibrations: (serial) => guarded(label, () => markCalibrations(readCalibrations(db, serial))),
+    audit,
+    chainHead: () => guarded(label, () => chainHead(db)),
   };
+}
+
+/** Each unit's runs that failed verification, by number, so a listing can mark the unit. */
+function withUnverified(units: UnitSummary[], audit: StoreAudit): UnitSummary[] {
+  const byUnit = new Map<string, number[]>();
+  for (const p of audit.problems) {
+    if (p.kind !== 'run' || p.id === null || p.unit === null) continue;
+    byUnit.set(p.unit, [...new Set([...(byUnit.get(p.unit) ?? []), p.id])]);
+  }
+  return units.map((u) => (byUnit.has(u.unit) ? { ...u, unverifiedRuns: byUnit.get(u.unit) } : u));
 }
 
 /** For callers that must say which folder a failure was about without opening it. */

@@ -1,10 +1,13 @@
 /**
  * Reading runs back. Every run read is re-hashed and compared with the digest stored with it, so a
  * record changed behind benchproof's back is shown as such (`intact: false`) rather than believed.
+ * A row whose stored JSON does not parse or is not the shape benchproof stores is not a run: it is
+ * returned as damaged, naming its number, and the other runs stay readable.
  */
 import type { Database } from 'better-sqlite3';
-import type { Diagnosis, RunKind, Statement, StoredCapture, StoredRun, UnitVerdict } from '../types/index.js';
+import type { RunKind, Statement, StoredCapture, StoredRun } from '../types/index.js';
 import { runDigest } from './digest.js';
+import { parseDiagnosis, parseVerdict } from './rowShape.js';
 
 interface RunRow {
   id: number;
@@ -39,8 +42,26 @@ export interface RunFilter {
   readonly spec?: string;
 }
 
+/** A stored row that could not be read as what it should be. */
+export interface DamagedRow {
+  readonly kind: 'run' | 'calibration';
+  readonly id: number;
+  readonly unit: string;
+  readonly problem: string;
+}
+
+export interface RunsRead {
+  readonly runs: StoredRun[];
+  readonly damaged: DamagedRow[];
+}
+
 /** Runs oldest first (by start time, then run number), optionally for one unit or one spec name. */
 export function readRuns(db: Database, filter: RunFilter = {}): StoredRun[] {
+  return readRunRows(db, filter).runs;
+}
+
+/** As readRuns, with the rows that could not be read as runs beside them. */
+export function readRunRows(db: Database, filter: RunFilter = {}): RunsRead {
   const where: string[] = [];
   const args: string[] = [];
   if (filter.unit !== undefined) {
@@ -54,7 +75,14 @@ export function readRuns(db: Database, filter: RunFilter = {}): StoredRun[] {
   const sql = `SELECT * FROM runs ${where.length ? `WHERE ${where.join(' AND ')}` : ''} ORDER BY started_at, id`;
   const rows = db.prepare(sql).all(...args) as RunRow[];
   const captures = capturesByRun(db, rows);
-  return rows.map((row) => toStoredRun(row, captures.get(row.id) ?? []));
+  const runs: StoredRun[] = [];
+  const damaged: DamagedRow[] = [];
+  for (const row of rows) {
+    const run = toStoredRun(row, captures.get(row.id) ?? []);
+    if ('problem' in run) damaged.push(run);
+    else runs.push(run);
+  }
+  return { runs, damaged };
 }
 
 function capturesByRun(db: Database, runs: readonly RunRow[]): Map<number, StoredCapture[]> {
@@ -75,22 +103,26 @@ function capturesByRun(db: Database, runs: readonly RunRow[]): Map<number, Store
   return out;
 }
 
-function toStoredRun(row: RunRow, captures: readonly StoredCapture[]): StoredRun {
+function toStoredRun(row: RunRow, captures: readonly StoredCapture[]): StoredRun | DamagedRow {
+  const verdict = parseVerdict(row.verdict_json);
+  const diagnosis = parseDiagnosis(row.diagnosis_json);
+  const unit = String(row.unit);
+  if (!verdict.ok || !diagnosis.ok) return { kind: 'run', id: row.id, unit, problem: verdict.ok ? (diagnosis as { problem: string }).problem : verdict.problem };
   const run = {
     id: row.id,
-    unit: row.unit,
+    unit,
     kind: row.kind as RunKind,
-    startedAt: row.started_at,
-    storedAt: row.stored_at,
-    operator: row.operator,
-    station: row.station,
-    spec: { name: row.spec_name, revision: row.spec_revision, sha256: row.spec_sha256 },
-    toolVersion: row.tool_version,
+    startedAt: String(row.started_at),
+    storedAt: String(row.stored_at),
+    operator: String(row.operator),
+    station: String(row.station),
+    spec: { name: String(row.spec_name), revision: String(row.spec_revision), sha256: String(row.spec_sha256) },
+    toolVersion: String(row.tool_version),
     statement: row.statement as Statement,
-    verdict: JSON.parse(row.verdict_json) as UnitVerdict,
-    diagnosis: JSON.parse(row.diagnosis_json) as Diagnosis,
+    verdict: verdict.value,
+    diagnosis: diagnosis.value,
     captures,
-    digest: row.digest,
+    digest: String(row.digest),
   };
   const intact = runDigest(run) === row.digest && run.verdict.statement === run.statement && run.verdict.unit === run.unit;
   return { ...run, intact };

@@ -1,13 +1,15 @@
 /**
  * Storing one run. Captures are archived first (content-addressed, idempotent, so an interruption there
  * leaves at most an unreferenced copy); then every row of the run is written in one immediate
- * transaction, so the run is either there in full or not at all.
+ * transaction, so the run is either there in full or not at all, together with its entry in the
+ * hash chain (chain.ts).
  */
 import type { Database } from 'better-sqlite3';
 import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
 import { archiveCapture } from './archive.js';
 import { runDigest, sha256Hex } from './digest.js';
 import { insertMeasurements } from './measurementRows.js';
+import { appendLink } from './chain.js';
 
 /** Fault injection for tests: called inside the transaction after every row is written, before commit. */
 export interface SaveHooks {
@@ -43,6 +45,8 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
   const write = db.transaction((): StoredRun => {
     const storedAt = new Date().toISOString();
     const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures);
+    // The run joins the hash chain in the same transaction: stored and chained, or neither.
+    appendLink(db, 'run', id, digest);
     hooks.beforeCommit?.();
     return { id, storedAt, digest, intact: true, ...base };
   });

@@ -43,6 +43,17 @@ export function storeError(err: unknown, dir: string): unknown {
   return err;
 }
 
+/** A database file that cannot be a store (empty, not a regular file): never taken as a new one. */
+export function damagedFileError(dir: string, what: string): BenchError {
+  return new BenchError({
+    code: 'records.damaged',
+    file: dir,
+    problem: `${what}; benchproof will not start a new store over it`,
+    expected: 'the records.db benchproof wrote in this data folder',
+    fix: `do not delete it; restore records.db from your last backup, or ${OVERRIDE}`,
+  });
+}
+
 export function lockedError(dir: string): BenchError {
   return new BenchError({
     code: 'records.locked',

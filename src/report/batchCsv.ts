@@ -2,19 +2,17 @@
  * Batch statistics as CSV for spreadsheets: one row per checked quantity and spec, a header row, CRLF
  * line ends and quoting as RFC 4180 §2, numbers at full precision ('.' decimal), empty cells for none.
  * Text cells that a spreadsheet would run as a formula (=, +, −, @ first) get a leading apostrophe
- * (OWASP "CSV Injection" guidance).
+ * (OWASP "CSV Injection" guidance), also after leading blanks (escapeText.ts).
  */
 import type { BatchReport } from '../types/index.js';
+import { csvText } from './escapeText.js';
 
 export const BATCH_CSV_COLUMNS = [
   'spec', 'condition', 'output', 'measurement', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
   'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes',
 ] as const;
 
-function text(s: string): string {
-  const safe = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
-  return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-}
+const text = csvText;
 
 function num(v: number | null): string {
   return v === null || !Number.isFinite(v) ? '' : String(v);

@@ -1,7 +1,7 @@
 /** Batch statistics as Markdown: yields, the units, and per checked quantity the spread and Cp/Cpk. */
 import type { BatchReport, SpecBatch, YieldFigure } from '../types/index.js';
 import { STATEMENT_WORDS } from '../types/index.js';
-import { md, mdTable } from './recordMarkdown.js';
+import { md, mdTable, sourceLine } from './recordMarkdown.js';
 import { formatFraction, formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
 
 export function describeYield(y: YieldFigure): string {
@@ -43,6 +43,6 @@ function specBlock(s: SpecBatch): string {
 export function renderBatchMarkdown(batch: BatchReport): string {
   const head = `# Batch report\n\nScope: ${batchFilterText(batch)}${batch.filter.spec ? `, spec ${md(batch.filter.spec)}` : ''}. Accepted = ${STATEMENT_WORDS.pass} or ${STATEMENT_WORDS['conditional-pass']}.`;
   const body = batch.specs.length ? batch.specs.map(specBlock).join('\n\n') : 'No units match.';
-  const foot = batch.source ? `\n\n_Generated ${formatTime(batch.source.generatedAt)} by benchproof ${md(batch.source.toolVersion)} from \`${batch.source.dataDir}\`._` : '';
+  const foot = batch.source ? `\n\n${sourceLine(batch.source)}` : '';
   return `${head}\n\n${body}${foot}\n`;
 }

@@ -2,15 +2,14 @@
  * The per-unit test record as Markdown, for a terminal, a wiki or a ticket. Same sections as the HTML
  * record except the plots; RECORD_MARKDOWN_SECTIONS takes a new section as one entry.
  */
-import type { CheckVerdict, StoredRun, UnitRecord } from '../types/index.js';
+import type { CheckVerdict, DocumentSource, StoredRun, UnitRecord } from '../types/index.js';
 import { STATEMENT_WORDS } from '../types/index.js';
 import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
 import { renderCalibrationMarkdown } from './calibrationMarkdown.js';
+import { mdText } from './escapeText.js';
 
-/** Escape what Markdown tables and emphasis would take as syntax. */
-export function md(s: string): string {
-  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/([*_`<>[\]])/g, '\\$1').replace(/\r?\n/g, ' ');
-}
+/** Escape what Markdown tables, emphasis and raw HTML would take as syntax (escapeText.ts). */
+export const md = mdText;
 
 export function mdTable(head: readonly string[], rows: readonly (readonly string[])[]): string {
   const line = (cells: readonly string[]): string => `| ${cells.join(' | ')} |`;
@@ -94,15 +93,21 @@ function history(rec: UnitRecord): string {
 }
 
 function captures(rec: UnitRecord): string {
-  const rows = [...rec.runs].reverse().flatMap((r) => r.captures.map((c) => [`#${r.id}`, md(c.condition), `\`${c.path.replace(/`/g, "'")}\``, formatBytes(c.size), `\`${c.sha256}\``]));
+  const rows = [...rec.runs].reverse().flatMap((r) => r.captures.map((c) => [`#${r.id}`, md(c.condition), md(c.path), formatBytes(c.size), `\`${md(c.sha256)}\``]));
   return `## Captures\n\nArchived unchanged in the data folder under their SHA-256. Plots: \`--format html\`.\n\n${mdTable(['run', 'condition', 'original path', 'size', 'SHA-256'], rows)}`;
 }
 
 export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, history, captures, renderCalibrationMarkdown];
 
+/** Who made the document, from which data folder, and the store's chain head at that moment. */
+export function sourceLine(src: DocumentSource): string {
+  const head = src.chainHead ? ` Records chain head ${md(src.chainHead.slice(0, 16))} (the store as it was when this was made).` : '';
+  return `_Generated ${formatTime(src.generatedAt)} by benchproof ${md(src.toolVersion)} from the data folder ${md(src.dataDir)}._${head}`;
+}
+
 export function renderRecordMarkdown(rec: UnitRecord): string {
   if (rec.runs.length === 0 && !rec.calibrations?.length) throw new RangeError(`renderRecordMarkdown: record of ${rec.unit} has no runs`);
-  const footer = rec.source ? [`_Generated ${formatTime(rec.source.generatedAt)} by benchproof ${md(rec.source.toolVersion)} from \`${rec.source.dataDir}\`._`] : [];
+  const footer = rec.source ? [sourceLine(rec.source)] : [];
   // A unit calibrated but never checked: only the calibration section has something to show.
   const sections = rec.runs.length === 0 ? [renderCalibrationMarkdown] : RECORD_MARKDOWN_SECTIONS;
   return `${[...sections.map((s) => s(rec)).filter((t) => t !== ''), ...footer].join('\n\n')}\n`;

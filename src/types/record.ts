@@ -90,6 +90,8 @@ export interface UnitSummary {
   readonly firstTestedAt: string;
   readonly lastTestedAt: string;
   readonly runs: number;
+  /** Runs of this unit that failed verification (changed, damaged, deleted); absent when none. */
+  readonly unverifiedRuns?: readonly number[];
 }
 
 /** Who produced a document, from where and when; set by the command line, absent in the store. */
@@ -97,6 +99,8 @@ export interface DocumentSource {
   readonly generatedAt: string;
   readonly toolVersion: string;
   readonly dataDir: string;
+  /** The newest link of the store's hash chain when the document was made; pins the store's state. */
+  readonly chainHead?: string;
 }
 
 /** The per-unit test record: every run, oldest first; the latest decides the status. */

@@ -1,7 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { join } from 'node:path';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
 import Database from 'better-sqlite3';
-import { LATEST_SCHEMA, openStore, runDigest } from '../../src/records/index.js';
+import { LATEST_SCHEMA, MIGRATIONS, openStore, runDigest } from '../../src/records/index.js';
 import type { BenchError } from '../../src/types/index.js';
 import { kestrelRun } from './fixtures/kestrelRun.js';
 import { makeTempDir, removeTempDir } from './helpers/tempData.js';
@@ -14,10 +15,14 @@ beforeEach(() => {
 });
 afterEach(() => removeTempDir(root));
 
-/** What a benchproof with schema 1 wrote: rows by hand, no measurements table, archive left out. */
+/** What a benchproof with schema 1 wrote: rows by hand, no measurements table, captures archived. */
 function writeSchema1Run(dbFile: string, run: ReturnType<typeof kestrelRun>): void {
   const db = new Database(dbFile);
   const captures = run.captures.map((c) => ({ ...c, archivePath: `captures/${c.sha256.slice(0, 2)}/${c.sha256}.csv` }));
+  for (const c of captures) {
+    mkdirSync(join(dirname(dbFile), 'captures', c.sha256.slice(0, 2)), { recursive: true });
+    writeFileSync(join(dirname(dbFile), c.archivePath), c.bytes!);
+  }
   const digest = runDigest({ ...run, kind: 'check', spec: { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 }, captures });
   db.prepare('INSERT INTO specs (sha256, name, revision, text) VALUES (?, ?, ?, NULL)').run(run.spec.sha256, run.spec.name, run.spec.revision);
   const id = db
@@ -50,7 +55,7 @@ describe('schema migrations', () => {
 
     const db = new Database(join(dir, 'records.db'), { readonly: true });
     expect(db.pragma('user_version', { simple: true })).toBe(LATEST_SCHEMA);
-    expect(db.prepare('SELECT version FROM schema_migrations ORDER BY version').all()).toEqual([{ version: 1 }, { version: 2 }, { version: 3 }]);
+    expect(db.prepare('SELECT version FROM schema_migrations ORDER BY version').all()).toEqual(MIGRATIONS.map((m) => ({ version: m.version })));
     // 3 captures × (4 triangle + 3 pulse measurements + 1 withheld THD) per run, for the migrated run and the new one.
     expect(db.prepare('SELECT run_id, COUNT(*) AS n FROM measurements GROUP BY run_id ORDER BY run_id').all()).toEqual([
       { run_id: 1, n: 24 },

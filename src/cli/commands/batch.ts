@@ -44,7 +44,7 @@ Examples:
       ctx.json = format === 'json';
       const since = parseSince(opts.since);
       // The records stage (SQLite) and the report load here, not at start-up.
-      const [{ openDataStore, unknownSpec, writeReportFile }, { summarizeBatch }, reportStage] = await Promise.all([
+      const [{ openVerifiedStore, unknownSpec, writeReportFile }, { summarizeBatch }, reportStage] = await Promise.all([
         import('../store.js'),
         import('../../records/index.js'),
         import('../../report/index.js'),
@@ -53,13 +53,15 @@ Examples:
       const location = resolveDataDir(ctx, opts);
       // Refused before the records are read: a link, a device, a path in the data folder (outputFile.ts).
       if (out !== undefined) checkOutputPath(ctx, out, { option: '--out', replace: true, dataDir: location.dir });
-      const { store } = openDataStore(ctx, opts, 'read');
+      const { store, audit } = openVerifiedStore(ctx, opts, 'read');
       let report: BatchReport;
       try {
         const specs = store.specNames();
         if (opts.spec !== undefined && !specs.includes(opts.spec)) throw unknownSpec(opts.spec, specs, location);
         const filter = { ...(opts.spec !== undefined ? { spec: opts.spec } : {}), ...(since !== undefined ? { since } : {}) };
-        report = { ...summarizeBatch(store.runs(opts.spec !== undefined ? { spec: opts.spec } : {}), filter), source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown } };
+        // Runs that failed verification (only read with --allow-unverified) count in no yield or statistic.
+        const runs = store.runs(opts.spec !== undefined ? { spec: opts.spec } : {}).filter((r) => r.intact);
+        report = { ...summarizeBatch(runs, filter), source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown, chainHead: audit.head } };
       } finally {
         store.close();
       }

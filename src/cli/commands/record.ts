@@ -40,7 +40,7 @@ Examples:
       const format = opts.json ? 'json' : opts.format;
       ctx.json = format === 'json';
       // The records stage (SQLite) and the report load here, not at start-up.
-      const [{ openDataStore, writeReportFile }, { nearestNames }, report] = await Promise.all([
+      const [{ openVerifiedStore, writeReportFile }, { nearestNames }, report] = await Promise.all([
         import('../store.js'),
         import('../../records/index.js'),
         import('../../report/index.js'),
@@ -49,7 +49,7 @@ Examples:
       const location = resolveDataDir(ctx, opts);
       // Refused before the records are read: a link, a device, a path in the data folder (outputFile.ts).
       if (out !== undefined) checkOutputPath(ctx, out, { option: '--out', replace: true, dataDir: location.dir });
-      const { store } = openDataStore(ctx, opts, 'read');
+      const { store, audit } = openVerifiedStore(ctx, opts, 'read');
       let rec: UnitRecord | undefined;
       try {
         rec = store.unitRecord(serial);
@@ -57,7 +57,7 @@ Examples:
       } finally {
         store.close();
       }
-      const doc: UnitRecord = { ...rec, source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown } };
+      const doc: UnitRecord = { ...rec, source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown, chainHead: audit.head } };
       const text = report[RENDERER[format]](doc);
       const changed = doc.runs.filter((r) => !r.intact);
       if (changed.length) {

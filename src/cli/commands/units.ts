@@ -27,8 +27,8 @@ Examples:
       const json = Boolean(opts.json);
       ctx.json = json;
       // The records stage (SQLite) and the report load here, not at start-up.
-      const [{ openDataStore, unknownSpec }, { renderUnitsText }] = await Promise.all([import('../store.js'), import('../../report/index.js')]);
-      const { store, location } = openDataStore(ctx, opts, 'read');
+      const [{ openVerifiedStore, unknownSpec }, { renderUnitsText }] = await Promise.all([import('../store.js'), import('../../report/index.js')]);
+      const { store, location } = openVerifiedStore(ctx, opts, 'read');
       let units;
       try {
         if (opts.spec !== undefined && !store.specNames().includes(opts.spec)) throw unknownSpec(opts.spec, store.specNames(), location);

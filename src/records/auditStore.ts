@@ -1,0 +1,148 @@
+/**
+ * Verifying a whole store before its records are believed: every run and calibration iteration is
+ * re-hashed against its fingerprint, every fingerprint against the one in the hash chain, every link
+ * of the chain against the one before it (chain.ts), and every archived capture against the SHA-256
+ * it is filed under. Each problem names the row it concerns, so a report can say which runs not to
+ * rely on while the others stay readable.
+ *
+ * What this finds: a row edited in the database file or through SQL (its fingerprint no longer
+ * matches, or its fingerprint was recomputed and no longer matches the chain); a row deleted, or
+ * inserted without its chain entry; chain entries deleted, reordered or edited; a row that does not
+ * parse; an archived capture removed or changed. What it cannot find alone: someone who rewrites the
+ * rows and the whole chain after them with benchproof's own code; the chain head printed in an
+ * earlier report (or kept elsewhere) then differs from the store's, which is how that is caught.
+ */
+import type { Database } from 'better-sqlite3';
+import { createHash } from 'node:crypto';
+import { closeSync, openSync, readSync, statSync } from 'node:fs';
+import { isAbsolute, join, normalize } from 'node:path';
+import { CHAIN_START, chainEntries, chainLink } from './chain.js';
+import type { ChainEntry } from './chain.js';
+import { readRunRows } from './readRuns.js';
+import { readCalibrationRows } from './calibrationRead.js';
+
+export type AuditProblemKind = 'changed' | 'damaged' | 'missing' | 'unchained' | 'chain-broken' | 'capture-missing' | 'capture-changed';
+
+export interface AuditProblem {
+  /** The row concerned: a check run, a calibration iteration, or the chain itself. */
+  readonly kind: 'run' | 'calibration' | 'chain';
+  readonly id: number | null;
+  readonly unit: string | null;
+  readonly problem: AuditProblemKind;
+  readonly detail: string;
+}
+
+export interface StoreAudit {
+  /** The newest link of the hash chain (64 hex digits); every report prints its start. */
+  readonly head: string;
+  /** Rows in the chain. */
+  readonly chained: number;
+  /** Archived captures re-hashed. */
+  readonly archived: number;
+  readonly problems: readonly AuditProblem[];
+}
+
+interface Fingerprinted {
+  readonly kind: 'run' | 'calibration';
+  readonly id: number;
+  readonly unit: string;
+  readonly digest: string;
+  readonly intact: boolean;
+  readonly captures: readonly { readonly sha256: string; readonly size: number; readonly archivePath: string }[];
+}
+
+export function auditStore(db: Database, dataDir: string): StoreAudit {
+  const problems: AuditProblem[] = [];
+  const entries = chainEntries(db);
+  const head = checkLinks(entries, problems);
+  const byRow = new Map(entries.map((e) => [`${e.kind}:${e.row_id}`, e]));
+  const { runs, damaged } = readRunRows(db);
+  const calibrations = readCalibrationRows(db);
+  const rows: Fingerprinted[] = [
+    ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })),
+    ...calibrations.runs.flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures }))),
+  ];
+  const present = new Set<string>();
+  for (const d of [...damaged, ...calibrations.damaged]) {
+    present.add(`${d.kind}:${d.id}`);
+    problems.push({ kind: d.kind, id: d.id, unit: d.unit, problem: 'damaged', detail: d.problem });
+  }
+  for (const r of rows) {
+    present.add(`${r.kind}:${r.id}`);
+    const entry = byRow.get(`${r.kind}:${r.id}`);
+    if (!r.intact) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its content no longer matches the fingerprint taken when it was stored' });
+    else if (!entry) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'unchained', detail: 'it is not in the hash chain: it was not stored by benchproof' });
+    else if (entry.row_digest !== r.digest) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)' });
+  }
+  for (const e of entries) {
+    if ((e.kind === 'run' || e.kind === 'calibration') && !present.has(`${e.kind}:${e.row_id}`)) {
+      problems.push({ kind: e.kind, id: e.row_id, unit: null, problem: 'missing', detail: 'it is in the hash chain but no longer in the store: it was deleted' });
+    }
+  }
+  const archived = checkArchive(dataDir, rows, problems);
+  return { head, chained: entries.length, archived, problems };
+}
+
+/** Each link against the one stored before it; a gap in the entry numbers is a deleted entry. */
+function checkLinks(entries: readonly ChainEntry[], problems: AuditProblem[]): string {
+  let previous = CHAIN_START;
+  let seq = 0;
+  for (const e of entries) {
+    const kind = e.kind === 'run' || e.kind === 'calibration' ? e.kind : 'chain';
+    const expected = chainLink(previous, e.kind as 'run', e.row_id, e.row_digest);
+    if (e.seq !== seq + 1) {
+      problems.push({ kind: 'chain', id: null, unit: null, problem: 'chain-broken', detail: `chain entries ${seq + 1}–${e.seq - 1} are gone (deleted rows or entries)` });
+    } else if (e.link !== expected) {
+      problems.push({ kind, id: e.row_id, unit: null, problem: 'chain-broken', detail: `chain entry ${e.seq} (${e.kind} #${e.row_id}) does not follow from the entry before it: entries were edited, deleted or reordered` });
+    }
+    previous = e.link;
+    seq = e.seq;
+  }
+  return previous;
+}
+
+/** Re-hash every archived capture the rows use, once per file; name each row that uses a bad one. */
+function checkArchive(dataDir: string, rows: readonly Fingerprinted[], problems: AuditProblem[]): number {
+  const users = new Map<string, { sha256: string; size: number; rows: Fingerprinted[] }>();
+  for (const r of rows) {
+    for (const c of r.captures) {
+      const u = users.get(c.archivePath) ?? { sha256: c.sha256, size: c.size, rows: [] };
+      if (!u.rows.includes(r)) u.rows.push(r);
+      users.set(c.archivePath, u);
+    }
+  }
+  for (const [file, u] of users) {
+    const found = hashFile(dataDir, file);
+    if (found === u.sha256) continue;
+    const problem = found === null ? 'capture-missing' : 'capture-changed';
+    const detail = found === null ? `its archived capture ${file} is missing` : `its archived capture ${file} no longer hashes to ${u.sha256.slice(0, 12)}…`;
+    for (const r of u.rows) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem, detail });
+  }
+  return users.size;
+}
+
+const PIECE = 1 << 20;
+
+/** SHA-256 of an archived file, streamed; null when it is missing, not a file, or outside the archive. */
+function hashFile(dataDir: string, rel: string): string | null {
+  const clean = normalize(rel);
+  if (isAbsolute(clean) || clean.startsWith('..')) return null;
+  const path = join(dataDir, clean);
+  let fd: number;
+  try {
+    if (!statSync(path).isFile()) return null;
+    fd = openSync(path, 'r');
+  } catch {
+    return null;
+  }
+  try {
+    const hash = createHash('sha256');
+    const buf = Buffer.allocUnsafe(PIECE);
+    for (let n = readSync(fd, buf, 0, PIECE, null); n > 0; n = readSync(fd, buf, 0, PIECE, null)) hash.update(buf.subarray(0, n));
+    return hash.digest('hex');
+  } catch {
+    return null;
+  } finally {
+    closeSync(fd);
+  }
+}
