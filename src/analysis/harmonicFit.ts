@@ -11,10 +11,16 @@
  * are not coupled: the 4-term Blackman-Harris sidelobes there are about −134 dB (its edge step
  * w[0] = 6·10⁻⁵ sets a 6 dB/octave tail: 6·10⁻⁵/(π·256·a₀)).
  */
-import { choleskySolve } from './choleskySolve.js';
+import { bandedCholeskySolve } from './bandedCholesky.js';
 import { frameKernel, type SpectralFrame } from './spectralFrame.js';
 
 const COUPLING_BINS = 256;
+/**
+ * With few cycles in the span the harmonics crowd together, and coupling every pair within 256 bins
+ * would make the band (and the cost) grow as 1/cycles². The reach is then cut to 8 harmonic spacings,
+ * never under twice the main lobe: the sidelobes there are still below about −110 dB (the tail above).
+ */
+const COUPLED_HARMONICS = 8;
 
 export interface HarmonicFit {
   readonly fundamental: number;
@@ -32,40 +38,64 @@ export interface HarmonicFit {
 }
 
 interface Layout {
-  readonly positions: Float64Array;
-  readonly column: Int32Array;
+  /** Harmonic spacing in DFT bins. */
+  readonly spacing: number;
+  readonly count: number;
+  /** Coupling reach in DFT bins. */
+  readonly reach: number;
   readonly unknowns: number;
-  readonly bins: readonly number[];
+  /** Half-bandwidth of the normal matrix, in unknowns. */
+  readonly halfBand: number;
+  readonly bins: Int32Array;
 }
 
 function layout(frame: SpectralFrame, fundamental: number, count: number): Layout {
   const last = frame.spectrum.bins - 1;
-  const positions = new Float64Array(count + 1);
-  const column = new Int32Array(count + 1);
+  const spacing = fundamental / frame.binWidth;
+  const perWindowBin = frame.spectrum.size / frame.length;
+  const cycles = spacing / perWindowBin;
+  const lobeWindowBins = frame.lobeBins / perWindowBin;
+  const reach = Math.min(COUPLING_BINS, Math.max(2 * lobeWindowBins, COUPLED_HARMONICS * cycles)) * perWindowBin;
   const fitted = new Uint8Array(last + 1);
+  let n = 0;
   for (let g = 0; g <= count; g++) {
-    positions[g] = (g * fundamental) / frame.binWidth;
-    column[g] = g === 0 ? 0 : 2 * g - 1;
-    const lo = Math.max(0, Math.ceil(positions[g] - frame.lobeBins));
-    const hi = Math.min(last, Math.floor(positions[g] + frame.lobeBins));
-    for (let k = lo; k <= hi; k++) fitted[k] = 1;
+    const lo = Math.max(0, Math.ceil(g * spacing - frame.lobeBins));
+    const hi = Math.min(last, Math.floor(g * spacing + frame.lobeBins));
+    for (let k = lo; k <= hi; k++) {
+      if (fitted[k]) continue;
+      fitted[k] = 1;
+      n++;
+    }
   }
-  const bins: number[] = [];
-  for (let k = 0; k <= last; k++) if (fitted[k]) bins.push(k);
-  return { positions, column, unknowns: 2 * count + 1, bins };
+  const bins = new Int32Array(n);
+  for (let k = 0, i = 0; k <= last; k++) if (fitted[k]) bins[i++] = k;
+  // Two harmonics meet in one row only when both lie within `reach` of its bin (or of its image).
+  const harmonicBand = Math.min(count, Math.ceil((2 * reach) / spacing) + 1);
+  return { spacing, count, reach, unknowns: 2 * count + 1, halfBand: Math.min(2 * count, 2 * harmonicBand + 1), bins };
 }
 
-/** Complex coefficients of every unknown at bin k (interleaved re, im), zero when too far to couple. */
-function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array): void {
-  row.fill(0);
-  const reach = (COUPLING_BINS * frame.spectrum.size) / frame.length;
+/** Column of the first unknown of harmonic g (DC has one, the others two). */
+const columnOf = (g: number): number => (g === 0 ? 0 : 2 * g - 1);
+
+/**
+ * Complex coefficients at bin k of the unknowns from column `first` on (interleaved re, im, two
+ * values per unknown), zero where a harmonic is too far to couple. Returns `first` and the number of
+ * unknowns written.
+ */
+function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array): { first: number; width: number } {
+  const { reach, spacing, count } = lay;
   const size = frame.spectrum.size;
-  for (let g = 0; g < lay.positions.length; g++) {
-    const p = lay.positions[g];
+  const gLo = Math.max(0, Math.ceil((k - reach) / spacing));
+  const gHi = Math.min(count, Math.floor((k + reach) / spacing));
+  const first = columnOf(gLo);
+  const width = 2 * gHi + 1 - first;
+  row.fill(0, 0, 2 * width);
+  for (let g = gLo; g <= gHi; g++) {
+    const p = g * spacing;
     const nearImage = Math.min(Math.abs(k + p), Math.abs(size - k - p));
     if (Math.abs(k - p) > reach && nearImage > reach) continue;
     const wm = frameKernel(frame, k - p);
-    const u = lay.column[g];
+    const u = columnOf(g) - first;
     if (g === 0) {
       row[2 * u] = wm.re;
       row[2 * u + 1] = wm.im;
@@ -78,6 +108,7 @@ function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array):
     row[2 * u + 2] = -(wm.im - wp.im) / 2;
     row[2 * u + 3] = (wm.re - wp.re) / 2;
   }
+  return { first, width };
 }
 
 /** Fits DC and harmonics 1…count of `fundamental` (Hz); null when the system is singular. */
@@ -89,21 +120,21 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
     throw new RangeError(`fitHarmonics: harmonic ${count} of ${fundamental} Hz is not below Nyquist (${frame.sampleRate / 2} Hz)`);
   }
   const lay = layout(frame, fundamental, count);
-  const u = lay.unknowns;
-  const normal = new Float64Array(u * u);
+  const { unknowns: u, halfBand: p } = lay;
+  const band = new Float64Array(u * (p + 1));
   const rhs = new Float64Array(u);
   const row = new Float64Array(2 * u);
   const s = frame.spectrum;
   let total = 0;
   for (const k of lay.bins) {
-    rowAt(frame, lay, k, row);
-    accumulate(normal, rhs, row, u, s.re(k), s.im(k));
+    const { first, width } = rowAt(frame, lay, k, row);
+    accumulate(band, rhs, row, first, width, p, s.re(k), s.im(k));
     total += s.power(k);
   }
   let maxDiag = 0;
-  for (let i = 0; i < u; i++) maxDiag = Math.max(maxDiag, normal[i * u + i]);
-  for (let i = 0; i < u; i++) normal[i * u + i] += 1e-14 * maxDiag;
-  const x = choleskySolve(normal, rhs, u);
+  for (let i = 0; i < u; i++) maxDiag = Math.max(maxDiag, band[i * (p + 1)]);
+  for (let i = 0; i < u; i++) band[i * (p + 1)] += 1e-14 * maxDiag;
+  const x = bandedCholeskySolve(band, rhs, u, p);
   if (x === null) return null;
   // At the least-squares solution ‖X − Ax‖² = ‖X‖² − xᵀAᵀX (normal equations), so no second pass.
   let explained = 0;
@@ -111,17 +142,17 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
   return summarise(frame, x, fundamental, count, Math.max(0, total - explained), lay.bins.length);
 }
 
-function accumulate(normal: Float64Array, rhs: Float64Array, row: Float64Array, u: number, xr: number, xi: number): void {
-  for (let a = 0; a < u; a++) {
+function accumulate(band: Float64Array, rhs: Float64Array, row: Float64Array, first: number, width: number, p: number, xr: number, xi: number): void {
+  const w = p + 1;
+  if (width - 1 > p) throw new RangeError(`harmonicFit: a row spans ${width} unknowns, beyond the band of ${p + 1}`);
+  for (let a = 0; a < width; a++) {
     const ar = row[2 * a];
     const ai = row[2 * a + 1];
     if (ar === 0 && ai === 0) continue;
-    rhs[a] += ar * xr + ai * xi;
-    for (let b = a; b < u; b++) {
-      const v = ar * row[2 * b] + ai * row[2 * b + 1];
-      normal[a * u + b] += v;
-      if (b !== a) normal[b * u + a] += v;
-    }
+    rhs[first + a] += ar * xr + ai * xi;
+    const base = (first + a) * w + a;
+    // Lower band only: A[a][b] for b ≤ a, stored at (first + a)·w + (a − b).
+    for (let b = 0; b <= a; b++) band[base - b] += ar * row[2 * b] + ai * row[2 * b + 1];
   }
 }
 
@@ -152,21 +183,20 @@ function summarise(
  */
 export function lobeResidualShare(frame: SpectralFrame, fit: HarmonicFit, n: number): number {
   const lay = layout(frame, fit.fundamental, fit.count);
-  const u = lay.unknowns;
-  const row = new Float64Array(2 * u);
+  const row = new Float64Array(2 * lay.unknowns);
   const s = frame.spectrum;
-  const p = lay.positions[n];
+  const p = n * lay.spacing;
   let residual = 0;
   let total = 0;
   const lo = Math.max(0, Math.ceil(p - frame.lobeBins));
   const hi = Math.min(s.bins - 1, Math.floor(p + frame.lobeBins));
   for (let k = lo; k <= hi; k++) {
-    rowAt(frame, lay, k, row);
+    const { first, width } = rowAt(frame, lay, k, row);
     let mr = 0;
     let mi = 0;
-    for (let a = 0; a < u; a++) {
-      mr += row[2 * a] * fit.coefficients[a];
-      mi += row[2 * a + 1] * fit.coefficients[a];
+    for (let a = 0; a < width; a++) {
+      mr += row[2 * a] * fit.coefficients[first + a];
+      mi += row[2 * a + 1] * fit.coefficients[first + a];
     }
     residual += (s.re(k) - mr) ** 2 + (s.im(k) - mi) ** 2;
     total += s.power(k);

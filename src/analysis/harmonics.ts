@@ -1,5 +1,5 @@
 /**
- * The harmonic table: amplitude of harmonics 1…N from the shared least-squares fit
+ * The harmonic table: amplitude of harmonics 1…N (the first 50 by default; the sums take more) from the shared least-squares fit
  * (harmonicAnalysis.ts), each in dBc, with the recognised shape's ideal level beside it
  * (idealSeries.ts). Levels below 1e-20 of the fundamental are written as −400 dBc so the table
  * stays finite in JSON.
@@ -16,10 +16,10 @@ export function dbc(ratio: number): number {
 }
 
 export function harmonics(h: HarmonicAnalysis, ideal: Float64Array | null): Harmonic[] {
-  const { fit, reported } = h;
+  const { fit, tabled } = h;
   const a1 = fit.amplitude[1];
   const out: Harmonic[] = [];
-  for (let n = 1; n <= reported; n++) {
+  for (let n = 1; n <= tabled; n++) {
     const row = { n, frequency: n * fit.fundamental, amplitude: fit.amplitude[n], dbc: dbc(fit.amplitude[n] / a1) };
     const r = ideal === null ? 0 : ideal[n];
     out.push(r > IDEAL_ZERO ? { ...row, idealDbc: dbc(r) } : row);

@@ -7,7 +7,7 @@
  *   shapeError = 100 · √(Σ (m_n − r_n)²) / √(Σ r_n²)  %,
  * the rms difference of the normalised series relative to the ideal series' rms. Magnitudes only:
  * a ramp that bends or a rounded corner changes the magnitudes, so phases are not needed. For a
- * sine it equals THD over harmonics 2…N. Uncertainty: σ_A/A_1 per term, √N terms, over √Σr².
+ * sine it equals THD over harmonics 2…N (both less the noise bias of the fitted amplitudes). Uncertainty: σ_A/A_1 per term, √N terms, over √Σr².
  */
 import type { MeasureResult, Shape } from '../types/index.js';
 import type { HarmonicAnalysis } from './harmonicAnalysis.js';
@@ -24,7 +24,9 @@ export function shapeError(h: HarmonicAnalysis, shape: Shape, ideal: Float64Arra
     diff += (fit.amplitude[n] / a1 - ideal[n]) ** 2;
     norm += ideal[n] ** 2;
   }
-  const rel = Math.sqrt(diff / norm);
+  // Each measured m_n² carries 2σ_A²/A₁² of noise on average (n ≥ 2); taken out as in thd.ts.
+  const bias = (2 * (reported - 1) * h.amplitudeSigma ** 2) / (a1 * a1);
+  const rel = Math.sqrt(Math.max(0, diff - bias) / norm);
   const u = Math.hypot((h.amplitudeSigma / a1) * Math.sqrt(reported / norm), rel * h.mismatch);
   return {
     ok: true,

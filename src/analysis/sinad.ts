@@ -1,12 +1,18 @@
 /**
  * SINAD and ENOB of a sine (IEEE Std 1241 and 1057): SINAD = 10·log10(P_fundamental / P_NAD)
- * where noise-and-distortion is everything but DC and the fundamental below Nyquist, here the
- * noise read between the harmonic lobes (noiseFloor.ts) plus the fitted harmonics 2…N.
+ * where noise-and-distortion is everything but DC and the fundamental below Nyquist, read as IEEE
+ * 1241 reads it from a DFT: the power of every bin outside the DC and fundamental main lobes (white
+ * noise of variance σ² puts σ²·Σw² in each, Heinzel et al. 2002 §9), with those two lobes filled at the
+ * noise level read between the harmonics. Summing the bins, not fitted harmonics over a white-noise
+ * model, keeps what lies at a harmonic near Nyquist or at a near-coherent ratio's few sample phases
+ * (where quantisation error gathers on the harmonics rather than spreading evenly).
  * ENOB = (SINAD − 1.76)/6.02 (IEEE 1241 frequency-domain form; 6.02 = 20·log10 2,
  * 1.76 = 10·log10 1.5). Both treat harmonics as distortion, so they are reported for a sine only.
  */
 import type { MeasureResult, Shape } from '../types/index.js';
 import type { HarmonicAnalysis } from './harmonicAnalysis.js';
+import type { NoiseFloor } from './noiseFloor.js';
+import { LobeScan } from './noiseFloor.js';
 import { noiseDbUncertainty } from './snr.js';
 
 export function sinad(h: HarmonicAnalysis, shape: Shape): MeasureResult {
@@ -17,16 +23,14 @@ export function sinad(h: HarmonicAnalysis, shape: Shape): MeasureResult {
   if (noise === null) {
     return { ok: false, reason: 'too-few-cycles', detail: 'the harmonic lobes cover the spectrum, leaving no bins to read the noise from; capture more cycles' };
   }
-  let distortion = 0;
-  for (let n = 2; n <= fit.count; n++) distortion += fit.amplitude[n] ** 2 / 2;
-  const nad = noise.variance + distortion;
+  const nad = noiseAndDistortion(h, noise);
   if (!(nad > 0)) return { ok: false, reason: 'below-noise', detail: 'no noise or distortion above the numerical floor' };
   return {
     ok: true,
     value: 10 * Math.log10(fit.amplitude[1] ** 2 / 2 / nad),
     uncertainty: noiseDbUncertainty(h.frame, noise) * (noise.variance / nad),
     unit: 'dB',
-    method: `fundamental power over noise and harmonics 2–${fit.count}, all below Nyquist but DC (IEEE 1241 SINAD); amplitudes by ${h.method}`,
+    method: `fundamental power over everything else below Nyquist but DC (IEEE 1241 SINAD): every bin outside the DC and fundamental lobes, harmonics and aliases included, the two lobes filled with the noise between harmonics; fundamental by ${h.method}`,
   };
 }
 
@@ -39,4 +43,18 @@ export function enob(sinadResult: MeasureResult): MeasureResult {
     unit: 'bits',
     method: '(SINAD − 1.76 dB)/6.02 dB (IEEE 1241)',
   };
+}
+
+/** Noise-and-distortion variance: bins outside the DC and fundamental lobes, those lobes at the noise level. */
+function noiseAndDistortion(h: HarmonicAnalysis, noise: NoiseFloor): number {
+  const { frame, fit } = h;
+  const s = frame.spectrum;
+  const lobes = new LobeScan(frame.lobeBins, fit.fundamental / frame.binWidth, 1);
+  let sum = 0;
+  let excluded = 0;
+  for (let k = 1; k < s.bins - 1; k++) {
+    if (lobes.covers(k)) excluded++;
+    else sum += s.power(k);
+  }
+  return (sum + excluded * noise.perBin) / (frame.s2 * (s.bins - 2));
 }

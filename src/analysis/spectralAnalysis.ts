@@ -12,7 +12,7 @@ import type { Harmonic, MeasureResult, MeasurementId, Shape, SpectrumPlot } from
 import { decimate } from './decimate.js';
 import { enob, sinad } from './sinad.js';
 import { evenOddRatio } from './evenOddRatio.js';
-import { analyseHarmonics, type HarmonicAnalysis, type Withheld } from './harmonicAnalysis.js';
+import { analyseHarmonics, type HarmonicAnalysis, type HarmonicSet, type Withheld } from './harmonicAnalysis.js';
 import { harmonics } from './harmonics.js';
 import { hum, type HumComponent } from './hum.js';
 import { idealSeries } from './idealSeries.js';
@@ -24,8 +24,10 @@ import { spectrumPlot } from './spectrumPlot.js';
 import { thd } from './thd.js';
 
 export interface SpectralOptions {
-  /** Highest harmonic to report (default 50, fewer when Nyquist comes first). */
+  /** Highest harmonic listed in the table (default 50, fewer when Nyquist comes first). */
   readonly maxHarmonic?: number;
+  /** Harmonics the sums take (THD, shape error, even/odd): every one below Nyquist unless a count or bandwidth is given. */
+  readonly harmonicSet?: HarmonicSet;
   /** Build the decimated spectrum for plots. */
   readonly plot?: boolean;
   /** The channel is clipped: THD and harmonic levels are withheld. */
@@ -75,7 +77,7 @@ export function analyzeSpectrum(
   shape: Shape,
   options: SpectralOptions = {},
 ): SpectralResult {
-  const { maxHarmonic = 50, plot = false, clipped = false, dutyCycle, buffer } = options;
+  const { maxHarmonic = 50, harmonicSet = {}, plot = false, clipped = false, dutyCycle, buffer } = options;
   if (!(dt > 0) || !Number.isFinite(dt)) throw new RangeError(`analyzeSpectrum: dt must be a positive finite number, got ${dt}`);
   if (!Number.isInteger(maxHarmonic) || maxHarmonic < 1) throw new RangeError(`analyzeSpectrum: maxHarmonic must be an integer ≥ 1, got ${maxHarmonic}`);
   const unusable = checkSamples(samples);
@@ -83,7 +85,7 @@ export function analyzeSpectrum(
   const fs = 1 / dt;
   const frame = buildFrame(samples.subarray(0, Math.min(samples.length, MAX_SPAN)), fs, WINDOW, undefined, buffer);
   const measurements: Measurements = {};
-  const { table, method, reference } = measureAtFundamental(measurements, frame, fundamental, shape, maxHarmonic, clipped, dutyCycle);
+  const { table, method, reference } = measureAtFundamental(measurements, frame, fundamental, shape, { maxHarmonic, harmonicSet }, clipped, dutyCycle);
   const humResult = measureHum(measurements, samples, fs, frame, fundamental, reference);
   const spectrum = !plot
     ? undefined
@@ -105,14 +107,14 @@ function measureAtFundamental(
   frame: SpectralFrame,
   fundamental: number | null,
   shape: Shape,
-  maxHarmonic: number,
+  set: { readonly maxHarmonic: number; readonly harmonicSet: HarmonicSet },
   clipped: boolean,
   dutyCycle: number | undefined,
 ): { table: Harmonic[]; method: string; reference: number | null } {
   const h: HarmonicAnalysis | Withheld =
     fundamental === null
       ? { ok: false, reason: 'too-few-cycles', detail: 'the fundamental frequency was not measured; harmonic analysis needs it' }
-      : analyseHarmonics(frame, fundamental, maxHarmonic);
+      : analyseHarmonics(frame, fundamental, set.maxHarmonic, set.harmonicSet);
   if ('ok' in h) {
     withholdHarmonicSet(m, h, shape);
     return { table: [], method: `not measured: ${h.detail}`, reference: null };
