@@ -12,6 +12,9 @@
  *   capture.header-only           a header but no data rows
  *   capture.no-numeric-data       no rows of numbers in the first 64 KiB
  *   capture.ambiguous-layout      the rows read as numbers in more than one way (e.g. "0,5")
+ *   capture.spectrum-export       a frequency column with levels in dB: a spectrum, not a waveform
+ *   capture.unknown-segment       --segment asks for an acquisition the file does not hold
+ *   capture.bad-profile           a reading profile (or a spec's captures.reading) with a wrong setting
  *   capture.no-channels           a time column and nothing else
  *   capture.no-time-base          no time column, no interval in the preamble and no flag
  *   capture.conflicting-options   --interval and --sample-rate disagree
@@ -26,7 +29,11 @@
  *   capture.too-large             more than 2^28 samples (2 GiB) over the kept channels
  *
  * Capture warning codes: invalid-samples, clipped, resampled, footer, option-ignored,
- * interval-mismatch, record-length-mismatch.
+ * interval-mismatch, record-length-mismatch, time-rebuilt, segments, spliced, raw-counts.
  */
 export { readCapture } from './readCapture.js';
 export { detectClipping } from './clipping.js';
+export { readCaptureLines } from './readCapture.js';
+export { inspectCapture } from './inspect.js';
+export type { Inspection, InspectedLine, LineRole } from './inspect.js';
+export { mergeSettings, parseReadingProfile, readingSettings, delimiterOf, decimalMarkOf } from './readingOptions.js';

@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { registerMeasure } from './measure.js';
+import { registerInspect } from './inspect.js';
 import { registerCheck } from './check.js';
 import { registerSpec } from './spec.js';
 import { registerUnits } from './units.js';
@@ -14,6 +15,7 @@ export type RegisterCommand = (program: Command, ctx: CommandContext) => Command
 
 export const COMMANDS: readonly RegisterCommand[] = [
   registerMeasure,
+  registerInspect,
   registerCheck,
   registerSpec,
   registerUnits,

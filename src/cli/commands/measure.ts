@@ -2,19 +2,18 @@ import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
 import type { MeasureReport } from '../../types/index.js';
-import { parsePositive } from '../options.js';
 import { createProgress } from '../progress.js';
+import type { ReadingFlags } from '../readingFlags.js';
+import { addReadingOptions, readingOptionsFrom } from '../readingFlags.js';
 
-interface MeasureOptions {
+interface MeasureOptions extends ReadingFlags {
   channel?: string;
-  sampleRate?: string;
-  interval?: string;
   json?: boolean;
   plotData?: boolean;
 }
 
 export function registerMeasure(program: Command, ctx: CommandContext): Command {
-  return program
+  const cmd = program
     .command('measure')
     .description('measure every channel of one or more CSV captures')
     .argument('<captures...>', 'CSV exports from a scope, logger or simulator (.csv or .csv.gz)')
@@ -22,7 +21,8 @@ export function registerMeasure(program: Command, ctx: CommandContext): Command 
     .option('--sample-rate <Hz>', 'sample rate, when the file has no time column or interval metadata')
     .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
-    .option('--plot-data', 'include waveform and spectrum excerpts for plotting in the JSON')
+    .option('--plot-data', 'include waveform and spectrum excerpts for plotting in the JSON');
+  return addReadingOptions(cmd)
     .addHelpText(
       'after',
       `
@@ -34,11 +34,7 @@ Examples:
     .action(async (files: string[], opts: MeasureOptions, cmd: Command) => {
       const json = Boolean(opts.json);
       ctx.json = json;
-      const readOptions = {
-        sampleRate: parsePositive('--sample-rate', opts.sampleRate),
-        interval: parsePositive('--interval', opts.interval),
-        channel: opts.channel,
-      };
+      const readOptions = { ...(await readingOptionsFrom(ctx, opts)), channel: opts.channel };
       // The stages load here, not at start-up (only what this command needs: no spec, records or report).
       const [{ readCapture }, { measureCapture }] = await Promise.all([import('../../capture/index.js'), import('../../analysis/index.js')]);
       const progress = createProgress(ctx, json);
