@@ -11,16 +11,18 @@
  * are not coupled: the 4-term Blackman-Harris sidelobes there are about −134 dB (its edge step
  * w[0] = 6·10⁻⁵ sets a 6 dB/octave tail: 6·10⁻⁵/(π·256·a₀)).
  */
-import { bandedCholeskySolve } from './bandedCholesky.js';
+import { at, envelopeCholeskySolve, envelopeOf, type Envelope } from './envelopeCholesky.js';
 import { frameKernel, type SpectralFrame } from './spectralFrame.js';
 
 const COUPLING_BINS = 256;
 /**
- * With few cycles in the span the harmonics crowd together, and coupling every pair within 256 bins
- * would make the band (and the cost) grow as 1/cycles². The reach is then cut to 8 harmonic spacings,
- * never under twice the main lobe: the sidelobes there are still below about −110 dB (the tail above).
+ * Harmonics past the first STRONG ones couple only within NEAR_BINS window bins (twice the 4-term
+ * lobe): a waveform with a jump has harmonics under A₁/n, so past n = 54 their sidelobes beyond that
+ * reach (under −100 dB, Harris 1978 Fig. 66) stay below the 1e-7·A₁ floor of harmonicAnalysis.ts, and
+ * a series of thousands of harmonics costs a few couplings per bin instead of hundreds.
  */
-const COUPLED_HARMONICS = 8;
+const STRONG = 54;
+const NEAR_BINS = 8;
 
 export interface HarmonicFit {
   readonly fundamental: number;
@@ -41,11 +43,10 @@ interface Layout {
   /** Harmonic spacing in DFT bins. */
   readonly spacing: number;
   readonly count: number;
-  /** Coupling reach in DFT bins. */
-  readonly reach: number;
+  /** Coupling reach in DFT bins of the strong harmonics (DC, 1…STRONG) and of the rest. */
+  readonly far: number;
+  readonly near: number;
   readonly unknowns: number;
-  /** Half-bandwidth of the normal matrix, in unknowns. */
-  readonly halfBand: number;
   readonly bins: Int32Array;
 }
 
@@ -53,9 +54,6 @@ function layout(frame: SpectralFrame, fundamental: number, count: number): Layou
   const last = frame.spectrum.bins - 1;
   const spacing = fundamental / frame.binWidth;
   const perWindowBin = frame.spectrum.size / frame.length;
-  const cycles = spacing / perWindowBin;
-  const lobeWindowBins = frame.lobeBins / perWindowBin;
-  const reach = Math.min(COUPLING_BINS, Math.max(2 * lobeWindowBins, COUPLED_HARMONICS * cycles)) * perWindowBin;
   const fitted = new Uint8Array(last + 1);
   let n = 0;
   for (let g = 0; g <= count; g++) {
@@ -69,28 +67,41 @@ function layout(frame: SpectralFrame, fundamental: number, count: number): Layou
   }
   const bins = new Int32Array(n);
   for (let k = 0, i = 0; k <= last; k++) if (fitted[k]) bins[i++] = k;
-  // Two harmonics meet in one row only when both lie within `reach` of its bin (or of its image).
-  const harmonicBand = Math.min(count, Math.ceil((2 * reach) / spacing) + 1);
-  return { spacing, count, reach, unknowns: 2 * count + 1, halfBand: Math.min(2 * count, 2 * harmonicBand + 1), bins };
+  const near = Math.max(NEAR_BINS * perWindowBin, frame.lobeBins + 1);
+  return { spacing, count, far: COUPLING_BINS * perWindowBin, near, unknowns: 2 * count + 1, bins };
 }
 
 /** Column of the first unknown of harmonic g (DC has one, the others two). */
 const columnOf = (g: number): number => (g === 0 ? 0 : 2 * g - 1);
 
+/** Harmonics that may couple at bin k: the strong ones within `far`, the rest within `near` (a superset; images included). */
+function harmonicRange(lay: Layout, k: number): { gLo: number; gHi: number } {
+  const { spacing, count, far, near } = lay;
+  const strongHi = Math.min(count, STRONG, Math.floor((k + far) / spacing));
+  const strongLo = Math.max(0, Math.ceil((k - far) / spacing));
+  const weakLo = Math.max(STRONG + 1, Math.ceil((k - near) / spacing));
+  const weakHi = Math.min(count, Math.floor((k + near) / spacing));
+  const hasStrong = strongLo <= strongHi;
+  const hasWeak = weakLo <= weakHi;
+  if (!hasStrong && !hasWeak) return { gLo: 1, gHi: 0 };
+  return { gLo: hasStrong ? strongLo : weakLo, gHi: hasWeak ? weakHi : strongHi };
+}
+
 /**
  * Complex coefficients at bin k of the unknowns from column `first` on (interleaved re, im, two
  * values per unknown), zero where a harmonic is too far to couple. Returns `first` and the number of
- * unknowns written.
+ * unknowns written (0 when none couples).
  */
 function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array): { first: number; width: number } {
-  const { reach, spacing, count } = lay;
+  const { spacing } = lay;
   const size = frame.spectrum.size;
-  const gLo = Math.max(0, Math.ceil((k - reach) / spacing));
-  const gHi = Math.min(count, Math.floor((k + reach) / spacing));
+  const { gLo, gHi } = harmonicRange(lay, k);
+  if (gLo > gHi) return { first: 0, width: 0 };
   const first = columnOf(gLo);
   const width = 2 * gHi + 1 - first;
   row.fill(0, 0, 2 * width);
   for (let g = gLo; g <= gHi; g++) {
+    const reach = g <= STRONG ? lay.far : lay.near;
     const p = g * spacing;
     const nearImage = Math.min(Math.abs(k + p), Math.abs(size - k - p));
     if (Math.abs(k - p) > reach && nearImage > reach) continue;
@@ -111,6 +122,19 @@ function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array):
   return { first, width };
 }
 
+/** First column each unknown couples with: over every fitted bin, the lowest unknown in its row. */
+function envelopeFor(lay: Layout): Envelope {
+  const first = new Int32Array(lay.unknowns);
+  for (let i = 0; i < first.length; i++) first[i] = i;
+  for (const k of lay.bins) {
+    const { gLo, gHi } = harmonicRange(lay, k);
+    if (gLo > gHi) continue;
+    const lo = columnOf(gLo);
+    for (let u = lo; u <= 2 * gHi; u++) if (first[u] > lo) first[u] = lo;
+  }
+  return envelopeOf(first);
+}
+
 /** Fits DC and harmonics 1…count of `fundamental` (Hz); null when the system is singular. */
 export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: number): HarmonicFit | null {
   if (!(fundamental > 0) || !Number.isInteger(count) || count < 1) {
@@ -120,39 +144,38 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
     throw new RangeError(`fitHarmonics: harmonic ${count} of ${fundamental} Hz is not below Nyquist (${frame.sampleRate / 2} Hz)`);
   }
   const lay = layout(frame, fundamental, count);
-  const { unknowns: u, halfBand: p } = lay;
-  const band = new Float64Array(u * (p + 1));
+  const u = lay.unknowns;
+  const normal = envelopeFor(lay);
   const rhs = new Float64Array(u);
   const row = new Float64Array(2 * u);
   const s = frame.spectrum;
   let total = 0;
   for (const k of lay.bins) {
     const { first, width } = rowAt(frame, lay, k, row);
-    accumulate(band, rhs, row, first, width, p, s.re(k), s.im(k));
+    accumulate(normal, rhs, row, first, width, s.re(k), s.im(k));
     total += s.power(k);
   }
   let maxDiag = 0;
-  for (let i = 0; i < u; i++) maxDiag = Math.max(maxDiag, band[i * (p + 1)]);
-  for (let i = 0; i < u; i++) band[i * (p + 1)] += 1e-14 * maxDiag;
-  const x = bandedCholeskySolve(band, rhs, u, p);
+  for (let i = 0; i < u; i++) maxDiag = Math.max(maxDiag, normal.values[at(normal, i, i)]);
+  for (let i = 0; i < u; i++) normal.values[at(normal, i, i)] += 1e-14 * maxDiag;
+  const rhsCopy = rhs.slice();
+  const x = envelopeCholeskySolve(normal, rhs);
   if (x === null) return null;
   // At the least-squares solution ‖X − Ax‖² = ‖X‖² − xᵀAᵀX (normal equations), so no second pass.
   let explained = 0;
-  for (let i = 0; i < u; i++) explained += x[i] * rhs[i];
+  for (let i = 0; i < u; i++) explained += x[i] * rhsCopy[i];
   return summarise(frame, x, fundamental, count, Math.max(0, total - explained), lay.bins.length);
 }
 
-function accumulate(band: Float64Array, rhs: Float64Array, row: Float64Array, first: number, width: number, p: number, xr: number, xi: number): void {
-  const w = p + 1;
-  if (width - 1 > p) throw new RangeError(`harmonicFit: a row spans ${width} unknowns, beyond the band of ${p + 1}`);
+function accumulate(normal: Envelope, rhs: Float64Array, row: Float64Array, first: number, width: number, xr: number, xi: number): void {
   for (let a = 0; a < width; a++) {
     const ar = row[2 * a];
     const ai = row[2 * a + 1];
     if (ar === 0 && ai === 0) continue;
     rhs[first + a] += ar * xr + ai * xi;
-    const base = (first + a) * w + a;
-    // Lower band only: A[a][b] for b ≤ a, stored at (first + a)·w + (a − b).
-    for (let b = 0; b <= a; b++) band[base - b] += ar * row[2 * b] + ai * row[2 * b + 1];
+    // Lower triangle only: A[first + a][first + b] for b ≤ a, inside the row's envelope by construction.
+    const base = at(normal, first + a, first);
+    for (let b = 0; b <= a; b++) normal.values[base + b] += ar * row[2 * b] + ai * row[2 * b + 1];
   }
 }
 
