@@ -10,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { BenchError, isBenchError } from '../types/index.js';
 import { processIo } from './io.js';
+import { terminalSafeIo } from './terminalText.js';
 import type { CliIo } from './io.js';
 import { createContext, loadTextStyle } from './context.js';
 import type { CommandContext } from './context.js';
@@ -17,7 +18,8 @@ import { COMMANDS } from './commands/index.js';
 import { TOOL_VERSION } from './version.js';
 
 export async function run(argv: readonly string[], io: CliIo = processIo()): Promise<number> {
-  const ctx = createContext(io);
+  // Everything written passes one filter: control characters from file names and the like are shown escaped.
+  const ctx = createContext(terminalSafeIo(io));
   const program = buildProgram(ctx);
   // Nothing asked: the help is the answer, on stdout (commander would print it as an error).
   if (argv.length === 0) {

@@ -15,3 +15,21 @@ export function parsePositive(flag: string, raw: string | undefined): number | u
   }
   return v;
 }
+
+/**
+ * A unit serial given with --unit: never blank (a blank serial would be stored as a unit no one can
+ * name again) and without control characters; surrounding blanks are dropped.
+ */
+export function parseSerial(raw: string): string {
+  const serial = raw.trim();
+  if (serial === '' || /[\u0000-\u001f\u007f-\u009f]/.test(serial)) {
+    throw new BenchError({
+      code: 'usage.bad-serial',
+      file: '-',
+      problem: serial === '' ? '--unit got a blank serial' : '--unit got a serial with control characters',
+      expected: 'the unit serial as printed on the unit, e.g. FK-0107',
+      fix: 'write --unit FK-0107 (quote it if it holds spaces)',
+    });
+  }
+  return serial;
+}

@@ -2,6 +2,7 @@
 import { createRequire } from 'node:module';
 import type cliProgressModule from 'cli-progress';
 import type { CommandContext } from './context.js';
+import { terminalSafe } from './terminalText.js';
 
 /**
  * cli-progress (CommonJS) is required when the first bar is drawn, not when this module loads:
@@ -29,7 +30,8 @@ export function createProgress(ctx: CommandContext, json: boolean): Progress {
       bar = new lib.SingleBar(
         {
           stream: process.stderr,
-          format: `${label.length > 40 ? `…${label.slice(-39)}` : label} [{bar}] {percentage}% | {value}/{total}`,
+          // The bar writes to stderr itself, past the io filter: the file name is made safe here.
+          format: `${terminalSafe(label.length > 40 ? `…${label.slice(-39)}` : label, false)} [{bar}] {percentage}% | {value}/{total}`,
           hideCursor: true,
           clearOnComplete: true,
         },

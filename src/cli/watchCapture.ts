@@ -9,13 +9,14 @@
  *
  * Another mode (e.g. calibration) plugs in by giving the session another `CaptureHandlerFactory`.
  */
-import { readdir, readFile, stat } from 'node:fs/promises';
+import { createReadStream } from 'node:fs';
+import { readdir, stat } from 'node:fs/promises';
+import { createHash } from 'node:crypto';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
 import type { RecordStore } from '../records/index.js';
-import { sha256Hex } from '../records/index.js';
-import { isBenchError } from '../types/index.js';
-import type { BenchError, Statement } from '../types/index.js';
+import { BenchError, isBenchError } from '../types/index.js';
+import type { Statement } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { checkPlans, planCapture, runOf, worstStatement } from './checkRun.js';
 import type { RunAuthor, TimingOptions } from './checkRun.js';
@@ -87,7 +88,7 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
   }
   try {
     // Bytes recorded before are not read, measured or stored again (same rule as saveRunOnce).
-    const sha256 = sha256Hex(await readFile(resolve(env.ctx.io.cwd, file)));
+    const sha256 = await hashLanded(resolve(env.ctx.io.cwd, file), file);
     const earlier = env.store.captureRecorded({ unit: plan.unit, condition: plan.condition, sha256 });
     if (earlier !== undefined) return { status: 'recorded-already', file, unit: plan.unit, condition: plan.condition, runId: earlier };
     const startedAt = new Date().toISOString();
@@ -113,6 +114,39 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
     return { status: 'error', file, error: err as Error };
   }
 };
+
+/**
+ * SHA-256 of a landed file, streamed in pieces: a capture of any size (2 GB and more, past what one
+ * Buffer holds) is hashed in constant memory, so watch handles what check handles and keeps no copy.
+ * Only a regular file is read (a FIFO or device in the drop folder is refused, a link loop is an error
+ * of its own), each as a BenchError naming the file.
+ */
+async function hashLanded(full: string, shown: string): Promise<string> {
+  let st;
+  try {
+    st = await stat(full);
+  } catch (err) {
+    throw unreadableLanded(shown, (err as { code?: string }).code ?? 'error');
+  }
+  if (!st.isFile()) throw unreadableLanded(shown, 'not a regular file');
+  const hash = createHash('sha256');
+  try {
+    for await (const chunk of createReadStream(full, { highWaterMark: 1 << 20 })) hash.update(chunk as Buffer);
+  } catch (err) {
+    throw unreadableLanded(shown, (err as { code?: string }).code ?? 'read error');
+  }
+  return hash.digest('hex');
+}
+
+function unreadableLanded(file: string, why: string): BenchError {
+  return new BenchError({
+    code: 'watch.unreadable',
+    file,
+    problem: `the landed file cannot be read (${why === 'ELOOP' ? 'a symbolic link that loops' : why}); it was not recorded`,
+    expected: 'a capture file saved in the watched folder',
+    fix: 'save the capture as a regular file in the folder (not a link or a device), then it is checked on landing',
+  });
+}
 
 /** What a plan covers: its condition and outputs; one file per key goes into a run. */
 const coverKey = (p: CapturePlan): string => `${p.condition}|${p.outputs.map((o) => o.output).sort().join(',')}`;
@@ -142,7 +176,7 @@ async function recordedCompanions(env: WatchEnv, plan: CapturePlan): Promise<Cap
       const { mtimeMs } = await stat(full);
       const known = newest.get(coverKey(other));
       if (known && known.mtime >= mtimeMs) continue;
-      const sha256 = sha256Hex(await readFile(full));
+      const sha256 = await hashLanded(full, path);
       if (env.store.captureRecorded({ unit: other.unit, condition: other.condition, sha256 }) === undefined) continue;
       newest.set(coverKey(other), { plan: other, mtime: mtimeMs });
     } catch {

@@ -4,7 +4,7 @@
  * the file in hand is finished (and stored, in its own transaction), files still landing or queued
  * are left for the next start, and a one-line summary goes to stderr.
  */
-import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, statSync } from 'node:fs';
 import { basename, join, resolve } from 'node:path';
 import type { PlanOverrides, Spec } from '../spec/index.js';
 import type { TextStyle } from '../report/index.js';
@@ -59,6 +59,7 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
       if (lines.stdout) ctx.io.stdout(lines.stdout);
       if (lines.stderr) ctx.io.stderr(lines.stderr);
     };
+    for (const bad of namesNotUtf8(dir)) print({ status: 'error', file: join(settings.dir, bad.shown), error: badNameError(bad.shown) });
     const queue = serialQueue((settings.onCapture ?? checkEachCapture)(env), print);
     const folder = watchFolder(dir, {
       settleMs: settings.settleMs,
@@ -137,4 +138,38 @@ function makeReportDir(ctx: CommandContext, shown: string): string {
       fix: 'choose another --report-dir, or create it first',
     });
   }
+}
+
+/**
+ * Names in the folder that are not valid UTF-8: Node would hand them on with U+FFFD in place of the
+ * bad bytes, a name no file has, so they could never be read. Each is reported at the start (its bad
+ * bytes shown as \xNN), never skipped in silence.
+ */
+function namesNotUtf8(dir: string): { shown: string }[] {
+  let names: Buffer[];
+  try {
+    names = readdirSync(dir, { encoding: 'buffer' });
+  } catch {
+    return [];
+  }
+  const decoder = new TextDecoder('utf-8', { fatal: true });
+  const out: { shown: string }[] = [];
+  for (const raw of names) {
+    try {
+      decoder.decode(raw);
+    } catch {
+      out.push({ shown: [...raw].map((b) => (b >= 0x20 && b < 0x7f ? String.fromCharCode(b) : `\\x${b.toString(16).padStart(2, '0')}`)).join('') });
+    }
+  }
+  return out;
+}
+
+function badNameError(shown: string): BenchError {
+  return new BenchError({
+    code: 'watch.bad-file-name',
+    file: shown,
+    problem: 'the file name is not valid UTF-8, so it cannot be opened by name; it was not recorded',
+    expected: 'file names in UTF-8 (letters, digits, - and _ are safe everywhere)',
+    fix: 'rename the file (e.g. on the scope, or with a file manager), then it is checked on landing',
+  });
 }

@@ -49,6 +49,8 @@ export function matchCaptureName(pattern: string, baseName: string, conditions: 
   if (/\.csv$/i.test(pattern)) source += '(?:\\.gz)?';
   const m = new RegExp(`^${source}$`, 'i').exec(baseName);
   if (!m?.groups) return m ? {} : null;
+  // A serial that is blank or holds control characters (" _mid.csv") names no unit: the name does not fit.
+  if (m.groups.unit !== undefined && (m.groups.unit.trim() === '' || /[\u0000-\u001f\u007f]/.test(m.groups.unit))) return null;
   const canonical = (found: string | undefined, names: readonly string[]): string | undefined =>
     found === undefined ? undefined : (names.find((n) => n.toLowerCase() === found.toLowerCase()) ?? found);
   return {

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import type { CalibrationFlags, MeasuredStep } from '../calibrateRun.js';
-import { parsePositive } from '../options.js';
+import { parsePositive, parseSerial } from '../options.js';
 import { createProgress } from '../progress.js';
 import { addRecordingOptions } from '../dataOptions.js';
 
@@ -20,7 +20,7 @@ export function registerCalibrate(program: Command, ctx: CommandContext): Comman
     .description('one calibration iteration: error in cents at each step of the control law, fitted scale and offset, trim guidance')
     .argument('<captures...>', "one capture per calibration step, named after the spec's calibration pattern or given in step order")
     .requiredOption('--spec <file>', 'the design spec with a `calibration:` section')
-    .requiredOption('--unit <serial>', 'serial number of the unit being calibrated')
+    .requiredOption('--unit <serial>', 'serial number of the unit being calibrated', parseSerial)
     .option('--iteration <label>', 'a label for this iteration, e.g. "after scale trim"')
     .option('--new-run', "start a new calibration run even if the unit's latest one is still open")
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')

@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import type { Spec } from '../../spec/index.js';
 import type { UnitCheck } from '../../report/index.js';
-import { parsePositive } from '../options.js';
+import { parsePositive, parseSerial } from '../options.js';
 import { addRecordingOptions } from '../dataOptions.js';
 import type { StoreFlags } from '../dataOptions.js';
 
@@ -23,7 +23,7 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
     .description('check captures against a design spec: a statement per check, likely causes, one line per unit')
     .argument('<captures...>', 'CSV captures named after the spec\'s pattern, e.g. FK-0101_mid.csv')
     .requiredOption('--spec <file>', 'the design spec (YAML or JSON)')
-    .option('--unit <serial>', 'serial number of the unit, instead of the one in the file names')
+    .option('--unit <serial>', 'serial number of the unit, instead of the one in the file names', parseSerial)
     .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
     .option('--summary', 'one line per unit (statement, checks not passed, first likely cause) instead of the tables')

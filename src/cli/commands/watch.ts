@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { parsePositive } from '../options.js';
+import { parsePositive, parseSerial } from '../options.js';
 import { addDataOption } from '../dataOptions.js';
 import type { StoreFlags } from '../dataOptions.js';
 import { BenchError } from '../../types/index.js';
@@ -28,7 +28,7 @@ export function registerWatch(program: Command, ctx: CommandContext): Command {
     .description('check and record each capture as it lands in a folder: one line per file, until Ctrl-C')
     .argument('<dir>', 'folder the scope or copy tool saves captures into (files directly in it)')
     .requiredOption('--spec <file>', 'the design spec (YAML or JSON); its file-name pattern gives unit and condition')
-    .option('--unit <serial>', 'serial number of every capture, for a single-unit session')
+    .option('--unit <serial>', 'serial number of every capture, for a single-unit session', parseSerial)
     .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
     .option('--settle <ms>', 'a file is read once its size and time have not changed for this long', String(DEFAULT_SETTLE_MS))
     .option('--new-only', 'skip the files already in the folder at start (by default they are checked unless recorded)')
