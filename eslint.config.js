@@ -1,5 +1,5 @@
 // Lint: TypeScript rules plus one architectural rule: imports flow one way between stages
-// (capture → analysis → spec → diagnose → records → report; cli wires them; types and synth are shared).
+// (capture → analysis → spec → diagnose → records → report; cli and server wire them; types and synth are shared).
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 
@@ -8,6 +8,7 @@ const later = (stage) => order.slice(order.indexOf(stage) + 1);
 const patternsFor = (stage) => [
   ...later(stage).map((s) => ({ group: [`**/${s}/**`, `../${s}/*`, `../${s}/index.js`], message: `${stage} may not import from the later stage ${s}` })),
   { group: ['**/cli/**', '../cli/*'], message: 'no stage imports the command line' },
+  { group: ['**/server/**', '../server/*'], message: 'no stage imports the bench page server' },
 ];
 const inner = (stage) => ({
   regex: '^(\\.\\./)+(capture|analysis|spec|diagnose|records|report|synth|types)/(?!index\\.js$).+',
@@ -27,6 +28,11 @@ export default tseslint.config(
   {
     files: ['src/cli/**/*.ts'],
     rules: { 'no-restricted-imports': ['error', { patterns: [inner('cli')] }] },
+  },
+  {
+    // The bench page server wires like src/cli: stages through their index, cli helpers directly.
+    files: ['src/server/**/*.ts'],
+    rules: { 'no-restricted-imports': ['error', { patterns: [inner('server')] }] },
   },
   {
     files: ['src/analysis/**/*.ts'],

@@ -27,3 +27,5 @@ export { shiftByCents } from './cents.js';
 export { spanOctaves } from './cents.js';
 export { trackingFit } from './trackingFit.js';
 export type { TrackingFit, TrackingFitOptions, TrackingLaw, TrackingPoint } from './trackingFit.js';
+export { plotDecimate, plotDecimateSeries } from './plotDecimate.js';
+export type { PlotColumns } from './plotDecimate.js';

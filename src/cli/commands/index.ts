@@ -10,6 +10,7 @@ import { registerRecord } from './record.js';
 import { registerBatch } from './batch.js';
 import { registerWatch } from './watch.js';
 import { registerCalibrate } from './calibrate.js';
+import { registerServe } from './serve.js';
 
 export type RegisterCommand = (program: Command, ctx: CommandContext) => Command;
 
@@ -23,4 +24,5 @@ export const COMMANDS: readonly RegisterCommand[] = [
   registerBatch,
   registerWatch,
   registerCalibrate,
+  registerServe,
 ];

@@ -1,0 +1,56 @@
+/**
+ * What every route of the bench page shares: where the records are, which spec is current, who is
+ * at the bench, the upload limits, and the one open read connection to the records. The spec file
+ * is read again on each use, so an edited spec shows on the page (and its problems) without a
+ * restart.
+ */
+import type { CommandContext } from '../cli/context.js';
+import { createContext } from '../cli/context.js';
+import type { CliIo } from '../cli/io.js';
+import { openDataStore } from '../cli/store.js';
+import type { DataLocation, StoreFlags } from '../cli/store.js';
+import type { RecordStore } from '../records/index.js';
+import type { EventHub } from './eventHub.js';
+
+export interface UploadLimits {
+  /** Largest single capture accepted, in bytes. */
+  readonly maxFileBytes: number;
+  /** Most files in one drop. */
+  readonly maxFiles: number;
+}
+
+export const DEFAULT_LIMITS: UploadLimits = { maxFileBytes: 512 * 1024 * 1024, maxFiles: 24 };
+
+export interface BenchSetup {
+  /** The command's own context: its io (stderr is the terminal), working directory and environment. */
+  readonly ctx: CommandContext;
+  readonly flags: StoreFlags;
+  readonly location: DataLocation;
+  /** The spec file as given to --spec, if any. */
+  readonly specFile?: string;
+  readonly limits: UploadLimits;
+  readonly store: RecordStore;
+  readonly hub: EventHub;
+}
+
+/** Opens the records for writing (creating the data folder as `check` would) and keeps them open. */
+export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub, specFile: string | undefined, limits: UploadLimits): BenchSetup {
+  const { store, location } = openDataStore(ctx, flags, 'write');
+  // Later calls resolve the data folder from other working directories (a drop's temporary folder).
+  const absolute: StoreFlags = { ...flags, data: location.dir };
+  return { ctx, flags: absolute, location, ...(specFile !== undefined ? { specFile } : {}), limits, store, hub };
+}
+
+/** A context for one piece of work: its own working directory, its notices collected. */
+export function workContext(setup: BenchSetup, cwd: string): { ctx: CommandContext; notes: string[] } {
+  const notes: string[] = [];
+  const io: CliIo = {
+    stdout: () => {},
+    stderr: (s) => void notes.push(s.trimEnd()),
+    stdoutIsTTY: false,
+    stderrIsTTY: false,
+    env: setup.ctx.io.env,
+    cwd,
+  };
+  return { ctx: createContext(io), notes };
+}

@@ -1,0 +1,60 @@
+/**
+ * The bench board's data and the live stream: the units of the current spec (every unit when the
+ * spec cannot be read) with their state as the records hold it, newest first; the event stream the
+ * page listens to; and the spec page's data, validated as `spec validate` does.
+ */
+import type { FastifyInstance } from 'fastify';
+import { STATEMENT_WORDS } from '../types/index.js';
+import type { UnitSummary } from '../types/index.js';
+import { loadSpec } from '../cli/checkRun.js';
+import type { Spec } from '../spec/index.js';
+import type { BenchSetup } from './benchSetup.js';
+import { errorBody } from './errorBody.js';
+
+export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup): void {
+  app.get('/api/board', async () => {
+    const current = currentSpec(setup);
+    const spec = current.ok ? current.spec : undefined;
+    const units = setup.store.listUnits(spec ? { spec: spec.name } : {});
+    return {
+      spec: spec ? { name: spec.name, revision: spec.revision, file: setup.specFile } : null,
+      specProblem: current.ok ? null : current.error,
+      data: setup.location.shown,
+      canDrop: Boolean(spec),
+      units: units.sort(newestFirst).map(boardRow),
+    };
+  });
+  app.get('/api/events', (req, reply) => setup.hub.attach(req, reply));
+  app.get('/api/spec', async () => {
+    const current = currentSpec(setup);
+    if (!current.ok) return { file: setup.specFile ?? null, valid: false, error: current.error };
+    const { spec, text } = current;
+    const checks = spec.conditions.reduce((n, c) => n + c.checks.length, 0);
+    return {
+      file: setup.specFile,
+      valid: true,
+      // The line `benchproof spec validate FILE` prints for a valid spec.
+      summary: `${setup.specFile}: valid: ${spec.name} rev ${spec.revision}, ${spec.outputs.length} outputs, ${spec.conditions.length} conditions, ${checks} checks (${spec.decision} decisions)`,
+      spec,
+      text,
+    };
+  });
+}
+
+type Current = { ok: true; spec: Spec; text: string } | { ok: false; error: ReturnType<typeof errorBody>['error'] | null };
+
+function currentSpec(setup: BenchSetup): Current {
+  if (setup.specFile === undefined) return { ok: false, error: null };
+  try {
+    const { spec, text } = loadSpec(setup.ctx, setup.specFile);
+    return { ok: true, spec, text };
+  } catch (err) {
+    return { ok: false, error: errorBody(err).error };
+  }
+}
+
+const newestFirst = (a: UnitSummary, b: UnitSummary): number => (a.lastTestedAt < b.lastTestedAt ? 1 : a.lastTestedAt > b.lastTestedAt ? -1 : 0);
+
+function boardRow(u: UnitSummary) {
+  return { unit: u.unit, status: u.status, word: STATEMENT_WORDS[u.status], runs: u.runs, lastTestedAt: u.lastTestedAt, firstStatement: u.firstStatement, spec: u.spec };
+}

@@ -1,0 +1,114 @@
+/**
+ * The drop zone: captures sent from the page are written to a fresh temporary folder under the
+ * names they had (a base name only, checked), then read, checked and stored exactly as
+ * `benchproof check FILES --spec SPEC` does, through the same pipeline (src/cli/checkRun.ts) and the
+ * same store call. Limits on size and count come from the command's options; the temporary folder
+ * is removed afterwards whatever happened. Drops are handled one at a time.
+ */
+import { createWriteStream } from 'node:fs';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pipeline } from 'node:stream/promises';
+import type { FastifyInstance } from 'fastify';
+import { BenchError, STATEMENT_WORDS } from '../types/index.js';
+import type { BenchSetup } from './benchSetup.js';
+import { workContext } from './benchSetup.js';
+import { loadSpec, checkPlans, planCapture } from '../cli/checkRun.js';
+import { storeCheckedUnits } from '../cli/store.js';
+import type { Progress } from '../cli/progress.js';
+import { errorBody } from './errorBody.js';
+
+/** Names a scope or copy tool gives: letters, digits and . _ - + ( ) and spaces; no folders. */
+const SAFE_NAME = /^[A-Za-z0-9][A-Za-z0-9 ._+()-]{0,199}$/;
+
+let queue: Promise<unknown> = Promise.resolve();
+const oneAtATime = <T>(work: () => Promise<T>): Promise<T> => {
+  const next = queue.then(work, work);
+  queue = next.catch(() => undefined);
+  return next;
+};
+
+export function registerDropRoutes(app: FastifyInstance, setup: BenchSetup): void {
+  app.post('/api/drop', async (req, reply) => {
+    const dropId = String(req.headers['x-drop-id'] ?? '').replace(/[^\w-]/g, '').slice(0, 40) || `drop-${Date.now()}`;
+    const dir = await mkdtemp(join(tmpdir(), 'benchproof-drop-'));
+    try {
+      const names: string[] = [];
+      for await (const part of req.files({ limits: { fileSize: setup.limits.maxFileBytes, files: setup.limits.maxFiles, fields: 0 } })) {
+        const name = safeName(part.filename);
+        if (names.includes(name)) throw badName(part.filename, 'the same name twice in one drop');
+        names.push(name);
+        // 'wx': a new file in our own fresh folder; the name cannot leave it (checked above).
+        await pipeline(part.file, createWriteStream(join(dir, name), { flags: 'wx', mode: 0o600 }));
+      }
+      if (names.length === 0) throw noFiles();
+      const outcome = await oneAtATime(() => checkDrop(setup, dir, names, dropId));
+      setup.hub.publish('drop', { id: dropId, status: 'stored', units: outcome.units });
+      return reply.send(outcome);
+    } catch (err) {
+      const body = errorBody(err);
+      if (body.status === 500) setup.ctx.io.stderr(`benchproof serve: internal error in a drop: ${(err as Error).stack ?? String(err)}\n`);
+      setup.hub.publish('drop', { id: dropId, status: 'error', error: body.error });
+      // The rest of a refused upload may be unread: the connection closes instead of waiting for it.
+      reply.header('Connection', 'close');
+      return reply.code(body.status).send(body);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+}
+
+async function checkDrop(setup: BenchSetup, dir: string, names: readonly string[], dropId: string) {
+  if (setup.specFile === undefined) throw noSpec();
+  const { spec, text } = loadSpec(setup.ctx, setup.specFile);
+  const { ctx, notes } = workContext(setup, dir);
+  const startedAt = new Date().toISOString();
+  // Every name is mapped before any capture is read, as `check` does: a misnamed file fails at once.
+  const plans = names.map((name) => planCapture(spec, name, {}));
+  const units = await checkPlans(ctx, spec, plans, {}, dropProgress(setup, dropId));
+  const stored = storeCheckedUnits(ctx, setup.flags, units, startedAt, text);
+  return {
+    units: stored.map((r) => ({ unit: r.unit, runId: r.id, statement: r.statement, word: STATEMENT_WORDS[r.statement] })),
+    notes,
+  };
+}
+
+/** Reading progress of each file, as events to the page (at most about 20 per file). */
+function dropProgress(setup: BenchSetup, id: string): Progress {
+  let file = '';
+  let total = 0;
+  let shown = -1;
+  return {
+    start(label, t) {
+      file = label;
+      total = t;
+      shown = -1;
+    },
+    update(done) {
+      const step = total > 0 ? Math.floor((20 * done) / total) : 0;
+      if (step === shown) return;
+      shown = step;
+      setup.hub.publish('drop', { id, status: 'reading', file, done, total });
+    },
+    stop() {},
+  };
+}
+
+function safeName(given: string): string {
+  const base = given.split(/[\\/]/).pop() ?? '';
+  if (!SAFE_NAME.test(base) || base.includes('..')) throw badName(given, 'letters, digits, spaces and . _ - + ( ), no folders');
+  return base;
+}
+
+function badName(given: string, expected: string): BenchError {
+  return new BenchError({ code: 'serve.bad-file-name', file: given.slice(0, 200) || '-', problem: 'this file name cannot be taken from the page', expected, fix: 'rename the file as the spec pattern asks, e.g. FK-0101_mid.csv, and drop it again' });
+}
+
+function noFiles(): BenchError {
+  return new BenchError({ code: 'serve.no-files', file: '-', problem: 'the drop held no files', expected: 'one or more capture files', fix: 'drag the CSV files the scope saved onto the page, or pick them' });
+}
+
+function noSpec(): BenchError {
+  return new BenchError({ code: 'serve.no-spec', file: '-', problem: 'captures cannot be checked without a spec', expected: 'benchproof serve --spec FILE', fix: 'restart with --spec samples/fh210-spec.yaml (or your own spec)' });
+}
