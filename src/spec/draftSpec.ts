@@ -1,14 +1,21 @@
 /**
- * `spec init`: a starter spec from captures of a known-good unit. Every measurement that applies gets
- * a check, nominal from the capture, tolerance from the option; a value that changes between
- * conditions (frequency) gets its nominal per condition. A tolerance that would leave a golden value
- * less than 2U inside its limits is widened, with a comment, so the golden unit passes its own spec
- * under guarded acceptance rather than only conditionally.
- * Quantities that are "smaller is better" (overshoot, jitter, THD, hum) have no nominal to copy and are
- * left for the user, as the header says.
+ * `spec init`: a starter spec from captures of a known-good unit. Each output gets one reading per
+ * quantity a design states for its shape (a triangle's frequency, swing, offset and symmetry; a
+ * pulse's frequency, levels, duty and edges), never six readings of one swing. The nominal comes
+ * from the golden capture, rounded to four significant digits; a value that changes between
+ * conditions (frequency) gets its nominal per condition.
+ *
+ * How each limit is set (written beside it in the draft): the half-width is the larger of the
+ * `--tolerance` (the floor) and 3U, U being the golden reading's expanded uncertainty (k = 2,
+ * GUM 6.2). 3U covers the golden reading's own U, the next good unit's U (its reading of the same
+ * value scatters as much) and the guard band of guarded acceptance (ILAC-G8:2019 §4.2.2), so a
+ * second good unit that reads what the golden one read passes outright rather than conditionally.
+ * Quantisation counts: a one-code difference between two units is inside U when the capture's
+ * resolution is in U. Quantities that are "smaller is better" (overshoot, jitter, THD, hum) have
+ * no nominal to copy and are left for the user, as the header says.
  */
 import { MEASUREMENT_UNITS } from '../types/index.js';
-import type { ChannelReport, MeasureReport, MeasurementId } from '../types/index.js';
+import type { ChannelReport, MeasureReport, MeasurementId, Shape } from '../types/index.js';
 import { formatQuantity } from './quantity.js';
 
 export interface GoldenCapture {
@@ -24,26 +31,26 @@ export interface DraftOptions {
   readonly name?: string;
 }
 
-/** How each measurement is turned into a check: relative to its nominal, in % points, or absolute from the swing. */
-const POLICY: Partial<Record<MeasurementId, 'relative' | 'points' | 'swing'>> = {
-  frequency: 'relative',
-  peakToPeak: 'relative',
-  amplitude: 'relative',
-  maximum: 'relative',
-  minimum: 'relative',
-  highLevel: 'relative',
-  lowLevel: 'swing',
-  dcOffset: 'swing',
-  rms: 'relative',
-  acRms: 'relative',
-  riseSlope: 'relative',
-  fallSlope: 'relative',
-  slopeRatio: 'relative',
-  symmetry: 'points',
-  dutyCycle: 'points',
-  riseTime: 'relative',
-  fallTime: 'relative',
+type Policy = 'relative' | 'points' | 'swing';
+
+/**
+ * The readings a design states per shape, and how each is toleranced: relative to its nominal, in
+ * % points, or absolute from the swing (levels near 0 V have no meaningful relative tolerance).
+ * Common practice for oscillator specs (no source): one reading per quantity.
+ */
+const READINGS: Readonly<Record<Shape, readonly (readonly [MeasurementId, Policy])[]>> = {
+  triangle: [['frequency', 'relative'], ['peakToPeak', 'relative'], ['dcOffset', 'swing'], ['symmetry', 'points']],
+  sawtooth: [['frequency', 'relative'], ['peakToPeak', 'relative'], ['dcOffset', 'swing']],
+  sine: [['frequency', 'relative'], ['peakToPeak', 'relative'], ['dcOffset', 'swing']],
+  square: [['frequency', 'relative'], ['highLevel', 'relative'], ['lowLevel', 'swing'], ['dutyCycle', 'points'], ['riseTime', 'relative'], ['fallTime', 'relative']],
+  pulse: [['frequency', 'relative'], ['highLevel', 'relative'], ['lowLevel', 'swing'], ['dutyCycle', 'points'], ['riseTime', 'relative'], ['fallTime', 'relative']],
+  unknown: [['frequency', 'relative'], ['peakToPeak', 'relative'], ['dcOffset', 'swing']],
 };
+
+/** The golden reading's U is multiplied by this for the least half-width (see the header). */
+const U_MULTIPLE = 3;
+/** Significant digits of a drafted nominal: enough for a 0.1 % tolerance, few enough to read. */
+export const NOMINAL_DIGITS = 4;
 
 export interface DraftCheck {
   readonly measure: MeasurementId;
@@ -74,7 +81,7 @@ export function draftOutputs(golden: readonly GoldenCapture[], tolerance: number
     const perCondition = golden.map((g) => ({ condition: g.condition, channel: g.report.channels[i] }));
     const checks: DraftCheck[] = [];
     const skipped: string[] = [];
-    for (const id of Object.keys(POLICY) as MeasurementId[]) {
+    for (const [id, policy] of READINGS[ch.shape]) {
       const ms = perCondition.map((p) => ({ condition: p.condition, m: p.channel?.measurements[id], swing: p.channel?.measurements.peakToPeak?.value ?? null }));
       if (ms.every((x) => x.m === undefined)) continue;
       const withheld = ms.find((x) => x.m?.value === null || x.m?.value === undefined);
@@ -82,7 +89,7 @@ export function draftOutputs(golden: readonly GoldenCapture[], tolerance: number
         skipped.push(`${id}: ${withheld.m?.note ?? 'not reported'} (${withheld.condition})`);
         continue;
       }
-      const check = draftCheck(id, ms.map((x) => ({ condition: x.condition, value: x.m!.value as number, u: x.m!.uncertainty, swing: x.swing })), tolerance);
+      const check = draftCheck(id, policy, ms.map((x) => ({ condition: x.condition, value: x.m!.value as number, u: x.m!.uncertainty, swing: x.swing })), tolerance);
       if (check) checks.push(check);
       else skipped.push(`${id}: no swing to scale an offset tolerance from`);
     }
@@ -90,23 +97,37 @@ export function draftOutputs(golden: readonly GoldenCapture[], tolerance: number
   });
 }
 
-function draftCheck(id: MeasurementId, values: readonly { condition: string; value: number; u: number | null; swing: number | null }[], tol: number): DraftCheck | null {
+function draftCheck(id: MeasurementId, given: Policy, values: readonly { condition: string; value: number; u: number | null; swing: number | null }[], tol: number): DraftCheck | null {
   const unit = MEASUREMENT_UNITS[id];
   const swing = values.find((v) => v.swing !== null)?.swing ?? null;
   // A level near 0 V (a pulse low, a centred peak) has no meaningful relative tolerance: scale it by the swing.
   const nearZero = unit === 'V' && swing !== null && values.some((v) => Math.abs(v.value) < 0.25 * swing);
-  const policy = nearZero ? 'swing' : POLICY[id]!;
+  const policy = nearZero ? 'swing' : given;
   if (policy === 'swing' && swing === null) return null;
+  const nominalOf = (v: number): number => roundTo(v, NOMINAL_DIGITS);
   const fromOption = (value: number): number => tol * (policy === 'swing' ? swing! : Math.abs(value));
-  // Widen by the smallest factor that leaves every golden value 2U inside its limits (U = 2u, k = 2).
-  const factor = Math.max(1, ...values.map((v) => (4 * (v.u ?? 0)) / fromOption(v.value)));
+  // Half-width per value: the option, or 3U (U = 2u) plus what rounding the nominal moved it, if larger.
+  const least = (v: { value: number; u: number | null }): number => U_MULTIPLE * 2 * (v.u ?? 0) + Math.abs(v.value - nominalOf(v.value));
+  const factor = Math.max(1, ...values.map((v) => least(v) / fromOption(v.value)));
   const widened = factor > 1 + 1e-9;
   const mean = values.reduce((s, v) => s + v.value, 0) / values.length;
-  const agree = values.every((v) => Math.abs(v.value - mean) <= (factor * fromOption(v.value)) / 4);
-  const nominal = agree ? mean : Object.fromEntries(values.map((v) => [v.condition, v.value]));
+  // Conditions agree when one nominal leaves each of them as far inside as its own would (3U rule).
+  const agree = values.every((v) => Math.abs(v.value - mean) + least(v) <= factor * fromOption(v.value));
+  const nominal = agree ? nominalOf(mean) : Object.fromEntries(values.map((v) => [v.condition, nominalOf(v.value)]));
   const relative = policy === 'relative';
-  const tolerance = relative ? tol * factor : Math.max(...values.map((v) => factor * fromOption(v.value)));
+  // Rounded up, never tighter than computed.
+  const tolerance = relative ? roundUp(tol * factor, 2) : roundUp(Math.max(...values.map((v) => factor * fromOption(v.value))), 2);
   return { measure: id, nominal, tolerance, unit, relative, widened };
+}
+
+const roundTo = (x: number, digits: number): number => (x === 0 ? 0 : Number(x.toPrecision(digits)));
+
+/** x rounded up (away from zero) to `digits` significant digits. */
+function roundUp(x: number, digits: number): number {
+  if (x === 0) return 0;
+  const step = 10 ** (Math.floor(Math.log10(Math.abs(x))) - digits + 1);
+  const up = Math.ceil(x / step - 1e-9) * step;
+  return Number(up.toPrecision(digits));
 }
 
 function outputName(ch: ChannelReport, i: number): string {
@@ -114,5 +135,5 @@ function outputName(ch: ChannelReport, i: number): string {
   return /^[a-z]/.test(clean) ? clean : `output${i + 1}`;
 }
 
-/** Value text for the spec file: six significant digits, read back within 1e-5 relative. */
-export const written = (value: number, unit: string): string => (unit === '' ? String(Number(value.toPrecision(6))) : formatQuantity(value, unit, 6));
+/** Value for the spec file: a number when the quantity has no unit (never a quoted string), else text such as "5.938 V". */
+export const written = (value: number, unit: string): string | number => (unit === '' ? Number(value.toPrecision(NOMINAL_DIGITS)) : formatQuantity(value, unit, NOMINAL_DIGITS));

@@ -11,7 +11,7 @@ export function writeDraftSpec(golden: readonly GoldenCapture[], options: DraftO
   const outputs = draftOutputs(golden, options.tolerance);
   const conditions = [...new Set(golden.map((g) => g.condition))];
   const pct = `${Number((options.tolerance * 100).toPrecision(4))} %`;
-  const perCondition: Record<string, Record<string, Record<string, { nominal: string }>>> = {};
+  const perCondition: Record<string, Record<string, Record<string, { nominal: string | number }>>> = {};
   for (const c of conditions) perCondition[c] = {};
   const body = {
     format: 1,
@@ -38,7 +38,10 @@ export function writeDraftSpec(golden: readonly GoldenCapture[], options: DraftO
   };
   const doc = new Document(body);
   doc.commentBefore = [
-    ` Starter spec from a known-good unit (benchproof spec init); tolerance ${pct} unless noted.`,
+    ` Starter spec from a known-good unit (benchproof spec init): one reading per quantity of each output.`,
+    ` Nominals are the golden unit's readings (4 significant digits). Each limit is nominal ± the larger of`,
+    ` ${pct} (--tolerance) and 3U, U being the golden reading's expanded uncertainty (k = 2): room for its`,
+    ' own U, the next good unit\'s U and the guard band, so a good unit passes outright. Tighten with care.',
     ' Not written (no nominal to copy): overshoot, jitter, THD, hum. Add max limits from your design.',
     ...outputs.flatMap((o) => o.skipped.map((s) => ` ${o.name}: ${s}`)),
   ].join('\n');
@@ -46,7 +49,7 @@ export function writeDraftSpec(golden: readonly GoldenCapture[], options: DraftO
     o.checks.forEach((c, i) => {
       if (!c.widened) return;
       const node = doc.getIn(['outputs', o.name, 'checks', i], true);
-      if (isMap(node)) node.comment = ` widened from ${pct}: the golden capture's uncertainty would leave it too close to the limits`;
+      if (isMap(node)) node.comment = ` widened from ${pct} to 3U of the golden reading`;
     }),
   );
   for (const c of conditions) {
@@ -56,7 +59,7 @@ export function writeDraftSpec(golden: readonly GoldenCapture[], options: DraftO
   return doc.toString({ lineWidth: 0 });
 }
 
-function checkEntry(c: DraftCheck, output: string, perCondition: Record<string, Record<string, Record<string, { nominal: string }>>>): Record<string, string> {
+function checkEntry(c: DraftCheck, output: string, perCondition: Record<string, Record<string, Record<string, { nominal: string | number }>>>): Record<string, string | number> {
   const tolerance = c.relative ? `${Number((c.tolerance * 100).toPrecision(3))} %` : written(c.tolerance, c.unit);
   if (typeof c.nominal === 'number') return { measure: c.measure, nominal: written(c.nominal, c.unit), tolerance };
   for (const [cond, v] of Object.entries(c.nominal)) {
