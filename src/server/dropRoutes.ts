@@ -8,10 +8,10 @@
 import { createWriteStream } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { join, sep } from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import type { FastifyInstance } from 'fastify';
-import { BenchError, STATEMENT_WORDS } from '../types/index.js';
+import { BenchError, STATEMENT_WORDS, isBenchError } from '../types/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { workContext } from './benchSetup.js';
 import { loadSpec, checkPlans, planCapture } from '../cli/checkRun.js';
@@ -47,7 +47,7 @@ export function registerDropRoutes(app: FastifyInstance, setup: BenchSetup): voi
       setup.hub.publish('drop', { id: dropId, status: 'stored', units: outcome.units });
       return reply.send(outcome);
     } catch (err) {
-      const body = errorBody(err);
+      const body = errorBody(asDropped(err, dir));
       if (body.status === 500) setup.ctx.io.stderr(`benchproof serve: internal error in a drop: ${(err as Error).stack ?? String(err)}\n`);
       setup.hub.publish('drop', { id: dropId, status: 'error', error: body.error });
       // The rest of a refused upload may be unread: the connection closes instead of waiting for it.
@@ -93,6 +93,12 @@ function dropProgress(setup: BenchSetup, id: string): Progress {
     },
     stop() {},
   };
+}
+
+/** An error about a file in the drop's temporary folder names the file as it was dropped. */
+function asDropped(err: unknown, dir: string): unknown {
+  if (!isBenchError(err) || !err.file.startsWith(`${dir}${sep}`)) return err;
+  return new BenchError({ ...err.toJSON(), file: err.file.slice(dir.length + 1) });
 }
 
 function safeName(given: string): string {
