@@ -5,6 +5,7 @@
  * spaces and tabs separates fields, and a bracketed unit (`Time (s)`) stays with its name.
  */
 import type { Delimiter } from '../types/index.js';
+import { parseUnitCell } from './units.js';
 
 export interface SplitLine {
   readonly fields: string[];
@@ -52,7 +53,8 @@ function splitSpaces(line: string): SplitLine {
   const fields: string[] = [];
   for (const token of raw.split(/[ \t]+/)) {
     const last = fields.length - 1;
-    if (last >= 0 && /^[([{]/.test(token) && !/[)\]}]$/.test(fields[last])) fields[last] += ` ${token}`;
+    // A unit in brackets stays with its name (`Time (s)`), not with a unit before it (`Volt (mV)` in a units row).
+    if (last >= 0 && /^[([{]/.test(token) && !/[)\]}]$/.test(fields[last]) && parseUnitCell(fields[last]) === null) fields[last] += ` ${token}`;
     else fields.push(token);
   }
   const quoted = fields.some((f) => f.startsWith('"'));

@@ -54,6 +54,14 @@ export interface CsvLayoutOptions {
   readonly replace?: readonly { readonly row: number; readonly channel: number; readonly text: string }[];
   /** Rows per yielded chunk (default 65 536). */
   readonly rowsPerChunk?: number;
+  /** A second header row of units alone: `Second,Volt` ('words') or `(s),(V)` ('brackets'); names above carry none. */
+  readonly unitRow?: 'words' | 'brackets';
+  /** Write the preamble beside the data: `key,value,` in the first columns of the first rows, empty there after. */
+  readonly preambleBeside?: boolean;
+  /** Decimals of the time column ('fixed'), fewer than the step needs to print repeated stamps. */
+  readonly timeDecimals?: number;
+  /** A `+` before every number that is not negative. */
+  readonly plusSign?: boolean;
 }
 
 const UNIT_SCALE: Readonly<Record<string, number>> = {
@@ -88,8 +96,12 @@ export function* writeCsvChunks(channels: readonly CsvChannel[], layout: CsvLayo
   const endRow = (layout.trailingDelimiter ? sep : '') + eol;
   const num = numberFormatter(layout);
   let head = layout.bom ? '\uFEFF' : '';
-  for (const [k, v] of preambleLines(channels, layout, num)) head += `${cell(k)}${sep}${cell(v)}${eol}`;
-  if (header) head += headerCells(channels, layout).map(cell).join(sep) + endRow;
+  const pre = preambleLines(channels, layout, num);
+  const beside = layout.preambleBeside === true;
+  if (!beside) for (const [k, v] of pre) head += `${cell(k)}${sep}${cell(v)}${eol}`;
+  const lead = (r: number): string => (beside ? `${cell(pre[r]?.[0] ?? '')}${sep}${cell(pre[r]?.[1] ?? '')}${sep}${sep}` : '');
+  if (header) head += lead(-1) + headerCells(channels, layout).map(cell).join(sep) + endRow;
+  if (header && layout.unitRow) head += lead(-1) + unitCells(channels, layout).map(cell).join(sep) + endRow;
   yield head;
   const { t0, dt } = channels[0].signal;
   const tScale = scaleOf(layout.timeUnit ?? 's');
@@ -104,12 +116,12 @@ export function* writeCsvChunks(channels: readonly CsvChannel[], layout: CsvLayo
     for (let r = from; r < Math.min(rows, from + perChunk); r++) {
       const i = pick ? pick[r] : r;
       cells.length = 0;
-      if (xColumn === 'time') cells.push(cell(num((t0 + i * dt) / tScale)));
+      if (xColumn === 'time') cells.push(cell(layout.timeDecimals === undefined ? num((t0 + i * dt) / tScale) : fixedTime((t0 + i * dt) / tScale, layout)));
       if (xColumn === 'index') cells.push(cell(String(i + (layout.indexStart ?? 0))));
       for (let c = 0; c < channels.length; c++) {
         cells.push(cell(replaced.get(`${r}:${c}`) ?? num(channels[c].signal.values[i] / scales[c])));
       }
-      text += cells.join(sep) + endRow;
+      text += lead(r) + cells.join(sep) + endRow;
     }
     yield text;
   }
@@ -127,8 +139,22 @@ function checkChannels(channels: readonly CsvChannel[]): number {
   return n;
 }
 
+function fixedTime(t: number, layout: CsvLayoutOptions): string {
+  const s = t.toFixed(layout.timeDecimals);
+  const signed = layout.plusSign && !s.startsWith('-') ? `+${s}` : s;
+  return layout.decimalMark === ',' ? signed.replace('.', ',') : signed;
+}
+
+const UNIT_WORDS: Readonly<Record<string, string>> = { s: 'Second', V: 'Volt', A: 'Ampere' };
+
+function unitCells(channels: readonly CsvChannel[], layout: CsvLayoutOptions): string[] {
+  const x = layout.xColumn ?? 'time';
+  const units = [...(x === 'time' ? [layout.timeUnit ?? 's'] : x === 'index' ? [''] : []), ...channels.map((c) => c.unit ?? '')];
+  return units.map((u) => (u === '' ? '' : layout.unitRow === 'words' && UNIT_WORDS[u] ? UNIT_WORDS[u] : `(${u})`));
+}
+
 function headerCells(channels: readonly CsvChannel[], layout: CsvLayoutOptions): string[] {
-  const style = layout.unitStyle ?? 'parens';
+  const style = layout.unitRow ? 'none' : layout.unitStyle ?? 'parens';
   const label = (name: string, unit: string | undefined): string => {
     if (!unit || style === 'none') return name;
     if (style === 'parens') return `${name} (${unit})`;
@@ -160,7 +186,11 @@ function preambleLines(
 function numberFormatter(layout: CsvLayoutOptions): (v: number) => string {
   const { format = 'exponential', decimalMark = '.', upperCaseExponent = false } = layout;
   const precision = layout.precision ?? (format === 'fixed' ? 6 : 9);
-  const withMark = decimalMark === ',' ? (s: string) => s.replace('.', ',') : (s: string) => s;
+  const plus = layout.plusSign === true;
+  const withMark = (s: string): string => {
+    const signed = plus && !s.startsWith('-') ? `+${s}` : s;
+    return decimalMark === ',' ? signed.replace('.', ',') : signed;
+  };
   if (format === 'shortest') return (v) => withMark(String(v));
   if (format === 'fixed') return (v) => withMark(v.toFixed(precision));
   const e = upperCaseExponent ? 'E' : 'e';

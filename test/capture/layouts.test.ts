@@ -116,6 +116,9 @@ describe('readCapture round trip (fast-check)', () => {
     bom: fc.boolean(),
     preamble: fc.boolean(),
     precision: fc.integer({ min: 6, max: 15 }),
+    unitRow: fc.constantFrom<'words' | 'brackets' | undefined>(undefined, 'words', 'brackets'),
+    preambleBeside: fc.boolean(),
+    plusSign: fc.boolean(),
     rows: fc.integer({ min: 3, max: 300 }),
     amplitude: fc.double({ min: 1e-3, max: 1e3, noNaN: true }),
     seed: fc.integer({ min: 1, max: 1000 }),
@@ -130,6 +133,9 @@ describe('readCapture round trip (fast-check)', () => {
         const text = writeCsv([{ name: 'probe', unit: 'V', signal: sig }, { name: 'ref', unit: 'mV', signal: sig }], {
           delimiter: l.delimiter, decimalMark, header: l.header, unitStyle: l.unitStyle, lineEnding: l.lineEnding,
           bom: l.bom, preamble: l.preamble ? 'auto' : undefined, precision: l.precision,
+          unitRow: l.unitRow, plusSign: l.plusSign,
+          // The preamble beside the data needs rows of data past its four entries, and a delimiter that is not a run of spaces.
+          preambleBeside: l.preambleBeside && l.preamble && l.rows >= 8 && l.delimiter !== ' ',
         });
         const path = write(`prop${k++}.csv`, text);
         const before = sha256(path);
@@ -140,7 +146,7 @@ describe('readCapture round trip (fast-check)', () => {
         // Relative rounding of precision significant digits, on values up to ~2× the amplitude.
         expectSamples(c.channels[0].samples, sig.values, peak * 10 ** (1 - l.precision), 'rounding to the written precision');
         expectWithin(c.sampleInterval, 1e-4, { rel: 1e-6 }, 'synthesizer rate 10 kHz');
-        const unitsInHeader = l.header && l.unitStyle !== 'none';
+        const unitsInHeader = l.header && (l.unitStyle !== 'none' || l.unitRow !== undefined);
         expect(c.channels[1].unit).toBe(unitsInHeader || l.preamble ? 'V' : '');
         if (unitsInHeader) expectSamples(c.channels[1].samples, sig.values, peak * 10 ** (1 - l.precision), 'mV written, V read');
       }),
