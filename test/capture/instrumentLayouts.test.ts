@@ -5,13 +5,21 @@
  * samples as written (rounded to the digits printed), never the reader's own output.
  */
 import { describe, expect, it } from 'vitest';
-import { readCapture } from '../../src/capture/index.js';
+import { inspectCapture, readCapture } from '../../src/capture/index.js';
+import { createStyle, renderInspectText } from '../../src/report/index.js';
 import { synthesize } from '../../src/synth/index.js';
 import { isBenchError } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';
 
-const write = tempFolder();
+const writeFile = tempFolder();
+/** Every file written here, with the options it is read with, for the `inspect` test at the end. */
+const written: { path: string; options: Record<string, unknown> }[] = [];
+const write = (name: string, text: string): string => {
+  const path = writeFile(name, text);
+  written.push({ path, options: {} });
+  return path;
+};
 const DT = 2e-5;
 const N = 2000;
 const T0 = -0.01;
@@ -210,5 +218,22 @@ describe('readCapture on what bench instruments write', () => {
     expect(one.metadata).toMatchObject({ Triangle: 'Pulse' });
     const skipped = await readCapture(write('rows-skip.csv', text), { interval: DT, skipRows: 2, headerRows: 0 });
     expect([skipped.layout.reading?.skippedLines, skipped.layout.headerLine, skipped.channels[0].unit]).toEqual([2, null, '']);
+  });
+
+  it('inspect explains every file above that reads: each line\'s role, the time base and the first samples', async () => {
+    let explained = 0;
+    for (const { path } of written) {
+      const options = /trait8c|two-ways-b|rows/.test(path) ? { interval: DT, scale: 0.04, delimiter: ',' as const, decimalMark: '.' as const } : {};
+      const doc = await inspectCapture(path, options).catch((e: unknown) => (isBenchError(e) ? null : Promise.reject(e)));
+      if (doc === null) continue;
+      explained++;
+      expect(doc.lines.some((l) => l.role === 'data' || l.role === 'data and preamble')).toBe(true);
+      expect(doc.firstRows.length).toBeGreaterThan(0);
+      const text = renderInspectText([doc], createStyle(false));
+      expect(text).toContain('time base');
+      expect(text).toContain(`${doc.capture.length} samples`);
+    }
+    // Every file written above but the two refused on purpose: the spectrum and the numbers that read two ways.
+    expect(explained).toBe(written.length - 2);
   });
 });
