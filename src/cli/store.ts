@@ -7,7 +7,7 @@
  */
 import { resolve } from 'node:path';
 import type { CommandContext } from './context.js';
-import { nearestNames, openStore, sha256Hex } from '../records/index.js';
+import { describeProblems, nearestNames, openStore, sha256Hex, unverifiedError } from '../records/index.js';
 import type { RecordStore, StoreAudit } from '../records/index.js';
 import type { Diagnosis, NewRun, StoredRun, UnitVerdict } from '../types/index.js';
 import { BenchError, STATEMENT_WORDS } from '../types/index.js';
@@ -22,46 +22,28 @@ export type { DataLocation, StoreFlags } from './dataOptions.js';
 
 export function openDataStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write'): { store: RecordStore; location: DataLocation } {
   const location = resolveDataDir(ctx, flags);
-  return { store: openStore(location.dir, { mode, label: location.shown }), location };
+  return { store: openStore(location.dir, { mode, label: location.shown, unverified: flags.allowUnverified ? 'mark' : 'refuse' }), location };
 }
 
 /**
  * Open the store and verify all of it (fingerprints, hash chain, archived captures) before anything
  * is read from it. Runs that fail are named in a `records.tampered` error (`records.damaged` when
  * every problem is a row that no longer parses), exit 2; with --allow-unverified they are named in
- * a warning on stderr instead, and the reports mark them.
+ * a warning on stderr instead, and the reports mark them. (The store itself refuses any read of an
+ * unverified store unless opened with `unverified: 'mark'`, so every other reader is covered too.)
  */
 export function openVerifiedStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write'): { store: RecordStore; location: DataLocation; audit: StoreAudit } {
   const { store, location } = openDataStore(ctx, flags, mode);
   try {
     const audit = store.audit();
     if (audit.problems.length === 0) return { store, location, audit };
-    if (!flags.allowUnverified) throw unverifiedError(location, audit);
+    if (!flags.allowUnverified) throw unverifiedError(location.shown, audit);
     ctx.io.stderr(`benchproof: warning: ${describeProblems(audit)}; these are marked and left out of yields and statistics (--allow-unverified)\n`);
     return { store, location, audit };
   } catch (err) {
     store.close();
     throw err;
   }
-}
-
-const SHOWN_PROBLEMS = 6;
-
-function describeProblems(audit: StoreAudit): string {
-  const rows = audit.problems.map((p) => `${p.kind === 'chain' ? 'the hash chain' : `${p.kind === 'run' ? 'run' : 'calibration iteration'} #${p.id}${p.unit !== null ? ` of ${p.unit}` : ''}`}: ${p.detail}`);
-  const more = rows.length > SHOWN_PROBLEMS ? `; and ${rows.length - SHOWN_PROBLEMS} more` : '';
-  return `${audit.problems.length} verification problem(s) in the records: ${rows.slice(0, SHOWN_PROBLEMS).join('; ')}${more}`;
-}
-
-function unverifiedError(location: DataLocation, audit: StoreAudit): BenchError {
-  const onlyDamaged = audit.problems.every((p) => p.problem === 'damaged');
-  return new BenchError({
-    code: onlyDamaged ? 'records.damaged' : 'records.tampered',
-    file: location.shown,
-    problem: describeProblems(audit),
-    expected: 'records that still match their fingerprints, the hash chain and their archived captures',
-    fix: 'keep a copy of the data folder as it is and restore records.db and captures/ from your last backup; to read the other runs anyway, with these marked, add --allow-unverified',
-  });
 }
 
 export interface CheckedUnit {

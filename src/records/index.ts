@@ -11,7 +11,7 @@ export type { CapabilityInput, SampleSummary } from './capability.js';
 export { summarizeBatch, ROUGH_BELOW_UNITS } from './summarizeBatch.js';
 export type { BatchFilter } from './summarizeBatch.js';
 export { compareSerials } from './unitSummaries.js';
-export { storeError } from './storeErrors.js';
+export { describeProblems, storeError, unverifiedError } from './storeErrors.js';
 export type { AuditProblem, AuditProblemKind, StoreAudit } from './auditStore.js';
 export { CHAIN_START, chainLink } from './chain.js';
 export { nearestNames } from './nearestNames.js';

@@ -14,7 +14,7 @@ import { distinct, readRuns, specText } from './readRuns.js';
 import type { RunFilter } from './readRuns.js';
 import { saveRun } from './saveRun.js';
 import type { SaveHooks } from './saveRun.js';
-import { damagedFileError, missingError, noRecordsError, openError, storeError } from './storeErrors.js';
+import { damagedFileError, missingError, noRecordsError, openError, storeError, unverifiedError } from './storeErrors.js';
 import { auditStore } from './auditStore.js';
 import type { StoreAudit } from './auditStore.js';
 import { chainHead } from './chain.js';
@@ -36,6 +36,12 @@ export interface OpenStoreOptions {
   readonly schemaVersion?: number;
   /** The folder as the user wrote it (e.g. `./benchproof-data`), for error messages. */
   readonly label?: string;
+  /**
+   * What reading does when the store fails verification (auditStore.ts): 'refuse' (the default)
+   * throws `records.tampered` (or `records.damaged`) naming the rows; 'mark' reads them marked
+   * (`intact: false`), damaged rows left out.
+   */
+  readonly unverified?: 'refuse' | 'mark';
 }
 
 export interface RecordStore {
@@ -71,7 +77,7 @@ export interface RecordStore {
 }
 
 export function openStore(dir: string, options: OpenStoreOptions = {}): RecordStore {
-  const { mode = 'write', busyTimeoutMs = 15_000, schemaVersion: upTo = LATEST_SCHEMA, label = dir } = options;
+  const { mode = 'write', busyTimeoutMs = 15_000, schemaVersion: upTo = LATEST_SCHEMA, label = dir, unverified = 'refuse' } = options;
   prepareFolder(dir, mode, label);
   const dbFile = join(dir, DATABASE_FILE);
   let db: Db | undefined;
@@ -88,7 +94,7 @@ export function openStore(dir: string, options: OpenStoreOptions = {}): RecordSt
     db?.close();
     throw openError(err, dir, label, mode);
   }
-  return wrap(db, dir, dbFile, version, label);
+  return wrap(db, dir, dbFile, version, label, unverified);
 }
 
 function prepareFolder(dir: string, mode: 'write' | 'read', label: string): void {
@@ -141,9 +147,15 @@ function guarded<T>(label: string, fn: () => T): T {
   }
 }
 
-function wrap(db: Db, dir: string, dbFile: string, version: number, label: string): RecordStore {
+function wrap(db: Db, dir: string, dbFile: string, version: number, label: string, unverified: 'refuse' | 'mark'): RecordStore {
   let audited: StoreAudit | undefined;
   const audit = (): StoreAudit => (audited ??= guarded(label, () => auditStore(db, dir)));
+  /** Every read goes through here: nothing is read from a store that failed verification unless asked. */
+  const verified = <T>(read: () => T): T => {
+    const found = audit();
+    if (found.problems.length > 0 && unverified === 'refuse') throw unverifiedError(label, found);
+    return guarded(label, read);
+  };
   const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set(audit().problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
   const mark = (runs: StoredRun[]): StoredRun[] => {
     const bad = flagged('run');
@@ -158,18 +170,18 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     dbFile,
     schemaVersion: version,
     saveRun: (run, hooks) => guarded(label, () => saveRun(db, dir, run, hooks)),
-    listUnits: (filter = {}) => guarded(label, () => withUnverified(listUnits(db, filter.spec), audit())),
-    unitRecord: (serial) => guarded(label, () => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial)))),
-    runs: (filter) => guarded(label, () => mark(readRuns(db, filter))),
-    unitSerials: () => guarded(label, () => [...new Set([...distinct(db, 'unit'), ...calibratedSerials(db)])].sort()),
-    specNames: () => guarded(label, () => distinct(db, 'spec_name')),
+    listUnits: (filter = {}) => verified(() => withUnverified(listUnits(db, filter.spec), audit())),
+    unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial)))),
+    runs: (filter) => verified(() => mark(readRuns(db, filter))),
+    unitSerials: () => verified(() => [...new Set([...distinct(db, 'unit'), ...calibratedSerials(db)])].sort()),
+    specNames: () => verified(() => distinct(db, 'spec_name')),
     specText: (sha256) => guarded(label, () => specText(db, sha256)),
     integrityCheck: () => guarded(label, () => (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check)),
     close: () => db.close(),
-    captureRecorded: (key) => guarded(label, () => captureRecorded(db, key)),
+    captureRecorded: (key) => verified(() => captureRecorded(db, key)),
     saveRunOnce: (run, hooks) => guarded(label, () => saveRunOnce(db, dir, run, hooks)),
     saveCalibration: (iteration) => guarded(label, () => saveCalibration(db, dir, iteration)),
-    calibrations: (serial) => guarded(label, () => markCalibrations(readCalibrations(db, serial))),
+    calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial))),
     audit,
     chainHead: () => guarded(label, () => chainHead(db)),
   };

@@ -4,6 +4,7 @@
  */
 import { accessSync, constants, statfsSync } from 'node:fs';
 import { BenchError } from '../types/index.js';
+import type { StoreAudit } from './auditStore.js';
 
 const OVERRIDE = 'give another folder with --data DIR or BENCHPROOF_DATA';
 
@@ -51,6 +52,27 @@ export function damagedFileError(dir: string, what: string): BenchError {
     problem: `${what}; benchproof will not start a new store over it`,
     expected: 'the records.db benchproof wrote in this data folder',
     fix: `do not delete it; restore records.db from your last backup, or ${OVERRIDE}`,
+  });
+}
+
+const SHOWN_PROBLEMS = 6;
+
+/** The verification problems of a store in one line: each row named with what is wrong with it. */
+export function describeProblems(audit: StoreAudit): string {
+  const rows = audit.problems.map((p) => `${p.kind === 'chain' ? 'the hash chain' : `${p.kind === 'run' ? 'run' : 'calibration iteration'} #${p.id}${p.unit !== null ? ` of ${p.unit}` : ''}`}: ${p.detail}`);
+  const more = rows.length > SHOWN_PROBLEMS ? `; and ${rows.length - SHOWN_PROBLEMS} more` : '';
+  return `${audit.problems.length} verification problem(s) in the records: ${rows.slice(0, SHOWN_PROBLEMS).join('; ')}${more}`;
+}
+
+/** Reading refused: `records.damaged` when every problem is a row that no longer parses, else `records.tampered`. */
+export function unverifiedError(dir: string, audit: StoreAudit): BenchError {
+  const onlyDamaged = audit.problems.every((p) => p.problem === 'damaged');
+  return new BenchError({
+    code: onlyDamaged ? 'records.damaged' : 'records.tampered',
+    file: dir,
+    problem: describeProblems(audit),
+    expected: 'records that still match their fingerprints, the hash chain and their archived captures',
+    fix: 'keep a copy of the data folder as it is and restore records.db and captures/ from your last backup; to read the other runs anyway, with these marked, add --allow-unverified',
   });
 }
 

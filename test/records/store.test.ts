@@ -87,7 +87,12 @@ describe('record store', () => {
     db.exec('DROP TRIGGER runs_no_update');
     db.prepare("UPDATE runs SET operator = 'someone else' WHERE id = ?").run(saved.id);
     db.close();
-    const again = openStore(dir, { mode: 'read' });
+    // By default every read of a store that fails verification is refused, naming the run.
+    const strict = openStore(dir, { mode: 'read' });
+    expect(() => strict.unitRecord('FK-0101')).toThrow(/run #1 of FK-0101: its content no longer matches/);
+    expect(() => strict.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
+    strict.close();
+    const again = openStore(dir, { mode: 'read', unverified: 'mark' });
     expect(again.unitRecord('FK-0101')!.runs[0].intact).toBe(false);
     again.close();
   });
