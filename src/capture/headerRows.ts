@@ -55,7 +55,10 @@ export function readHeaderRows(lines: readonly SampleLine[], start: number, ctx:
   const none: HeaderReading = { lines: [], namesLine: null, unitsLine: null, names: null, units: null, pairs: [], score: 0 };
   if (ctx.forced !== undefined) return forcedReading(ctx.forced, r1, r2, ctx, none);
   const candidates: HeaderReading[] = [none];
-  if (r1 && isNamesRow(r1.cells, ctx, false)) candidates.push(reading(r1, null, ctx));
+  // A names row may name more columns than the data holds (a channel switched off) when no cell
+  // starts like a value (`20.00uS`, `0.5`): then it is no `key,value` line.
+  const allText = r1 !== null && r1.cells.every((f) => !/^[+-]?[\d.,]/.test(f));
+  if (r1 && isNamesRow(r1.cells, ctx, allText)) candidates.push(reading(r1, null, ctx));
   if (r1 && isUnitsRow(r1.cells, ctx, false)) candidates.push(reading(null, r1, ctx));
   // Names over units may run past the data columns together (a column-wise preamble).
   const extra = r1 !== null && r2 !== null && r2.cells.length > ctx.columns && r1.cells.length === r2.cells.length;

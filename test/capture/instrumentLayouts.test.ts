@@ -193,6 +193,12 @@ describe('readCapture on what bench instruments write', () => {
     expect(c.layout.timeColumn).toBe(0);
   });
 
+  it('keeps the names of a header that names a channel the data does not hold (switched off)', async () => {
+    const c = await readCapture(write('off.csv', ['Time (s),CH1 (V),CH2 (V)', ...rows((i) => `${time(i).toExponential(6)},${tri[i].toFixed(4)}`)].join('\n')));
+    expect(c.channels.map((ch) => [ch.name, ch.unit])).toEqual([['CH1', 'V']]);
+    expect(c.layout.timeColumn).toBe(0);
+  });
+
   it('says that a spectrum export is a spectrum, not a waveform (trait 12)', async () => {
     const text = ['Frequency (Hz),Magnitude (dBV)', ...rows((i) => `${(i * 25).toFixed(1)},${(-60 - (i % 13)).toFixed(2)}`, 400)].join('\n');
     const f = await failure(write('spectrum.csv', text));
