@@ -6,9 +6,10 @@
  */
 import { readCapture } from '../capture/index.js';
 import { measureCapture } from '../analysis/index.js';
-import { SPEC_MAX_BYTES, bindCapture, decideUnits, parseSpec } from '../spec/index.js';
-import type { CapturePlan, Spec } from '../spec/index.js';
+import { SPEC_MAX_BYTES, bindCapture, decideUnits, parseSpec, planCapture } from '../spec/index.js';
+import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
 import { diagnoseUnit } from '../diagnose/index.js';
+import { BenchError } from '../types/index.js';
 import type { CheckedCapture, ReadCaptureOptions } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { resolvePath } from './context.js';
@@ -34,16 +35,47 @@ export type TimingOptions = Pick<ReadCaptureOptions, 'sampleRate' | 'interval'>;
 
 const quiet: Progress = { start() {}, update() {}, stop() {} };
 
+/** A planned capture, possibly read from another place than the path it is recorded under (the archive). */
+export type SourcedPlan = CapturePlan & { readonly readFrom?: string };
+
+/**
+ * Map each file to its unit and condition. With --unit, a file whose name names another unit is
+ * refused unless `forceUnit` confirms it: a capture of FK-0102 must not land in FK-0103's record by a
+ * slip. The file keeps its own name in the record either way.
+ */
+export function planFiles(spec: Spec, files: readonly string[], overrides: PlanOverrides, forceUnit = false): CapturePlan[] {
+  return files.map((file) => {
+    const plan = planCapture(spec, file, overrides);
+    if (overrides.unit === undefined || forceUnit) return plan;
+    let named: string | undefined;
+    try {
+      named = planCapture(spec, file, { condition: overrides.condition }).unit;
+    } catch {
+      named = undefined; // the name carries no unit (e.g. scope-01.csv): --unit is the only one
+    }
+    if (named !== undefined && named !== overrides.unit) {
+      throw new BenchError({
+        code: 'check.unit-mismatch',
+        file,
+        problem: `the file name says unit ${named}, but --unit says ${overrides.unit}`,
+        expected: `captures of ${overrides.unit}, or file names without a unit`,
+        fix: `leave out --unit to record it under ${named}, or add --force-unit to record it under ${overrides.unit} (the file name is kept)`,
+      });
+    }
+    return plan;
+  });
+}
+
 /**
  * Read, measure and bind every planned capture in order, then decide each unit and diagnose it.
  * The first capture that cannot be read stops the whole check with its BenchError.
  */
-export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonly CapturePlan[], timing: TimingOptions, progress: Progress = quiet): Promise<CheckedUnit[]> {
+export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonly SourcedPlan[], timing: TimingOptions, progress: Progress = quiet): Promise<CheckedUnit[]> {
   const checked: CheckedCapture[] = [];
   try {
     for (const plan of plans) {
       let started = false;
-      const capture = await readCapture(resolvePath(ctx.io.cwd, plan.path), {
+      const capture = await readCapture(plan.readFrom ?? resolvePath(ctx.io.cwd, plan.path), {
         ...timing,
         onProgress: (done, total) => {
           if (!started) progress.start(plan.path, total);

@@ -10,8 +10,10 @@ import type { CommandContext } from './context.js';
 import { describeProblems, nearestNames, openStore, sha256Hex, unverifiedError } from '../records/index.js';
 import type { RecordStore, StoreAudit } from '../records/index.js';
 import type { Diagnosis, NewRun, StoredRun, UnitVerdict } from '../types/index.js';
-import { BenchError, STATEMENT_WORDS } from '../types/index.js';
+import { BenchError } from '../types/index.js';
 import { TOOL_VERSION } from './version.js';
+import { attemptFields, describeStoredRun, nextStep } from './attemptNotice.js';
+import type { AttemptRequest } from './attemptNotice.js';
 import { writeOutputFile } from './outputFile.js';
 import { notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
 import type { DataLocation, StoreFlags } from './dataOptions.js';
@@ -55,7 +57,7 @@ export interface CheckedUnit {
  * Store every checked unit of one `check` run (one transaction per unit) and print one notice line.
  * `specText` is kept only when it is exactly the text the spec's SHA-256 was taken of.
  */
-export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units: readonly CheckedUnit[], startedAt: string, specText?: string): StoredRun[] {
+export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units: readonly CheckedUnit[], startedAt: string, specText?: string, request: AttemptRequest = {}): StoredRun[] {
   if (flags.store === false || units.length === 0) return [];
   const { store, location } = openDataStore(ctx, flags, 'write');
   const operator = resolveOperator(ctx, flags);
@@ -63,7 +65,7 @@ export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units:
   const stored: StoredRun[] = [];
   try {
     for (const unit of units) {
-      const run = runOf(ctx, unit, { operator, station }, startedAt, specText);
+      const run = { ...runOf(ctx, unit, { operator, station }, startedAt, specText, request.sources), ...attemptFields(request) };
       stored.push(store.saveRun(run));
     }
   } finally {
@@ -72,7 +74,7 @@ export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units:
   const where = `${location.shown}${location.source === 'default' ? ' (BENCHPROOF_DATA or --data chooses another folder)' : ` (from ${location.source})`}`;
   if (stored.length === 1) {
     const r = stored[0];
-    notice(ctx, `stored run #${r.id} of ${r.unit} (${STATEMENT_WORDS[r.statement]}) in ${where}`, `benchproof record ${quoteArg(r.unit)} --format html --out ${quoteArg(`${r.unit}-record.html`)}`);
+    notice(ctx, `stored ${describeStoredRun(r)} in ${where}`, nextStep(r, units[0].diagnosis, request.specFile));
   } else {
     notice(ctx, `stored ${stored.length} runs (${stored.map((r) => r.unit).join(', ')}) in ${where}`, 'benchproof units');
   }
@@ -108,7 +110,7 @@ export interface RunAuthor {
  * The run one checked unit is stored as. `specText` is kept only when it is exactly the text the
  * spec's SHA-256 was taken of; capture bytes are read again from their files for the archive.
  */
-export function runOf(ctx: CommandContext, { verdict, diagnosis }: CheckedUnit, author: RunAuthor, startedAt: string, specText?: string): NewRun {
+export function runOf(ctx: CommandContext, { verdict, diagnosis }: CheckedUnit, author: RunAuthor, startedAt: string, specText?: string, sources?: ReadonlyMap<string, string>): NewRun {
   const text = specText !== undefined && sha256Hex(specText) === verdict.spec.sha256 ? specText : undefined;
   return {
     unit: verdict.unit,
@@ -119,6 +121,6 @@ export function runOf(ctx: CommandContext, { verdict, diagnosis }: CheckedUnit, 
     toolVersion: TOOL_VERSION,
     verdict,
     diagnosis,
-    captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: resolve(ctx.io.cwd, c.path) })),
+    captures: verdict.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, sourcePath: sources?.get(c.sha256) ?? resolve(ctx.io.cwd, c.path) })),
   };
 }

@@ -35,6 +35,10 @@ export interface DigestedRun {
   readonly verdict: UnitVerdict;
   readonly diagnosis: Diagnosis;
   readonly captures: readonly Omit<StoredCapture, 'archivePath'>[];
+  /** Schema 5 (attempts); absent on older runs, so their digests are unchanged. */
+  readonly attempt?: number;
+  readonly attemptReason?: string;
+  readonly note?: string;
 }
 
 export function runDigest(run: DigestedRun): string {
@@ -49,6 +53,10 @@ export function runDigest(run: DigestedRun): string {
     verdict: run.verdict,
     diagnosis: run.diagnosis,
     captures: run.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition })),
+    // Left out when undefined (canonicalJson), so a run stored before attempts hashes as it did.
+    attempt: run.attempt,
+    attemptReason: run.attemptReason,
+    note: run.note,
   };
   return sha256Hex(canonicalJson(doc));
 }

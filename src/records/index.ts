@@ -15,5 +15,7 @@ export { describeProblems, storeError, unverifiedError } from './storeErrors.js'
 export type { AuditProblem, AuditProblemKind, StoreAudit } from './auditStore.js';
 export { CHAIN_START, chainLink } from './chain.js';
 export { nearestNames } from './nearestNames.js';
+export { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
+export type { AttemptFacts, OpenAttempt } from './attempts.js';
 export type { CaptureKey, SaveOnceResult } from './captureSeen.js';
 export type { SavedIteration } from './calibrationSave.js';

@@ -10,6 +10,7 @@ import { migrateTo1 } from './migration1.js';
 import { migrateTo2 } from './migration2.js';
 import { migrateTo3 } from './migration3.js';
 import { migrateTo4 } from './migration4.js';
+import { migrateTo5 } from './migration5.js';
 
 export interface Migration {
   readonly version: number;
@@ -22,6 +23,7 @@ export const MIGRATIONS: readonly Migration[] = [
   { version: 2, name: 'every measured value with its uncertainty; append-only triggers', up: migrateTo2 },
   { version: 3, name: 'calibration runs with their iterations', up: migrateTo3 },
   { version: 4, name: 'hash chain over every stored run and iteration', up: migrateTo4 },
+  { version: 5, name: 'test attempts: attempt number, reason and note on each run', up: migrateTo5 },
 ];
 
 export const LATEST_SCHEMA: number = MIGRATIONS[MIGRATIONS.length - 1].version;

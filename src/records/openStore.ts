@@ -19,6 +19,8 @@ import { auditStore } from './auditStore.js';
 import type { StoreAudit } from './auditStore.js';
 import { chainHead } from './chain.js';
 import { buildUnitRecord, listUnits } from './unitSummaries.js';
+import { numberRuns, openAttempt } from './attempts.js';
+import type { OpenAttempt } from './attempts.js';
 import { calibratedSerials, readCalibrations, withCalibrations } from './calibrationRead.js';
 import { saveCalibration } from './calibrationSave.js';
 import type { SavedIteration } from './calibrationSave.js';
@@ -67,6 +69,8 @@ export interface RecordStore {
   saveCalibration(iteration: NewCalibrationIteration): SavedIteration;
   /** The unit's calibration runs with their iterations, oldest first. */
   calibrations(serial: string): StoredCalibrationRun[];
+  /** The unit's test attempt a new run under this spec name would continue, if one is open (attempts.ts). */
+  openAttempt(serial: string, specName: string): OpenAttempt | undefined;
   /**
    * Verify the whole store (fingerprints, hash chain, archived captures; auditStore.ts). Computed once
    * per open store; runs() and unitRecord() mark every run it names as not intact.
@@ -182,6 +186,9 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     saveRunOnce: (run, hooks) => guarded(label, () => saveRunOnce(db, dir, run, hooks)),
     saveCalibration: (iteration) => guarded(label, () => saveCalibration(db, dir, iteration)),
     calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial))),
+    // Like saveRun, not behind the audit: it only chooses which archived captures a new check re-reads,
+    // and archiving them again re-checks their SHA-256 (archive.ts).
+    openAttempt: (serial, specName) => guarded(label, () => openAttempt(db, numberRuns(readRuns(db, { unit: serial })), specName)),
     audit,
     chainHead: () => guarded(label, () => chainHead(db)),
   };

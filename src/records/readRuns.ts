@@ -5,7 +5,7 @@
  * returned as damaged, naming its number, and the other runs stay readable.
  */
 import type { Database } from 'better-sqlite3';
-import type { RunKind, Statement, StoredCapture, StoredRun } from '../types/index.js';
+import type { AttemptReason, RunKind, Statement, StoredCapture, StoredRun } from '../types/index.js';
 import { runDigest } from './digest.js';
 import { parseDiagnosis, parseVerdict } from './rowShape.js';
 
@@ -25,6 +25,10 @@ interface RunRow {
   verdict_json: string;
   diagnosis_json: string;
   digest: string;
+  /** Schema 5; NULL on runs stored before it. */
+  attempt?: number | null;
+  attempt_reason?: string | null;
+  note?: string | null;
 }
 
 interface CaptureRow {
@@ -123,6 +127,7 @@ function toStoredRun(row: RunRow, captures: readonly StoredCapture[]): StoredRun
     diagnosis: diagnosis.value,
     captures,
     digest: String(row.digest),
+    ...attemptColumns(row),
   };
   const intact = runDigest(run) === row.digest && run.verdict.statement === run.statement && run.verdict.unit === run.unit;
   return { ...run, intact };
@@ -138,4 +143,13 @@ export function distinct(db: Database, column: 'unit' | 'spec_name'): string[] {
 export function specText(db: Database, sha256: string): string | undefined {
   const row = db.prepare('SELECT text FROM specs WHERE sha256 = ?').get(sha256) as { text: Buffer | null } | undefined;
   return row?.text ? Buffer.from(row.text).toString('utf8') : undefined;
+}
+
+/** The schema-5 columns of a run row, only where set (runs stored before keep their digest). */
+function attemptColumns(row: RunRow): Pick<StoredRun, 'attempt' | 'attemptReason' | 'note'> {
+  return {
+    ...(typeof row.attempt === 'number' ? { attempt: row.attempt } : {}),
+    ...(typeof row.attempt_reason === 'string' ? { attemptReason: row.attempt_reason as AttemptReason } : {}),
+    ...(typeof row.note === 'string' ? { note: row.note } : {}),
+  };
 }

@@ -9,6 +9,9 @@ import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
 import { archiveCapture } from './archive.js';
 import { runDigest, sha256Hex } from './digest.js';
 import { insertMeasurements } from './measurementRows.js';
+import { numberRuns, placeRun } from './attempts.js';
+import type { AttemptPlacement } from './attempts.js';
+import { readRuns } from './readRuns.js';
 import { appendLink } from './chain.js';
 
 /** Fault injection for tests: called inside the transaction after every row is written, before commit. */
@@ -41,19 +44,22 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
     diagnosis: run.diagnosis,
     captures,
   } as const;
-  const digest = runDigest(base);
   const write = db.transaction((): StoredRun => {
     const storedAt = new Date().toISOString();
-    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures);
+    // The attempt is decided inside the transaction, and the run's fingerprint covers it and the note.
+    const numbered = numberRuns(readRuns(db, { unit: run.unit }));
+    const placed = { ...placeRun(db, run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
+    const digest = runDigest({ ...base, ...placed });
+    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed);
     // The run joins the hash chain in the same transaction: stored and chained, or neither.
     appendLink(db, 'run', id, digest);
     hooks.beforeCommit?.();
-    return { id, storedAt, digest, intact: true, ...base };
+    return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
   });
   return write.immediate();
 }
 
-function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[]): number {
+function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }): number {
   const { spec, verdict } = run;
   const text = spec.text === undefined ? null : Buffer.from(spec.text);
   db.prepare('INSERT OR IGNORE INTO specs (sha256, name, revision, text) VALUES (?, ?, ?, ?)').run(spec.sha256, spec.name, spec.revision, text);
@@ -61,11 +67,12 @@ function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: stri
   const info = db
     .prepare(
       `INSERT INTO runs (unit, kind, started_at, stored_at, operator, station, spec_name, spec_revision, spec_sha256,
-        tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+        tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     )
     .run(run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, JSON.stringify(verdict), JSON.stringify(run.diagnosis), digest);
+      run.toolVersion, verdict.decisionRule, verdict.statement, JSON.stringify(verdict), JSON.stringify(run.diagnosis), digest,
+      placed.attempt, placed.attemptReason ?? null, placed.note ?? null);
   const runId = Number(info.lastInsertRowid);
   const cond = db.prepare('INSERT INTO condition_results (run_id, condition, statement) VALUES (?, ?, ?)');
   const check = db.prepare(`INSERT INTO checks (run_id, seq, condition, output, measurement, unit, value, expanded_uncertainty,

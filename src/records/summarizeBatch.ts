@@ -7,6 +7,7 @@
 import type { BatchReport, BatchUnit, CheckVerdict, MeasurementStats, SpecBatch, Statement, StoredRun, YieldFigure } from '../types/index.js';
 import { capability, describeSample } from './capability.js';
 import { compareSerials } from './unitSummaries.js';
+import { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
 
 export interface BatchFilter {
   readonly spec?: string;
@@ -38,26 +39,39 @@ function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number):
   const ordered = [...runs].sort((a, b) => a.startedAt.localeCompare(b.startedAt) || a.id - b.id);
   for (const r of ordered) byUnit.set(r.unit, [...(byUnit.get(r.unit) ?? []), r]);
   const kept = [...byUnit.entries()].filter(([, list]) => Date.parse(list[0].startedAt) >= since).sort(([a], [b]) => compareSerials(a, b));
-  const units: BatchUnit[] = kept.map(([unit, list]) => ({
-    unit,
-    runs: list.length,
-    first: list[0].statement,
-    latest: list[list.length - 1].statement,
-    firstTestedAt: list[0].startedAt,
-    lastTestedAt: list[list.length - 1].startedAt,
-    latestRunId: list[list.length - 1].id,
-  }));
+  // Yields count attempts, not runs: a unit's first complete attempt decides first-pass, its latest final.
+  const attempts = new Map(kept.map(([unit, list]) => [unit, summarizeAttempts(numberRuns(list))]));
+  const units: BatchUnit[] = kept.map(([unit, list]) => {
+    const facts = attemptFacts(attempts.get(unit) ?? []);
+    return {
+      unit,
+      runs: list.length,
+      first: facts.firstComplete ?? list[0].statement,
+      latest: list[list.length - 1].statement,
+      firstTestedAt: list[0].startedAt,
+      lastTestedAt: list[list.length - 1].startedAt,
+      latestRunId: list[list.length - 1].id,
+      ...facts,
+    };
+  });
   const keptRuns = kept.flatMap(([, list]) => list);
   const revisions = [...new Set(keptRuns.map((r) => r.spec.revision))];
-  const latestRuns = kept.map(([, list]) => list[list.length - 1]);
+  // The statistics take each unit's latest complete attempt; a unit still waiting adds nothing yet.
+  const latestRuns = kept.flatMap(([unit, list]) => {
+    const done = (attempts.get(unit) ?? []).filter((a) => a.state === 'complete');
+    const id = done.length ? done[done.length - 1].runIds.at(-1) : undefined;
+    return list.filter((r) => r.id === id);
+  });
+  const complete = units.filter((u) => u.latestComplete !== undefined);
   const notes = revisions.length > 1 ? [`runs were checked under ${revisions.length} spec revisions (${revisions.join(', ')})`] : [];
   return {
     spec,
     revisions,
     units,
     runs: keptRuns.length,
-    firstPass: yieldOf(units.map((u) => u.first)),
-    final: yieldOf(units.map((u) => u.latest)),
+    firstPass: yieldOf(complete.map((u) => u.firstComplete ?? u.first)),
+    final: yieldOf(complete.map((u) => u.latestComplete ?? u.latest)),
+    incomplete: units.filter((u) => u.latestComplete === undefined).map((u) => ({ unit: u.unit, waitingFor: u.waitingFor ?? [] })),
     measurements: measurementStats(latestRuns),
     notes,
   };

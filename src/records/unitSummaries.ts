@@ -1,6 +1,8 @@
 /** The unit listing and the per-unit record, built from stored runs. The latest run decides the status. */
 import type { Database } from 'better-sqlite3';
 import type { RunSpec, Statement, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
+import { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
+import { readRuns } from './readRuns.js';
 
 interface SummaryRow {
   unit: string;
@@ -48,6 +50,7 @@ export function listUnits(db: Database, spec?: string): UnitSummary[] {
       firstTestedAt: first.started_at,
       lastTestedAt: last.started_at,
       runs: last.n,
+      ...attemptFacts(summarizeAttempts(numberRuns(readRuns(db, { unit })))),
     });
   }
   return out.sort((a, b) => compareSerials(a.unit, b.unit));
@@ -58,6 +61,9 @@ export function buildUnitRecord(unit: string, runs: readonly StoredRun[]): UnitR
   if (runs.length === 0) return undefined;
   const latest = runs[runs.length - 1];
   const spec: RunSpec = latest.spec;
+  const numbered = numberRuns(runs);
+  const attempts = summarizeAttempts(numbered);
+  const { state, waitingFor } = attemptFacts(attempts);
   return {
     schemaVersion: 1,
     unit,
@@ -65,6 +71,9 @@ export function buildUnitRecord(unit: string, runs: readonly StoredRun[]): UnitR
     spec,
     firstTestedAt: runs[0].startedAt,
     lastTestedAt: latest.startedAt,
-    runs,
+    runs: numbered,
+    attempts,
+    state,
+    waitingFor,
   };
 }

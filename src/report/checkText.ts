@@ -4,7 +4,7 @@
  * user's hints, then the circuit view (when the spec has a design section), the ranked likely causes
  * with evidence and the next measurement, and one overall line per unit.
  */
-import { STATEMENT_WORDS } from '../types/index.js';
+import { INCOMPLETE_WORD, STATEMENT_WORDS, waitingConditions } from '../types/index.js';
 import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
 import { formatLimits, formatMeasured, formatQuantity } from './unitsSi.js';
@@ -29,6 +29,10 @@ export function renderCheckText(units: readonly UnitCheck[], style: TextStyle): 
 function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string {
   const lines = [style.bold(`${verdict.unit} · ${verdict.spec.name} rev ${verdict.spec.revision}`), style.dim(RULE_WORDS[verdict.decisionRule]), ''];
   for (const cond of verdict.conditions) {
+    if (cond.waiting) {
+      lines.push(`${style.bold(cond.condition)}  ${style.dim('waiting for a capture: not checked yet')}`, '');
+      continue;
+    }
     const outputs = [...new Set(cond.checks.map((c) => c.output))];
     for (const output of outputs) {
       const capture = verdict.captures.find((c) => c.condition === cond.condition && c.outputs.some((o) => o.output === output));
@@ -39,7 +43,11 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string
     }
   }
   lines.push(...renderCircuitView(diagnosis.circuit, style));
-  lines.push(...renderCauses(diagnosis, verdict.statement, style));
+  const waiting = waitingConditions(verdict);
+  const causes = renderCauses(diagnosis, verdict.statement, style);
+  // Causes named from part of the conditions may change once the rest lands.
+  if (waiting.length && causes.length) causes[0] = `${causes[0]} ${style.dim(`(preliminary: waiting for ${waiting.join(', ')})`)}`;
+  lines.push(...causes);
   lines.push(overallLine(verdict, style), '');
   return lines.join('\n');
 }
@@ -81,9 +89,14 @@ function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextSty
 }
 
 function overallLine(verdict: UnitVerdict, style: TextStyle): string {
-  const checks = verdict.conditions.flatMap((c) => c.checks);
+  const checks = verdict.conditions.filter((c) => !c.waiting).flatMap((c) => c.checks);
   const count = (s: Statement): number => checks.filter((c) => c.statement === s).length;
   const parts = [`${count('fail')} failed`, `${count('conditional-fail')} cond. failed`, `${count('not-measured')} not measured`, `${count('conditional-pass')} cond. passed`];
+  const waiting = waitingConditions(verdict);
+  if (waiting.length) {
+    const soFar = verdict.soFar ?? verdict.statement;
+    return `${style.bold(verdict.unit)}: ${style.bold(INCOMPLETE_WORD)}, waiting for ${waiting.join(', ')}  ${style.dim(`(so far ${STATEMENT_WORDS[soFar]}: ${parts.join(', ')} of ${checks.length} checks captured)`)}`;
+  }
   return `${style.bold(verdict.unit)}: ${style.statement(verdict.statement)}  ${style.dim(`(${parts.join(', ')} of ${checks.length} checks)`)}`;
 }
 
@@ -94,12 +107,17 @@ function overallLine(verdict: UnitVerdict, style: TextStyle): string {
 export function renderCheckSummary(units: readonly UnitCheck[], style: TextStyle): string {
   const width = Math.max(4, ...units.map((u) => u.verdict.unit.length));
   const lines = units.map(({ verdict, diagnosis }) => {
-    const checks = verdict.conditions.flatMap((c) => c.checks);
+    const waiting = waitingConditions(verdict);
+    const checks = verdict.conditions.filter((c) => !c.waiting).flatMap((c) => c.checks);
     const off = checks.filter((c) => c.statement !== 'pass').length;
-    const word = STATEMENT_WORDS[verdict.statement];
-    const cause = diagnosis.causes[0] ? `likely cause: ${diagnosis.causes[0].title}` : '';
-    const counted = `${off} of ${checks.length} checks not passed`;
-    return `${verdict.unit.padEnd(width)}  ${style.statement(verdict.statement)}${' '.repeat(Math.max(1, 13 - word.length))}${style.dim(counted)}${cause ? `  ${cause}` : ''}`;
+    const word = waiting.length ? INCOMPLETE_WORD : STATEMENT_WORDS[verdict.statement];
+    const shown = waiting.length ? style.bold(INCOMPLETE_WORD) : style.statement(verdict.statement);
+    const first = diagnosis.causes[0];
+    const cause = first ? `likely cause${waiting.length ? ' (preliminary)' : ''}: ${first.title}` : '';
+    const counted = waiting.length
+      ? `waiting for ${waiting.join(', ')}; so far ${STATEMENT_WORDS[verdict.soFar ?? verdict.statement]}, ${off} of ${checks.length} checks not passed`
+      : `${off} of ${checks.length} checks not passed`;
+    return `${verdict.unit.padEnd(width)}  ${shown}${' '.repeat(Math.max(1, 13 - word.length))}${style.dim(counted)}${cause ? `  ${cause}` : ''}`;
   });
   return `${lines.join('\n')}\n`;
 }

@@ -7,6 +7,7 @@ import { esc, facts, numCell, statusHtml, table } from './htmlPage.js';
 import { renderPlotsSection, renderTrendsSection } from './htmlRecordPlots.js';
 import { renderCalibrationSection } from './calibrationHtml.js';
 import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
 
 export interface RecordHtmlSection {
   readonly id: string;
@@ -24,6 +25,7 @@ function header(rec: UnitRecord): string {
     ['first tested', esc(formatTime(rec.firstTestedAt))],
     ['last tested', esc(formatTime(rec.lastTestedAt))],
     ['runs', String(rec.runs.length)],
+    ['test attempts', String(rec.attempts?.length ?? rec.runs.length)],
     ['operator', distinct(rec.runs.map((r) => r.operator))],
     ['station', distinct(rec.runs.map((r) => r.station))],
     ['tool version', distinct(rec.runs.map((r) => r.toolVersion))],
@@ -37,7 +39,10 @@ function status(rec: UnitRecord): string {
   const warn = changed.length
     ? `<p class="warning">Run ${changed.map((r) => `#${r.id}`).join(', ')} no longer matches the fingerprint taken when it was stored: its content was changed outside benchproof. Do not rely on it.</p>`
     : `<p class="note">All ${rec.runs.length} run(s) match the SHA-256 fingerprints taken when they were stored.</p>`;
-  return `<section id="status"><h2>Current status</h2><p>${statusHtml(rec.status, true)} <span class="note">decided by the latest run, #${last.id} of ${esc(formatTime(last.startedAt))}</span></p>${warn}</section>`;
+  const attempt = rec.attempts?.[rec.attempts.length - 1];
+  const shown = attempt?.state === 'incomplete' ? `<span class="status big" data-state="incomplete">${esc(stateWords(attempt))}</span>` : statusHtml(rec.status, true);
+  const since = calibratedSinceText(rec);
+  return `<section id="status"><h2>Current status</h2><p>${shown} <span class="note">decided by the latest run, ${esc(runLabel(last))} of ${esc(formatTime(last.startedAt))}</span></p>${warn}${since ? `<p class="warning">${esc(since)}</p>` : ''}</section>`;
 }
 
 export function checkRow(run: StoredRun, k: CheckVerdict): string {
@@ -48,10 +53,11 @@ export function checkRow(run: StoredRun, k: CheckVerdict): string {
 function conditions(rec: UnitRecord): string {
   const last = latestRun(rec);
   const parts = last.verdict.conditions.map((c) => {
+    if (c.waiting) return `<section class="condition" data-waiting="true"><h3>Condition ${esc(c.condition)} — waiting for a capture</h3></section>`;
     const rows = c.checks.map((k) => checkRow(last, k));
     return `<section class="condition"><h3>Condition ${esc(c.condition)} — ${statusHtml(c.statement)}</h3>${table(['output', 'measurement', 'measured (± U, k = 2)', 'U', 'limits', 'margin', 'statement', 'note'], rows)}</section>`;
   });
-  return `<section id="results"><h2>Results of the latest run (#${last.id})</h2>${parts.join('')}</section>`;
+  return `<section id="results"><h2>Results of the latest run (${esc(runLabel(last))})</h2>${parts.join('')}</section>`;
 }
 
 function causes(rec: UnitRecord): string {
@@ -65,14 +71,22 @@ function causes(rec: UnitRecord): string {
     const rows = v.figures.map((f) => `<tr><td>${esc(f.label)}</td>${numCell(f.value, formatMeasured(f.value, f.uncertainty, f.unit))}${numCell(f.design, formatQuantity(f.design, f.unit))}${numCell(f.deviation, f.deviation === undefined ? '—' : `${f.deviation.toFixed(2)} %`)}<td>${esc(f.note ?? '')}</td></tr>`);
     return `<h3>Circuit figures at ${esc(v.condition)}</h3>${table(['figure', 'from the captures', 'design', 'deviation', 'note'], rows)}`;
   });
-  return `<section id="causes"><h2>Likely causes</h2>${list}${circuit.join('')}</section>`;
+  const preliminary = rec.state === 'incomplete' ? ` <span class="note">(preliminary: waiting for ${esc((rec.waitingFor ?? []).join(', '))})</span>` : '';
+  return `<section id="causes"><h2>Likely causes${preliminary}</h2>${list}${circuit.join('')}</section>`;
+}
+
+/** The unit's test attempts with why each opened and the notes of what was done. */
+function attempts(rec: UnitRecord): string {
+  if (!rec.attempts?.length) return '';
+  const rows = attemptRows(rec).map((cells, i) => `<tr data-attempt="${rec.attempts![rec.attempts!.length - 1 - i].number}">${cells.map((c) => `<td>${esc(c)}</td>`).join('')}</tr>`);
+  return `<section id="attempts"><h2>Test attempts</h2>${table([...ATTEMPT_HEAD], rows)}</section>`;
 }
 
 function history(rec: UnitRecord): string {
   const rows = [...rec.runs].reverse().map(
-    (r) => `<tr data-run="${r.id}"><td>#${r.id}</td><td>${esc(formatTime(r.startedAt))}</td><td>${esc(r.operator)}</td><td>${esc(r.station)}</td><td>${esc(r.spec.revision)}</td><td>${esc(r.toolVersion)}</td><td>${statusHtml(r.statement)}</td><td>${r.intact ? 'matches' : '<strong>CHANGED</strong>'}</td></tr>`,
+    (r) => `<tr data-run="${r.id}"><td>${r.number !== undefined ? `${r.number} (#${r.id})` : `#${r.id}`}${r.attempt !== undefined ? `, attempt #${r.attempt}` : ''}</td><td>${esc(formatTime(r.startedAt))}</td><td>${esc(r.operator)}</td><td>${esc(r.station)}</td><td>${esc(r.spec.revision)}</td><td>${esc(r.toolVersion)}</td><td>${statusHtml(r.statement)}</td><td>${r.intact ? 'matches' : '<strong>CHANGED</strong>'}</td></tr>`,
   );
-  return `<section id="history"><h2>History of runs</h2>${table(['run', 'started', 'operator', 'station', 'spec rev.', 'tool', 'status', 'fingerprint'], rows)}</section>`;
+  return `<section id="history"><h2>History of runs</h2>${table(['run (# in data folder), attempt', 'started', 'operator', 'station', 'spec rev.', 'tool', 'status', 'fingerprint'], rows)}</section>`;
 }
 
 function captures(rec: UnitRecord): string {
@@ -90,6 +104,7 @@ export const RECORD_HTML_SECTIONS: readonly RecordHtmlSection[] = [
   { id: 'plots', render: renderPlotsSection },
   { id: 'trends', render: renderTrendsSection },
   { id: 'calibration', render: renderCalibrationSection },
+  { id: 'attempts', render: attempts },
   { id: 'history', render: history },
   { id: 'captures', render: captures },
 ];

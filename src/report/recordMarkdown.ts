@@ -7,6 +7,7 @@ import { STATEMENT_WORDS } from '../types/index.js';
 import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
 import { renderCalibrationMarkdown } from './calibrationMarkdown.js';
 import { mdText } from './escapeText.js';
+import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
 
 /** Escape what Markdown tables, emphasis and raw HTML would take as syntax (escapeText.ts). */
 export const md = mdText;
@@ -24,7 +25,7 @@ function header(rec: UnitRecord): string {
     `# Test record — unit ${md(rec.unit)}`,
     '',
     `- spec: ${md(rec.spec.name)}, revision ${md(rec.spec.revision)} (SHA-256 \`${rec.spec.sha256}\`)`,
-    `- tested: ${formatTime(rec.firstTestedAt)} … ${formatTime(rec.lastTestedAt)}, ${rec.runs.length} run(s)`,
+    `- tested: ${formatTime(rec.firstTestedAt)} … ${formatTime(rec.lastTestedAt)}, ${rec.runs.length} run(s) in ${rec.attempts?.length ?? rec.runs.length} attempt(s)`,
     `- operator: ${distinct(rec.runs.map((r) => r.operator))}; station: ${distinct(rec.runs.map((r) => r.station))}`,
     `- tool version: ${distinct(rec.runs.map((r) => r.toolVersion))}`,
   ].join('\n');
@@ -36,7 +37,10 @@ function status(rec: UnitRecord): string {
   const integrity = changed.length
     ? `**Warning:** run ${changed.join(', ')} no longer matches its stored fingerprint; its content was changed outside benchproof.`
     : `All ${rec.runs.length} run(s) match their stored SHA-256 fingerprints.`;
-  return `## Current status: **${STATEMENT_WORDS[rec.status]}**\n\nDecided by the latest run, #${last.id} of ${formatTime(last.startedAt)}. ${integrity}`;
+  const attempt = rec.attempts?.[rec.attempts.length - 1];
+  const word = attempt ? stateWords(attempt) : STATEMENT_WORDS[rec.status];
+  const since = calibratedSinceText(rec);
+  return `## Current status: **${md(word)}**\n\nDecided by the latest run, ${runLabel(last)} of ${formatTime(last.startedAt)}. ${integrity}${since ? `\n\n${since}` : ''}`;
 }
 
 function checkCells(k: CheckVerdict): string[] {
@@ -53,10 +57,10 @@ function checkCells(k: CheckVerdict): string[] {
 
 function conditions(rec: UnitRecord): string {
   const last = latest(rec);
-  const blocks = last.verdict.conditions.map(
-    (c) => `### Condition ${md(c.condition)} — ${STATEMENT_WORDS[c.statement]}\n\n${mdTable(['output', 'measurement', 'measured (± U, k = 2)', 'limits', 'margin', 'statement', 'note'], c.checks.map(checkCells))}`,
+  const blocks = last.verdict.conditions.map((c) =>
+    c.waiting ? `### Condition ${md(c.condition)} — waiting for a capture` : `### Condition ${md(c.condition)} — ${STATEMENT_WORDS[c.statement]}\n\n${mdTable(['output', 'measurement', 'measured (± U, k = 2)', 'limits', 'margin', 'statement', 'note'], c.checks.map(checkCells))}`,
   );
-  return [`## Results of the latest run (#${last.id})`, ...blocks].join('\n\n');
+  return [`## Results of the latest run (${runLabel(last)})`, ...blocks].join('\n\n');
 }
 
 function causes(rec: UnitRecord): string {
@@ -67,7 +71,8 @@ function causes(rec: UnitRecord): string {
     if (c.where) lines.push(`   - where to look: ${md(c.where)}`);
     return lines.join('\n');
   });
-  return `## Likely causes\n\n${items.join('\n')}${circuitFigures(rec)}`;
+  const preliminary = rec.state === 'incomplete' ? ` (preliminary: waiting for ${md((rec.waitingFor ?? []).join(', '))})` : '';
+  return `## Likely causes${preliminary}\n\n${items.join('\n')}${circuitFigures(rec)}`;
 }
 
 /** The circuit view (back-computed figures against the design), when the spec has a design section. */
@@ -87,9 +92,16 @@ function circuitFigures(rec: UnitRecord): string {
     .join('');
 }
 
+/** The unit's test attempts with why each opened and the notes of what was done. */
+function attempts(rec: UnitRecord): string {
+  if (!rec.attempts?.length) return '';
+  const rows = attemptRows(rec).map((cells) => cells.map(md));
+  return `## Test attempts\n\n${mdTable([...ATTEMPT_HEAD], rows)}`;
+}
+
 function history(rec: UnitRecord): string {
-  const rows = [...rec.runs].reverse().map((r) => [`#${r.id}`, formatTime(r.startedAt), md(r.operator), md(r.station), md(r.spec.revision), md(r.toolVersion), STATEMENT_WORDS[r.statement], r.intact ? 'matches' : '**CHANGED**']);
-  return `## History of runs\n\n${mdTable(['run', 'started', 'operator', 'station', 'spec rev.', 'tool', 'status', 'fingerprint'], rows)}`;
+  const rows = [...rec.runs].reverse().map((r) => [`${r.number !== undefined ? `${r.number} (#${r.id})` : `#${r.id}`}${r.attempt !== undefined ? `, attempt #${r.attempt}` : ''}`, formatTime(r.startedAt), md(r.operator), md(r.station), md(r.spec.revision), md(r.toolVersion), STATEMENT_WORDS[r.statement], r.intact ? 'matches' : '**CHANGED**']);
+  return `## History of runs\n\n${mdTable(['run (# in data folder), attempt', 'started', 'operator', 'station', 'spec rev.', 'tool', 'status', 'fingerprint'], rows)}`;
 }
 
 function captures(rec: UnitRecord): string {
@@ -97,7 +109,7 @@ function captures(rec: UnitRecord): string {
   return `## Captures\n\nArchived unchanged in the data folder under their SHA-256. Plots: \`--format html\`.\n\n${mdTable(['run', 'condition', 'original path', 'size', 'SHA-256'], rows)}`;
 }
 
-export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, history, captures, renderCalibrationMarkdown];
+export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, attempts, history, captures, renderCalibrationMarkdown];
 
 /** Who made the document, from which data folder, and the store's chain head at that moment. */
 export function sourceLine(src: DocumentSource): string {

@@ -22,10 +22,14 @@ export function decideUnits(spec: Spec, captures: readonly CheckedCapture[]): Un
 
 export function decideUnit(spec: Spec, unit: string, captures: readonly CheckedCapture[]): UnitVerdict {
   refuseDuplicates(captures);
+  // A condition with no capture at all is waiting, not failed: the unit is INCOMPLETE until it lands.
+  const waitingFor = spec.conditions.filter((cond) => !captures.some((c) => c.condition === cond.name)).map((cond) => cond.name);
   const conditions: ConditionVerdict[] = spec.conditions.map((cond) => {
+    if (waitingFor.includes(cond.name)) return waitingCondition(cond.name, cond.checks);
     const checks = cond.checks.map((check) => decideOne(spec, check, cond.name, captures));
     return { condition: cond.name, statement: worstStatement(checks.map((c) => c.statement)), checks };
   });
+  const captured = conditions.filter((c) => !c.waiting);
   return {
     schemaVersion: 1,
     unit,
@@ -34,7 +38,33 @@ export function decideUnit(spec: Spec, unit: string, captures: readonly CheckedC
     statement: worstStatement(conditions.map((c) => c.statement)),
     conditions,
     captures,
+    state: waitingFor.length ? 'incomplete' : 'complete',
+    waitingFor,
+    soFar: worstStatement(captured.map((c) => c.statement)),
   };
+}
+
+/**
+ * The checks of a condition nobody has captured yet: not measured (so the unit can never read as a
+ * pass), marked waiting, with a note that says so rather than a reason the unit is at fault.
+ */
+function waitingCondition(condition: string, checks: readonly SpecCheck[]): ConditionVerdict {
+  const decided = checks.map((check): CheckVerdict => ({
+    output: check.output,
+    condition,
+    measurement: check.measurement,
+    unit: MEASUREMENT_UNITS[check.measurement],
+    lower: check.limit.lower,
+    upper: check.limit.upper,
+    nominal: check.limit.nominal,
+    value: null,
+    expandedUncertainty: null,
+    guard: 0,
+    margin: null,
+    statement: 'not-measured',
+    note: `waiting for a capture at condition "${condition}"`,
+  }));
+  return { condition, statement: 'not-measured', checks: decided, waiting: true };
 }
 
 function refuseDuplicates(captures: readonly CheckedCapture[]): void {

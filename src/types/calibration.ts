@@ -116,6 +116,8 @@ export interface CalibrationIteration {
   readonly decisionRule: DecisionRule;
   /** The technician's label for this iteration (`--iteration`), e.g. "after scale trim". */
   readonly label?: string;
+  /** What was done before this iteration (`--note`), e.g. "R12 replaced, scale trimmer turned". */
+  readonly note?: string;
   readonly steps: readonly CalibrationStepResult[];
   readonly tracking: TrackingFigures;
   readonly guidance: readonly TrimAdvice[];

@@ -27,7 +27,7 @@ export type {
   WaveformPlot,
   WithheldReason,
 } from './measurement.js';
-export { STATEMENT_WORDS } from './verdict.js';
+export { INCOMPLETE_WORD, STATEMENT_WORDS, verdictState, waitingConditions } from './verdict.js';
 export type {
   CheckVerdict,
   CheckedCapture,
@@ -36,9 +36,12 @@ export type {
   SpecIdentity,
   Statement,
   UnitVerdict,
+  VerdictState,
 } from './verdict.js';
 export type { Cause, CircuitFigure, CircuitView, Diagnosis } from './cause.js';
 export type {
+  AttemptReason,
+  AttemptSummary,
   BatchReport,
   BatchUnit,
   Capability,

@@ -4,7 +4,7 @@
  * `batch --format json` print these objects as they are. Fields may be added, never renamed.
  */
 import type { Diagnosis } from './cause.js';
-import type { Statement, UnitVerdict } from './verdict.js';
+import type { Statement, UnitVerdict, VerdictState } from './verdict.js';
 import type { StoredCalibrationRun } from './calibration.js';
 
 /** What a run was. Only checks today; calibration runs will be a second kind (with a migration). */
@@ -46,7 +46,18 @@ export interface NewRun {
   readonly verdict: UnitVerdict;
   readonly diagnosis: Diagnosis;
   readonly captures: readonly NewCapture[];
+  /** Start a new test attempt of the unit even when its latest one still waits (`--new-attempt`). */
+  readonly newAttempt?: boolean;
+  /** What was done to the unit before this run (a part replaced, a trimmer turned); opens a new attempt. */
+  readonly note?: string;
 }
+
+/**
+ * Why a run opened a new test attempt: the unit's first run, the previous attempt was complete, the
+ * user asked (`--new-attempt`), a note said what was repaired, the unit was calibrated since, or the
+ * run is against another spec.
+ */
+export type AttemptReason = 'first' | 'after-complete' | 'requested' | 'note' | 'after-calibration' | 'other-spec';
 
 export interface StoredCapture {
   readonly path: string;
@@ -78,6 +89,39 @@ export interface StoredRun {
   readonly digest: string;
   /** True when the stored content still hashes to `digest` (nothing changed it since). */
   readonly intact: boolean;
+  /** The unit's test attempt this run belongs to (the unit's own count, from 1). */
+  readonly attempt?: number;
+  /** Set on the run that opened its attempt: why it did. */
+  readonly attemptReason?: AttemptReason;
+  /** The technician's note stored with the run. */
+  readonly note?: string;
+  /** The run's number among its unit's runs (from 1); `id` counts across the whole data folder. */
+  readonly number?: number;
+}
+
+/**
+ * One test attempt of a unit: the captures checked together until every condition of the spec is
+ * present. Its latest run decides it. It is closed once complete, or once a later attempt started.
+ */
+export interface AttemptSummary {
+  readonly number: number;
+  readonly reason: AttemptReason;
+  readonly state: VerdictState;
+  /** The latest run's statement (never a pass while incomplete). */
+  readonly statement: Statement;
+  /** Worst statement over the conditions captured so far. */
+  readonly soFar: Statement;
+  readonly waitingFor: readonly string[];
+  readonly closed: boolean;
+  readonly spec: RunSpec;
+  readonly startedAt: string;
+  readonly lastAt: string;
+  /** Store-wide ids of its runs, oldest first. */
+  readonly runIds: readonly number[];
+  /** Notes of its runs, oldest first. */
+  readonly notes: readonly string[];
+  /** Captures replaced by a later capture of the same condition within the attempt. */
+  readonly recaptures: number;
 }
 
 export interface UnitSummary {
@@ -92,6 +136,13 @@ export interface UnitSummary {
   readonly runs: number;
   /** Runs of this unit that failed verification (changed, damaged, deleted); absent when none. */
   readonly unverifiedRuns?: readonly number[];
+  /** State of the unit's latest attempt, and the conditions it still waits for. */
+  readonly state?: VerdictState;
+  readonly waitingFor?: readonly string[];
+  readonly attempts?: number;
+  /** Statement of the unit's first and latest complete attempts; absent while none is complete. */
+  readonly firstComplete?: Statement;
+  readonly latestComplete?: Statement;
 }
 
 /** Who produced a document, from where and when; set by the command line, absent in the store. */
@@ -112,6 +163,10 @@ export interface UnitRecord {
   readonly firstTestedAt: string;
   readonly lastTestedAt: string;
   readonly runs: readonly StoredRun[];
+  /** The unit's test attempts, oldest first, and the state of the latest one. */
+  readonly attempts?: readonly AttemptSummary[];
+  readonly state?: VerdictState;
+  readonly waitingFor?: readonly string[];
   /** Calibration runs with their iterations, oldest first; absent when the unit has none. */
   readonly calibrations?: readonly StoredCalibrationRun[];
   readonly source?: DocumentSource;
@@ -166,6 +221,12 @@ export interface BatchUnit {
   readonly firstTestedAt: string;
   readonly lastTestedAt: string;
   readonly latestRunId: number;
+  /** Attempts counted; the first and latest complete ones; absent while the unit has none complete. */
+  readonly attempts?: number;
+  readonly firstComplete?: Statement;
+  readonly latestComplete?: Statement;
+  readonly state?: VerdictState;
+  readonly waitingFor?: readonly string[];
 }
 
 export interface SpecBatch {
@@ -174,8 +235,11 @@ export interface SpecBatch {
   readonly revisions: readonly string[];
   readonly units: readonly BatchUnit[];
   readonly runs: number;
+  /** Over units with a complete attempt: the first complete attempt decides first-pass, the latest final. */
   readonly firstPass: YieldFigure;
   readonly final: YieldFigure;
+  /** Units with no complete attempt yet, with the conditions each waits for; left out of both yields. */
+  readonly incomplete?: readonly { readonly unit: string; readonly waitingFor: readonly string[] }[];
   readonly measurements: readonly MeasurementStats[];
   readonly notes: readonly string[];
 }

@@ -46,6 +46,8 @@ export interface ConditionVerdict {
   readonly condition: string;
   readonly statement: Statement;
   readonly checks: readonly CheckVerdict[];
+  /** True when no capture of this condition was given yet: its checks wait (they were not tried). */
+  readonly waiting?: boolean;
 }
 
 export interface SpecIdentity {
@@ -76,4 +78,30 @@ export interface UnitVerdict {
   readonly statement: Statement;
   readonly conditions: readonly ConditionVerdict[];
   readonly captures: readonly CheckedCapture[];
+  /**
+   * 'incomplete' while a condition the spec names has no capture yet (see waitingFor); the unit's
+   * `statement` then never reads as a pass. Absent in verdicts stored before attempts existed: derive
+   * it with `verdictState`.
+   */
+  readonly state?: VerdictState;
+  /** Conditions still waiting for a capture, in spec order; empty when complete. */
+  readonly waitingFor?: readonly string[];
+  /** Worst statement over the conditions captured so far (what the unit shows while it waits). */
+  readonly soFar?: Statement;
+}
+
+/** A unit's test is complete once every condition of the spec has a capture; until then it waits. */
+export type VerdictState = 'complete' | 'incomplete';
+
+export const INCOMPLETE_WORD = 'INCOMPLETE';
+
+/** Conditions without any capture: the stored field, or derived from the captures for older verdicts. */
+export function waitingConditions(v: Pick<UnitVerdict, 'conditions' | 'captures' | 'waitingFor'>): readonly string[] {
+  if (v.waitingFor) return v.waitingFor;
+  // A verdict with one condition and no captures cannot occur (a unit exists through its captures).
+  return v.conditions.filter((c) => !v.captures.some((k) => k.condition === c.condition)).map((c) => c.condition);
+}
+
+export function verdictState(v: Pick<UnitVerdict, 'conditions' | 'captures' | 'waitingFor'>): VerdictState {
+  return waitingConditions(v).length > 0 ? 'incomplete' : 'complete';
 }

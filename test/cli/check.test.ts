@@ -83,11 +83,11 @@ describe('benchproof check decisions and exit codes', () => {
     expect(strict.code).toBe(1);
   });
 
-  it('reports checks of conditions without captures as NOT MEASURED and exits 1', async () => {
+  it('reports a unit with conditions not captured yet as INCOMPLETE, and exits 1 when what was captured already failed', async () => {
     const r = await runCli(['check', '--no-store', 'samples/captures/FK-0104_mid.csv', '--spec', SPEC]);
     expect(r.code).toBe(1);
-    expect(r.stdout).toContain('note (frequency, peakToPeak, dcOffset, slopeRatio): no capture of output "triangle" at condition "low" was given');
-    expect(r.stdout).toMatch(/FK-0104: FAIL/);
+    expect(r.stdout).toContain('low  waiting for a capture: not checked yet');
+    expect(r.stdout).toMatch(/FK-0104: INCOMPLETE, waiting for low, high {2}\(so far FAIL: 2 failed/);
   });
 
   it('takes the unit and condition from --unit and --condition for a file named otherwise', async () => {

@@ -19,12 +19,13 @@ beforeAll(() => {
 });
 
 describe('benchproof units', () => {
-  it('lists every unit with the status of its latest run, from the default data folder', async () => {
+  it('lists every unit with the state of its latest attempt and its first pass, from the default data folder', async () => {
     const r = await runCli(['units'], inRoot);
     expect(r.code).toBe(0);
     expect(r.stderr).toBe('');
-    expect(r.stdout.split('\n')[0]).toBe('unit     status  last tested           runs  first run  spec');
-    expect(r.stdout).toContain('FK-0104  PASS    2026-03-05 09:00 UTC  2     FAIL       FH-210 Kestrel VCO rev. C');
+    expect(r.stdout.split('\n')[0]).toBe('unit     status  waiting for  last tested           runs  attempts  first pass  spec');
+    // FK-0104 failed its first complete attempt and passed the second (fixtureStore.ts).
+    expect(r.stdout).toContain('FK-0104  PASS    —            2026-03-05 09:00 UTC  2     2         FAIL        FH-210 Kestrel VCO rev. C');
     expect(r.stdout).toContain('FK-0103  FAIL');
   });
 
@@ -101,7 +102,7 @@ describe('benchproof record', () => {
   it('refuses an unknown --format with exit 2', async () => {
     const r = await runCli(['record', 'FK-0104', '--format', 'pdf'], inRoot);
     expect(r.code).toBe(2);
-    expect(r.stderr).toContain("Allowed choices are md, html, json");
+    expect(r.stderr).toContain('expected: one of md, html, json');
   });
 });
 

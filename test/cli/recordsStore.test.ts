@@ -46,7 +46,7 @@ describe('records wiring for check', () => {
     const stored = storeCheckedUnits(ctx, {}, [{ verdict: run.verdict, diagnosis: run.diagnosis }], run.startedAt, KESTREL_SPEC_TEXT);
     expect(stored).toHaveLength(1);
     expect(err).toBe(
-      'benchproof: stored run #1 of FK-0105 (PASS) in ./benchproof-data (BENCHPROOF_DATA or --data chooses another folder); next: benchproof record FK-0105 --format html --out FK-0105-record.html\n',
+      'benchproof: stored run 1 of FK-0105, attempt #1 (PASS) in ./benchproof-data (BENCHPROOF_DATA or --data chooses another folder); next: benchproof record FK-0105 --format html --out FK-0105-record.html\n',
     );
     const store = openStore(join(root, 'benchproof-data'), { mode: 'read' });
     expect(store.unitRecord('FK-0105')!.runs[0].operator).toBe('R. Okafor');

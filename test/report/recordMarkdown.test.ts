@@ -16,15 +16,17 @@ beforeAll(() => {
 afterAll(() => removeTempDir(root));
 
 describe('renderRecordMarkdown', () => {
-  it('gives header, status word, a table per condition, causes, history and capture hashes in that order', () => {
+  it('gives header, status word, a table per condition, causes, attempts, history and capture hashes in that order', () => {
     const text = renderRecordMarkdown(rec);
-    const order = ['# Test record — unit FK-0104', '## Current status: **PASS**', '### Condition low — PASS', '### Condition mid', '### Condition high', '## Likely causes', '## History of runs', '## Captures'];
+    const order = ['# Test record — unit FK-0104', '## Current status: **PASS**', '### Condition low — PASS', '### Condition mid', '### Condition high', '## Likely causes', '## Test attempts', '## History of runs', '## Captures'];
     const at = order.map((h) => text.indexOf(h));
     expect(at.every((i) => i >= 0)).toBe(true);
     expect([...at].sort((a, b) => a - b)).toEqual(at);
     for (const c of rec.runs.flatMap((r) => r.captures)) expect(text).toContain(c.sha256);
     expect(text).toContain('R. Okafor, M. Lindqvist');
-    expect(text).toMatch(/\| #4 \| 2026-03-03 11:00 UTC \| R\. Okafor \| bench-2 \| C \| 0\.1\.0 \| FAIL \| matches \|/);
+    // FK-0104's first run is #4 in the data folder and opened its first attempt (fixtureStore.ts).
+    expect(text).toMatch(/\| 1 \(#4\), attempt #1 \| 2026-03-03 11:00 UTC \| R\. Okafor \| bench-2 \| C \| 0\.1\.0 \| FAIL \| matches \|/);
+    expect(text).toMatch(/\| #2 \| [^|]+ \| tested again after a complete attempt \| PASS \| 2 \| 0 \|/);
   });
 
   it('keeps table rows intact when a note contains a pipe or a line break', () => {

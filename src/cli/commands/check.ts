@@ -5,6 +5,7 @@ import type { UnitCheck } from '../../report/index.js';
 import { parsePositive, parseSerial } from '../options.js';
 import { addRecordingOptions } from '../dataOptions.js';
 import type { StoreFlags } from '../dataOptions.js';
+import { waitingConditions } from '../../types/index.js';
 
 interface CheckOptions extends StoreFlags {
   spec: string;
@@ -15,7 +16,13 @@ interface CheckOptions extends StoreFlags {
   strict?: boolean;
   sampleRate?: string;
   interval?: string;
+  note?: string;
+  newAttempt?: boolean;
+  forceUnit?: boolean;
 }
+
+/** Exit status when every unit checked so far passed but some still wait for a condition (README). */
+export const EXIT_INCOMPLETE = 4;
 
 export function registerCheck(program: Command, ctx: CommandContext): Command {
   const cmd = program
@@ -24,12 +31,15 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
     .argument('<captures...>', 'CSV captures named after the spec\'s pattern, e.g. FK-0101_mid.csv')
     .requiredOption('--spec <file>', 'the design spec (YAML or JSON)')
     .option('--unit <serial>', 'serial number of the unit, instead of the one in the file names', parseSerial)
+    .option('--force-unit', 'store under --unit even when a file name names another unit')
     .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
     .option('--summary', 'one line per unit (statement, checks not passed, first likely cause) instead of the tables')
     .option('--strict', 'treat a conditional pass as a failure (exit 1)')
     .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
     .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
+    .option('--note <text>', 'what was done to the unit before this check (a part replaced, a trimmer turned); starts a new test attempt')
+    .option('--new-attempt', "start a new test attempt instead of continuing the unit's open one")
     .addHelpText(
       'after',
       `
@@ -38,9 +48,14 @@ Examples:
   benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --summary --no-store
   benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --json
   benchproof check bench/scope-01.csv --spec samples/fh210-spec.yaml --unit FK-0107 --condition mid
+  benchproof check samples/captures/FK-0106_*.csv --spec samples/fh210-spec.yaml --note "C3 replaced"
 
+A unit's test attempt collects its captures until every condition of the spec is present; until
+then it is INCOMPLETE and names the conditions it waits for. A later check of the same unit
+continues its open attempt; --note or --new-attempt starts a new one.
 Exit status: 0 every check passed (a conditional pass is allowed unless --strict),
-1 a fail, conditional fail or not-measured check, 2 bad input.
+1 a fail, conditional fail or not-measured check, 2 bad input,
+4 INCOMPLETE: what was captured passed, but a condition is still waiting for its capture.
 Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --data) unless --no-store.`,
     );
   return addRecordingOptions(cmd)
@@ -50,19 +65,25 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       const readOptions = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
       const startedAt = new Date().toISOString();
       // The stages load here, not at start-up: `benchproof --help` should not wait for them.
-      const [{ checkPlans, loadSpec, planCapture }, { createProgress }, { checkDocument, renderCheckSummary, renderCheckText }, { storeCheckedUnits }] = await Promise.all([
+      const [{ checkPlans, loadSpec, planFiles }, { createProgress }, { checkDocument, renderCheckSummary, renderCheckText }, { storeCheckedUnits }, companionsModule] = await Promise.all([
         import('../checkRun.js'),
         import('../progress.js'),
         import('../../report/index.js'),
         import('../store.js'),
+        import('../attemptCompanions.js'),
       ]);
+      const note = companionsModule.checkNote(opts.note);
       const { spec, text: specText } = loadSpec(ctx, opts.spec);
       // Every file name is mapped before any capture is read, so a misnamed file fails at once.
-      const plans = files.map((f) => planCapture(spec, f, { unit: opts.unit, condition: opts.condition }));
-      const units: UnitCheck[] = await checkPlans(ctx, spec, plans, readOptions, createProgress(ctx, json));
+      const plans = planFiles(spec, files, { unit: opts.unit, condition: opts.condition }, Boolean(opts.forceUnit));
+      // A unit's open attempt lends the captures the new files do not cover; a note or --new-attempt starts afresh.
+      const fresh = opts.store === false || opts.newAttempt === true || note !== undefined;
+      const companions = fresh ? undefined : companionsModule.companionsFromStore(ctx, opts, spec, plans);
+      ctx.io.stderr(companionsModule.describeCompanions(companions));
+      const units: UnitCheck[] = await checkPlans(ctx, spec, [...plans, ...(companions?.plans ?? [])], readOptions, createProgress(ctx, json));
 
       // Every checked unit is stored by default, one transaction each; --no-store skips it.
-      storeCheckedUnits(ctx, opts, units, startedAt, specText);
+      storeCheckedUnits(ctx, opts, units, startedAt, specText, { note, newAttempt: opts.newAttempt, sources: companions?.sources, specFile: opts.spec });
 
       const render = opts.summary ? renderCheckSummary : renderCheckText;
       ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : render(units, ctx.styleFor(cmd)));
@@ -71,10 +92,16 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
     });
 }
 
-/** 0 when every unit passed (a conditional pass too, unless strict); 1 otherwise. */
+/**
+ * 0 when every unit passed (a conditional pass too, unless strict); 1 when a unit failed, even while
+ * it waits for other conditions (a fail found is final); EXIT_INCOMPLETE when all that was captured
+ * passed but a unit still waits for a condition.
+ */
 function exitCodeFor(units: readonly UnitCheck[], strict: boolean): number {
   const accepted = (s: string): boolean => s === 'pass' || (!strict && s === 'conditional-pass');
-  return units.every((u) => accepted(u.verdict.statement)) ? 0 : 1;
+  const waiting = (u: UnitCheck): boolean => waitingConditions(u.verdict).length > 0;
+  if (units.some((u) => !accepted(waiting(u) ? (u.verdict.soFar ?? u.verdict.statement) : u.verdict.statement))) return 1;
+  return units.some(waiting) ? EXIT_INCOMPLETE : 0;
 }
 
 function flagConditional(ctx: CommandContext, spec: Spec, units: readonly UnitCheck[], strict: boolean): void {
