@@ -38,7 +38,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     ({ page, problems } = await watchedPage(b.context));
     await page.goto(`${t.base}/`);
     await page.waitForSelector('#live[data-live="on"]');
-    await page.evaluate(() => ((window as unknown as { sameLoad: boolean }).sameLoad = true));
+    await page.evaluate('window.sameLoad = true');
   });
   afterAll(async () => {
     await b?.close();
@@ -57,7 +57,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(await row.getAttribute('data-statement')).toBe(statement);
     expect(await row.locator('.state').textContent()).toBe(STATEMENT_WORDS[statement]);
     await page.locator('.drop-entry[data-result="stored"]').first().waitFor();
-    expect(await page.evaluate(() => (window as unknown as { sameLoad?: boolean }).sameLoad)).toBe(true);
+    expect(await page.evaluate('window.sameLoad')).toBe(true);
     await page.screenshot({ path: join(SHOTS, 'board-after-drop.png'), fullPage: true });
   });
 
@@ -78,7 +78,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     for (const f of samples('FK-0102')) copyFileSync(f, join(watchDir, f.split('/').pop()!));
     await page.locator('tr[data-unit="FK-0102"]').waitFor({ timeout: 20_000 });
     await page.locator('.drop-entry.watched').first().waitFor();
-    expect(await page.evaluate(() => (window as unknown as { sameLoad?: boolean }).sameLoad)).toBe(true);
+    expect(await page.evaluate('window.sameLoad')).toBe(true);
   });
 
   it('zooms a waveform and shows the min and max of the record in each column', async () => {
@@ -89,7 +89,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     const answer = page.waitForResponse((r) => r.url().includes('/api/plot/wave') && r.url().includes('from='));
     await fig.getByRole('button', { name: /^Zoom in/ }).click();
     const plot = (await (await answer).json()) as { min: number[]; max: number[]; first: number; end: number; step: number };
-    await page.waitForFunction((f) => Number(document.querySelector('figure.plot[data-kind="wave"]')?.getAttribute('data-from')) !== f, before.from);
+    await page.waitForFunction(`Number(document.querySelector('figure.plot[data-kind="wave"]').getAttribute('data-from')) !== ${before.from}`);
     const after = { from: Number(await fig.getAttribute('data-from')), to: Number(await fig.getAttribute('data-to')) };
     expect(after.to - after.from).toBeLessThan(before.to - before.from);
     const url = new URL((await answer).url());
@@ -126,18 +126,18 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
   it('reaches every control of the board with the keyboard alone', async () => {
     await page.goto(`${t.base}/#/`);
     await page.locator('tr[data-unit]').first().waitFor();
-    const controls = await page.$$eval('a[href], button, input:not(.sr-only), select, label[tabindex="0"], [tabindex="0"]', (els) => els.filter((e) => (e as HTMLElement).offsetParent !== null).map((e) => e.outerHTML.slice(0, 80)));
+    const controls = await page.$$eval('a[href], button, input:not(.sr-only), select, label[tabindex="0"], [tabindex="0"]', (els) => els.filter((e) => (e as unknown as { offsetParent: unknown }).offsetParent !== null).map((e) => e.outerHTML.slice(0, 80)));
     const reached = new Set<string>();
     for (let i = 0; i < controls.length + 10; i++) {
       await page.keyboard.press('Tab');
-      reached.add(await page.evaluate(() => document.activeElement?.outerHTML.slice(0, 80) ?? ''));
+      reached.add(String(await page.evaluate("document.activeElement ? document.activeElement.outerHTML.slice(0, 80) : ''")));
     }
     expect(controls.filter((c) => !reached.has(c))).toEqual([]);
     // "/" jumps to the filter, and typing filters the board.
     await page.keyboard.press('Escape');
     await page.locator('body').press('/');
     await page.keyboard.type('0102');
-    await page.waitForFunction(() => document.querySelectorAll('tr[data-unit]').length === 1);
+    await page.waitForFunction("document.querySelectorAll('tr[data-unit]').length === 1");
     expect(await page.locator('tr[data-unit]').getAttribute('data-unit')).toBe('FK-0102');
   });
 
@@ -145,17 +145,17 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     await page.goto(`${t.base}/#/unit/FK-0101`);
     const fig = page.locator('figure.plot[data-kind="wave"]').first();
     await fig.and(page.locator('[data-from]')).waitFor();
-    const controls = await page.$$eval('a[href], button, input, select, summary, [tabindex="0"]', (els) => els.filter((e) => (e as HTMLElement).offsetParent !== null).map((e) => e.outerHTML.slice(0, 80)));
+    const controls = await page.$$eval('a[href], button, input, select, summary, [tabindex="0"]', (els) => els.filter((e) => (e as unknown as { offsetParent: unknown }).offsetParent !== null).map((e) => e.outerHTML.slice(0, 80)));
     const reached = new Set<string>();
     for (let i = 0; i < controls.length + 10; i++) {
       await page.keyboard.press('Tab');
-      reached.add(await page.evaluate(() => document.activeElement?.outerHTML.slice(0, 80) ?? ''));
+      reached.add(String(await page.evaluate("document.activeElement ? document.activeElement.outerHTML.slice(0, 80) : ''")));
     }
     expect(controls.filter((c) => !reached.has(c))).toEqual([]);
     const from = await fig.getAttribute('data-from');
     await fig.focus();
     await page.keyboard.press('+');
-    await page.waitForFunction((f) => document.querySelector('figure.plot[data-kind="wave"]')?.getAttribute('data-from') !== f, from);
+    await page.waitForFunction(`document.querySelector('figure.plot[data-kind="wave"]').getAttribute('data-from') !== ${JSON.stringify(from)}`);
   });
 
   it('shows the batch page with its downloads, and the spec page validated', async () => {
