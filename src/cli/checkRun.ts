@@ -31,7 +31,8 @@ export function loadSpec(ctx: CommandContext, file: string): LoadedSpec {
 }
 
 /** Timing given on the command line, for files without a time column. */
-export type TimingOptions = Pick<ReadCaptureOptions, 'sampleRate' | 'interval'>;
+/** Reading settings from the command line (flags and a profile); the spec's `captures.reading` lies under them. */
+export type TimingOptions = Omit<ReadCaptureOptions, 'onProgress' | 'channel'>;
 
 const quiet: Progress = { start() {}, update() {}, stop() {} };
 
@@ -76,6 +77,7 @@ export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonl
     for (const plan of plans) {
       let started = false;
       const capture = await readCapture(plan.readFrom ?? resolvePath(ctx.io.cwd, plan.path), {
+        ...(spec.reading ? { ...spec.reading, profile: `${spec.file} captures.reading` } : {}),
         ...timing,
         onProgress: (done, total) => {
           if (!started) progress.start(plan.path, total);

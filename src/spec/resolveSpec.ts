@@ -4,8 +4,9 @@
  * refused (wrong types), so one run lists every problem. The Spec it builds is used only when no
  * issue was found.
  */
-import { MEASUREMENT_IDS, MEASUREMENT_UNITS, isMeasurementId } from '../types/index.js';
-import type { DecisionRule, MeasurementId, Shape } from '../types/index.js';
+import { MEASUREMENT_IDS, MEASUREMENT_UNITS, isBenchError, isMeasurementId } from '../types/index.js';
+import type { DecisionRule, MeasurementId, ReadingSettings, Shape } from '../types/index.js';
+import { readingSettings } from '../capture/index.js';
 import { fieldsAt, hasLimit, mergeFields, resolveLimit } from './limits.js';
 import type { FieldSet } from './limits.js';
 import { nearest } from './nearest.js';
@@ -44,6 +45,7 @@ export function resolveSpec(raw: unknown, file: string, sha256: string, issues: 
   const pattern = text(obj(top.captures).pattern) ?? DEFAULT_PATTERN;
   checkPattern(pattern, conditionNames.length > 1, ['captures', 'pattern'], issues);
   const design = top.design === undefined ? undefined : resolveDesign(obj(top.design), conditionNames, issues);
+  const reading = obj(top.captures).reading === undefined ? undefined : resolveReading(obj(top.captures).reading, file, issues);
   return {
     format: 1,
     file,
@@ -56,6 +58,7 @@ export function resolveSpec(raw: unknown, file: string, sha256: string, issues: 
     outputs,
     conditions,
     ...(design ? { design } : {}),
+    ...(reading ? { reading } : {}),
     ...(top.calibration !== undefined ? { calibration: resolveCalibration(top.calibration, outputs, issues) } : {}),
   };
 }
@@ -153,4 +156,18 @@ function mergeChecks(base: readonly BaseCheck[], overrides: Record<string, Field
     if (limit) out.push({ output: b.output, measurement: b.measurement, unit, limit, ...(b.hint ? { hint: b.hint } : {}) });
   }
   return out;
+}
+
+/** `captures.reading`: the capture reader's own rules check it, each mistake a spec issue. */
+function resolveReading(raw: unknown, file: string, issues: SpecIssue[]): ReadingSettings | undefined {
+  try {
+    const { name: _name, ...settings } = readingSettings(raw, file, 'captures.reading');
+    return settings;
+  } catch (e) {
+    if (!isBenchError(e)) throw e;
+    for (const f of [e, ...(e.issues ?? [])]) {
+      issues.push({ code: 'spec.bad-value', path: ['captures', 'reading'], problem: f.problem, expected: f.expected, fix: 'correct the setting under captures.reading (README, "Reading options and profiles")' });
+    }
+    return undefined;
+  }
 }

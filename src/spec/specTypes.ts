@@ -1,5 +1,5 @@
 /** The design spec after validation: plain readonly data, every value in SI units. */
-import type { DecisionRule, MeasurementId, Shape } from '../types/index.js';
+import type { DecisionRule, MeasurementId, ReadingSettings, Shape } from '../types/index.js';
 import type { CalibrationSection } from './calibrationTypes.js';
 
 /** Tolerance limits of one check; null means unbounded on that side. */
@@ -80,6 +80,8 @@ export interface Spec {
   readonly design?: DesignSection;
   /** How to calibrate a unit: the control law, its steps and limits (calibrationSection.ts). */
   readonly calibration?: CalibrationSection;
+  /** How to read this design's captures (`captures.reading`), under any flags or profile given. */
+  readonly reading?: ReadingSettings;
 }
 
 /** Name of the single condition of a spec that lists none. */

@@ -2,20 +2,20 @@ import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import type { Spec } from '../../spec/index.js';
 import type { UnitCheck } from '../../report/index.js';
-import { parsePositive, parseSerial } from '../options.js';
+import { parseSerial } from '../options.js';
 import { addRecordingOptions } from '../dataOptions.js';
+import type { ReadingFlags } from '../readingFlags.js';
+import { addReadingOptions, readingOptionsFrom } from '../readingFlags.js';
 import type { StoreFlags } from '../dataOptions.js';
 import { waitingConditions } from '../../types/index.js';
 
-interface CheckOptions extends StoreFlags {
+interface CheckOptions extends StoreFlags, ReadingFlags {
   spec: string;
   unit?: string;
   condition?: string;
   json?: boolean;
   summary?: boolean;
   strict?: boolean;
-  sampleRate?: string;
-  interval?: string;
   note?: string;
   newAttempt?: boolean;
   forceUnit?: boolean;
@@ -58,11 +58,11 @@ Exit status: 0 every check passed (a conditional pass is allowed unless --strict
 4 INCOMPLETE: what was captured passed, but a condition is still waiting for its capture.
 Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --data) unless --no-store.`,
     );
-  return addRecordingOptions(cmd)
+  return addRecordingOptions(addReadingOptions(cmd))
     .action(async (files: string[], opts: CheckOptions, cmd: Command) => {
       const json = Boolean(opts.json);
       ctx.json = json;
-      const readOptions = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
+      const readOptions = await readingOptionsFrom(ctx, opts);
       const startedAt = new Date().toISOString();
       // The stages load here, not at start-up: `benchproof --help` should not wait for them.
       const [{ checkPlans, loadSpec, planFiles }, { createProgress }, { checkDocument, renderCheckSummary, renderCheckText }, { storeCheckedUnits }, companionsModule] = await Promise.all([

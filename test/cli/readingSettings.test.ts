@@ -1,0 +1,37 @@
+/** Reading settings under `captures.reading` in a spec, and their checks (issue 14). */
+import { describe, expect, it } from 'vitest';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll } from 'vitest';
+import { parseSpec } from '../../src/spec/index.js';
+import { runCli } from '../helpers/cliHarness.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'benchproof-reading-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+const sample = readFileSync('samples/fh210-spec.yaml', 'utf8');
+const withReading = (reading: string): string => sample.replace('  pattern: "{unit}_{condition}.csv"', `  pattern: "{unit}_{condition}.csv"\n  reading: ${reading}`);
+
+describe('captures.reading in a spec', () => {
+  it('parses into the spec’s reading settings, checked by the capture reader’s rules', () => {
+    const spec = parseSpec(withReading('{ delimiter: comma, headerRows: 1, scale: { CH1: 1 } }'), 'kestrel.yaml');
+    expect(spec.reading).toEqual({ delimiter: ',', headerRows: 1, scale: { CH1: 1 } });
+    expect(() => parseSpec(withReading('{ delimiter: pipe, colour: red }'), 'kestrel.yaml')).toThrow(/captures\.reading\.delimiter: "pipe" is not a delimiter/);
+  });
+
+  it('reads every capture of a check with them: a scale of 2 doubles the triangle and fails its amplitude', async () => {
+    const path = join(dir, 'kestrel.yaml');
+    writeFileSync(path, withReading('{ scale: { CH1: 2 } }'));
+    const files = ['low', 'mid', 'high'].map((c) => `samples/captures/FK-0101_${c}.csv`);
+    const plain = await runCli(['check', ...files, '--spec', 'samples/fh210-spec.yaml', '--json', '--no-store']);
+    const scaled = await runCli(['check', ...files, '--spec', path, '--json', '--no-store']);
+    const p2p = (out: string): string[] =>
+      (JSON.parse(out) as { units: { verdict: { conditions: { checks: { output: string; measurement: string; statement: string }[] }[] } }[] }).units[0].verdict.conditions
+        .flatMap((c) => c.checks)
+        .filter((c) => c.output === 'triangle' && c.measurement === 'peakToPeak')
+        .map((c) => c.statement);
+    expect(p2p(plain.stdout)).toEqual(['pass', 'pass', 'pass']);
+    expect(p2p(scaled.stdout)).toEqual(['fail', 'fail', 'fail']);
+    expect(scaled.code).toBe(1);
+  });
+});
