@@ -5,6 +5,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll } from 'vitest';
 import { parseSpec } from '../../src/spec/index.js';
+import { readingSettings } from '../../src/capture/index.js';
+import { parse } from 'yaml';
 import { runCli } from '../helpers/cliHarness.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'benchproof-reading-'));
@@ -33,5 +35,13 @@ describe('captures.reading in a spec', () => {
     expect(p2p(plain.stdout)).toEqual(['pass', 'pass', 'pass']);
     expect(p2p(scaled.stdout)).toEqual(['fail', 'fail', 'fail']);
     expect(scaled.code).toBe(1);
+  });
+
+  it('accepts the reading profile the README shows, as written', () => {
+    const readme = readFileSync('README.md', 'utf8');
+    const start = readme.indexOf('```yaml\nreading: 1');
+    expect(start).toBeGreaterThan(0);
+    const text = readme.slice(start + '```yaml\n'.length, readme.indexOf('```', start + 7));
+    expect(readingSettings(parse(text), 'README.md')).toMatchObject({ delimiter: '\t', decimalMark: ',', headerRows: 2, timeColumn: 1, interval: 2e-6 });
   });
 });
