@@ -31,6 +31,12 @@ export function checkPattern(pattern: string, needsCondition: boolean, path: Spe
   }
   if (tokens.length !== new Set(tokens).size) push('a token appears twice', 'keep each token once');
   if (!tokens.includes('unit')) push('no {unit} token', 'add {unit} where the serial number sits in the file name');
+  // Names are matched as base names: a folder part, a parent reference or a control character can
+  // never be in one, so such a pattern would match no capture ever.
+  const literal = pattern.replace(/\{[^}]*\}/g, '');
+  if (/[/\\]/.test(literal)) push('it holds a folder separator (/ or \\), but captures are matched by file name only', 'drop the folder part; give the folder on the command line instead');
+  if (literal.includes('..')) push('it holds "..", which no capture file name has', 'write the pattern as a plain file name, e.g. "{unit}_{condition}.csv"');
+  if (/[\u0000-\u001f\u007f]/.test(pattern)) push('it holds a control character', 'retype the pattern with letters, digits, - and _ only');
   if (needsCondition && !tokens.includes('condition')) push('no {condition} token, but the spec has several conditions', 'add {condition} where the condition name sits in the file name');
 }
 

@@ -11,6 +11,7 @@ import { parseQuantity, valueIn } from './quantity.js';
 import type { SpecIssue, SpecPath } from './specIssues.js';
 import { formatPath } from './specIssues.js';
 import type { Limit } from './specTypes.js';
+import { impossibleLimit } from './physicalRange.js';
 
 export type LimitKey = 'nominal' | 'tolerance' | 'min' | 'max';
 export interface Sourced {
@@ -114,7 +115,7 @@ export function resolveLimit(f: FieldSet, unit: string, what: string, where: Spe
     const upper = f.max ? readValue(f.max, unit, what, issues) : null;
     if (lower === undefined || upper === undefined || nominal === undefined) return undefined;
     if (lower !== null && upper !== null && lower >= upper) return fail('spec.limit-order', `min (${f.min?.raw}) is not below max (${f.max?.raw})`, 'swap min and max');
-    return inRange({ lower, upper, nominal }, unit, fail);
+    return inRange({ lower, upper, nominal }, unit, what, fail);
   }
   if (!f.nominal && !f.tolerance) return fail('spec.no-limit', 'no limit given', 'add `nominal:` with `tolerance:`, or `min:`/`max:`');
   if (!f.tolerance) return fail('spec.no-tolerance', `nominal ${f.nominal?.raw} has no tolerance`, 'add `tolerance:` (e.g. "2 %"), or give min/max');
@@ -122,7 +123,7 @@ export function resolveLimit(f: FieldSet, unit: string, what: string, where: Spe
   if (nominal === undefined || nominal === null) return undefined;
   const tol = readTolerance(f.tolerance, unit, nominal, what, issues);
   if (tol === undefined) return undefined;
-  return inRange({ lower: nominal - tol, upper: nominal + tol, nominal }, unit, fail);
+  return inRange({ lower: nominal - tol, upper: nominal + tol, nominal }, unit, what, fail);
 }
 
 /**
@@ -131,7 +132,10 @@ export function resolveLimit(f: FieldSet, unit: string, what: string, where: Spe
  */
 export const MAX_MAGNITUDE = 1e15;
 
-function inRange(l: Limit, unit: string, fail: (code: string, problem: string, fix: string) => undefined): Limit | undefined {
+function inRange(l: Limit, unit: string, what: string, fail: (code: string, problem: string, fix: string) => undefined): Limit | undefined {
+  // A nominal or a window the quantity can never take (a duty cycle of 500 %, a negative frequency).
+  const impossible = impossibleLimit(what, l.lower, l.upper, l.nominal);
+  if (impossible !== null) return fail('spec.out-of-range', `${impossible} (in ${unit || 'no unit'})`, 'check the value, its sign and its unit for a typo');
   const worst = Math.max(...[l.lower, l.upper, l.nominal].map((x) => (x === null ? 0 : Math.abs(x))));
   if (worst <= MAX_MAGNITUDE) return l;
   return fail('spec.out-of-range', `a limit of ${worst.toExponential(2)} ${unit} is beyond any bench quantity (at most ${MAX_MAGNITUDE.toExponential(0)} ${unit})`, 'check the value and its unit prefix for a typo');

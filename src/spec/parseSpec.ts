@@ -4,7 +4,7 @@
  * carry the dotted path and the line in the file.
  */
 import { createHash } from 'node:crypto';
-import { LineCounter, parseDocument } from 'yaml';
+import { LineCounter, isMap, isScalar, parseDocument, visit } from 'yaml';
 import type { BenchErrorFields } from '../types/index.js';
 import { specFileSchema } from './specSchema.js';
 import { formatPath, fromZodIssues, lineOf, specError } from './specIssues.js';
@@ -31,7 +31,11 @@ export function parseSpec(text: string, file: string): Spec {
   }
   const counter = new LineCounter();
   // logLevel 'error': yaml's own warnings (e.g. a map used as a key) would go to stderr unasked.
-  const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: true, logLevel: 'error' });
+  // uniqueKeys off: yaml compares each key with every earlier one (quadratic in a map's size, minutes
+  // for a large hostile spec); duplicateKeys() finds the same mistakes with one set per map.
+  const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: false, logLevel: 'error' });
+  const duplicates = doc.errors.length > 0 ? [] : duplicateKeys(doc, counter, file);
+  if (duplicates.length > 0) throw specError(file, duplicates);
   if (doc.errors.length > 0) {
     throw specError(
       file,
@@ -84,4 +88,32 @@ function specValue(doc: ReturnType<typeof parseDocument>, file: string): unknown
       fix: bomb ? 'write the repeated parts out instead of nesting aliases' : 'set the anchor (&name) before the alias that uses it, or write the value out',
     }]);
   }
+}
+
+/** Keys given twice in one map, each with its line: linear, one set of key texts per map. */
+function duplicateKeys(doc: ReturnType<typeof parseDocument>, counter: LineCounter, file: string): BenchErrorFields[] {
+  const found: BenchErrorFields[] = [];
+  visit(doc, {
+    Map(_key, map) {
+      if (!isMap(map)) return;
+      const seen = new Set<string>();
+      for (const pair of map.items) {
+        const key = isScalar(pair.key) ? String(pair.key.value) : String(pair.key);
+        if (!seen.has(key)) {
+          seen.add(key);
+          continue;
+        }
+        const offset = isScalar(pair.key) ? pair.key.range?.[0] : undefined;
+        found.push({
+          code: 'spec.syntax',
+          file,
+          ...(offset !== undefined ? { line: counter.linePos(offset).line } : {}),
+          problem: `the key "${key}" is given twice in the same map`,
+          expected: 'each key once per map',
+          fix: 'remove or rename one of the two',
+        });
+      }
+    },
+  });
+  return found;
 }
