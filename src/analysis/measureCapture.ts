@@ -36,7 +36,8 @@ export function measureCapture(capture: Capture, options: MeasureCaptureOptions 
     sampleInterval: dt,
     samples: capture.length,
     duration: capture.length * dt,
-    warnings: capture.warnings,
+    // The reader's "clipped" warnings are replaced by each channel's own finding (measureChannel.ts).
+    warnings: capture.warnings.filter((w) => w.code !== 'clipped'),
     channels: capture.channels.map((ch) => channelReport(ch, capture, plotData, buffer)),
   };
 }
@@ -57,8 +58,10 @@ function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean, 
   }
   if (run.length < MIN_SAMPLES) return unusable(ch, warnings, run.length);
   const x = ch.samples.subarray(run.start, run.start + run.length);
-  const clipped = ch.clipped && ch.clipped.high + ch.clipped.low > 0 ? ch.clipped : undefined;
-  const a = measureChannel(x, dt, { unit: ch.unit, clipped });
+  // The reader's pinned-run count (ch.clipped) is not used: flatTops.ts tells the scope's clipping,
+  // whose values are withheld, from the circuit's saturation, which is a finding.
+  const a = measureChannel(x, dt, { unit: ch.unit, ...(ch.fullScale ? { fullScale: ch.fullScale } : {}) });
+  const clipped = a.flatTops.some((f) => f.cause === 'scope-range') ? true : undefined;
   const duty = a.results.dutyCycle;
   const spectral = analyzeSpectrum(x, dt, a.fundamental, a.shape, {
     plot: plotData,
@@ -77,6 +80,7 @@ function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean, 
     harmonics: spectral.harmonics,
     harmonicsMethod: spectral.harmonicsMethod,
     warnings,
+    ...(a.flatTops.length ? { flatTops: a.flatTops } : {}),
   };
   if (!plotData) return report;
   const waveform = waveformPlot(x, dt, capture.startTime + run.start * dt, a.marks, period);

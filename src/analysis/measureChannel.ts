@@ -10,10 +10,11 @@
  * the 50 % level between their IEEE 181 state levels. A channel is "no signal" when its swing is
  * under 8σ of the noise and its crossings do not form a regular train.
  */
-import type { CaptureWarning, MeasurementId, Shape } from '../types/index.js';
+import type { CaptureWarning, FlatTop, MeasurementId, Shape } from '../types/index.js';
 import type { Levels, Results } from './channelLevels.js';
 import { isTwoState, levelResults, levelsOf, momentResults } from './channelLevels.js';
 import { classifyShape } from './classifyShape.js';
+import { flatTops } from './flatTops.js';
 import { frequency } from './frequency.js';
 import { jitter } from './jitter.js';
 import { withheld } from './measureResult.js';
@@ -31,8 +32,8 @@ import { mean, standardDeviation } from './stats.js';
 
 export interface ChannelOptions {
   readonly unit: string;
-  /** Samples pinned at the record's extremes, from the reader. */
-  readonly clipped?: { readonly high: number; readonly low: number };
+  /** The channel's full-scale limits, when the capture states them. */
+  readonly fullScale?: { readonly low: number; readonly high: number };
 }
 
 export interface ChannelAnalysis {
@@ -41,6 +42,8 @@ export interface ChannelAnalysis {
   readonly warnings: readonly Omit<CaptureWarning, 'channel'>[];
   /** Measured fundamental in Hz, null when withheld. */
   readonly fundamental: number | null;
+  /** Flat tops: the scope's clipping (values withheld) or the circuit's saturation (a finding). */
+  readonly flatTops: readonly FlatTop[];
   /** Marks for plots, in sample indices of the samples given. */
   readonly marks: { readonly levels: Levels | null; readonly mid: number; readonly crossings: Crossings; readonly ramps: readonly RampFit[] };
 }
@@ -78,12 +81,17 @@ export function measureChannel(samples: Float64Array, dt: number, options: Chann
   };
   const family = levels ? shapeResults(shape, { samples, dt, crossings: c, levels, noise, unit, riseShare: evidence.riseShare }) : null;
   Object.assign(results, family?.results ?? withheldFamily(shape));
-  const warnings = aliasingWarning(fit, dt);
+  const flats = flatTops(samples, { noise, span, ...(options.fullScale ? { fullScale: options.fullScale } : {}) })
+    // A square's or pulse's flat states are its shape; only the scope's clipping counts there.
+    .filter((f) => f.cause === 'scope-range' || !isTwoState(shape));
+  const scope = flats.filter((f) => f.cause === 'scope-range');
+  const warnings = [...aliasingWarning(fit, dt), ...flatWarnings(flats, unit)];
   return {
     shape,
-    results: options.clipped && options.clipped.high + options.clipped.low > 0 ? applyClipping(results, options.clipped) : results,
+    results: scope.length > 0 ? applyClipping(results, scope, unit) : results,
     warnings,
     fundamental: timing.fundamental,
+    flatTops: flats,
     marks: { levels, mid, crossings: c, ramps: family?.ramps ?? [] },
   };
 }
@@ -122,7 +130,7 @@ function noSignal(x: Float64Array, range: { min: number; max: number }, noise: n
   const whole = wholeRecord(momentResults(x, [0, x.length], noise, range.max - range.min, unit));
   const results: Results = { frequency: why, period: why, jitter: why, ...levels, highLevel: why, lowLevel: why, amplitude: why, ...whole };
   const c: Crossings = { rising: [], falling: [], risingSteps: [], fallingSteps: [] };
-  return { shape: 'unknown', results, warnings: [], fundamental: null, marks: { levels: null, mid: (range.max + range.min) / 2, crossings: c, ramps: [] } };
+  return { shape: 'unknown', results, warnings: [], fundamental: null, flatTops: [], marks: { levels: null, mid: (range.max + range.min) / 2, crossings: c, ramps: [] } };
 }
 
 /** Without a waveform there are no cycles: the moments are taken over the whole record, and say so. */
@@ -151,15 +159,27 @@ function aliasingWarning(fit: PeriodFit | null, dt: number): Omit<CaptureWarning
   return [{ code: 'aliasing', message: `the measured frequency ${f.toPrecision(4)} Hz is close to half the sample rate (${(0.5 / dt).toPrecision(4)} Hz): the capture may be aliased; raise the sample rate to at least 10 times the signal frequency` }];
 }
 
+const q = (v: number, unit: string): string => `${Number(v.toPrecision(4))} ${unit || 'V'}`;
+const pct = (share: number): string => `${Number((100 * share).toPrecision(2))} %`;
+
+function flatWarnings(flats: readonly FlatTop[], unit: string): Omit<CaptureWarning, 'channel'>[] {
+  return flats.map((f) =>
+    f.cause === 'scope-range'
+      ? { code: 'clipped', message: `the trace runs off the scope's ${f.side === 'high' ? 'top' : 'bottom'} at ${q(f.level, unit)}, its full scale (${f.fullScaleFrom === 'preamble' ? 'as the capture states' : 'the converter\'s end code'}), for ${pct(f.share)} of the record; levels, slopes and harmonics are withheld: set more volts per division (or move the vertical offset) so the whole swing fits on screen, and capture again` }
+      : { code: 'saturated', message: `the waveform sits flat at ${q(f.level, unit)} on its ${f.side === 'high' ? 'top' : 'bottom'} for ${pct(f.share)} of each cycle, inside the scope's range: the circuit saturates there (output stage or rail)` },
+  );
+}
+
 const CLIP_SENSITIVE: readonly MeasurementId[] = [
   'maximum', 'minimum', 'peakToPeak', 'highLevel', 'lowLevel', 'amplitude', 'dcOffset', 'rms', 'acRms',
   'riseSlope', 'fallSlope', 'slopeRatio', 'symmetry', 'linearity', 'riseTime', 'fallTime', 'overshoot', 'undershoot',
 ];
 
-function applyClipping(results: Results, clipped: { high: number; low: number }): Results {
+function applyClipping(results: Results, scope: readonly FlatTop[], unit: string): Results {
+  const where = scope.map((f) => `${f.samples} samples at ${q(f.level, unit)} on the ${f.side === 'high' ? 'top' : 'bottom'}`).join(', ');
   const why = withheld(
     'clipped',
-    `the trace is clipped (${clipped.high} samples pinned at the top, ${clipped.low} at the bottom), so this would read the clip, not the waveform; if the scope clipped it, widen its vertical range; if the output itself hits a rail, that is a fault to find`,
+    `the trace is clipped at the scope's full scale (${where}), so this would read the screen's edge, not the waveform; set more volts per division (or move the vertical offset) so the whole swing fits, and capture again`,
   );
   const out: Results = { ...results };
   for (const id of CLIP_SENSITIVE) if (id in out) out[id] = why;

@@ -115,6 +115,11 @@ export interface CaptureChannel {
   readonly firstInvalidLine?: number;
   /** Set when runs of samples sit pinned at the record's extremes. */
   readonly clipped?: ClipInfo;
+  /**
+   * The channel's full-scale limits in SI units, when the capture states them (e.g. from the vertical
+   * range and offset in a preamble); analysis tells the scope's clipping from circuit saturation by them.
+   */
+  readonly fullScale?: { readonly low: number; readonly high: number };
 }
 
 export interface Capture {

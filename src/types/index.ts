@@ -16,6 +16,7 @@ export type {
 export { MEASUREMENT_IDS, MEASUREMENT_UNITS, SHAPES, isMeasurementId } from './measurement.js';
 export type {
   ChannelReport,
+  FlatTop,
   Harmonic,
   MeasureReport,
   MeasureResult,

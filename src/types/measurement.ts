@@ -176,11 +176,30 @@ export interface WaveformPlot {
   readonly slopeFits: readonly { t1: number; v1: number; t2: number; v2: number }[];
 }
 
+/**
+ * A stretch where the waveform sits flat at its extreme instead of passing through it: at the
+ * capture's full scale it is the scope's clipping (values there withheld); inside it, the circuit
+ * saturating (a finding: values kept, the checks they feed fail).
+ */
+export interface FlatTop {
+  readonly side: 'high' | 'low';
+  /** Mean level of the flat samples, in the channel's unit. */
+  readonly level: number;
+  /** Share of the record spent flat on this side, 0…1 (so of each cycle, on average). */
+  readonly share: number;
+  readonly samples: number;
+  readonly cause: 'scope-range' | 'circuit';
+  /** How the full scale was known (scope-range only): stated by the capture, or from converter end codes. */
+  readonly fullScaleFrom?: 'preamble' | 'converter-codes';
+}
+
 export interface ChannelReport {
   readonly name: string;
   readonly unit: string;
   readonly shape: Shape;
   readonly measurements: Partial<Record<MeasurementId, Measurement>>;
+  /** Flat tops found (absent when none). */
+  readonly flatTops?: readonly FlatTop[];
   readonly harmonics: readonly Harmonic[];
   /** How harmonic amplitudes were obtained and how many (e.g. 'least-squares multi-harmonic fit, N = 50'). */
   readonly harmonicsMethod?: string;

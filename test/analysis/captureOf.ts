@@ -7,6 +7,8 @@ export interface ChannelSpec {
   readonly name?: string;
   readonly unit?: string;
   readonly clipped?: ClipInfo;
+  /** Full-scale limits the capture states for the channel. */
+  readonly fullScale?: { readonly low: number; readonly high: number };
 }
 
 export function channelOf(signal: SynthSignal, spec: ChannelSpec = {}): CaptureChannel {
@@ -19,6 +21,7 @@ export function channelOf(signal: SynthSignal, spec: ChannelSpec = {}): CaptureC
     samples: signal.values,
     invalidCount: invalid,
     ...(spec.clipped ? { clipped: spec.clipped } : {}),
+    ...(spec.fullScale ? { fullScale: spec.fullScale } : {}),
   };
 }
 

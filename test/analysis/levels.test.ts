@@ -41,9 +41,9 @@ describe('levels, DC offset and rms over whole cycles', () => {
     expectWithin(ch.measurements.dcOffset?.value, 0, { abs: 2e-4 }, 'zero-mean triangle (closed form) over whole cycles');
   });
 
-  it('state levels are withheld and raw extremes kept out when the channel is clipped', () => {
+  it('state levels are withheld and raw extremes kept out when the channel is clipped at the full scale the capture states', () => {
     const s = synthesize({ ...base, shape: 'square', amplitude: 1, clip: { low: -0.5, high: 2 } });
-    const ch = measureCapture(captureOf([s], [{ clipped: { high: 0, low: 50_000 } }])).channels[0];
+    const ch = measureCapture(captureOf([s], [{ fullScale: { low: -0.5, high: 2 } }])).channels[0];
     for (const id of ['maximum', 'minimum', 'peakToPeak', 'lowLevel', 'amplitude', 'dcOffset', 'rms'] as const) {
       expect(ch.measurements[id]?.reason, id).toBe('clipped');
       expect(ch.measurements[id]?.note, id).toMatch(/clipped/);

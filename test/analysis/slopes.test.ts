@@ -62,9 +62,9 @@ describe('ramp slopes of triangles and sawtooths', () => {
     expect(ch.measurements.fallTime?.reason).toBe('edge-too-fast');
   });
 
-  it('slopes are withheld when the triangle is clipped', () => {
+  it('slopes are withheld when the triangle is clipped at the full scale the capture states', () => {
     const s = synthesize({ ...kestrel, clip: { low: -2.5, high: 2.5 } });
-    const ch = measureCapture(captureOf([s], [{ clipped: { high: 1000, low: 1000 } }])).channels[0];
+    const ch = measureCapture(captureOf([s], [{ fullScale: { low: -2.5, high: 2.5 } }])).channels[0];
     for (const id of ['riseSlope', 'fallSlope', 'slopeRatio', 'linearity', 'highLevel', 'amplitude'] as const) {
       expect(ch.measurements[id]?.value, id).toBeNull();
       expect(ch.measurements[id]?.reason, id).toBe('clipped');
