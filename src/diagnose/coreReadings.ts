@@ -2,7 +2,8 @@
  * What the circuit view reads at each condition: the triangle's ramp slopes and peaks, the pulse or
  * square output's state levels, the measured frequency, and the design currents carried to that
  * condition. By convention the rising ramp is the charge current (into the timing capacitor) and the
- * falling ramp the discharge current (the sink).
+ * falling ramp the discharge current (the sink). A side of the triangle that sits flat (the output
+ * saturating) gives no turn: its peak is left out, so no threshold is judged from it.
  */
 import type { ChannelReport, MeasurementId } from '../types/index.js';
 import type { DesignValue } from '../spec/index.js';
@@ -66,7 +67,10 @@ export function coreReadings(facts: UnitFacts): CoreReading[] {
   const pulse = outputsShaped(facts, ['pulse', 'square']).filter((o) => !o.clipped);
   const conditions = facts.conditionOrder.filter((c) => tri.some((o) => o.condition === c) || pulse.some((o) => o.condition === c));
   return conditions.map((condition) => {
-    const t = tri.find((o) => o.condition === condition)?.channel;
+    const at = tri.find((o) => o.condition === condition);
+    const t = at?.channel;
+    // A side that sits flat is where the output stage saturated, not where the comparator turned.
+    const flat = (side: 'high' | 'low'): boolean => at?.saturated.some((f) => f.side === side) ?? false;
     const p = pulse.find((o) => o.condition === condition)?.channel;
     const charge = designCurrentAt(facts.design.chargeCurrent, 'chargeCurrent', condition, facts.nominalFrequency);
     const discharge = designCurrentAt(facts.design.dischargeCurrent ?? facts.design.chargeCurrent, facts.design.dischargeCurrent ? 'dischargeCurrent' : 'chargeCurrent', condition, facts.nominalFrequency);
@@ -76,9 +80,9 @@ export function coreReadings(facts: UnitFacts): CoreReading[] {
       frequency: estimate(t, 'frequency') ?? estimate(p, 'frequency'),
       rise: estimate(t, 'riseSlope'),
       fall: estimate(t, 'fallSlope'),
-      top: estimate(t, 'highLevel', 'maximum'),
-      bottom: estimate(t, 'lowLevel', 'minimum'),
-      swing: estimate(t, 'amplitude', 'peakToPeak'),
+      top: flat('high') ? null : estimate(t, 'highLevel', 'maximum'),
+      bottom: flat('low') ? null : estimate(t, 'lowLevel', 'minimum'),
+      swing: flat('high') || flat('low') ? null : estimate(t, 'amplitude', 'peakToPeak'),
       logicHigh: estimate(p, 'highLevel'),
       logicLow: estimate(p, 'lowLevel'),
       charge: charge.current,

@@ -9,7 +9,7 @@
 import type { Cause, Diagnosis, UnitVerdict } from '../types/index.js';
 import type { Spec } from '../spec/index.js';
 import { lowEndLeakage, switchingDelay, timingScale } from './frequencyRules.js';
-import { currentMismatch, offsetBias, saturation, thresholdLevels } from './shapeRules.js';
+import { currentMismatch, offsetBias, saturation, scopeClipping, thresholdLevels } from './shapeRules.js';
 import { edgeRinging, mainsHum, periodJitter, weakLogicHigh } from './edgeRules.js';
 import type { CauseRule } from './rule.js';
 import { unitFacts } from './unitFacts.js';
@@ -20,6 +20,7 @@ import { circuitCauses, mergeCauses } from './circuitCauses.js';
 /** Every rule, in the order used to break score ties. */
 export const CAUSE_RULES: readonly CauseRule[] = [
   saturation,
+  scopeClipping,
   currentMismatch,
   timingScale,
   switchingDelay,

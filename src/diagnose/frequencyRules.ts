@@ -79,7 +79,7 @@ export const switchingDelay: CauseRule = (f) => {
 /** The triangle overshooting its thresholds more at high frequency: ramps run on for t_d after each crossing. */
 function swingGrowth(f: UnitFacts): string | null {
   const tri = outputsShaped(f, ['triangle']);
-  const byCond = f.frequency.map((p) => ({ p, vpp: tri.find((o) => o.condition === p.condition && !o.clipped)?.channel })).filter((x) => x.vpp);
+  const byCond = f.frequency.map((p) => ({ p, vpp: tri.find((o) => o.condition === p.condition && !o.clipped && o.saturated.length === 0)?.channel })).filter((x) => x.vpp);
   if (byCond.length < 2) return null;
   const first = valueOf(byCond[0].vpp!, 'peakToPeak');
   const last = valueOf(byCond[byCond.length - 1].vpp!, 'peakToPeak');

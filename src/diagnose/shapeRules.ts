@@ -4,7 +4,8 @@
  *   1 also skews the symmetry and the pulse duty (rising share 1/(1 + ratio)) and brings even
  *   harmonics, which a symmetric triangle lacks (Fourier series, REFERENCES.md §4).
  * - The swing and peaks are the comparator thresholds; the mean is where they are centred.
- * - A trace pinned flat at one level is saturation (a rail or supply) or the scope's vertical range.
+ * - A trace flat at one level inside the scope's range is saturation (output stage or rail); at the
+ *   scope's full scale it is the vertical setting (analysis/flatTops.ts tells them apart).
  * Thresholds: a 2 % slope mismatch, −45 dBc for H2, 2 % of the swing for an offset, 1 point of duty
  * (common practice, no source); always also beyond the measurement's expanded uncertainty.
  */
@@ -44,7 +45,8 @@ export const currentMismatch: CauseRule = (f) => {
 };
 
 export const thresholdLevels: CauseRule = (f) => {
-  const tri = outputsShaped(f, ['triangle']).filter((o) => !o.clipped);
+  // A flat side is the output saturating, not a threshold: its swing says nothing of the divider.
+  const tri = outputsShaped(f, ['triangle']).filter((o) => !o.clipped && o.saturated.length === 0);
   const design = f.design.swing?.nominal;
   // The lowest condition first: there the ramps overshoot the thresholds least (switching delay).
   const lowest = f.frequency.length ? tri.find((o) => o.condition === f.frequency[0].condition) : tri[0];
@@ -73,7 +75,7 @@ export const thresholdLevels: CauseRule = (f) => {
 };
 
 export const offsetBias: CauseRule = (f) => {
-  const tri = outputsShaped(f, ['triangle']).filter((o) => !o.clipped);
+  const tri = outputsShaped(f, ['triangle']).filter((o) => !o.clipped && o.saturated.length === 0);
   const offs = tri
     .map((o) => ({ c: o.condition, v: valueOf(o.channel, 'dcOffset'), swing: valueOf(o.channel, 'peakToPeak'), U: expandedOf(o.channel, 'dcOffset'), bad: failing(o, 'dcOffset') }))
     .filter((x) => x.v !== null && x.swing !== null);
@@ -90,26 +92,59 @@ export const offsetBias: CauseRule = (f) => {
   };
 };
 
+const pctOf = (x: number): string => `${num(100 * x, 2)} %`;
+
+/**
+ * The circuit saturating: a flat top inside the scope's range. The core can run on (frequency and
+ * slopes on design) while only the output clips; that, with one side flat, is what sets it apart
+ * from a threshold fault, which moves both turns and the frequency together.
+ */
 export const saturation: CauseRule = (f) => {
+  const flat = f.outputs.filter((o) => o.saturated.length > 0);
+  if (flat.length === 0) return null;
+  const outputs = [...new Set(flat.map((o) => o.output))];
+  const evidence = outputs.map((name) => {
+    const at = flat.filter((o) => o.output === name);
+    const sides = at[0].saturated.map((t) => `${t.side === 'high' ? 'top' : 'bottom'} at ${formatQuantity(t.level, 'V', 4)}`).join(' and its ');
+    const shares = at.map((o) => `${pctOf(o.saturated.reduce((s, t) => s + t.share, 0))} at ${o.condition}`).join(', ');
+    return `${name} sits flat on its ${sides}, inside the scope's range, for ${shares} of each cycle`;
+  });
+  const onDesign = f.frequency.filter((p) => f.frequencyTolerance !== null && Math.abs(p.error) <= f.frequencyTolerance);
+  if (f.frequency.length > 0 && onDesign.length === f.frequency.length) {
+    evidence.push(`the frequency is within its tolerance at every condition (${f.frequency.map((p) => `${num(p.error * 100, 2)} %`).join(', ')}): the core runs on, only the output clips`);
+  }
+  const one = flat.every((o) => o.saturated.length === 1);
+  if (one) evidence.push('only one side of the swing is flat; a threshold fault would move both turns and the frequency');
+  const up = f.design.positiveRail;
+  const down = f.design.negativeRail;
+  if (up && down) evidence.push(`the design rails are ${formatQuantity(up.nominal, 'V', 3)} / ${formatQuantity(down.nominal, 'V', 3)}: a flat level well inside them points to the buffer's output swing or a sagging supply`);
+  return {
+    id: 'saturation',
+    title: 'output stage or rail saturation (flat tops inside the scope’s range)',
+    score: 1,
+    evidence,
+    confirm: 'measure the supply rails at the output buffer under load and the buffer’s input at the same instant; if the input still rises while the output stays flat, the buffer’s output swing (or its supply) is the limit',
+    where: 'output buffer op-amp and its supply rails; gain or offset of the output stage; the load on the output jack',
+  };
+};
+
+/** The trace ran off the scope's screen: nothing about the circuit, but the values there are withheld. */
+export const scopeClipping: CauseRule = (f) => {
   const clipped = f.outputs.filter((o) => o.clipped);
   if (clipped.length === 0) return null;
   const outputs = [...new Set(clipped.map((o) => o.output))];
   const evidence = outputs.map((name) => {
     const at = clipped.filter((o) => o.output === name);
-    const note = Object.values(at[0].channel.measurements).find((m) => m?.reason === 'clipped')?.note ?? '';
-    const pinned = /\((\d+) samples pinned at the top, (\d+) at the bottom\)/.exec(note);
-    const detail = pinned ? ` (${pinned[1]} samples pinned at the top, ${pinned[2]} at the bottom at ${at[0].condition})` : '';
-    return `${name} pinned flat at ${at.map((o) => o.condition).join(', ')}${detail}; its levels and slopes are withheld`;
+    const flats = at[0].channel.flatTops?.filter((t) => t.cause === 'scope-range') ?? [];
+    const where = flats.length ? ` at ${flats.map((t) => formatQuantity(t.level, 'V', 4)).join(' and ')} (${flats[0].fullScaleFrom === 'preamble' ? 'the full scale the capture states' : 'the converter’s end code'})` : '';
+    return `${name} is clipped at the scope’s full scale${where} at ${at.map((o) => o.condition).join(', ')}; its levels and slopes are withheld`;
   });
-  const up = f.design.positiveRail;
-  const down = f.design.negativeRail;
-  if (up && down) evidence.push(`the design rails are ${formatQuantity(up.nominal, 'V', 3)} / ${formatQuantity(down.nominal, 'V', 3)}: a flat part well inside them points to a sagging supply or a saturating buffer; one at the edge of the scope screen, to its vertical range`);
   return {
-    id: 'saturation',
-    title: 'flat tops: rail saturation, low supply, or the scope’s vertical range',
-    score: Math.min(1, Math.round((0.8 + 0.05 * clipped.length) * 100) / 100),
+    id: 'scope-range',
+    title: 'trace clipped at the scope’s full scale (vertical setting)',
+    score: 0.9,
     evidence,
-    confirm: 're-capture with more vertical range (more V/div); if the top stays flat, measure the supply rails under load at the buffer',
-    where: 'output buffer and its supply rails; the scope channel range',
+    confirm: 'set more volts per division (or move the vertical offset) so the whole swing fits on screen, and capture again',
+    where: 'the scope channel’s vertical range and offset',
   };
 };

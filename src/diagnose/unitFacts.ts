@@ -3,7 +3,7 @@
  * plus the frequency error at each condition against the spec's nominal, ordered by frequency.
  * Rules look at the whole pattern across conditions, not at one failed check.
  */
-import type { ChannelReport, CheckVerdict, MeasurementId, Shape, UnitVerdict } from '../types/index.js';
+import type { ChannelReport, CheckVerdict, FlatTop, MeasurementId, Shape, UnitVerdict } from '../types/index.js';
 import type { DesignSection, Spec } from '../spec/index.js';
 
 export interface OutputAt {
@@ -12,8 +12,10 @@ export interface OutputAt {
   readonly shape: Shape;
   readonly channel: ChannelReport;
   readonly checks: readonly CheckVerdict[];
-  /** Pinned at the record's extremes (capture warning or a measurement withheld as clipped). */
+  /** Clipped at the scope's full scale: its levels were withheld. */
   readonly clipped: boolean;
+  /** Flat tops inside the scope's range: the circuit saturating (values kept). */
+  readonly saturated: readonly FlatTop[];
 }
 
 export interface FrequencyPoint {
@@ -48,11 +50,13 @@ export function unitFacts(spec: Spec, verdict: UnitVerdict): UnitFacts {
       const channel = cap.report.channels.find((c) => c.name === o.channel);
       if (!channel) continue;
       const checks = verdict.conditions.find((c) => c.condition === cap.condition)?.checks.filter((k) => k.output === o.output) ?? [];
+      const saturated = (channel.flatTops ?? []).filter((t) => t.cause === 'circuit');
       const clipped =
+        (channel.flatTops ?? []).some((t) => t.cause === 'scope-range') ||
         channel.warnings.some((w) => w.code === 'clipped') ||
         cap.report.warnings.some((w) => w.code === 'clipped' && (w.channel === undefined || w.channel === channel.name)) ||
         Object.values(channel.measurements).some((m) => m?.reason === 'clipped');
-      outputs.push({ condition: cap.condition, output: o.output, shape: o.expectedShape ?? channel.shape, channel, checks, clipped });
+      outputs.push({ condition: cap.condition, output: o.output, shape: o.expectedShape ?? channel.shape, channel, checks, clipped, saturated });
     }
   }
   const conditionOrder = spec.conditions.map((c) => c.name);

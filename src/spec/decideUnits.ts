@@ -7,9 +7,11 @@
  * with no guard band and says so in its note: we neither invent a U nor refuse a decision we can make.
  * A measurement that found nothing above (or below) a level carries that bound instead of a value, and
  * the check is decided on it (decideBound): a clean unit passes an upper limit on hum.
+ * A channel whose output saturates inside the scope's range (a circuit flat top, analysis/flatTops.ts)
+ * fails every check of a quantity the flat top changes: the value is real but describes a fault.
  */
 import { BenchError, MEASUREMENT_UNITS } from '../types/index.js';
-import type { CheckedCapture, CheckVerdict, ConditionVerdict, Measurement, MeasurementBound, UnitVerdict } from '../types/index.js';
+import type { CheckedCapture, CheckVerdict, ConditionVerdict, FlatTop, Measurement, MeasurementBound, UnitVerdict } from '../types/index.js';
 import { decideBound, decideCheck, worstStatement } from './decideCheck.js';
 import { formatQuantity } from './quantity.js';
 import type { Spec, SpecCheck } from './specTypes.js';
@@ -87,14 +89,29 @@ function refuseDuplicates(captures: readonly CheckedCapture[]): void {
   }
 }
 
-function findMeasurement(check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): { m?: Measurement; missing?: string } {
+function findMeasurement(check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): { m?: Measurement; missing?: string; flats?: readonly FlatTop[] } {
   const capture = captures.find((c) => c.condition === condition && c.outputs.some((o) => o.output === check.output));
   if (!capture) return { missing: `no capture of output "${check.output}" at condition "${condition}" was given` };
   const channelName = capture.outputs.find((o) => o.output === check.output)?.channel;
   const channel = capture.report.channels.find((ch) => ch.name === channelName);
   const m = channel?.measurements[check.measurement];
   if (!m) return { missing: `the analysis reports no ${check.measurement} for channel "${channelName}" (recognised as ${channel?.shape ?? 'unknown'})` };
-  return { m };
+  return { m, flats: (channel?.flatTops ?? []).filter((t) => t.cause === 'circuit') };
+}
+
+/** Measurements a flat top on each side changes: its own level, and everything taken over the whole swing. */
+const SATURATION_AFFECTED: Readonly<Record<FlatTop['side'] | 'both', readonly string[]>> = {
+  high: ['maximum', 'highLevel'],
+  low: ['minimum', 'lowLevel'],
+  both: ['peakToPeak', 'amplitude', 'dcOffset', 'rms', 'acRms', 'linearity', 'thd', 'shapeError', 'evenOddRatio', 'sinad', 'enob', 'sfdr'],
+};
+
+/** The circuit saturating is a fault: a check of a quantity the flat top changes fails, whatever its value. */
+function saturationNote(flats: readonly FlatTop[] | undefined, id: string, unit: string): string | null {
+  const hit = (flats ?? []).filter((t) => SATURATION_AFFECTED[t.side].includes(id) || SATURATION_AFFECTED.both.includes(id));
+  if (hit.length === 0) return null;
+  const where = hit.map((t) => `${t.side === 'high' ? 'top' : 'bottom'} at ${formatQuantity(t.level, unit || 'V', 4)} for ${Number((100 * t.share).toPrecision(2))} % of each cycle`).join(', ');
+  return `the output saturates (flat ${where}, inside the scope's range): this value describes the clipped waveform, so the check fails`;
 }
 
 function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): CheckVerdict {
@@ -107,15 +124,17 @@ function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: re
     upper: check.limit.upper,
     nominal: check.limit.nominal,
   };
-  const { m, missing } = findMeasurement(check, condition, captures);
+  const { m, missing, flats } = findMeasurement(check, condition, captures);
   if (m && m.value === null && m.bound) return decideOnBound(check, base, m, m.bound);
   if (!m || m.value === null) {
     const note = missing ?? `withheld: ${m?.note ?? m?.reason ?? 'no reason given'}`;
     return { ...base, value: null, expandedUncertainty: null, guard: 0, margin: null, statement: 'not-measured', note, ...(check.hint ? { hint: check.hint } : {}) };
   }
   const U = m.uncertainty === null ? null : 2 * m.uncertainty;
-  const d = decideCheck(m.value, U ?? 0, check.limit, spec.decision);
-  const notes: string[] = [];
+  const decided = decideCheck(m.value, U ?? 0, check.limit, spec.decision);
+  const saturated = saturationNote(flats, check.measurement, m.unit);
+  const d = saturated ? { ...decided, statement: 'fail' as const } : decided;
+  const notes: string[] = saturated ? [saturated] : [];
   if (U === null) notes.push('no uncertainty estimate: decided without a guard band');
   const { lower, upper } = check.limit;
   if (spec.decision !== 'simple' && U !== null && lower !== null && upper !== null && upper - lower <= 2 * U) {

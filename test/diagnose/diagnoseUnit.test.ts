@@ -99,7 +99,9 @@ describe('diagnoseUnit shape patterns', () => {
   it('blames saturation first for a triangle pinned flat (the scenario’s FK-0105)', () => {
     const causes = causesOf(checkedKestrel(spec, kestrelTraits('FK-0105')));
     expect(causes[0].id).toBe('saturation');
-    expect(causes[0].evidence[0]).toContain('samples pinned at the top');
+    // The scenario clamps FK-0105's triangle at 2.55 V inside the 8-bit scope's ±10 V (src/synth/scenario.ts).
+    expect(causes[0].evidence[0]).toMatch(/flat on its top at 2\.55 V, inside the scope's range/);
+    expect(ids(causes)).not.toContain('threshold-levels');
   });
 });
 
