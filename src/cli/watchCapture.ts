@@ -1,28 +1,31 @@
 /**
  * What `watch` does with one capture that has landed and settled: the default `onCapture` strategy.
- * A landed file is checked together with its companions: for each other condition (or output) of
- * the same unit, the newest file in the same folder whose bytes were recorded already. The stored run
- * is exactly what `benchproof check` would store for that set of files, so once every condition of a
- * unit has landed, its record shows the unit's overall statement; conditions with nothing in the
- * folder yet are NOT MEASURED, and a unit never shows PASS from a partial set. The line printed for
- * the file gives the statement of the checks the file itself supplies, and the run's overall one.
+ * Each unit has one open test attempt; a landed file joins it and is checked together with the
+ * attempt's captures of the other conditions (or outputs), read back from the archive. A file of a
+ * condition the attempt holds already replaces that capture (a re-capture; the earlier run keeps it).
+ * Until every condition has landed the unit is INCOMPLETE and never shows PASS; the line gives the
+ * file's own statement, the unit's progress ("2/3, waiting for high"), and a likely cause only once
+ * the attempt is complete. After that, the unit's next file opens its next attempt.
  *
  * Another mode (e.g. calibration) plugs in by giving the session another `CaptureHandlerFactory`.
  */
 import { createReadStream } from 'node:fs';
-import { readdir, stat } from 'node:fs/promises';
+import { stat } from 'node:fs/promises';
 import { createHash } from 'node:crypto';
-import { basename, dirname, join, resolve } from 'node:path';
+import { join, resolve } from 'node:path';
 import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
 import type { RecordStore } from '../records/index.js';
-import { BenchError, isBenchError } from '../types/index.js';
-import type { Statement } from '../types/index.js';
+import { BenchError, isBenchError, waitingConditions } from '../types/index.js';
+import type { Statement, VerdictState } from '../types/index.js';
 import type { CommandContext } from './context.js';
-import { checkPlans, planCapture, runOf, worstStatement } from './checkRun.js';
+import { checkPlans, planFiles, runOf, worstStatement } from './checkRun.js';
 import type { RunAuthor, TimingOptions } from './checkRun.js';
 import type { CheckedUnit, DataLocation } from './store.js';
 import { writeReportFile } from './store.js';
 import { TOOL_VERSION } from './version.js';
+import { attemptCompanions } from './attemptCompanions.js';
+import { attemptFields } from './attemptNotice.js';
+import type { AttemptRequest } from './attemptNotice.js';
 
 /** Everything a per-file handler may use; fixed for the whole session. */
 export interface WatchEnv {
@@ -36,6 +39,12 @@ export interface WatchEnv {
   readonly timing: TimingOptions;
   /** Folder for each unit's refreshed HTML record, when asked for. */
   readonly reportDir?: string;
+  /** --note / --new-attempt: each unit's first stored file in the session opens a new attempt. */
+  readonly attempt?: AttemptRequest;
+  /** Units that stored a run in this session (so only their first file opens a new attempt). */
+  readonly started?: Set<string>;
+  /** --force-unit: record a file naming another unit than --unit under --unit. */
+  readonly forceUnit?: boolean;
 }
 
 export type CaptureOutcome =
@@ -54,6 +63,18 @@ export type CaptureOutcome =
       /** The refreshed HTML record, with --report-dir; or why it could not be written (the run is stored). */
       readonly record?: string;
       readonly recordError?: BenchError | Error;
+      /** The unit's attempt after this file: complete, or waiting for the conditions named. */
+      readonly state?: VerdictState;
+      readonly waitingFor?: readonly string[];
+      /** Conditions of the spec captured in the attempt so far, of all. */
+      readonly progress?: { readonly captured: number; readonly total: number };
+      /** Worst statement over the conditions captured so far. */
+      readonly soFar?: Statement;
+      readonly attempt?: number;
+      /** The run's number among the unit's runs. */
+      readonly runNumber?: number;
+      /** True while the attempt waits: the cause may change once the rest lands. */
+      readonly preliminaryCause?: boolean;
     }
   | { readonly status: 'recorded-already'; readonly file: string; readonly unit: string; readonly condition: string; readonly runId: number }
   | {
@@ -82,7 +103,7 @@ export type CaptureHandlerFactory = (env: WatchEnv) => CaptureHandler;
 export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => {
   let plan: CapturePlan;
   try {
-    plan = planCapture(env.spec, file, env.overrides);
+    [plan] = planFiles(env.spec, [file], env.overrides, env.forceUnit);
   } catch (err) {
     return { status: isBenchError(err) ? 'unmatched' : 'error', file, error: err as Error };
   }
@@ -92,12 +113,19 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
     const earlier = env.store.captureRecorded({ unit: plan.unit, condition: plan.condition, sha256 });
     if (earlier !== undefined) return { status: 'recorded-already', file, unit: plan.unit, condition: plan.condition, runId: earlier };
     const startedAt = new Date().toISOString();
-    const companions = await recordedCompanions(env, plan);
-    const [checked] = await checkPlans(env.ctx, env.spec, [plan, ...companions], env.timing);
-    const saved = env.store.saveRunOnce(runOf(env.ctx, checked, env.author, startedAt, env.specText));
+    // The unit's open attempt lends its other captures; with --note or --new-attempt the session's
+    // first file of each unit opens a new attempt instead, and the files after it join that one.
+    const fresh = env.attempt !== undefined && !(env.started?.has(plan.unit) ?? false);
+    const companions = fresh ? undefined : attemptCompanions(env.store, env.location.dir, env.spec, [plan]);
+    const [checked] = await checkPlans(env.ctx, env.spec, [plan, ...(companions?.plans ?? [])], env.timing);
+    const run = { ...runOf(env.ctx, checked, env.author, startedAt, env.specText, companions?.sources), ...(fresh ? attemptFields(env.attempt ?? {}) : {}) };
+    const saved = env.store.saveRunOnce(run);
     if (!saved.stored) return { status: 'recorded-already', file, unit: plan.unit, condition: plan.condition, runId: saved.runId };
+    env.started?.add(plan.unit);
     const record = await refreshRecord(env, plan.unit).catch((err: Error) => err);
     const first = checked.diagnosis.causes[0];
+    const waitingFor = waitingConditions(checked.verdict);
+    const total = checked.verdict.conditions.length;
     return {
       status: 'checked',
       file,
@@ -109,6 +137,13 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
       runId: saved.run.id,
       sha256: checked.verdict.captures[0].sha256,
       ...(record instanceof Error ? { recordError: record } : record ? { record } : {}),
+      state: waitingFor.length ? 'incomplete' : 'complete',
+      waitingFor,
+      progress: { captured: total - waitingFor.length, total },
+      soFar: checked.verdict.soFar ?? checked.verdict.statement,
+      ...(saved.run.attempt !== undefined ? { attempt: saved.run.attempt } : {}),
+      ...(saved.run.number !== undefined ? { runNumber: saved.run.number } : {}),
+      preliminaryCause: waitingFor.length > 0,
     };
   } catch (err) {
     return { status: 'error', file, error: err as Error };
@@ -146,44 +181,6 @@ function unreadableLanded(file: string, why: string): BenchError {
     expected: 'a capture file saved in the watched folder',
     fix: 'save the capture as a regular file in the folder (not a link or a device), then it is checked on landing',
   });
-}
-
-/** What a plan covers: its condition and outputs; one file per key goes into a run. */
-const coverKey = (p: CapturePlan): string => `${p.condition}|${p.outputs.map((o) => o.output).sort().join(',')}`;
-
-/**
- * The newest already-recorded file for each other condition/output of the same unit in the landed
- * file's folder. Only recorded bytes are taken, so a companion is a capture that was checked cleanly
- * before; with a --condition override every file is the same condition and there are none.
- */
-async function recordedCompanions(env: WatchEnv, plan: CapturePlan): Promise<CapturePlan[]> {
-  if (env.overrides.condition !== undefined) return [];
-  const folder = dirname(plan.path);
-  const names = await readdir(resolve(env.ctx.io.cwd, folder)).catch(() => [] as string[]);
-  const newest = new Map<string, { plan: CapturePlan; mtime: number }>();
-  for (const name of names) {
-    const path = folder === '.' ? name : join(folder, name);
-    if (name === basename(plan.path)) continue;
-    let other: CapturePlan;
-    try {
-      other = planCapture(env.spec, path, env.overrides);
-    } catch {
-      continue; // names that miss the pattern are not companions
-    }
-    if (other.unit !== plan.unit || coverKey(other) === coverKey(plan)) continue;
-    try {
-      const full = resolve(env.ctx.io.cwd, path);
-      const { mtimeMs } = await stat(full);
-      const known = newest.get(coverKey(other));
-      if (known && known.mtime >= mtimeMs) continue;
-      const sha256 = await hashLanded(full, path);
-      if (env.store.captureRecorded({ unit: other.unit, condition: other.condition, sha256 }) === undefined) continue;
-      newest.set(coverKey(other), { plan: other, mtime: mtimeMs });
-    } catch {
-      continue; // a file that vanished or cannot be read is simply not a companion
-    }
-  }
-  return [...newest.values()].map((c) => c.plan);
 }
 
 /** The statement of the checks this file supplies: its outputs at its condition. */

@@ -40,11 +40,17 @@ export function outcomeLines(o: CaptureOutcome, json: boolean, style: TextStyle,
   const name = basename(o.file);
   switch (o.status) {
     case 'checked': {
-      const cause = o.cause ? `  likely cause: ${o.cause.title}` : '';
+      const waiting = o.state === 'incomplete';
+      // A cause named from part of the conditions may change as the rest lands: it waits for them.
+      const cause = o.cause && !waiting ? `  likely cause: ${o.cause.title}` : '';
       const record = o.record ? `; record ${o.record}` : o.recordError ? `; record NOT refreshed: ${oneLine(o.recordError)}` : '';
-      // The unit's statement over every condition recorded so far, which may differ from this file's.
-      const unit = `unit ${style.statement(o.runStatement)}`;
-      return { stdout: `${name}  ${o.unit}  ${o.condition}  ${style.statement(o.statement)}${cause}  (${unit}; run #${o.runId}${record})\n` };
+      // The unit's attempt over every condition captured so far, which may differ from this file's statement.
+      const done = o.progress ? ` ${o.progress.captured}/${o.progress.total}` : '';
+      const unit = waiting
+        ? `${o.unit}${done}, waiting for ${(o.waitingFor ?? []).join(', ')}; so far ${style.statement(o.soFar ?? o.runStatement)}`
+        : `${o.unit}${done}: ${style.statement(o.runStatement)}`;
+      const run = o.runNumber !== undefined ? `run ${o.runNumber}${o.attempt !== undefined ? ` of attempt #${o.attempt}` : ''}` : `run #${o.runId}`;
+      return { stdout: `${name}  ${o.unit}  ${o.condition}  ${style.statement(o.statement)}${cause}  (${unit}; ${run}${record})\n` };
     }
     case 'calibration-step': {
       const cents = o.cents === null ? 'not measured' : `${o.cents >= 0 ? '+' : '−'}${Math.abs(o.cents).toFixed(1)} cents`;

@@ -17,6 +17,7 @@ import type { StoreFlags } from './store.js';
 import { checkEachCapture } from './watchCapture.js';
 import type { CaptureHandlerFactory, CaptureOutcome, WatchEnv } from './watchCapture.js';
 import { serialQueue } from './watchQueue.js';
+import type { AttemptRequest } from './attemptNotice.js';
 import { watchFolder } from './watchFolder.js';
 import { countOutcome, emptyTally, outcomeLines, summaryLine } from './watchLines.js';
 import type { WatchTally } from './watchLines.js';
@@ -37,6 +38,10 @@ export interface WatchSettings {
   readonly style: TextStyle;
   /** The per-file strategy; checking each capture by default (a calibration mode gives its own). */
   readonly onCapture?: CaptureHandlerFactory;
+  /** --note / --new-attempt: each unit's first file in the session opens a new test attempt. */
+  readonly attempt?: AttemptRequest;
+  /** --force-unit: a file naming another unit than --unit is recorded under --unit. */
+  readonly forceUnit?: boolean;
 }
 
 export async function runWatchSession(ctx: CommandContext, settings: WatchSettings, stop: AbortSignal): Promise<WatchTally> {
@@ -51,6 +56,9 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
     const env: WatchEnv = {
       ctx, spec, specText: text, store, location, overrides: settings.overrides, timing: settings.timing, reportDir,
       author: { operator: resolveOperator(ctx, settings.flags), station: stationName() },
+      ...(settings.attempt ? { attempt: settings.attempt } : {}),
+      started: new Set<string>(),
+      forceUnit: Boolean(settings.forceUnit),
     };
     const tally = emptyTally();
     const print = (o: CaptureOutcome): void => {

@@ -1,7 +1,7 @@
 /** Batch statistics as one self-contained, printable HTML page with a histogram per checked quantity. */
 import type { BatchReport, MeasurementStats, SpecBatch } from '../types/index.js';
 import { STATEMENT_WORDS } from '../types/index.js';
-import { batchFilterText, describeYield } from './batchMarkdown.js';
+import { batchFilterText, describeWaiting, describeYield, unitFirst, unitLatest } from './batchMarkdown.js';
 import { esc, facts, htmlPage, numCell, statusHtml, table } from './htmlPage.js';
 import { renderHistogramSvg } from './svgHistogram.js';
 import { formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
@@ -13,8 +13,8 @@ function statsRow(s: SpecBatch, m: MeasurementStats): string {
 
 function specSection(s: SpecBatch): string {
   const units = table(
-    ['unit', 'runs', 'first run', 'latest run', 'last tested'],
-    s.units.map((u) => `<tr><td>${esc(u.unit)}</td>${numCell(u.runs, String(u.runs))}<td>${statusHtml(u.first)}</td><td>${statusHtml(u.latest)}</td><td>${esc(formatTime(u.lastTestedAt))}</td></tr>`),
+    ['unit', 'runs', 'first pass', 'latest', 'last tested'],
+    s.units.map((u) => `<tr><td>${esc(u.unit)}</td>${numCell(u.runs, String(u.runs))}<td>${u.firstComplete ? statusHtml(u.firstComplete) : esc(unitFirst(u))}</td><td>${u.state === 'incomplete' ? esc(unitLatest(u)) : statusHtml(u.latest)}</td><td>${esc(formatTime(u.lastTestedAt))}</td></tr>`),
   );
   const stats = table(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk', 'notes'], s.measurements.map((m) => statsRow(s, m)));
   const hists = s.measurements
@@ -29,8 +29,9 @@ function specSection(s: SpecBatch): string {
     ['units / runs', `${s.units.length} / ${s.runs}`],
     ['first-pass yield', esc(describeYield(s.firstPass))],
     ['final yield', esc(describeYield(s.final))],
+    ...(s.incomplete?.length ? [['still waiting (in neither yield)', esc(describeWaiting(s))] as const] : []),
     ...s.notes.map((n) => ['note', esc(n)] as const),
-  ])}<h3>Units</h3>${units}<h3>Measurements</h3><p class="note">One value per unit, from its latest run. Cp and Cpk as in the NIST/SEMATECH e-Handbook §6.1.6.</p>${stats}<h3>Histograms</h3><div class="plots">${hists}</div></section>`;
+  ])}<h3>Units</h3>${units}<h3>Measurements</h3><p class="note">One value per unit, from its latest complete attempt. Cp and Cpk as in the NIST/SEMATECH e-Handbook §6.1.6.</p>${stats}<h3>Histograms</h3><div class="plots">${hists}</div></section>`;
 }
 
 export function renderBatchHtml(batch: BatchReport): string {

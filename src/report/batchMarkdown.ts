@@ -1,6 +1,6 @@
 /** Batch statistics as Markdown: yields, the units, and per checked quantity the spread and Cp/Cpk. */
-import type { BatchReport, SpecBatch, YieldFigure } from '../types/index.js';
-import { STATEMENT_WORDS } from '../types/index.js';
+import type { BatchReport, BatchUnit, SpecBatch, YieldFigure } from '../types/index.js';
+import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import { md, mdTable, sourceLine } from './recordMarkdown.js';
 import { formatFraction, formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
 
@@ -13,10 +13,26 @@ export function batchFilterText(batch: BatchReport): string {
   return batch.filter.since ? `units first tested on or after ${formatTime(batch.filter.since)}` : 'all units';
 }
 
+/** `FK-0102 (low, high), FK-0103 (mid)`: the units with no complete attempt and what each waits for. */
+export function describeWaiting(s: SpecBatch): string {
+  return (s.incomplete ?? []).map((u) => `${u.unit} (${u.waitingFor.join(', ')})`).join(', ');
+}
+
+/** The first complete attempt's statement; INCOMPLETE while the unit has none. */
+export function unitFirst(u: BatchUnit): string {
+  if (u.firstComplete) return STATEMENT_WORDS[u.firstComplete];
+  return u.attempts !== undefined ? INCOMPLETE_WORD : STATEMENT_WORDS[u.first];
+}
+
+/** The latest attempt: INCOMPLETE while it waits, else its statement. */
+export function unitLatest(u: BatchUnit): string {
+  return u.state === 'incomplete' ? `${INCOMPLETE_WORD} (${(u.waitingFor ?? []).join(', ')})` : STATEMENT_WORDS[u.latest];
+}
+
 function specBlock(s: SpecBatch): string {
   const units = mdTable(
-    ['unit', 'runs', 'first run', 'latest run', 'last tested'],
-    s.units.map((u) => [md(u.unit), String(u.runs), STATEMENT_WORDS[u.first], STATEMENT_WORDS[u.latest], formatTime(u.lastTestedAt)]),
+    ['unit', 'runs', 'first pass', 'latest', 'last tested'],
+    s.units.map((u) => [md(u.unit), String(u.runs), unitFirst(u), unitLatest(u), formatTime(u.lastTestedAt)]),
   );
   const rows = s.measurements.map((m) => [
     md(m.condition), md(m.output), md(measurementLabel(m.measurement)), String(m.count),
@@ -28,13 +44,14 @@ function specBlock(s: SpecBatch): string {
     `- revisions: ${s.revisions.map(md).join(', ')}; ${s.units.length} units, ${s.runs} runs`,
     `- first-pass yield: ${describeYield(s.firstPass)}`,
     `- final yield: ${describeYield(s.final)}`,
+    ...(s.incomplete?.length ? [`- still waiting (in neither yield): ${md(describeWaiting(s))}`] : []),
     ...s.notes.map((n) => `- note: ${md(n)}`),
     '',
     '### Units',
     '',
     units,
     '',
-    '### Measurements (one value per unit, from its latest run; Cp/Cpk per NIST/SEMATECH e-Handbook §6.1.6)',
+    '### Measurements (one value per unit, from its latest complete attempt; Cp/Cpk per NIST/SEMATECH e-Handbook §6.1.6)',
     '',
     mdTable(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk', 'notes'], rows),
   ].join('\n');

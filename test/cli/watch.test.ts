@@ -61,7 +61,8 @@ describe('benchproof watch as a process', () => {
     w.child.kill('SIGTERM');
     const end = await w.exited;
     expect(end, w.err()).toEqual({ code: 0, signal: null });
-    expect(w.out()).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS {2}\(unit NOT MEASURED; run #1\)\n$/);
+    // One capture of three: the unit's first attempt waits for the other two conditions.
+    expect(w.out()).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS {2}\(FK-0101 1\/3, waiting for low, high; so far PASS; run 1 of attempt #1\)\n$/);
     expect(w.err()).toContain('benchproof: watch stopped: 1 file(s) checked (1 PASS, 0 FAIL); runs in ');
   }, 300_000);
 

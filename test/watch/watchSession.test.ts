@@ -37,8 +37,9 @@ describe('watch session', { timeout: 180_000 }, () => {
     const tally = await s.stop();
     const lines = s.lines().sort();
     expect(lines).toHaveLength(2);
-    expect(lines[0]).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS {2}\(unit NOT MEASURED; run #\d\)$/);
-    expect(lines[1]).toMatch(/^FK-0103_mid\.csv {2}FK-0103 {2}mid {2}FAIL {2}likely cause: charge\/discharge current mismatch.* {2}\(unit FAIL; run #\d\)$/);
+    // One condition of three each: both attempts wait, and causes wait for the rest to land.
+    expect(lines[0]).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS {2}\(FK-0101 1\/3, waiting for low, high; so far PASS; run 1 of attempt #1\)$/);
+    expect(lines[1]).toMatch(/^FK-0103_mid\.csv {2}FK-0103 {2}mid {2}FAIL {2}\(FK-0103 1\/3, waiting for low, high; so far FAIL; run 1 of attempt #1\)$/);
     // The stored run is what `check FILE` stores: the other conditions are not measured in it.
     expect(storedRuns().sort((a, b) => a.unit.localeCompare(b.unit))).toEqual([
       { unit: 'FK-0101', condition: 'mid', statement: 'not-measured' },
@@ -48,7 +49,7 @@ describe('watch session', { timeout: 180_000 }, () => {
     expect(s.err()).toMatch(/watch stopped: 2 file\(s\) checked \(1 PASS, 1 FAIL\); runs in /);
   });
 
-  it('checks each landed file with the unit’s captures already recorded from the folder, so the unit passes once every condition is in', async () => {
+  it('adds each landed file to the unit’s open attempt, so the attempt completes and passes once every condition is in', async () => {
     const s = startSession(root);
     await s.ready;
     for (const [i, condition] of ['low', 'mid', 'high'].entries()) {
@@ -56,11 +57,12 @@ describe('watch session', { timeout: 180_000 }, () => {
       await waitFor(() => s.lines().length >= i + 1, `status line ${i + 1}`, s.err);
     }
     await s.stop();
-    // Runs hold the landed file plus the recorded companions: low; low+mid; low+mid+high.
+    // Runs hold the landed file plus the open attempt's captures: low; low+mid; low+mid+high.
     const runs = storedRuns();
     expect(runs.map((r) => r.condition.split('+').sort().join('+'))).toEqual(['low', 'low+mid', 'high+low+mid']);
     expect(runs.map((r) => r.statement)).toEqual(['not-measured', 'not-measured', 'pass']);
-    expect(s.lines()[2]).toMatch(/^FK-0101_high\.csv {2}FK-0101 {2}high {2}PASS {2}\(unit PASS; run #3\)$/);
+    expect(s.lines()[1]).toMatch(/\(FK-0101 2\/3, waiting for high; so far PASS; run 2 of attempt #1\)$/);
+    expect(s.lines()[2]).toMatch(/^FK-0101_high\.csv {2}FK-0101 {2}high {2}PASS {2}\(FK-0101 3\/3: PASS; run 3 of attempt #1\)$/);
   });
 
   it('reads a file written in slow pieces once, after it has settled', async () => {
@@ -73,7 +75,7 @@ describe('watch session', { timeout: 180_000 }, () => {
     await new Promise((r) => setTimeout(r, 2500));
     await s.stop();
     expect(s.lines()).toHaveLength(1);
-    expect(s.lines()[0]).toMatch(/^FK-0104_low\.csv {2}FK-0104 {2}low {2}FAIL {2}likely cause: timing capacitor off its value/);
+    expect(s.lines()[0]).toMatch(/^FK-0104_low\.csv {2}FK-0104 {2}low {2}FAIL {2}\(FK-0104 1\/3, waiting for mid, high; so far FAIL/);
     const store = openStore(join(root, 'data'), { mode: 'read' });
     try {
       const runs = store.runs();

@@ -18,6 +18,9 @@ interface WatchOptions extends StoreFlags {
   json?: boolean;
   sampleRate?: string;
   interval?: string;
+  note?: string;
+  newAttempt?: boolean;
+  forceUnit?: boolean;
 }
 
 export const DEFAULT_SETTLE_MS = 1000;
@@ -29,7 +32,10 @@ export function registerWatch(program: Command, ctx: CommandContext): Command {
     .argument('<dir>', 'folder the scope or copy tool saves captures into (files directly in it)')
     .requiredOption('--spec <file>', 'the design spec (YAML or JSON); its file-name pattern gives unit and condition')
     .option('--unit <serial>', 'serial number of every capture, for a single-unit session', parseSerial)
+    .option('--force-unit', 'with --unit: record a file whose name names another unit under --unit anyway')
     .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
+    .option('--note <text>', "what was done to the units before this session (a repair, a trim): each unit's first file opens a new test attempt with it")
+    .option('--new-attempt', "each unit's first file opens a new test attempt instead of continuing the open one")
     .option('--settle <ms>', 'a file is read once its size and time have not changed for this long', String(DEFAULT_SETTLE_MS))
     .option('--new-only', 'skip the files already in the folder at start (by default they are checked unless recorded)')
     .option('--poll', 'look at the folder twice a second instead of waiting for change notices (for network shares)')
@@ -49,16 +55,21 @@ Examples:
   benchproof watch /media/usb-stick --spec samples/fh210-spec.yaml --report-dir /media/usb-stick
   benchproof watch /mnt/bench-share --spec samples/fh210-spec.yaml --poll --json
 
-Each landed file is checked with the unit's other recorded captures in the same folder (one per
-condition), and stored like \`benchproof check\` on those files: once every condition has landed,
-the unit's record shows its overall statement; until then the missing conditions are NOT MEASURED.
-The same bytes for the same unit and condition are never stored twice.
+  benchproof watch /media/usb-stick --spec samples/fh210-spec.yaml --unit FK-0106 --note "C3 replaced"
+
+Each unit has one open test attempt: a landed file joins it and is checked with the attempt's
+captures of the other conditions, and stored like \`benchproof check\` on that set. Until every
+condition has landed the unit is INCOMPLETE (the line says "FK-0101 2/3, waiting for high") and
+likely causes wait for the rest; a complete attempt is closed, and the unit's next file opens a new
+one. The same bytes for the same unit and condition are never stored twice.
 Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit status 0, 2 bad input.`,
     )
     .action(async (dir: string, opts: WatchOptions, cmd: Command) => {
       const json = Boolean(opts.json);
       ctx.json = json;
       const settleMs = parsePositive('--settle', opts.settle) ?? DEFAULT_SETTLE_MS;
+      const note = (await import('../attemptCompanions.js')).checkNote(opts.note);
+      const attempt = note !== undefined || opts.newAttempt ? { ...(note !== undefined ? { note } : {}), ...(opts.newAttempt ? { newAttempt: true } : {}) } : undefined;
       const timing = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
       const { runWatchSession } = await import('../watchSession.js');
       const onCapture = opts.calibrate ? (await import('../watchCalibration.js')).calibrateEachCapture(requireUnit(opts.unit), opts, opts.iteration) : undefined;
@@ -70,6 +81,8 @@ Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit stat
             dir, specFile: opts.spec, overrides: { unit: opts.unit, condition: opts.condition }, flags: opts, settleMs,
             newOnly: Boolean(opts.newOnly), poll: Boolean(opts.poll), reportDir: opts.reportDir, json, timing, style: ctx.styleFor(cmd),
             ...(onCapture ? { onCapture } : {}),
+            ...(attempt ? { attempt } : {}),
+            forceUnit: Boolean(opts.forceUnit),
           },
           stop.signal,
         );
