@@ -2,7 +2,8 @@
 /* global process, setTimeout, clearTimeout */
 // The long hardening run (`npm run hardening`, after `npm run build`): the tests in test/hardening
 // with BENCHPROOF_HARDENING=long (thousands of fuzzed captures and specs, 100+ killed processes),
-// then a summary of inputs tried, crashes, hangs and records lost — all must be 0.
+// then a summary of inputs tried, crashes, hangs, records lost, tamperings missed and hostile texts that
+// reached the output raw (injected) — all but the inputs must be 0.
 //
 // Options: --seed N (fresh fuzz inputs; every failure names its seed), --limit-minutes M (watchdog:
 // a run still going after M minutes is stopped and counted as a hang; default 90).
@@ -17,7 +18,8 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const AREAS = ['reader', 'limits', 'spec', 'numeric', 'store-crash', 'concurrency', 'hostile-paths'];
+const AREAS = ['reader', 'limits', 'spec', 'numeric', 'store-crash', 'concurrency', 'hostile-paths', 'tampering', 'injection'];
+const COUNTS = ['inputs', 'crashes', 'hangs', 'lost', 'missed', 'injected'];
 
 function option(name, fallback) {
   const i = process.argv.indexOf(name);
@@ -51,7 +53,7 @@ vitest.on('close', (code) => {
   clearTimeout(watchdog);
   const tallies = readTallies();
   rmSync(tallyDir, { recursive: true, force: true });
-  const total = { inputs: 0, crashes: 0, hangs: watchdogFired ? 1 : 0, lost: 0 };
+  const total = { inputs: 0, crashes: 0, hangs: watchdogFired ? 1 : 0, lost: 0, missed: 0, injected: 0 };
   const lines = [];
   for (const area of AREAS) {
     const t = tallies.get(area);
@@ -60,22 +62,22 @@ vitest.on('close', (code) => {
       total.crashes++;
       continue;
     }
-    for (const k of ['inputs', 'crashes', 'hangs', 'lost']) total[k] += t[k];
-    lines.push(`  ${area.padEnd(14)} ${fmt(t.inputs)} ${fmt(t.crashes)} ${fmt(t.hangs)} ${fmt(t.lost)}`);
+    for (const k of COUNTS) total[k] += t[k] ?? 0;
+    lines.push(`  ${area.padEnd(14)} ${COUNTS.map((k) => fmt(t[k] ?? 0)).join(' ')}`);
   }
   const notes = [...tallies.values()].flatMap((t) => t.notes).slice(0, 15);
-  const ok = code === 0 && total.crashes === 0 && total.hangs === 0 && total.lost === 0;
+  const ok = code === 0 && COUNTS.slice(1).every((k) => total[k] === 0);
   const minutes = ((Date.now() - started) / 60_000).toFixed(1);
   process.stdout.write(
     [
       '',
       `benchproof hardening summary (seed ${seed}, ${minutes} min)`,
-      `  ${'area'.padEnd(14)} ${'inputs'.padStart(8)} ${'crashes'.padStart(8)} ${'hangs'.padStart(8)} ${'lost'.padStart(8)}`,
+      `  ${'area'.padEnd(14)} ${COUNTS.map((k) => k.padStart(8)).join(' ')}`,
       ...lines,
-      `  ${'total'.padEnd(14)} ${fmt(total.inputs)} ${fmt(total.crashes)} ${fmt(total.hangs)} ${fmt(total.lost)}`,
+      `  ${'total'.padEnd(14)} ${COUNTS.map((k) => fmt(total[k])).join(' ')}`,
       ...(notes.length ? ['', 'first problems:', ...notes.map((n) => `  - ${n}`)] : []),
       '',
-      ok ? 'hardening: PASS (0 crashes, 0 hangs, 0 records lost)' : `hardening: FAIL (tests exit ${code}${watchdogFired ? ', watchdog fired' : ''})`,
+      ok ? 'hardening: PASS (0 crashes, 0 hangs, 0 records lost or doubled, 0 tamperings missed, 0 injections reached the output)' : `hardening: FAIL (tests exit ${code}${watchdogFired ? ', watchdog fired' : ''})`,
       '',
     ].join('\n'),
   );

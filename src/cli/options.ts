@@ -22,6 +22,7 @@ export function parsePositive(flag: string, raw: string | undefined): number | u
  */
 export function parseSerial(raw: string): string {
   const serial = raw.trim();
+  // eslint-disable-next-line no-control-regex -- finding control characters is the point
   if (serial === '' || /[\u0000-\u001f\u007f-\u009f]/.test(serial)) {
     throw new BenchError({
       code: 'usage.bad-serial',

@@ -10,7 +10,9 @@
  */
 import type { CliIo } from './io.js';
 
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
 const SGR = /\x1b\[[0-9;]*m/y;
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
 const UNSAFE = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
 
 function escapeOne(c: string): string {

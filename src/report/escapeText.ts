@@ -15,6 +15,7 @@
  */
 
 const LINE_BREAKS = /[\t\n\r\u0085\u2028\u2029]/g;
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
 const CONTROLS = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g;
 
 /** A control character as the escape a reader can see: `\x1b`, `\u202e`. */

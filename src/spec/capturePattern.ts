@@ -36,6 +36,7 @@ export function checkPattern(pattern: string, needsCondition: boolean, path: Spe
   const literal = pattern.replace(/\{[^}]*\}/g, '');
   if (/[/\\]/.test(literal)) push('it holds a folder separator (/ or \\), but captures are matched by file name only', 'drop the folder part; give the folder on the command line instead');
   if (literal.includes('..')) push('it holds "..", which no capture file name has', 'write the pattern as a plain file name, e.g. "{unit}_{condition}.csv"');
+  // eslint-disable-next-line no-control-regex -- finding control characters is the point
   if (/[\u0000-\u001f\u007f]/.test(pattern)) push('it holds a control character', 'retype the pattern with letters, digits, - and _ only');
   if (needsCondition && !tokens.includes('condition')) push('no {condition} token, but the spec has several conditions', 'add {condition} where the condition name sits in the file name');
 }
@@ -56,6 +57,7 @@ export function matchCaptureName(pattern: string, baseName: string, conditions: 
   const m = new RegExp(`^${source}$`, 'i').exec(baseName);
   if (!m?.groups) return m ? {} : null;
   // A serial that is blank or holds control characters (" _mid.csv") names no unit: the name does not fit.
+  // eslint-disable-next-line no-control-regex -- finding control characters is the point
   if (m.groups.unit !== undefined && (m.groups.unit.trim() === '' || /[\u0000-\u001f\u007f]/.test(m.groups.unit))) return null;
   const canonical = (found: string | undefined, names: readonly string[]): string | undefined =>
     found === undefined ? undefined : (names.find((n) => n.toLowerCase() === found.toLowerCase()) ?? found);

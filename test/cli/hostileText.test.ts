@@ -21,6 +21,7 @@ beforeAll(() => {
 });
 afterAll(() => removeTempDir(root));
 
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
 const RAW_CONTROL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/;
 
 describe('terminal output', () => {

@@ -32,6 +32,10 @@ export interface Tally {
   hangs: number;
   /** Runs reported as stored that are missing or incomplete in the store. */
   lost: number;
+  /** Changes to a store that its verification did not name (tampering area). */
+  missed?: number;
+  /** Hostile text that reached output raw: a control character on a terminal, broken Markdown or CSV. */
+  injected?: number;
   /** One line per problem, for the summary. */
   notes: string[];
 }

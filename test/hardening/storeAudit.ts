@@ -54,6 +54,7 @@ export function auditStore(dataDir: string): Audit {
       const n = (db.prepare(`SELECT COUNT(*) AS n FROM ${table} WHERE run_id NOT IN (SELECT id FROM runs)`).get() as { n: number }).n;
       if (n > 0) problems.push(`${n} row(s) in ${table} without their run`);
     }
+    auditChain(db, problems);
     const blobs = db.prepare('SELECT sha256, file FROM blobs').all() as { sha256: string; file: string }[];
     for (const b of blobs) if (!existsSync(join(dataDir, b.file))) problems.push(`blob ${b.sha256.slice(0, 12)}: ${b.file} is missing`);
   } finally {
@@ -63,6 +64,26 @@ export function auditStore(dataDir: string): Audit {
   const tmp = join(dataDir, 'tmp');
   const temps = existsSync(tmp) ? readdirSync(tmp) : [];
   return { runs, archived, temps, problems };
+}
+
+/**
+ * The hash chain (README "Records"), recomputed here from its definition: link(n) = SHA-256 of
+ * "benchproof-chain-1", link(n−1), kind, row number and row fingerprint, one per line, from 64 zeros;
+ * every run has exactly one entry carrying its stored fingerprint. A killed writer must leave it whole.
+ */
+function auditChain(db: Database.Database, problems: string[]): void {
+  const has = db.prepare("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = 'chain'").get();
+  if (!has) return;
+  const entries = db.prepare('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq').all() as { seq: number; kind: string; row_id: number; row_digest: string; link: string }[];
+  let link = '0'.repeat(64);
+  entries.forEach((e, i) => {
+    link = createHash('sha256').update(`benchproof-chain-1\n${link}\n${e.kind}\n${e.row_id}\n${e.row_digest}`).digest('hex');
+    if (e.seq !== i + 1 || e.link !== link) problems.push(`chain entry ${e.seq} does not follow from the one before`);
+  });
+  const runs = db.prepare('SELECT id, digest FROM runs').all() as { id: number; digest: string }[];
+  const chained = new Map(entries.filter((e) => e.kind === 'run').map((e) => [e.row_id, e.row_digest]));
+  for (const r of runs) if (chained.get(r.id) !== r.digest) problems.push(`run #${r.id} has no chain entry with its fingerprint`);
+  if (chained.size !== runs.length) problems.push(`${chained.size} run entries in the chain for ${runs.length} runs`);
 }
 
 function tablesWithRunId(db: Database.Database): string[] {
