@@ -3,9 +3,10 @@
  * 64 KiB, then read every row with the byte scanner (or papaparse for quoted layouts), hashing the
  * stored bytes on the way. Only the channels asked for are kept; a uniform time column is not.
  */
-import type { Capture, ReadCaptureOptions } from '../types/index.js';
+import type { Capture, CaptureWarning, ReadCaptureOptions } from '../types/index.js';
 import { assembleCapture } from './assemble.js';
 import { ByteScanner } from './byteScanner.js';
+import { ClockRewriter, rewriteChunks } from './clockTimes.js';
 import { captureError } from './errors.js';
 import { MAX_LINE_BYTES, sampleLines, SNIFF_BYTES } from './lines.js';
 import type { SampleLines } from './lines.js';
@@ -29,7 +30,19 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
   const source = await openSource(path, options.onProgress);
   const chunks = source.chunks[Symbol.asyncIterator]();
   try {
-    const { sample, done } = await gatherSample(chunks);
+    const gathered = await gatherSample(chunks);
+    const { done } = gathered;
+    let sample = gathered.sample;
+    let rest: AsyncIterable<Buffer> = { [Symbol.asyncIterator]: () => chunks };
+    // Clock-time stamps (a logger's `10:00:01.250`) are read as seconds since the first one.
+    const clock = sample.includes(':') ? ClockRewriter.forSample(sample.toString('latin1', 0, Math.min(sample.length, 1 << 16))) : null;
+    if (clock) {
+      const { StringDecoder } = await import('node:string_decoder');
+      const decoder = new StringDecoder('utf8');
+      sample = Buffer.from(clock.rewrite(decoder.write(sample), false) + (done ? clock.rewrite(decoder.end(), true) : ''), 'utf8');
+      const remaining = rest;
+      rest = done ? remaining : rewriteChunks(remaining, clock, decoder);
+    }
     const lines = sampleLines(sample, done, path);
     const sniffed = sniffLayout(lines, path, options);
     const meta = readMetadata(sniffed.preamble, sniffed.decimalMark);
@@ -49,7 +62,6 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
       leadColumn: x ?? kept[0] ?? 0,
       ...(options.segment !== undefined ? { segment: options.segment } : {}),
     });
-    const rest: AsyncIterable<Buffer> = { [Symbol.asyncIterator]: () => chunks };
     const data = sample.subarray(sniffed.dataOffset);
     if (sniffed.quotes === 'complex') {
       // papaparse loads only for the quoted layouts that need it, not at every start.
@@ -61,11 +73,16 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
       for await (const chunk of rest) scanner.feed(chunk);
       scanner.end();
     }
-    const capture = assembleCapture({ path, options, source, lines, sniffed, meta, roles, kept, sink, axis });
+    const assembled = assembleCapture({ path, options, source, lines, sniffed, meta, roles, kept, sink, axis });
+    const capture = clock ? { ...assembled, warnings: [clockWarning(sniffed.firstDataLine), ...assembled.warnings] } : assembled;
     return { capture, lines, sniffed };
   } finally {
     await chunks.return?.();
   }
+}
+
+function clockWarning(line: number): CaptureWarning {
+  return { code: 'clock-times', line, message: 'the rows are stamped with clock times (hh:mm:ss, with or without a date); they were read as seconds since the first stamp' };
 }
 
 function checkOptions(o: ReadCaptureOptions): void {

@@ -174,6 +174,20 @@ describe('readCapture on what bench instruments write', () => {
     expectWithin(c.sampleInterval, DT, { rel: 1e-9 }, 'median step as written');
   });
 
+  it('reads a logger that stamps rows with a date and a clock time, as seconds since the first stamp (trait 11)', async () => {
+    // 5 ms steps printed to the millisecond: 12:00:00.000, 12:00:00.005, … across a minute's turn.
+    const stamp = (i: number): string => {
+      const ms = 59_000 + i * 5;
+      return `01.03.2026 12:${String(Math.floor(ms / 60_000)).padStart(2, '0')}:${String(Math.floor((ms % 60_000) / 1000)).padStart(2, '0')},${String(ms % 1000).padStart(3, '0')}`;
+    };
+    const text = ['Logger;bench logger', 'Date and time;Triangle out (V)', ...rows((i) => `${stamp(i)};${tri[i].toFixed(4).replace('.', ',')}`, 600)].join('\r\n');
+    const c = await readCapture(write('clock.csv', text));
+    expect(c.warnings.map((w) => w.code)).toEqual(['clock-times']);
+    expectWithin(c.sampleInterval, 5e-3, { rel: 1e-12 }, '5 ms stamps as written');
+    expect(c.length).toBe(600);
+    expectWithin(maxError(c.channels[0].samples, tri), 0, { abs: 5e-5 + 1e-12 }, 'four decimals written');
+  });
+
   it('reads the first of several acquisitions and says how many there are; --segment picks another (trait 12)', async () => {
     const seg = rows((i) => `${time(i).toExponential(6)},${tri[i].toFixed(4)}`, 600);
     const text = ['Time (s),CH1 (V)', ...seg, ...seg.map((r) => r.replace(/,(.*)$/, (_, v: string) => `,${(Number(v) + 1).toFixed(4)}`)), ...seg].join('\n');
