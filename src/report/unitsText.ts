@@ -21,7 +21,8 @@ export function renderUnitsText(units: readonly UnitSummary[], style: TextStyle)
     String(u.runs),
     String(u.attempts ?? u.runs),
     firstWord(u),
-    `${u.spec.name} rev. ${u.spec.revision}`,
+    // Runs that failed verification (listed only with --allow-unverified) are named on the unit's line.
+    `${u.spec.name} rev. ${u.spec.revision}${u.unverifiedRuns?.length ? `  UNVERIFIED: run ${u.unverifiedRuns.map((id) => `#${id}`).join(', ')}` : ''}`,
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const pad = (cells: readonly string[]): string[] => cells.map((c, i) => (i === cells.length - 1 ? c : c.padEnd(widths[i])));

@@ -128,6 +128,8 @@ describe('tampering is seen by every command that reads records', () => {
     const list = (JSON.parse(units.stdout) as { units: { unit: string; unverifiedRuns?: number[] }[] }).units;
     expect(list.find((u) => u.unit === 'FK-0103')?.unverifiedRuns).toEqual([3]);
     expect(units.stderr).toContain('run #3 of FK-0103');
+    const text = await cli('units', '--allow-unverified');
+    expect(text.stdout).toMatch(/^FK-0103 .*UNVERIFIED: run #3$/m);
     const record = await cli('record', 'FK-0103', '--allow-unverified');
     expect(record.code).toBe(0);
     expect(record.stdout).toContain('**CHANGED**');
