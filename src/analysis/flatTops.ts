@@ -4,7 +4,8 @@
  * lies inside it (the circuit saturated). Common practice (no source); the rule, stated so it can be
  * checked, with every threshold in the signal's own terms so it holds at any vertical resolution:
  *
- * 1. Flat: a run of at least 3 samples exactly at the record's maximum (minimum); failing that, of
+ * 1. Flat: a run of at least 3 samples exactly (to 1e-9 of the span) at the highest (lowest) level
+ *    the record holds for 3 samples in a row, so a stray overshoot past it does not hide it; failing that, of
  *    samples within a band b = 6σ of it, σ the additive noise (noiseLevel.ts), so noise riding on a
  *    saturated level stays inside the band. Nothing depends on the size of the converter's steps: an
  *    exactly flat run counts at 1 µV as at 80 mV.
@@ -57,16 +58,21 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
   }
   if (!(max > min) || !(span > 0)) return [];
   const out: FlatTop[] = [];
+  // Values printed with 15 digits differ in the last one: "exactly" flat means within this much.
+  const equal = 1e-9 * Math.max(Math.abs(max), Math.abs(min), span);
   for (const dir of [1, -1] as const) {
-    const level = dir > 0 ? max : min;
     const side = dir > 0 ? 'high' : 'low';
-    const from = fullScaleOf(samples, side, level, max, min, fullScale);
-    const q = stepAt(samples, level, -dir);
+    const extreme = dir > 0 ? max : min;
+    // A stray sample past a flat run (a simulator's or scope's overshoot) must not hide it: the exact
+    // level is the highest (lowest) one held for MIN_RUN samples in a row.
+    const level = heldLevel(samples, dir, equal) ?? extreme;
+    const from = fullScaleOf(samples, side, extreme, max, min, fullScale);
+    const q = stepAt(samples, level, -dir, equal);
     const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
-    const exact = { band: 0, unit: q, d: Math.max(2 * q, 0.05 * span) };
+    const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
     // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
     let found = flatSamples(samples, level, dir, exact, span, from === null);
-    if (found.count < MIN_SHARE * samples.length) found = flatSamples(samples, level, dir, noisy, span, from === null);
+    if (found.count < MIN_SHARE * samples.length) found = flatSamples(samples, extreme, dir, noisy, span, from === null);
     if (found.count < MIN_SHARE * samples.length) continue;
     out.push({
       side,
@@ -184,11 +190,22 @@ function fullScaleOf(
 }
 
 /** Distance from `level` to the nearest other value on the inside (`towards` −1 below, +1 above). */
-function stepAt(x: Float64Array, level: number, towards: number): number {
+function stepAt(x: Float64Array, level: number, towards: number, equal = 0): number {
   let best = Infinity;
   for (let i = 0; i < x.length; i++) {
     const d = towards * (x[i] - level);
-    if (d > 0 && d < best) best = d;
+    if (d > equal && d < best) best = d;
+  }
+  return best;
+}
+
+/** The highest (dir 1) or lowest (dir −1) value held within `equal` for MIN_RUN samples in a row; null if none. */
+function heldLevel(x: Float64Array, dir: 1 | -1, equal: number): number | null {
+  let best: number | null = null;
+  let run = 1;
+  for (let i = 1; i < x.length; i++) {
+    run = Math.abs(x[i] - x[i - 1]) <= equal ? run + 1 : 1;
+    if (run >= MIN_RUN && (best === null || dir * (x[i] - best) > 0)) best = x[i];
   }
   return best;
 }

@@ -1,7 +1,7 @@
 /**
  * Shape patterns of the triangle and the levels of the pulse.
  * - Ramp slopes are I/C, so the slope ratio is the charge/discharge current ratio; a ratio other than
- *   1 also skews the symmetry and the pulse duty (rising share 1/(1 + ratio)) and brings even
+ *   the design's (1 for matched currents) also skews the symmetry and the pulse duty (rising share 1/(1 + ratio)) and brings even
  *   harmonics, which a symmetric triangle lacks (Fourier series, REFERENCES.md §4).
  * - The swing and peaks are the comparator thresholds; the mean is where they are centred.
  * - A trace flat at one level inside the scope's range is saturation (output stage or rail); at the
@@ -22,14 +22,18 @@ const failing = (o: OutputAt, id: Parameters<typeof checkOf>[1]): boolean => {
 
 export const currentMismatch: CauseRule = (f) => {
   const tri = outputsShaped(f, ['triangle', 'sawtooth']).filter((o) => !o.clipped);
+  // A design with unequal currents expects their ratio, not 1 (slopes are I/C, so C cancels).
+  const ic = f.design.chargeCurrent?.nominal;
+  const id = f.design.dischargeCurrent?.nominal ?? ic;
+  const expected = ic && id ? ic / id : 1;
   const ratios = tri
     .map((o) => ({ c: o.condition, r: valueOf(o.channel, 'slopeRatio'), U: expandedOf(o.channel, 'slopeRatio') }))
     .filter((x): x is { c: string; r: number; U: number } => x.r !== null);
-  const off = ratios.filter((x) => Math.abs(x.r - 1) > Math.max(0.02, x.U));
+  const off = ratios.filter((x) => Math.abs(x.r / expected - 1) > Math.max(0.02, x.U / expected));
   if (off.length === 0 || off.length < ratios.length / 2) return null;
-  const mean = off.reduce((s, x) => s + x.r, 0) / off.length;
-  const evidence = [`slope ratio rise/fall ${off.map((x) => `${num(x.r, 4)} at ${x.c}`).join(', ')} (matched currents give 1): charge current ≈ ${num((mean - 1) * 100, 2)} % ${mean > 1 ? 'above' : 'below'} the discharge current`];
-  const expectedDuty = 100 / (1 + mean);
+  const mean = off.reduce((s, x) => s + x.r, 0) / off.length / expected;
+  const evidence = [`slope ratio rise/fall ${off.map((x) => `${num(x.r, 4)} at ${x.c}`).join(', ')} (the design's currents give ${num(expected, 4)}): charge current ≈ ${num((mean - 1) * 100, 2)} % ${mean > 1 ? 'above' : 'below'} its share against the discharge current`];
+  const expectedDuty = 100 / (1 + mean * expected);
   const duties = outputsShaped(f, ['pulse', 'square']).map((o) => ({ c: o.condition, d: valueOf(o.channel, 'dutyCycle') })).filter((x) => x.d !== null);
   if (duties.some((x) => Math.abs(x.d! - 50) > 1)) evidence.push(`pulse duty ${duties.map((x) => `${num(x.d!, 3)} %`).join(', ')}, as the slopes predict (${num(expectedDuty, 3)} % or its complement)`);
   const h2 = tri.map((o) => ({ c: o.condition, h: o.channel.harmonics.find((h) => h.n === 2) })).filter((x) => x.h && x.h.dbc > -45);
