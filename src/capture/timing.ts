@@ -6,6 +6,7 @@ import type { CaptureLayout, CaptureWarning, ReadCaptureOptions } from '../types
 import { captureError } from './errors.js';
 import type { MetadataTiming } from './metadata.js';
 import { gridLength, medianStep, resampleUniform } from './resample.js';
+import type { Resampled } from './resample.js';
 import type { AxisResult } from './timeAxis.js';
 
 /** A resampled grid may hold at most this many times the rows read (and never more than 2^27 points). */
@@ -83,6 +84,13 @@ export function resolveTiming(input: TimingInput): Timing {
   }
   const r = resampleUniform(times, input.channels, step);
   const interval = r.step * unitScale;
+  const dropped = markDropouts(times, r, step);
+  if (dropped.points > 0) {
+    warnings.push({
+      code: 'dropouts',
+      message: `${dropped.points} sample(s) are missing in ${dropped.gaps} gap(s) of an otherwise uniform time column (the first after ${dropped.firstAt * unitScale} s); they are kept as gaps, not interpolated, and the longest continuous run is measured`,
+    });
+  }
   warnings.push({
     code: 'resampled',
     line: firstIrregularLine,
@@ -147,4 +155,33 @@ function rebuildRepeated(input: TimingInput, axis: Extract<AxisResult, { uniform
       },
     ],
   };
+}
+
+/** A gap longer than this many steps in a uniform time column is a dropout, not jitter or one lost row. */
+const DROPOUT_STEPS = 3.5;
+/** Share of steps within 0.1 % of the grid step for a time column to count as uniform apart from its gaps. */
+const UNIFORM_SHARE = 0.9;
+
+/**
+ * Samples lost from a logger or scope record (a gap of several steps in a column that is otherwise
+ * uniform): the grid points inside the gap become NaN, so that nothing is made up across it. A
+ * simulator's adaptive steps vary everywhere and are left to the interpolation.
+ */
+function markDropouts(times: Float64Array, r: Resampled, step: number): { points: number; gaps: number; firstAt: number } {
+  const none = { points: 0, gaps: 0, firstAt: 0 };
+  let even = 0;
+  for (let i = 1; i < times.length; i++) if (Math.abs(times[i] - times[i - 1] - step) <= 1e-3 * step) even++;
+  if (even < UNIFORM_SHARE * (times.length - 1)) return none;
+  let points = 0;
+  let gaps = 0;
+  let firstAt = 0;
+  for (let i = 1; i < times.length; i++) {
+    if (times[i] - times[i - 1] <= DROPOUT_STEPS * step) continue;
+    if (gaps++ === 0) firstAt = times[i - 1];
+    const from = Math.floor((times[i - 1] - r.t0) / step + 1e-9) + 1;
+    const to = Math.ceil((times[i] - r.t0) / step - 1e-9) - 1;
+    for (let g = from; g <= to; g++) for (const ch of r.channels) ch[g] = NaN;
+    points += Math.max(0, to - from + 1);
+  }
+  return { points, gaps, firstAt };
 }

@@ -155,6 +155,16 @@ describe('readCapture on what bench instruments write', () => {
     expectWithin(maxError(c.channels[0].samples, tri), 0, { abs: 5e-5 + 1e-12 }, 'four decimals written');
   });
 
+  it('keeps a dropout of many samples as a gap instead of interpolating across it (trait 9)', async () => {
+    const kept = rows((i) => (i >= 1200 && i < 1260 ? '' : `${time(i).toExponential(6)},${tri[i].toFixed(4)}`)).filter((r) => r !== '');
+    const c = await readCapture(write('dropout.csv', ['Time (s),CH1 (V)', ...kept].join('\n')));
+    expect(c.length).toBe(N);
+    expect(c.warnings.map((w) => w.code)).toEqual(['dropouts', 'resampled']);
+    const missing = Array.from(c.channels[0].samples.subarray(1200, 1260)).filter(Number.isNaN).length;
+    expect(missing).toBe(60);
+    expectWithin(c.channels[0].samples[1260], tri[1260], { abs: 5e-5 + 1e-12 }, 'four decimals written');
+  });
+
   it('reads the number spellings instruments print (trait 10)', async () => {
     const plus = ['Time (s);CH1 (V)', ...rows((i) => ` ${time(i) >= 0 ? '+' : ''}${time(i).toExponential(4).replace('.', ',').toUpperCase()};  ${tri[i] >= 0 ? '+' : '-'}0${Math.abs(tri[i]).toFixed(4).replace('.', ',')}`)].join('\n');
     const c = await readCapture(write('trait10.csv', plus));
