@@ -29,7 +29,8 @@
  *   capture.too-large             more than 2^28 samples (2 GiB) over the kept channels
  *
  * Capture warning codes: invalid-samples, clipped, resampled, footer, option-ignored,
- * interval-mismatch, record-length-mismatch, time-rebuilt, segments, spliced, raw-counts.
+ * interval-mismatch, record-length-mismatch, time-rebuilt, dropouts, clock-times, segments, spliced,
+ * raw-counts.
  */
 export { readCapture } from './readCapture.js';
 export { detectClipping } from './clipping.js';
