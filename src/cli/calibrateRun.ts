@@ -33,6 +33,8 @@ export interface CalibrationSession {
   readonly specText: string;
   readonly unit: string;
   readonly label?: string;
+  /** What was done before this iteration (`--note`), stored with it. */
+  readonly note?: string;
   readonly timing: TimingOptions;
   readonly flags: CalibrationFlags;
   /** Measured steps of the capture set in progress, by step index; a later capture of a step replaces the earlier. */
@@ -104,7 +106,7 @@ export async function calibrateCapture(ctx: CommandContext, session: Calibration
 /** Decide a complete capture set (in step order), add the trim guidance, and store it unless --no-store. */
 export function finishIteration(ctx: CommandContext, session: CalibrationSession, steps: readonly MeasuredStep[], startedAt: string): { iteration: CalibrationIteration; place?: IterationPlace } {
   const decision = decideCalibration(session.spec, session.unit, steps.map((s) => s.reading), session.label ? { label: session.label } : {});
-  const iteration = guideTrim(session.spec, decision);
+  const iteration = { ...guideTrim(session.spec, decision), ...(session.note !== undefined ? { note: session.note } : {}) };
   if (session.flags.store === false) return { iteration };
   return { iteration, place: storeIteration(ctx, session, iteration, steps, startedAt) };
 }
@@ -131,7 +133,16 @@ function storeIteration(ctx: CommandContext, session: CalibrationSession, iterat
   }
   const place = { calibrationId: saved.calibrationId, number: saved.iteration.number, startedRun: saved.startedRun };
   const what = `stored iteration ${place.number} of calibration run #${place.calibrationId} of ${session.unit}${place.startedRun ? ' (a new run)' : ''} in ${location.shown}`;
-  const next = iteration.meetsLimits ? `benchproof record ${quoteArg(session.unit)} --format html --out ${quoteArg(`${session.unit}-record.html`)}` : 'trim as guided, re-capture every step and run calibrate again';
+  const next = iteration.meetsLimits ? recheckHint(session.spec, session.unit) : 'trim as guided, re-capture every step and run calibrate again';
   notice(ctx, what, next);
   return place;
+}
+
+/**
+ * After a calibration the unit's earlier checks predate the trim: the next step is to capture every
+ * condition again and check them (a new test attempt opens for it).
+ */
+export function recheckHint(spec: Spec, unit: string): string {
+  const names = spec.conditions.map((c) => spec.pattern.replace('{unit}', unit).replace('{condition}', c.name).replace('{output}', '*'));
+  return `re-check the unit: capture it at every condition, then benchproof check ${names.map(quoteArg).join(' ')} --spec ${quoteArg(spec.file)}`;
 }

@@ -17,5 +17,6 @@ export { CHAIN_START, chainLink } from './chain.js';
 export { nearestNames } from './nearestNames.js';
 export { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
 export type { AttemptFacts, OpenAttempt } from './attempts.js';
+export { compareAttempts } from './compareAttempts.js';
 export type { CaptureKey, SaveOnceResult } from './captureSeen.js';
 export type { SavedIteration } from './calibrationSave.js';

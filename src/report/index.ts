@@ -12,6 +12,7 @@ export { renderBatchHtml } from './batchHtml.js';
 export { renderBatchMarkdown } from './batchMarkdown.js';
 export { renderBatchCsv, BATCH_CSV_COLUMNS } from './batchCsv.js';
 export { renderUnitsText } from './unitsText.js';
+export { renderComparisonHtml, renderComparisonJson, renderComparisonMarkdown, renderComparisonText } from './compareAttempts.js';
 export { renderCalibrationText } from './calibrationText.js';
 export type { IterationPlace } from './calibrationText.js';
 export { calibrationDocument } from './calibrationJson.js';

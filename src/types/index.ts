@@ -41,8 +41,11 @@ export type {
 } from './verdict.js';
 export type { Cause, CircuitFigure, CircuitView, Diagnosis } from './cause.js';
 export type {
+  AttemptComparison,
   AttemptReason,
   AttemptSummary,
+  ComparedAttempt,
+  ComparedCheck,
   BatchReport,
   BatchUnit,
   Capability,

@@ -250,3 +250,48 @@ export interface BatchReport {
   readonly specs: readonly SpecBatch[];
   readonly source?: DocumentSource;
 }
+
+/** One side of a comparison: an attempt as its latest run left it. */
+export interface ComparedAttempt {
+  readonly number: number;
+  readonly statement: Statement;
+  readonly state: VerdictState;
+  readonly waitingFor: readonly string[];
+  readonly notes: readonly string[];
+  readonly startedAt: string;
+  /** The run that decides it: store-wide id and the unit's own run number. */
+  readonly runId: number;
+  readonly runNumber?: number;
+  readonly causes: readonly { readonly id: string; readonly title: string; readonly score: number }[];
+}
+
+/** One check in both attempts; a side is null when that attempt did not check it. */
+export interface ComparedCheck {
+  readonly condition: string;
+  readonly output: string;
+  readonly measurement: string;
+  readonly unit: string;
+  readonly lower: number | null;
+  readonly upper: number | null;
+  readonly before: { readonly value: number | null; readonly expandedUncertainty: number | null; readonly statement: Statement } | null;
+  readonly after: { readonly value: number | null; readonly expandedUncertainty: number | null; readonly statement: Statement } | null;
+  /** after − before, when both were measured. */
+  readonly change: number | null;
+  /** True when |change| exceeds the root-sum-square of both expanded uncertainties (k = 2). */
+  readonly significant: boolean;
+  readonly statementChanged: boolean;
+}
+
+/** Two attempts of one unit side by side: values, statements and causes, and what changed. */
+export interface AttemptComparison {
+  readonly schemaVersion: 1;
+  readonly unit: string;
+  readonly spec: RunSpec;
+  readonly before: ComparedAttempt;
+  readonly after: ComparedAttempt;
+  readonly checks: readonly ComparedCheck[];
+  /** Causes named before and no longer, and named now but not before (by id). */
+  readonly causesGone: readonly { readonly id: string; readonly title: string }[];
+  readonly causesNew: readonly { readonly id: string; readonly title: string }[];
+  readonly source?: DocumentSource;
+}

@@ -9,6 +9,7 @@ interface CalibrateOptions extends CalibrationFlags {
   spec: string;
   unit: string;
   iteration?: string;
+  note?: string;
   json?: boolean;
   sampleRate?: string;
   interval?: string;
@@ -23,6 +24,7 @@ export function registerCalibrate(program: Command, ctx: CommandContext): Comman
     .requiredOption('--unit <serial>', 'serial number of the unit being calibrated', parseSerial)
     .option('--iteration <label>', 'a label for this iteration, e.g. "after scale trim"')
     .option('--new-run', "start a new calibration run even if the unit's latest one is still open")
+    .option('--note <text>', 'what was done before this iteration (a part replaced, a trimmer turned); the next check of the unit opens a new test attempt')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
     .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
     .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
@@ -51,7 +53,8 @@ Every iteration is stored in the records (./benchproof-data/, or BENCHPROOF_DATA
     const { spec, text } = loadSpec(ctx, opts.spec);
     // Every file is placed at its step before any is read, so a misnamed file fails at once.
     const plan = planCalibration(spec, files, opts.unit);
-    const session = { spec, specText: text, unit: opts.unit, ...(opts.iteration ? { label: opts.iteration } : {}), timing, flags: opts, steps: new Map<number, MeasuredStep>() };
+    const note = (await import('../attemptCompanions.js')).checkNote(opts.note);
+    const session = { spec, specText: text, unit: opts.unit, ...(opts.iteration ? { label: opts.iteration } : {}), ...(note !== undefined ? { note } : {}), timing, flags: opts, steps: new Map<number, MeasuredStep>() };
     const progress = createProgress(ctx, json);
     const measured: MeasuredStep[] = [];
     for (const entry of plan) measured.push(await measureStep(ctx, session, entry, progress));

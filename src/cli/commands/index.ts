@@ -7,6 +7,7 @@ import { registerCheck } from './check.js';
 import { registerSpec } from './spec.js';
 import { registerUnits } from './units.js';
 import { registerRecord } from './record.js';
+import { registerCompare } from './compare.js';
 import { registerBatch } from './batch.js';
 import { registerWatch } from './watch.js';
 import { registerCalibrate } from './calibrate.js';
@@ -21,6 +22,7 @@ export const COMMANDS: readonly RegisterCommand[] = [
   registerSpec,
   registerUnits,
   registerRecord,
+  registerCompare,
   registerBatch,
   registerWatch,
   registerCalibrate,
