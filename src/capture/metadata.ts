@@ -35,7 +35,7 @@ const TRIGGER_INDEX = /trigger\s*(point|index|sample)/;
 const CODE_STEP = /y\s*-?\s*incr\w*|^yinc$|volts?\s*per\s*(count|code|lsb|step)|\bv\s*\/\s*(count|code|lsb)\b/;
 const CODE_ORIGIN = /y\s*-?\s*origin|^yorg$/;
 const CODE_REFERENCE = /y\s*-?\s*ref(erence)?$|^yref$/;
-const VOLTS_PER_DIV = /vertical\s*scale|volts?\s*\/\s*div|v\s*\/\s*div|^scale$/;
+const VOLTS_PER_DIV = /vertical\s*scale|volts?\s*(\/|per)\s*div|v\s*\/\s*div|^scale$/;
 
 interface Quantity {
   readonly value: number;

@@ -139,6 +139,7 @@ describe('readCapture on what bench instruments write', () => {
     const bare = await readCapture(write('trait8a.csv', ['Sampling period,2.0E-05', 'Volts per division,0.2', ...codes].join('\n')));
     expect(bare.channels[0].unit).toBe('counts');
     expect(bare.warnings.map((w) => w.code)).toEqual(['raw-counts']);
+    expect(bare.warnings[0].message).toContain('only 0.2 V per division');
     const scaled = await readCapture(write('trait8b.csv', ['Sampling period,2.0E-05', 'Y increment,0.04', 'Y origin,0', 'Y reference,0', ...codes].join('\n')));
     expect(scaled.channels[0].unit).toBe('V');
     expectWithin(maxError(scaled.channels[0].samples, tri), 0, { abs: 0.02 + 1e-12 }, 'half a 40 mV step');
