@@ -1,6 +1,7 @@
 // Public names of the analysis stage, one per line. Other stages import from here only.
 export { measureCapture } from './measureCapture.js';
 export type { MeasureCaptureOptions } from './measureCapture.js';
+export type { HarmonicSet } from './harmonicAnalysis.js';
 export { measureChannel } from './measureChannel.js';
 export type { ChannelAnalysis, ChannelOptions } from './measureChannel.js';
 export { classifyShape } from './classifyShape.js';

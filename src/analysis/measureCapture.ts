@@ -10,6 +10,7 @@
 import type { Capture, CaptureChannel, CaptureWarning, ChannelReport, MeasureReport, Measurement, MeasurementId, MeasureResult } from '../types/index.js';
 import { MEASUREMENT_IDS } from '../types/index.js';
 import { MIN_SAMPLES, measureChannel } from './measureChannel.js';
+import type { HarmonicSet } from './harmonicAnalysis.js';
 import { analyzeSpectrum, spectralBufferLength } from './spectralAnalysis.js';
 import { unitFor } from './units.js';
 import { validRun } from './validRun.js';
@@ -18,13 +19,15 @@ import { waveformPlot } from './waveformPlot.js';
 export interface MeasureCaptureOptions {
   /** Include waveform and spectrum excerpts for plotting. */
   readonly plotData?: boolean;
+  /** Harmonics THD and the other sums take: every one below Nyquist unless a design states a count or bandwidth. */
+  readonly harmonicSet?: HarmonicSet;
 }
 
 const MIN_VALID_SHARE = 0.5;
 const BASE_IDS: readonly MeasurementId[] = ['frequency', 'period', 'maximum', 'minimum', 'peakToPeak', 'dcOffset', 'rms', 'acRms'];
 
 export function measureCapture(capture: Capture, options: MeasureCaptureOptions = {}): MeasureReport {
-  const { plotData = false } = options;
+  const { plotData = false, harmonicSet = {} } = options;
   const dt = capture.sampleInterval;
   if (!(dt > 0)) throw new RangeError(`measureCapture: sample interval ${dt} must be positive`);
   // One transform buffer for every channel: fresh memory is slow to touch (shared/peer/MEASURED.md).
@@ -38,11 +41,12 @@ export function measureCapture(capture: Capture, options: MeasureCaptureOptions 
     duration: capture.length * dt,
     // The reader's "clipped" warnings are replaced by each channel's own finding (measureChannel.ts).
     warnings: capture.warnings.filter((w) => w.code !== 'clipped'),
-    channels: capture.channels.map((ch) => channelReport(ch, capture, plotData, buffer)),
+    channels: capture.channels.map((ch) => channelReport(ch, capture, { plotData, harmonicSet }, buffer)),
   };
 }
 
-function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean, buffer: Float64Array): ChannelReport {
+function channelReport(ch: CaptureChannel, capture: Capture, options: { plotData: boolean; harmonicSet: HarmonicSet }, buffer: Float64Array): ChannelReport {
+  const { plotData, harmonicSet } = options;
   const dt = capture.sampleInterval;
   const warnings: CaptureWarning[] = [];
   if (ch.unit === '') warnings.push({ code: 'unit-assumed', channel: ch.name, message: `channel ${ch.name} has no unit in the file; its values are taken as volts` });
@@ -66,6 +70,7 @@ function channelReport(ch: CaptureChannel, capture: Capture, plotData: boolean, 
   const spectral = analyzeSpectrum(x, dt, a.fundamental, a.shape, {
     plot: plotData,
     buffer,
+    harmonicSet,
     clipped: clipped !== undefined,
     ...(a.shape === 'pulse' && duty?.ok ? { dutyCycle: duty.value } : {}),
   });
