@@ -41,14 +41,7 @@ const REQUIRED_TABLES = ['schema_migrations', 'specs', 'runs', 'blobs', 'run_cap
  * leaves it, or other than the steps `schema_migrations` says ran) is refused, never migrated over.
  */
 export function applyMigrations(db: Database, dir: string, upTo: number = LATEST_SCHEMA): number {
-  // One read transaction: the version and the tables are seen in one snapshot, even while another
-  // process applies a step.
-  const found = db.transaction(() => {
-    const v = schemaVersion(db);
-    if (v > LATEST_SCHEMA) throw newerSchemaError(dir, v);
-    checkVersionAgrees(db, dir, v);
-    return v;
-  })();
+  const found = checkStoreSchema(db, dir);
   for (const step of MIGRATIONS) {
     if (step.version > upTo) break;
     db.transaction(() => {
@@ -74,6 +67,20 @@ export function applyMigrations(db: Database, dir: string, upTo: number = LATEST
   return version;
 }
 
+/**
+ * The schema version found, after checking that it agrees with the database: read in one read
+ * transaction, so the version and the tables are seen in one snapshot even while another process
+ * applies a step. Reads only: openStore calls it before anything (even the journal mode) is written.
+ */
+export function checkStoreSchema(db: Database, dir: string): number {
+  return db.transaction(() => {
+    const v = schemaVersion(db);
+    if (v > LATEST_SCHEMA) throw newerSchemaError(dir, v);
+    checkVersionAgrees(db, dir, v);
+    return v;
+  })();
+}
+
 function tableExists(db: Database, name: string): boolean {
   return db.prepare("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?").get(name) !== undefined;
 }
@@ -84,7 +91,8 @@ function checkVersionAgrees(db: Database, dir: string, found: number): void {
   if (found === 0) {
     if (tables.length === 0) return;
     const ran = tables.includes('schema_migrations') ? lastStep(db) : null;
-    throw mismatchError(dir, found, ran === null ? `the database holds tables (${tables.slice(0, 4).join(', ')}) that are not a benchproof store's` : `its own migration log says schema ${ran} (an SQL dump does not carry the schema version)`);
+    if (ran === null && !tables.includes('runs')) throw foreignError(dir, tables);
+    throw mismatchError(dir, found, ran === null ? 'the migration log is missing' : `its own migration log says schema ${ran} (an SQL dump does not carry the schema version)`);
   }
   const ran = tables.includes('schema_migrations') ? lastStep(db) : null;
   if (ran !== found) throw mismatchError(dir, found, ran === null ? 'the migration log is missing' : `its own migration log says schema ${ran}`);
@@ -93,6 +101,17 @@ function checkVersionAgrees(db: Database, dir: string, found: number): void {
 function lastStep(db: Database): number | null {
   const row = db.prepare('SELECT MAX(version) AS v FROM schema_migrations').get() as { v: number | null } | undefined;
   return row?.v ?? null;
+}
+
+/** Another program's SQLite database where records.db should be: damaged for benchproof, never migrated over. */
+function foreignError(dir: string, tables: readonly string[]): BenchError {
+  return new BenchError({
+    code: 'records.damaged',
+    file: dir,
+    problem: `records.db is an SQLite database of another program (tables ${tables.slice(0, 4).join(', ')}), not a benchproof store; it was left untouched`,
+    expected: 'the records.db benchproof wrote in this data folder',
+    fix: 'restore records.db from your last backup, or give another folder with --data DIR',
+  });
 }
 
 function mismatchError(dir: string, found: number, why: string): BenchError {

@@ -9,7 +9,7 @@ import { existsSync, lstatSync, mkdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import type { NewCalibrationIteration, NewRun, StoredCalibrationRun, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
 import { removeStaleTemps } from './archive.js';
-import { LATEST_SCHEMA, applyMigrations } from './migrations.js';
+import { LATEST_SCHEMA, applyMigrations, checkStoreSchema } from './migrations.js';
 import { distinct, readRuns, specText } from './readRuns.js';
 import type { RunFilter } from './readRuns.js';
 import { saveRun } from './saveRun.js';
@@ -88,6 +88,8 @@ export function openStore(dir: string, options: OpenStoreOptions = {}): RecordSt
   let version: number;
   try {
     db = new Database(dbFile, { timeout: busyTimeoutMs, fileMustExist: mode === 'read' });
+    // Checked before the journal mode is set, which would rewrite the header of a file that is not ours.
+    checkStoreSchema(db, label);
     db.pragma('journal_mode = WAL');
     db.pragma('synchronous = FULL');
     db.pragma('foreign_keys = ON');

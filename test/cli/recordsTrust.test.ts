@@ -182,6 +182,21 @@ describe('damaged stores and rows are refused, never an internal error', () => {
     expect(rec.stderr).not.toContain('internal error');
   });
 
+  it('refuses another program\'s SQLite database as records.db, as damaged, and leaves it', async () => {
+    const other = join(root, 'other');
+    mkdirSync(other);
+    const db = new Database(join(other, 'records.db'));
+    db.exec('CREATE TABLE invoices (id INTEGER PRIMARY KEY, total REAL)');
+    db.close();
+    const before = readFileSync(join(other, 'records.db'));
+    for (const argv of [['units', '--json', '--data', other], ['check', join(process.cwd(), 'samples/captures/FK-0101_mid.csv'), '--spec', join(process.cwd(), 'samples/fh210-spec.yaml'), '--json', '--data', other]]) {
+      const r = await runCli(argv, { cwd: root });
+      expect(r.code, argv[0]).toBe(2);
+      expect((JSON.parse(r.stderr) as { error: { code: string } }).error.code).toBe('records.damaged');
+    }
+    expect(readFileSync(join(other, 'records.db')).equals(before)).toBe(true);
+  });
+
   it.each([0, 2, -1])('refuses a store whose schema version was set to %i, with the version found and expected', async (version) => {
     const db = new Database(join(data, 'records.db'));
     db.pragma(`user_version = ${version}`);
