@@ -50,12 +50,7 @@ function periodSplice(x: Float64Array): { at: number; step: number } | null {
   if (period === null || period < 8 || 3 * period > n) return null;
   const from = Math.ceil(period) + 1;
   const r = new Float64Array(n);
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    if (x[i] < lo) lo = x[i];
-    if (x[i] > hi) hi = x[i];
-  }
+  const [lo, hi] = range(x, 0, n);
   for (let i = from; i < n; i++) {
     const back = i - period;
     const j = Math.floor(back);
@@ -83,12 +78,7 @@ function periodSplice(x: Float64Array): { at: number; step: number } | null {
 
 /** Median distance between rising crossings of the mid-level, interpolated; null with fewer than four. */
 function medianPeriod(x: Float64Array): number | null {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < x.length; i++) {
-    if (x[i] < lo) lo = x[i];
-    if (x[i] > hi) hi = x[i];
-  }
+  const [lo, hi] = range(x, 0, x.length);
   if (!(hi > lo)) return null;
   const mid = (lo + hi) / 2;
   // A little hysteresis (a tenth of the range) so that noise on a slow edge counts one crossing.
@@ -127,13 +117,19 @@ function stepSplice(x: Float64Array): { at: number; step: number } | null {
   return crossings(x, from, to) >= MIN_CROSSINGS ? { at, step: big } : null;
 }
 
-function crossings(x: Float64Array, from: number, to: number): number {
+/** Smallest and largest finite sample in [from, to). */
+function range(x: Float64Array, from: number, to: number): [number, number] {
   let lo = Infinity;
   let hi = -Infinity;
   for (let i = from; i < to; i++) {
     if (x[i] < lo) lo = x[i];
     if (x[i] > hi) hi = x[i];
   }
+  return [lo, hi];
+}
+
+function crossings(x: Float64Array, from: number, to: number): number {
+  const [lo, hi] = range(x, from, to);
   const mid = (lo + hi) / 2;
   let count = 0;
   let above = x[from] > mid;
