@@ -12,8 +12,9 @@
 import type { DesignSection } from '../spec/index.js';
 import type { CoreReading } from './coreReadings.js';
 import { designSwing } from './circuitView.js';
+import { coreFrequency, designEstimate } from './circuitFormulas.js';
 
-export type ObservationKind = 'rise' | 'fall' | 'top' | 'bottom' | 'swing' | 'logicHigh';
+export type ObservationKind = 'rise' | 'fall' | 'top' | 'bottom' | 'swing' | 'logicHigh' | 'frequency';
 
 export interface Observation {
   readonly kind: ObservationKind;
@@ -22,6 +23,8 @@ export interface Observation {
   readonly u: number;
   /** Nominal frequency here over the highest nominal frequency (1 when unknown). */
   readonly g: number;
+  /** Share of the period the charging ramp takes by design, I_discharge/(I_charge + I_discharge) (½ when unknown). */
+  readonly wc: number;
 }
 
 /** Relative uncertainty floor of an observation: 0.1 % (common practice, no source). */
@@ -35,8 +38,9 @@ export function observations(readings: readonly CoreReading[], design: DesignSec
   const out: Observation[] = [];
   for (const r of readings) {
     const g = r.fNominal && fMax > 0 ? r.fNominal / fMax : 1;
+    const wc = r.charge && r.discharge ? r.discharge.value / (r.charge.value + r.discharge.value) : 0.5;
     const add = (kind: ObservationKind, y: number, u: number): void => {
-      if (Number.isFinite(y)) out.push({ kind, condition: r.condition, y, u: Math.max(u, FLOOR), g });
+      if (Number.isFinite(y)) out.push({ kind, condition: r.condition, y, u: Math.max(u, FLOOR), g, wc });
     };
     if (c && r.rise && r.charge) add('rise', Math.log(r.rise.value / (r.charge.value / c)), r.rise.u / r.rise.value);
     if (c && r.fall && r.discharge) add('fall', Math.log(r.fall.value / (r.discharge.value / c)), r.fall.u / r.fall.value);
@@ -45,6 +49,13 @@ export function observations(readings: readonly CoreReading[], design: DesignSec
       add('bottom', (r.bottom.value - dn.nominal) / swing, r.bottom.u / swing);
     } else if (swing && r.swing) add('swing', Math.log(r.swing.value / swing), r.swing.u / r.swing.value);
     if (lh && lh.nominal > 0 && r.logicHigh && r.logicHigh.value > 0) add('logicHigh', Math.log(r.logicHigh.value / lh.nominal), r.logicHigh.u / r.logicHigh.value);
+    // The frequency the design values give here: every part that moves a slope or the swing moves it too.
+    const cd = design.timingCapacitance;
+    const sd = designSwing(design);
+    if (cd && sd && r.charge && r.discharge && r.frequency && r.frequency.value > 0) {
+      const fd = coreFrequency(designEstimate(cd), designEstimate(sd), r.charge, r.discharge).value;
+      add('frequency', Math.log(r.frequency.value / fd), r.frequency.u / r.frequency.value);
+    }
   }
   return out;
 }
@@ -60,17 +71,25 @@ export type PartId =
   | 'switching-delay'
   | 'logic-loading';
 
-/** How each part moves each observation per unit of its own deviation θ. */
+/**
+ * How each part moves each observation per unit of its own deviation θ. The frequency follows from the
+ * rest, 1/f = C·Vpp·(1/I_charge + 1/I_discharge): d ln f = d ln I_charge·w_c + d ln I_discharge·(1 − w_c)
+ * − d ln C − d ln Vpp, with w_c = I_discharge/(I_charge + I_discharge) (differentiating the formula); a
+ * part must explain it too, so a divider fault that would move the frequency does not fit a unit whose
+ * frequency stayed on design.
+ */
 const DIRECTIONS: Readonly<Record<PartId, (o: Observation) => number>> = {
-  'timing-capacitor': (o) => (o.kind === 'rise' || o.kind === 'fall' ? -1 : 0), // θ = ln(C/C0): slopes I/C fall
-  'reference-current': (o) => (o.kind === 'rise' || o.kind === 'fall' ? 1 : 0), // θ = ln(I/I0) on both
-  'charge-source': (o) => (o.kind === 'rise' ? 1 : 0),
-  'discharge-sink': (o) => (o.kind === 'fall' ? 1 : 0),
-  'current-mirror': (o) => (o.kind === 'rise' ? 0.5 : o.kind === 'fall' ? -0.5 : 0), // θ = ln(I_charge/I_discharge)
-  'threshold-divider': (o) => ({ top: 0.5, bottom: -0.5, swing: 1 })[o.kind as 'top'] ?? 0, // θ = relative swing change
+  'timing-capacitor': (o) => (o.kind === 'rise' || o.kind === 'fall' || o.kind === 'frequency' ? -1 : 0), // θ = ln(C/C0): slopes I/C fall
+  'reference-current': (o) => (o.kind === 'rise' || o.kind === 'fall' || o.kind === 'frequency' ? 1 : 0), // θ = ln(I/I0) on both
+  'charge-source': (o) => (o.kind === 'rise' ? 1 : o.kind === 'frequency' ? o.wc : 0),
+  'discharge-sink': (o) => (o.kind === 'fall' ? 1 : o.kind === 'frequency' ? 1 - o.wc : 0),
+  // θ = ln(I_charge/I_discharge), split evenly about their mean.
+  'current-mirror': (o) => (o.kind === 'rise' ? 0.5 : o.kind === 'fall' ? -0.5 : o.kind === 'frequency' ? 0.5 * o.wc - 0.5 * (1 - o.wc) : 0),
+  'threshold-divider': (o) => ({ top: 0.5, bottom: -0.5, swing: 1, frequency: -1 })[o.kind as 'top'] ?? 0, // θ = relative swing change
   'threshold-centre': (o) => (o.kind === 'top' || o.kind === 'bottom' ? 1 : 0), // θ = centre shift / swing
-  // A fixed delay t_d lets each ramp run on by slope·t_d, and the slope grows with f: θ = swing growth at the fastest condition.
-  'switching-delay': (o) => ({ top: 0.5 * o.g, bottom: -0.5 * o.g, swing: o.g })[o.kind as 'top'] ?? 0,
+  // A fixed delay t_d lets each ramp run on by slope·t_d, and the slope grows with f: θ = swing growth at
+  // the fastest condition; the period grows by 4·t_d, the same share as the swing.
+  'switching-delay': (o) => ({ top: 0.5 * o.g, bottom: -0.5 * o.g, swing: o.g, frequency: -o.g })[o.kind as 'top'] ?? 0,
   'logic-loading': (o) => (o.kind === 'logicHigh' ? 1 : 0),
 };
 
