@@ -68,11 +68,21 @@ export function formatLimits(lower: number | null, upper: number | null, unit: s
   return 'no limits';
 }
 
-/** `2026-03-02 09:15 UTC`: records show UTC so every reader sees the same time. */
-export function formatTime(iso: string): string {
+/**
+ * A stored time (UTC) shown in the local time zone with its offset, `2026-03-02 10:15 +01:00`, so the
+ * bench reads its own clock and the instant stays unambiguous; at offset zero it reads `… 09:15 UTC`.
+ * The offset is the zone's at that instant (summer time included). `offsetMinutes` (east of UTC)
+ * overrides the zone, for documents that must show one fixed offset.
+ */
+export function formatTime(iso: string, offsetMinutes?: number): string {
   const d = new Date(iso);
   if (Number.isNaN(d.getTime())) return iso;
-  return `${d.toISOString().slice(0, 10)} ${d.toISOString().slice(11, 16)} UTC`;
+  const offset = offsetMinutes ?? -d.getTimezoneOffset();
+  const shifted = new Date(d.getTime() + offset * 60_000).toISOString();
+  const sign = offset < 0 ? '-' : '+';
+  const hh = String(Math.floor(Math.abs(offset) / 60)).padStart(2, '0');
+  const mm = String(Math.abs(offset) % 60).padStart(2, '0');
+  return `${shifted.slice(0, 10)} ${shifted.slice(11, 16)} ${offset === 0 ? 'UTC' : `${sign}${hh}:${mm}`}`;
 }
 
 export function formatDate(iso: string): string {

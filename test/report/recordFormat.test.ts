@@ -34,7 +34,18 @@ describe('number formatting in records', () => {
     expect(formatLimits(2051.1, null, 'Hz')).toBe('≥ 2.0511 kHz');
   });
 
-  it('writes times in UTC with the zone named', () => {
-    expect(formatTime('2026-03-02T10:15:30+01:00')).toBe('2026-03-02 09:15 UTC');
+  it('writes a time in the given offset with the offset named, and UTC by name at offset zero', () => {
+    // ISO 8601 offset arithmetic by hand: 09:15:30 UTC is 10:15 at +01:00, 04:15 at −05:00, 14:45 at +05:30.
+    expect(formatTime('2026-03-02T10:15:30+01:00', 0)).toBe('2026-03-02 09:15 UTC');
+    expect(formatTime('2026-03-02T10:15:30+01:00', 60)).toBe('2026-03-02 10:15 +01:00');
+    expect(formatTime('2026-03-02T10:15:30+01:00', -300)).toBe('2026-03-02 04:15 -05:00');
+    expect(formatTime('2026-03-02T10:15:30+01:00', 330)).toBe('2026-03-02 14:45 +05:30');
+    // Across midnight the date moves with the clock.
+    expect(formatTime('2026-03-02T23:30:00Z', 60)).toBe('2026-03-03 00:30 +01:00');
+  });
+
+  it('writes a time in the local zone by default, with the offset that zone had at that instant', () => {
+    const iso = '2026-07-14T12:00:00Z';
+    expect(formatTime(iso)).toBe(formatTime(iso, -new Date(iso).getTimezoneOffset()));
   });
 });

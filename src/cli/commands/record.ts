@@ -9,21 +9,28 @@ import type { DataLocation, StoreFlags } from '../dataOptions.js';
 import { TOOL_VERSION } from '../version.js';
 
 interface RecordOptions extends StoreFlags {
-  format: 'md' | 'html' | 'json';
+  format: 'md' | 'html' | 'json' | 'csv';
+  decimalMark: 'point' | 'comma' | 'locale';
   json?: boolean;
   out?: string;
   output?: string;
 }
 
-const RENDERER = { md: 'renderRecordMarkdown', html: 'renderRecordHtml', json: 'renderRecordJson' } as const;
-const FORMAT_NAME = { md: 'Markdown', html: 'HTML', json: 'JSON' } as const;
+const RENDERER = { md: 'renderRecordMarkdown', html: 'renderRecordHtml', json: 'renderRecordJson', csv: 'renderRecordCsv' } as const;
+const FORMAT_NAME = { md: 'Markdown', html: 'HTML', json: 'JSON', csv: 'CSV' } as const;
+
+/** The decimal mark of the machine's locale (Intl), for `--decimal-mark locale`. */
+function localeMark(): '.' | ',' {
+  return new Intl.NumberFormat().formatToParts(1.5).find((p) => p.type === 'decimal')?.value === ',' ? ',' : '.';
+}
 
 export function registerRecord(program: Command, ctx: CommandContext): Command {
   const cmd = program
     .command('record')
     .description("a unit's test record: status, results per condition, causes, every run and its captures")
     .argument('<serial>', 'unit serial number, as `benchproof units` lists it')
-    .addOption(new Option('--format <format>', 'md (Markdown), html (printable, with plots) or json').choices(['md', 'html', 'json']).default('md'))
+    .addOption(new Option('--format <format>', 'md (Markdown), html (printable, with plots), json, or csv (one row per attempt, condition and measurement)').choices(['md', 'html', 'json', 'csv']).default('md'))
+    .addOption(new Option('--decimal-mark <mark>', "with --format csv: point, comma (fields then separated by ';'), or locale (this computer's)").choices(['point', 'comma', 'locale']).default('point'))
     .option('--json', 'the same as --format json')
     .option('-o, --out <file>', 'write the record to this file instead of stdout')
     .addOption(new Option('--output <file>', 'the same as --out').hideHelp());
@@ -34,7 +41,8 @@ export function registerRecord(program: Command, ctx: CommandContext): Command {
 Examples:
   benchproof record FK-0103
   benchproof record FK-0103 --format html --out FK-0103-record.html
-  benchproof record FK-0103 --json --data /mnt/bench/benchproof-data`,
+  benchproof record FK-0103 --json --data /mnt/bench/benchproof-data
+  benchproof record FK-0103 --format csv --decimal-mark locale --out FK-0103.csv`,
     )
     .action(async (serial: string, opts: RecordOptions) => {
       const format = opts.json ? 'json' : opts.format;
@@ -58,7 +66,8 @@ Examples:
         store.close();
       }
       const doc: UnitRecord = { ...rec, source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown, chainHead: audit.head } };
-      const text = report[RENDERER[format]](doc);
+      const mark = opts.decimalMark === 'comma' ? ',' : opts.decimalMark === 'locale' ? localeMark() : '.';
+      const text = format === 'csv' ? report.renderRecordCsv(doc, mark) : report[RENDERER[format]](doc);
       const changed = doc.runs.filter((r) => !r.intact);
       if (changed.length) {
         ctx.io.stderr(`benchproof: warning: run ${changed.map((r) => `#${r.id}`).join(', ')} of ${doc.unit} no longer match(es) the fingerprint taken when stored; do not rely on it\n`);

@@ -1,0 +1,52 @@
+/**
+ * A unit's record as CSV for spreadsheets: one row per test attempt × condition × checked measurement,
+ * from the run that decides each attempt, with a header row, CRLF line ends and quoting as RFC 4180
+ * §2. Values are plain numbers in the SI unit named in the `unit` column (no prefixes), at full
+ * precision; U is the expanded uncertainty (k = 2); empty cells for none. With a comma decimal mark
+ * the fields are separated by semicolons, as spreadsheets set to such a locale expect (common
+ * practice, no source). Text cells are neutralised against formulas (escapeText.ts).
+ */
+import { waitingConditions } from '../types/index.js';
+import type { StoredRun, UnitRecord } from '../types/index.js';
+import { csvText } from './escapeText.js';
+
+export const RECORD_CSV_COLUMNS = [
+  'unit', 'attempt', 'attempt_state', 'run', 'run_id', 'started_at_utc', 'spec_revision', 'condition', 'output', 'measurement',
+  'value', 'unit_si', 'expanded_uncertainty', 'lower', 'upper', 'statement', 'note', 'attempt_notes',
+] as const;
+
+export type DecimalMark = '.' | ',';
+
+export function renderRecordCsv(rec: UnitRecord, mark: DecimalMark = '.'): string {
+  const sep = mark === ',' ? ';' : ',';
+  const cell = (s: string): string => {
+    const t = csvText(s);
+    return sep === ';' && !t.startsWith('"') && t.includes(';') ? `"${t.replace(/"/g, '""')}"` : t;
+  };
+  const num = (v: number | null): string => (v === null || !Number.isFinite(v) ? '' : mark === ',' ? String(v).replace('.', ',') : String(v));
+  const lines = [RECORD_CSV_COLUMNS.join(sep)];
+  for (const { attempt, run, notes } of decidingRuns(rec)) {
+    const state = waitingConditions(run.verdict).length ? 'incomplete' : 'complete';
+    for (const c of run.verdict.conditions) {
+      for (const k of c.checks) {
+        lines.push(
+          [
+            cell(rec.unit), String(attempt), state, String(run.number ?? ''), String(run.id), cell(run.startedAt), cell(run.spec.revision),
+            cell(k.condition), cell(k.output), cell(k.measurement), num(k.value), cell(k.unit), num(k.expandedUncertainty),
+            num(k.lower), num(k.upper), k.statement, cell(k.note ?? ''), cell(notes.join('; ')),
+          ].join(sep),
+        );
+      }
+    }
+  }
+  return `${lines.join('\r\n')}\r\n`;
+}
+
+/** The run that decides each attempt (its latest), oldest attempt first; each run alone without attempts. */
+function decidingRuns(rec: UnitRecord): { attempt: number; run: StoredRun; notes: readonly string[] }[] {
+  if (!rec.attempts?.length) return rec.runs.map((run, i) => ({ attempt: i + 1, run, notes: run.note ? [run.note] : [] }));
+  return rec.attempts.flatMap((a) => {
+    const run = rec.runs.find((r) => r.id === a.runIds[a.runIds.length - 1]);
+    return run ? [{ attempt: a.number, run, notes: a.notes }] : [];
+  });
+}
