@@ -8,6 +8,8 @@ export type { CheckDocument } from './checkJson.js';
 export { renderRecordHtml } from './recordHtml.js';
 export { renderRecordMarkdown } from './recordMarkdown.js';
 export { renderRecordJson, renderBatchJson } from './recordJson.js';
+export { renderRecordCsv, RECORD_CSV_COLUMNS } from './recordCsv.js';
+export type { DecimalMark } from './recordCsv.js';
 export { renderBatchHtml } from './batchHtml.js';
 export { renderBatchMarkdown } from './batchMarkdown.js';
 export { renderBatchCsv, BATCH_CSV_COLUMNS } from './batchCsv.js';
