@@ -35,6 +35,6 @@
 export { readCapture } from './readCapture.js';
 export { detectClipping } from './clipping.js';
 export { readCaptureLines } from './readCapture.js';
-export { inspectCapture } from './inspect.js';
-export type { Inspection, InspectedLine, LineRole } from './inspect.js';
+export { inspectCapture, inspectFailure } from './inspect.js';
+export type { FailedInspection, Inspection, InspectedLine, LineRole } from './inspect.js';
 export { mergeSettings, parseReadingProfile, readingSettings, delimiterOf, decimalMarkOf } from './readingOptions.js';

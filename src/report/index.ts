@@ -20,4 +20,4 @@ export type { IterationPlace } from './calibrationText.js';
 export { calibrationDocument } from './calibrationJson.js';
 export type { CalibrationDocument } from './calibrationJson.js';
 export { renderTrackingSvg } from './svgTracking.js';
-export { renderInspectText } from './inspectText.js';
+export { renderInspectFailure, renderInspectText } from './inspectText.js';

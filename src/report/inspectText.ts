@@ -3,7 +3,7 @@
  * force, each opening line with its role, what the preamble gave, the time base and where it came
  * from, each column with its role, unit and scaling, the warnings, and the first samples as read.
  */
-import type { Inspection } from '../capture/index.js';
+import type { FailedInspection, Inspection } from '../capture/index.js';
 import { formatQuantity } from './format.js';
 import type { TextStyle } from './style.js';
 
@@ -30,6 +30,17 @@ export function renderInspectText(docs: readonly Inspection[], style: TextStyle)
   return docs.map((d) => inspectionText(d, style)).join('\n');
 }
 
+/** The opening lines of a file that could not be read, with their roles, above the error itself. */
+export function renderInspectFailure(f: FailedInspection, style: TextStyle): string {
+  const out = [style.bold(`${f.path}: not read (${f.error.code})`), `  ${style.bold('lines')}`];
+  for (const line of f.lines) out.push(lineText(line));
+  return `${out.join('\n')}\n`;
+}
+
+function lineText(line: { line: number; role: string; text: string }): string {
+  return `  ${String(line.line).padStart(6)}  ${line.role.padEnd(17)} ${line.text.replace(/\t/g, '→')}`;
+}
+
 function inspectionText(d: Inspection, style: TextStyle): string {
   const c = d.capture;
   const l = c.layout;
@@ -41,7 +52,7 @@ function inspectionText(d: Inspection, style: TextStyle): string {
   row('profile', r?.profile ?? 'none');
   if (r && Object.keys(r.settings).length > 0) row('settings', Object.entries(r.settings).map(([k, v]) => `${k} ${typeof v === 'object' ? JSON.stringify(v) : JSON.stringify(v)}`).join(', '));
   out.push('', `  ${style.bold('lines')}`);
-  for (const line of d.lines) out.push(`  ${String(line.line).padStart(6)}  ${line.role.padEnd(17)} ${line.text.replace(/\t/g, '→')}`);
+  for (const line of d.lines) out.push(lineText(line));
   if (c.layout.lastDataLine > (d.lines.at(-1)?.line ?? 0)) out.push(`  ${'…'.padStart(6)}  data to line ${c.layout.lastDataLine}`);
   if (r && r.recognised.length > 0) {
     out.push('', `  ${style.bold('preamble understood')}`);

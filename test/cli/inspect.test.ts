@@ -50,4 +50,14 @@ describe('benchproof inspect', () => {
     expect(r.stderr).toContain('"colour" is not a reading setting');
     expect(r.stderr).toContain('delimiter: "pipe" is not a delimiter');
   });
+
+  it('shows the opening lines of a file it cannot read, with their roles, above the error (stdout stays empty)', async () => {
+    const path = file('no-base.csv', ['Kestrel bench export', 'Triangle (V)', ...codes.slice(0, 20)].join('\n'));
+    const r = await runCli(['inspect', path]);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/not read \(capture\.no-time-base\)/);
+    expect(r.stderr).toMatch(/2 {2}header +Triangle \(V\)/);
+    expect(r.stderr).toContain('fix: give the rate the capture was taken at');
+  });
 });

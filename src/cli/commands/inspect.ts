@@ -29,11 +29,22 @@ Examples:
       const json = Boolean(opts.json);
       ctx.json = json;
       const readOptions = await readingOptionsFrom(ctx, opts);
-      const { inspectCapture } = await import('../../capture/index.js');
+      const { inspectCapture, inspectFailure } = await import('../../capture/index.js');
       const docs = [];
       for (const file of files) {
-        const doc = await inspectCapture(resolvePath(ctx.io.cwd, file), readOptions);
-        docs.push({ ...doc, capture: { ...doc.capture, path: file } });
+        const path = resolvePath(ctx.io.cwd, file);
+        try {
+          const doc = await inspectCapture(path, readOptions);
+          docs.push({ ...doc, capture: { ...doc.capture, path: file } });
+        } catch (e) {
+          // A file that cannot be read still shows its opening lines and where reading stopped (stderr: no result).
+          const failed = json ? null : await inspectFailure(path, readOptions, e);
+          if (failed) {
+            const { renderInspectFailure } = await import('../../report/index.js');
+            ctx.io.stderr(renderInspectFailure({ ...failed, path: file }, ctx.styleFor(command)));
+          }
+          throw e;
+        }
       }
       if (json) {
         ctx.io.stdout(`${JSON.stringify(docs.length === 1 ? docs[0] : { schemaVersion: 1, files: docs }, null, 2)}\n`);
