@@ -102,3 +102,27 @@ describe('sinad and enob of ideal quantised sines', () => {
     });
   }
 });
+
+describe('thd and sinad of a sine with known harmonics at awkward ratios', () => {
+  // 2nd harmonic at −40 dBc and 3rd at −50 dBc: THD = √(0.01² + 0.0031623²) = 1.0488 % (definition, IEEE 1241).
+  const harmonics = [
+    { n: 2, fraction: 0.01 },
+    { n: 3, fraction: 10 ** (-50 / 20) },
+  ];
+  for (const ratio of [7.3, 64.0001, 90.00001, 31.99999]) {
+    it(`thd and sinad of a sine with −40/−50 dBc harmonics at ${ratio} samples per cycle match the definition`, () => {
+      const sig = synthesize({ shape: 'sine', frequency: 1000, amplitude: 1, sampleRate: ratio * 1000, samples: 16_384, harmonics, phase: 0.2 });
+      const m = analyzeSpectrum(sig.values, sig.dt, 1000, 'sine').measurements;
+      expectWithin(value(m.thd), 100 * Math.hypot(0.01, 10 ** (-50 / 20)), { rel: 1e-3 }, 'THD_F definition over the planted harmonics (IEEE 1241)');
+      expectWithin(value(m.sinad), -20 * Math.log10(Math.hypot(0.01, 10 ** (-50 / 20))), { abs: 0.01 }, 'SINAD: fundamental over the planted harmonics, no noise (IEEE 1241)');
+    });
+  }
+
+  it('thd leaves out a harmonic that sits on Nyquist with its alias, and says so', () => {
+    // 6.00001 samples per cycle: the 3rd harmonic lies 5·10⁻⁶ of f below Nyquist, inside its own alias's lobe.
+    const sig = synthesize({ shape: 'sine', frequency: 1000, amplitude: 1, sampleRate: 6.00001 * 1000, samples: 16_384, harmonics, phase: 0.2 });
+    const m = analyzeSpectrum(sig.values, sig.dt, 1000, 'sine').measurements.thd;
+    expectWithin(value(m), 1, { rel: 1e-3 }, 'THD_F over harmonic 2 alone: 1 % (definition)');
+    expect(m?.ok && m.method).toMatch(/harmonic 3 lies within a main lobe of Nyquist/);
+  });
+});
