@@ -25,6 +25,7 @@ import { registerPlotRoutes } from './plotRoutes.js';
 import { registerBatchRoutes } from './batchRoutes.js';
 import { createCaptureCache } from './captureCache.js';
 import { accessToken } from './accessToken.js';
+import { errorBody } from './errorBody.js';
 
 export interface BenchServerOptions {
   readonly host?: string;
@@ -64,6 +65,12 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
   installGuard(app, { host, token, port: () => bound, requireToken: options.requireToken === true });
   await app.register(fastifyMultipart, { limits: { fileSize: limits.maxFileBytes, files: limits.maxFiles } });
   await app.register(fastifyStatic, { root: assets, prefix: '/', index: 'index.html', dotfiles: 'deny', cacheControl: false });
+  // A BenchError from any route (e.g. records.tampered from the store) reaches the page as check prints it.
+  app.setErrorHandler((err, _req, reply) => {
+    const body = errorBody(err);
+    if (body.status === 500) ctx.io.stderr(`benchproof serve: internal error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
+    return reply.code(body.status).send(body);
+  });
   registerBoardRoutes(app, setup);
   registerDropRoutes(app, setup);
   registerUnitRoutes(app, setup);

@@ -4,7 +4,7 @@
  * page listens to; and the spec page's data, validated as `spec validate` does.
  */
 import type { FastifyInstance } from 'fastify';
-import { STATEMENT_WORDS } from '../types/index.js';
+import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { UnitSummary } from '../types/index.js';
 import { loadSpec } from '../cli/checkRun.js';
 import type { Spec } from '../spec/index.js';
@@ -55,6 +55,19 @@ function currentSpec(setup: BenchSetup): Current {
 
 const newestFirst = (a: UnitSummary, b: UnitSummary): number => (a.lastTestedAt < b.lastTestedAt ? 1 : a.lastTestedAt > b.lastTestedAt ? -1 : 0);
 
+/** A unit's state as the `units` listing gives it: INCOMPLETE with what it waits for, else its statement. */
 function boardRow(u: UnitSummary) {
-  return { unit: u.unit, status: u.status, word: STATEMENT_WORDS[u.status], runs: u.runs, lastTestedAt: u.lastTestedAt, firstStatement: u.firstStatement, spec: u.spec };
+  const waiting = u.state === 'incomplete';
+  return {
+    unit: u.unit,
+    status: waiting ? 'incomplete' : u.status,
+    word: waiting ? INCOMPLETE_WORD : STATEMENT_WORDS[u.status],
+    waitingFor: waiting ? (u.waitingFor ?? []) : [],
+    soFar: u.status,
+    runs: u.runs,
+    attempts: u.attempts ?? null,
+    unverified: (u.unverifiedRuns ?? []).length,
+    lastTestedAt: u.lastTestedAt,
+    spec: u.spec,
+  };
 }

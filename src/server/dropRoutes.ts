@@ -11,10 +11,11 @@ import { tmpdir } from 'node:os';
 import { join, sep } from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import type { FastifyInstance } from 'fastify';
-import { BenchError, STATEMENT_WORDS, isBenchError } from '../types/index.js';
+import { BenchError, INCOMPLETE_WORD, STATEMENT_WORDS, isBenchError, waitingConditions } from '../types/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { workContext } from './benchSetup.js';
-import { loadSpec, checkPlans, planCapture } from '../cli/checkRun.js';
+import { loadSpec, checkPlans, planFiles } from '../cli/checkRun.js';
+import { checkNote, companionsFromStore, describeCompanions } from '../cli/attemptCompanions.js';
 import { storeCheckedUnits } from '../cli/store.js';
 import type { Progress } from '../cli/progress.js';
 import { errorBody } from './errorBody.js';
@@ -35,7 +36,13 @@ export function registerDropRoutes(app: FastifyInstance, setup: BenchSetup): voi
     const dir = await mkdtemp(join(tmpdir(), 'benchproof-drop-'));
     try {
       const names: string[] = [];
-      for await (const part of req.files({ limits: { fileSize: setup.limits.maxFileBytes, files: setup.limits.maxFiles, fields: 0 } })) {
+      const fields: DropFields = {};
+      for await (const part of req.parts({ limits: { fileSize: setup.limits.maxFileBytes, files: setup.limits.maxFiles, fields: 2, fieldSize: 4096 } })) {
+        if (part.type === 'field') {
+          if (part.fieldname === 'note' && typeof part.value === 'string' && part.value.trim()) fields.note = part.value;
+          if (part.fieldname === 'newAttempt' && part.value === 'true') fields.newAttempt = true;
+          continue;
+        }
         const name = safeName(part.filename);
         if (names.includes(name)) throw badName(part.filename, 'the same name twice in one drop');
         names.push(name);
@@ -43,7 +50,7 @@ export function registerDropRoutes(app: FastifyInstance, setup: BenchSetup): voi
         await pipeline(part.file, createWriteStream(join(dir, name), { flags: 'wx', mode: 0o600 }));
       }
       if (names.length === 0) throw noFiles();
-      const outcome = await oneAtATime(() => checkDrop(setup, dir, names, dropId));
+      const outcome = await oneAtATime(() => checkDrop(setup, dir, names, fields, dropId));
       setup.hub.publish('drop', { id: dropId, status: 'stored', units: outcome.units });
       return reply.send(outcome);
     } catch (err) {
@@ -59,17 +66,39 @@ export function registerDropRoutes(app: FastifyInstance, setup: BenchSetup): voi
   });
 }
 
-async function checkDrop(setup: BenchSetup, dir: string, names: readonly string[], dropId: string) {
+interface DropFields {
+  /** What was done to the unit before these captures (starts a new attempt), as `check --note`. */
+  note?: string;
+  /** As `check --new-attempt`. */
+  newAttempt?: boolean;
+}
+
+/**
+ * The steps of `benchproof check FILES --spec SPEC [--note …] [--new-attempt]`, in its order, with
+ * the same helpers: plan every name first, let the unit's open attempt lend the conditions the drop
+ * does not cover, check, store. (A shared function for this sequence in src/cli would keep the two
+ * callers from drifting; check.ts holds it inline today.)
+ */
+async function checkDrop(setup: BenchSetup, dir: string, names: readonly string[], fields: DropFields, dropId: string) {
   if (setup.specFile === undefined) throw noSpec();
   const { spec, text } = loadSpec(setup.ctx, setup.specFile);
   const { ctx, notes } = workContext(setup, dir);
   const startedAt = new Date().toISOString();
-  // Every name is mapped before any capture is read, as `check` does: a misnamed file fails at once.
-  const plans = names.map((name) => planCapture(spec, name, {}));
-  const units = await checkPlans(ctx, spec, plans, {}, dropProgress(setup, dropId));
-  const stored = storeCheckedUnits(ctx, setup.flags, units, startedAt, text);
+  const note = checkNote(fields.note);
+  const plans = planFiles(spec, names, {});
+  const fresh = fields.newAttempt === true || note !== undefined;
+  const companions = fresh ? undefined : companionsFromStore(ctx, setup.flags, spec, plans);
+  const told = describeCompanions(companions).trim();
+  if (told) notes.push(told);
+  const units = await checkPlans(ctx, spec, [...plans, ...(companions?.plans ?? [])], {}, dropProgress(setup, dropId));
+  const stored = storeCheckedUnits(ctx, setup.flags, units, startedAt, text, { note, newAttempt: fields.newAttempt, sources: companions?.sources, specFile: setup.specFile });
   return {
-    units: stored.map((r) => ({ unit: r.unit, runId: r.id, statement: r.statement, word: STATEMENT_WORDS[r.statement] })),
+    units: stored.map((r) => {
+      const waiting = waitingConditions(r.verdict);
+      return waiting.length > 0
+        ? { unit: r.unit, runId: r.id, statement: r.statement, state: 'incomplete', word: INCOMPLETE_WORD, waitingFor: waiting }
+        : { unit: r.unit, runId: r.id, statement: r.statement, state: 'complete', word: STATEMENT_WORDS[r.statement], waitingFor: [] };
+    }),
     notes,
   };
 }

@@ -23,6 +23,12 @@ export function errorBody(err: unknown): ErrorBody {
     };
     return { status: 413, error: { ...fields, message: renderBenchError(fields) } };
   }
+  const status = (err as { statusCode?: number }).statusCode;
+  if (status !== undefined && status >= 400 && status < 500) {
+    // The web framework's own refusals (no such route, a malformed request): the request is at fault.
+    const fields: BenchErrorFields = { code: 'serve.bad-request', file: '-', problem: (err as Error).message, expected: 'a request the bench page makes', fix: 'reload the page; if it persists, see the terminal running benchproof serve' };
+    return { status, error: { ...fields, message: renderBenchError(fields) } };
+  }
   const fields: BenchErrorFields = { code: 'serve.internal', file: '-', problem: 'an internal error stopped this request', expected: 'a request the server can finish', fix: 'see the terminal running benchproof serve; BENCHPROOF_DEBUG=1 shows more' };
   return { status: 500, error: { ...fields, message: renderBenchError(fields) } };
 }

@@ -6,7 +6,7 @@
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import { nearestNames } from '../records/index.js';
 import type { ChannelReport, StoredRun, UnitRecord } from '../types/index.js';
-import { BenchError, STATEMENT_WORDS } from '../types/index.js';
+import { BenchError, INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import { TOOL_VERSION } from '../cli/version.js';
 import type { BenchSetup } from './benchSetup.js';
 import { errorBody } from './errorBody.js';
@@ -16,12 +16,15 @@ export function registerUnitRoutes(app: FastifyInstance, setup: BenchSetup): voi
   app.get<{ Params: { serial: string } }>('/api/units/:serial', async (req, reply) => {
     const rec = findRecord(setup, req.params.serial, reply);
     if (!rec) return reply;
+    const waiting = rec.state === 'incomplete';
     return {
       unit: rec.unit,
-      status: rec.status,
-      word: STATEMENT_WORDS[rec.status],
+      status: waiting ? 'incomplete' : rec.status,
+      word: waiting ? INCOMPLETE_WORD : STATEMENT_WORDS[rec.status],
+      waitingFor: waiting ? (rec.waitingFor ?? []) : [],
       spec: rec.spec,
       runs: rec.runs.map(runView).reverse(),
+      attempts: (rec.attempts ?? []).map((a) => ({ number: a.number, state: a.state, statement: a.statement, word: a.state === 'incomplete' ? INCOMPLETE_WORD : STATEMENT_WORDS[a.statement], notes: a.notes, startedAt: a.startedAt })),
       calibrations: rec.calibrations?.length ?? 0,
     };
   });
@@ -30,6 +33,18 @@ export function registerUnitRoutes(app: FastifyInstance, setup: BenchSetup): voi
     if (!rec) return reply;
     const { renderRecordHtml } = await import('../report/index.js');
     return reply.header('Content-Security-Policy', VIEW_CSP).type('text/html; charset=utf-8').send(renderRecordHtml({ ...rec, source: source(setup) }));
+  });
+  // Two test attempts side by side, as `benchproof compare SERIAL A B --format html` renders them.
+  app.get<{ Params: { serial: string }; Querystring: { a?: string; b?: string } }>('/view/units/:serial/compare.html', async (req, reply) => {
+    const rec = findRecord(setup, req.params.serial, reply);
+    if (!rec) return reply;
+    const known = (rec.attempts ?? []).map((x) => x.number);
+    const a = Number(req.query.a);
+    const b = Number(req.query.b);
+    if (!known.includes(a) || !known.includes(b) || a === b) return reply.code(400).send({ error: { code: 'serve.bad-request', problem: `choose two different attempts of ${rec.unit} (${known.join(', ') || 'none'})` } });
+    const [{ compareAttempts }, { renderComparisonHtml }] = await Promise.all([import('../records/index.js'), import('../report/index.js')]);
+    const html = renderComparisonHtml({ ...compareAttempts(rec, a, b), source: source(setup) });
+    return reply.header('Content-Security-Policy', VIEW_CSP).type('text/html; charset=utf-8').send(html);
   });
   app.get<{ Params: { serial: string; format: string } }>('/download/units/:serial/record.:format', async (req, reply) => {
     const rec = findRecord(setup, req.params.serial, reply);

@@ -81,6 +81,32 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(await page.evaluate('window.sameLoad')).toBe(true);
   });
 
+  it('shows a unit waiting for conditions as INCOMPLETE, completes it from its open attempt, and compares two attempts', async () => {
+    const [low, mid, high] = samples('FK-0103');
+    await page.setInputFiles('#pick-files', mid);
+    const row = page.locator('tr[data-unit="FK-0103"]');
+    await row.waitFor();
+    expect(await row.locator('.state').textContent()).toBe('INCOMPLETE');
+    expect(await row.locator('.waiting').textContent()).toContain('low');
+    // The other two conditions later: checked together with the open attempt's capture, as check does.
+    await page.setInputFiles('#pick-files', [low, high]);
+    await expect.poll(() => row.locator('.state').textContent(), { timeout: 20_000 }).not.toBe('INCOMPLETE');
+    const cli = await runCli(['check', low, mid, high, '--spec', SPEC, '--json', '--no-store']);
+    expect(await row.getAttribute('data-statement')).toBe(JSON.parse(cli.stdout).units[0].statement);
+    // A note starts a new attempt; the unit page then compares the two.
+    await page.fill('#drop-note', 'R7 retrimmed');
+    await page.setInputFiles('#pick-files', [low, mid, high]);
+    await page.locator('.drop-entry[data-result="stored"]').first().waitFor();
+    await page.goto(`${t.base}/#/unit/FK-0103`);
+    await page.locator('#compare').click();
+    const frame = page.frameLocator('iframe.compare');
+    await frame.locator('h1').first().waitFor();
+    expect(await frame.locator('body').textContent()).toContain('R7 retrimmed');
+    await page.locator('section.attempts').screenshot({ path: join(SHOTS, 'unit-attempts-compare.png') });
+    await page.goto(`${t.base}/#/`);
+    await page.locator('tr[data-unit]').first().waitFor();
+  });
+
   it('zooms a waveform and shows the min and max of the record in each column', async () => {
     await page.click('a[href="#/unit/FK-0101"]');
     const fig = page.locator('figure.plot[data-kind="wave"]').first();
@@ -89,7 +115,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     const answer = page.waitForResponse((r) => r.url().includes('/api/plot/wave') && r.url().includes('from='));
     await fig.getByRole('button', { name: /^Zoom in/ }).click();
     const plot = (await (await answer).json()) as { min: number[]; max: number[]; first: number; end: number; step: number };
-    await page.waitForFunction(`Number(document.querySelector('figure.plot[data-kind="wave"]').getAttribute('data-from')) !== ${before.from}`);
+    await expect.poll(async () => Number(await fig.getAttribute('data-from'))).not.toBe(before.from);
     const after = { from: Number(await fig.getAttribute('data-from')), to: Number(await fig.getAttribute('data-to')) };
     expect(after.to - after.from).toBeLessThan(before.to - before.from);
     const url = new URL((await answer).url());
@@ -137,7 +163,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     await page.keyboard.press('Escape');
     await page.locator('body').press('/');
     await page.keyboard.type('0102');
-    await page.waitForFunction("document.querySelectorAll('tr[data-unit]').length === 1");
+    await expect.poll(() => page.locator('tr[data-unit]').count()).toBe(1);
     expect(await page.locator('tr[data-unit]').getAttribute('data-unit')).toBe('FK-0102');
   });
 
@@ -155,7 +181,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     const from = await fig.getAttribute('data-from');
     await fig.focus();
     await page.keyboard.press('+');
-    await page.waitForFunction(`document.querySelector('figure.plot[data-kind="wave"]').getAttribute('data-from') !== ${JSON.stringify(from)}`);
+    await expect.poll(() => fig.getAttribute('data-from')).not.toBe(from);
   });
 
   it('shows the batch page with its downloads, and the spec page validated', async () => {

@@ -14,6 +14,10 @@ export interface BoardRow {
   readonly unit: string;
   readonly status: string;
   readonly word: string;
+  /** Conditions an INCOMPLETE unit still waits for. */
+  readonly waitingFor: readonly string[];
+  readonly attempts: number | null;
+  readonly unverified: number;
   readonly runs: number;
   readonly lastTestedAt: string;
 }
@@ -61,10 +65,21 @@ export interface RunView {
   readonly captures: readonly CaptureView[];
 }
 
+export interface AttemptView {
+  readonly number: number;
+  readonly state: string;
+  readonly statement: string;
+  readonly word: string;
+  readonly notes: readonly string[];
+  readonly startedAt: string;
+}
+
 export interface UnitView {
   readonly unit: string;
   readonly status: string;
   readonly word: string;
+  readonly waitingFor: readonly string[];
+  readonly attempts: readonly AttemptView[];
   readonly spec: { name: string; revision: string };
   readonly runs: readonly RunView[];
 }

@@ -36,7 +36,7 @@ export function showBoard(main: HTMLElement): () => void {
       body.append(
         h('tr', { 'data-unit': r.unit, 'data-statement': r.status },
           h('td', {}, h('a', { href: `#/unit/${encodeURIComponent(r.unit)}` }, r.unit)),
-          h('td', {}, stateBadge(r.status, r.word)),
+          h('td', {}, stateBadge(r.status, r.word), r.waitingFor.length ? h('span', { class: 'waiting' }, ` waits for ${r.waitingFor.join(', ')}`) : null, r.unverified ? h('span', { class: 'warning' }, ` ${r.unverified} run(s) unverified`) : null),
           h('td', { class: 'num' }, r.runs),
           h('td', {}, h('time', { datetime: r.lastTestedAt }, localTime(r.lastTestedAt)))),
       );

@@ -24,10 +24,15 @@ interface WatchEvent {
 
 export function dropZone(log: HTMLElement): { element: HTMLElement; enable(on: boolean): void; dispose(): void } {
   const input = h('input', { type: 'file', id: 'pick-files', multiple: true, accept: '.csv,.txt,.gz,text/csv', class: 'sr-only' });
+  const note = h('input', { type: 'text', id: 'drop-note', maxlength: '300', autocomplete: 'off' });
+  const newAttempt = h('input', { type: 'checkbox', id: 'drop-new-attempt' });
   const pick = h('label', { for: 'pick-files', class: 'button', tabindex: '0', role: 'button' }, 'Choose capture files…');
   const zone = h('section', { class: 'drop', id: 'drop-zone', 'aria-label': 'Drop capture files here' },
     h('p', { class: 'drop-title' }, 'Drop the captures the scope saved here'),
     h('p', { class: 'note' }, 'They are checked against the spec and stored exactly as benchproof check does. Name them as the spec pattern asks, e.g. FK-0101_mid.csv.'),
+    h('div', { class: 'drop-options' },
+      h('label', {}, 'Note (what was changed on the unit; starts a new attempt) ', note),
+      h('label', {}, newAttempt, ' start a new attempt')),
     pick, input);
   const entries = new Map<string, HTMLElement>();
   let enabled = false;
@@ -41,7 +46,11 @@ export function dropZone(log: HTMLElement): { element: HTMLElement; enable(on: b
     log.prepend(entry);
     entries.set(id, entry);
     const form = new FormData();
+    if (note.value.trim()) form.append('note', note.value.trim());
+    if (newAttempt.checked) form.append('newAttempt', 'true');
     for (const f of files) form.append('file', f, f.name);
+    note.value = '';
+    newAttempt.checked = false;
     const xhr = new XMLHttpRequest();
     xhr.open('POST', '/api/drop');
     xhr.setRequestHeader('X-Drop-Id', id);
@@ -52,10 +61,14 @@ export function dropZone(log: HTMLElement): { element: HTMLElement; enable(on: b
     xhr.upload.addEventListener('load', () => (status.textContent = 'checking…'));
     xhr.addEventListener('load', () => {
       bar.remove();
-      const body = xhr.response as { units?: { unit: string; statement: string; word: string; runId: number }[]; error?: BenchErrorView } | null;
+      const body = xhr.response as { units?: { unit: string; statement: string; state: string; word: string; runId: number; waitingFor: string[] }[]; error?: BenchErrorView } | null;
       if (xhr.status === 200 && body?.units) {
         entry.dataset.result = 'stored';
-        status.replaceChildren(...body.units.flatMap((u) => [h('a', { href: `#/unit/${encodeURIComponent(u.unit)}` }, u.unit), ' ', h('span', { class: 'state', 'data-statement': u.statement }, u.word), ` (run #${u.runId}) `]));
+        status.replaceChildren(...body.units.flatMap((u) => [
+          h('a', { href: `#/unit/${encodeURIComponent(u.unit)}` }, u.unit), ' ',
+          h('span', { class: 'state', 'data-statement': u.state === 'incomplete' ? 'incomplete' : u.statement }, u.word),
+          u.waitingFor.length ? ` waits for ${u.waitingFor.join(', ')}` : '', ` (run #${u.runId}) `,
+        ]));
       } else {
         entry.dataset.result = 'error';
         status.replaceChildren(h('pre', { class: 'error', role: 'alert' }, body?.error?.message ?? body?.error?.problem ?? `the server answered ${xhr.status}`));

@@ -66,6 +66,7 @@ export function showUnit(main: HTMLElement, serial: string): () => void {
     print.addEventListener('click', () => window.print());
     header.replaceChildren(
       h('h1', {}, unit.unit, ' ', stateBadge(unit.status, unit.word)),
+      unit.waitingFor.length ? h('p', { class: 'waiting' }, `Waits for a capture at: ${unit.waitingFor.join(', ')}`) : '',
       h('p', { class: 'facts' }, `${unit.spec.name} rev ${unit.spec.revision} · ${unit.runs.length} run(s)`),
       h('div', { class: 'actions' },
         h('label', {}, 'Plot ', picker), print,
@@ -74,6 +75,7 @@ export function showUnit(main: HTMLElement, serial: string): () => void {
         h('a', { class: 'button', href: `/download/units/${enc}/record.json`, download: '' }, 'JSON'),
         h('a', { class: 'button', href: '#/' }, 'Back to the board')),
     );
+    header.append(attemptsBlock(unit, enc));
     const latest = unit.runs[0];
     if (latest && latest.id !== shownRun) showRun(unit, latest);
     document.body.dataset.unitLoaded = String(Date.now());
@@ -88,6 +90,31 @@ export function showUnit(main: HTMLElement, serial: string): () => void {
     off();
     disposers.forEach((d) => d());
   };
+}
+
+/** The unit's attempts, and two of them side by side as `benchproof compare` shows them. */
+function attemptsBlock(unit: UnitView, enc: string): HTMLElement {
+  const box = h('section', { class: 'attempts', 'aria-label': 'Test attempts' });
+  if (unit.attempts.length === 0) return box;
+  box.append(h('h2', {}, 'Test attempts'), h('ol', {}, ...unit.attempts.map((a) => h('li', { 'data-attempt': String(a.number) }, `#${a.number} `, stateBadge(a.state === 'incomplete' ? 'incomplete' : a.statement, a.word), a.notes.length ? ` — ${a.notes.join('; ')}` : ''))));
+  if (unit.attempts.length < 2) return box;
+  const pick = (id: string, label: string, chosen: number): HTMLSelectElement => {
+    const sel = h('select', { id, 'aria-label': label }, ...unit.attempts.map((a) => h('option', { value: String(a.number) }, `attempt #${a.number}`)));
+    sel.value = String(chosen);
+    return sel;
+  };
+  const n = unit.attempts.length;
+  const a = pick('compare-a', 'Earlier attempt', unit.attempts[n - 2].number);
+  const b = pick('compare-b', 'Later attempt', unit.attempts[n - 1].number);
+  const go = h('button', { type: 'button', id: 'compare' }, 'Compare');
+  const frame = h('iframe', { class: 'record compare', title: 'Comparison of two attempts', sandbox: 'allow-same-origin', hidden: true });
+  frame.addEventListener('load', () => fitFrame(frame));
+  go.addEventListener('click', () => {
+    frame.hidden = false;
+    frame.src = `/view/units/${enc}/compare.html?a=${encodeURIComponent(a.value)}&b=${encodeURIComponent(b.value)}`;
+  });
+  box.append(h('div', { class: 'actions' }, h('label', {}, 'Compare ', a), h('label', {}, ' with ', b), go), frame);
+  return box;
 }
 
 /** The record frame as tall as its content, so the page scrolls (and prints) it whole. */
