@@ -90,5 +90,7 @@ export function describeLayout(capture: Capture): string {
   const l = capture.layout;
   const header = l.headerLine === null ? 'no header' : `header on line ${l.headerLine}`;
   const time = l.timeColumn !== null ? `time column "${l.columns[l.timeColumn]?.name ?? ''}"` : `timing from ${l.timing}`;
-  return `${DELIMITER_NAMES[l.delimiter] ?? l.delimiter}-separated, ${header}, ${time}, ${capture.length} samples × ${capture.channels.length} channels`;
+  // The reading profile, when one was used, is part of how the file was read (and of the record).
+  const profile = l.reading?.profile ? `, read with profile ${l.reading.profile}` : '';
+  return `${DELIMITER_NAMES[l.delimiter] ?? l.delimiter}-separated, ${header}, ${time}, ${capture.length} samples × ${capture.channels.length} channels${profile}`;
 }

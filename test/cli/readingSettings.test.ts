@@ -35,6 +35,9 @@ describe('captures.reading in a spec', () => {
     expect(p2p(plain.stdout)).toEqual(['pass', 'pass', 'pass']);
     expect(p2p(scaled.stdout)).toEqual(['fail', 'fail', 'fail']);
     expect(scaled.code).toBe(1);
+    // Each capture's stored layout names the settings it was read with.
+    const layouts = (JSON.parse(scaled.stdout) as { units: { verdict: { captures: { layout: string }[] } }[] }).units[0].verdict.captures.map((c) => c.layout);
+    expect(layouts.every((l) => l.endsWith(`read with profile ${path} captures.reading`))).toBe(true);
   });
 
   it('accepts the reading profile the README shows, as written', () => {
