@@ -3,10 +3,11 @@
  * channel names can hold control characters (ESC sequences that retitle the window or clear the
  * screen, a carriage return that overwrites the line, bidirectional overrides that reorder it). Every
  * string a command writes to stdout or stderr passes through `terminalSafe`: each such character is
- * shown as its escape (`\x1b`, `\r` as `\x0d`, `\u202e`), never written. Line feeds and tabs, which the
- * tool's own layout uses, pass; so do colour sequences (SGR, `ESC [ … m`, ECMA-48 §8.3.117) but only
- * on a stream that may be coloured at all (a TTY with NO_COLOR unset and TERM not dumb). JSON output
- * is unaffected: JSON.stringify already writes control characters as \u escapes.
+ * shown as its escape (`\x1b`, a lone `\r` as `\x0d`, `\u202e`), never written. Line feeds, CR LF
+ * line ends and tabs, which the tool's own layout uses, pass; so do colour sequences (SGR,
+ * `ESC [ … m`, ECMA-48 §8.3.117), but only on a stream that may be coloured at all (a TTY with
+ * NO_COLOR unset and TERM not dumb). JSON output is unaffected: JSON.stringify already writes control
+ * characters as \u escapes.
  */
 import type { CliIo } from './io.js';
 
@@ -34,6 +35,11 @@ export function terminalSafe(s: string, colour: boolean): string {
         i += m[0].length - 1;
         continue;
       }
+    }
+    // CR LF is a line end (the CSV report's, RFC 4180); a lone CR would overwrite the line.
+    if (c === '\r' && s[i + 1] === '\n') {
+      out += c;
+      continue;
     }
     out += UNSAFE.test(c) ? escapeOne(c) : c;
   }

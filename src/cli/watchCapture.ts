@@ -198,7 +198,7 @@ async function refreshRecord(env: WatchEnv, unit: string): Promise<string | unde
   const rec = env.store.unitRecord(unit);
   if (!rec || env.reportDir === undefined) return undefined;
   const { renderRecordHtml } = await import('../report/index.js');
-  const source = { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: env.location.shown };
+  const source = { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: env.location.shown, chainHead: env.store.chainHead() };
   const file = join(env.reportDir, `${unit.replace(/[^\w.-]/g, '_')}-record.html`);
   writeReportFile(env.ctx, file, renderRecordHtml({ ...rec, source }), env.location.dir, '--report-dir');
   return file;

@@ -2,14 +2,15 @@
  * Batch statistics as CSV for spreadsheets: one row per checked quantity and spec, a header row, CRLF
  * line ends and quoting as RFC 4180 §2, numbers at full precision ('.' decimal), empty cells for none.
  * Text cells that a spreadsheet would run as a formula (=, +, −, @ first) get a leading apostrophe
- * (OWASP "CSV Injection" guidance), also after leading blanks (escapeText.ts).
+ * (OWASP "CSV Injection" guidance), also after leading blanks (escapeText.ts). The last column holds
+ * the records' chain head, which pins the store's state the report was made from.
  */
 import type { BatchReport } from '../types/index.js';
 import { csvText } from './escapeText.js';
 
 export const BATCH_CSV_COLUMNS = [
   'spec', 'condition', 'output', 'measurement', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
-  'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes',
+  'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes', 'records_chain_head',
 ] as const;
 
 const text = csvText;
@@ -28,6 +29,8 @@ export function renderBatchCsv(batch: BatchReport): string {
           String(m.count), String(m.withheld), num(m.mean), num(m.sd), num(m.min), num(m.max),
           num(m.lower), num(m.upper), num(m.nominal), num(m.cp), num(m.cpk),
           String(s.units.length), num(s.firstPass.fraction), num(s.final.fraction), text(m.notes.join('; ')),
+          // The store's chain head when the report was made (README "Records"), on every row.
+          batch.source?.chainHead ?? '',
         ].join(','),
       );
     }

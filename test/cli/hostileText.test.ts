@@ -28,6 +28,7 @@ describe('terminal output', () => {
   it('terminalSafe shows ESC, BEL and CR as escapes and keeps line feeds and tabs', () => {
     expect(terminalSafe('FK-07\x1b]0;x\x07\x1b[2J\r_low.csv\tok\n', false)).toBe('FK-07\\x1b]0;x\\x07\\x1b[2J\\x0d_low.csv\tok\n');
     expect(terminalSafe('a\u202eb\u0085', false)).toBe('a\\u202eb\\x85');
+    expect(terminalSafe('a,b\r\nc,d\r\n', false)).toBe('a,b\r\nc,d\r\n');
   });
 
   it('terminalSafe keeps colour sequences only where colour may be shown', () => {
