@@ -40,6 +40,10 @@ async function main() {
   const results = assemble({ machine, peer, opts, notes, files, fft });
   writeOutputs(results, opts);
   process.stdout.write(`${renderText(results)}\n`);
+  // The bench page's targets (bench/serve.js, issue 19), in a process of their own with --expose-gc.
+  log('timing the bench page: board with 2 000 units, zoom steps on 10 M samples, memory over 500 drops');
+  const page = await runTimed(process.execPath, ['--expose-gc', join(root, 'bench', 'serve.js')], { cwd: root, useTime: false, timeoutMs: 60 * 60_000 });
+  process.stdout.write(`\n${page.ok ? page.stdout : `bench page: did not complete (${page.error ?? page.stderr.slice(-300)})\n`}`);
   if (opts.strict && results.targets.some((t) => t.status === 'FAIL')) process.exitCode = 1;
 }
 
