@@ -6,8 +6,9 @@
  *
  * 1. Flat: a run of at least 3 samples exactly (to 1e-9 of the span) at the highest (lowest) level
  *    the record holds for 3 samples in a row, so a stray overshoot past it does not hide it; failing that, of
- *    samples within a band b = 6σ of it, σ the additive noise (noiseLevel.ts), so noise riding on a
- *    saturated level stays inside the band. Nothing depends on the size of the converter's steps: an
+ *    samples within a band b = 6σ below the level only 0.1 % of the record exceeds, σ the additive noise
+ *    (noiseLevel.ts), so noise riding on a saturated level stays inside the band and a lone spike
+ *    past it changes nothing. Nothing depends on the size of the converter's steps: an
  *    exactly flat run counts at 1 µV as at 80 mV.
  * 2. Longer than a peak would dwell there: more than 1.5 times the samples the signal then takes, on
  *    the slower side, to fall 4u below the level (u = b, or the step q to the next value for an exact
@@ -29,6 +30,7 @@
  * whose vertical offset moves its codes off zero is only recognised from the full scale it states.
  */
 import type { FlatTop } from '../types/index.js';
+import { quantiles } from './quantiles.js';
 
 const BAND_SIGMAS = 6;
 const DWELL_RATIO = 1.5;
@@ -58,6 +60,8 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
   }
   if (!(max > min) || !(span > 0)) return [];
   const out: FlatTop[] = [];
+  // A noisy flat is sought below its 0.1 % extreme, so a lone spike past it does not hide it.
+  const [qLow, qHigh] = quantiles(samples, [0.001, 0.999], { min, max });
   // Values printed with 15 digits differ in the last one: "exactly" flat means within this much.
   const equal = 1e-9 * Math.max(Math.abs(max), Math.abs(min), span);
   for (const dir of [1, -1] as const) {
@@ -72,7 +76,7 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
     const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
     // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
     let found = flatSamples(samples, level, dir, exact, span, from === null);
-    if (found.count < MIN_SHARE * samples.length) found = flatSamples(samples, extreme, dir, noisy, span, from === null);
+    if (found.count < MIN_SHARE * samples.length) found = flatSamples(samples, from === null ? (dir > 0 ? qHigh : qLow) : extreme, dir, noisy, span, from === null);
     if (found.count < MIN_SHARE * samples.length) continue;
     out.push({
       side,
