@@ -21,10 +21,10 @@ export function stateWords(a: Pick<AttemptSummary, 'state' | 'statement' | 'soFa
   return a.state === 'incomplete' ? `${INCOMPLETE_WORD}, waiting for ${a.waitingFor.join(', ')} (so far ${STATEMENT_WORDS[a.soFar]})` : STATEMENT_WORDS[a.statement];
 }
 
-/** `run 2, attempt #1 (#7 in the data folder)`. */
+/** `run 2 of attempt #1 (#7 in the data folder)`. */
 export function runLabel(r: StoredRun): string {
   const own = r.number !== undefined ? `run ${r.number}` : `run #${r.id}`;
-  return `${own}${r.attempt !== undefined ? ` of attempt #${r.attempt}` : ''}${r.number !== undefined ? `, #${r.id} in the data folder` : ''}`;
+  return `${own}${r.attempt !== undefined ? ` of attempt #${r.attempt}` : ''}${r.number !== undefined ? ` (#${r.id} in the data folder)` : ''}`;
 }
 
 /** One row per attempt, newest first: number, opened, why, state, runs, re-captures, notes. */

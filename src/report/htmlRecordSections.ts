@@ -42,7 +42,7 @@ function status(rec: UnitRecord): string {
   const attempt = rec.attempts?.[rec.attempts.length - 1];
   const shown = attempt?.state === 'incomplete' ? `<span class="status big" data-state="incomplete">${esc(stateWords(attempt))}</span>` : statusHtml(rec.status, true);
   const since = calibratedSinceText(rec);
-  return `<section id="status"><h2>Current status</h2><p>${shown} <span class="note">decided by the latest run, ${esc(runLabel(last))} of ${esc(formatTime(last.startedAt))}</span></p>${warn}${since ? `<p class="warning">${esc(since)}</p>` : ''}</section>`;
+  return `<section id="status"><h2>Current status</h2><p>${shown} <span class="note">decided by the latest run, ${esc(runLabel(last))}, started ${esc(formatTime(last.startedAt))}</span></p>${warn}${since ? `<p class="warning">${esc(since)}</p>` : ''}</section>`;
 }
 
 export function checkRow(run: StoredRun, k: CheckVerdict): string {
@@ -57,7 +57,7 @@ function conditions(rec: UnitRecord): string {
     const rows = c.checks.map((k) => checkRow(last, k));
     return `<section class="condition"><h3>Condition ${esc(c.condition)} — ${statusHtml(c.statement)}</h3>${table(['output', 'measurement', 'measured (± U, k = 2)', 'U', 'limits', 'margin', 'statement', 'note'], rows)}</section>`;
   });
-  return `<section id="results"><h2>Results of the latest run (${esc(runLabel(last))})</h2>${parts.join('')}</section>`;
+  return `<section id="results"><h2>Results of the latest run: ${esc(runLabel(last))}</h2>${parts.join('')}</section>`;
 }
 
 function causes(rec: UnitRecord): string {

@@ -40,7 +40,7 @@ function status(rec: UnitRecord): string {
   const attempt = rec.attempts?.[rec.attempts.length - 1];
   const word = attempt ? stateWords(attempt) : STATEMENT_WORDS[rec.status];
   const since = calibratedSinceText(rec);
-  return `## Current status: **${md(word)}**\n\nDecided by the latest run, ${runLabel(last)} of ${formatTime(last.startedAt)}. ${integrity}${since ? `\n\n${since}` : ''}`;
+  return `## Current status: **${md(word)}**\n\nDecided by the latest run, ${runLabel(last)}, started ${formatTime(last.startedAt)}. ${integrity}${since ? `\n\n${since}` : ''}`;
 }
 
 function checkCells(k: CheckVerdict): string[] {
@@ -60,7 +60,7 @@ function conditions(rec: UnitRecord): string {
   const blocks = last.verdict.conditions.map((c) =>
     c.waiting ? `### Condition ${md(c.condition)} — waiting for a capture` : `### Condition ${md(c.condition)} — ${STATEMENT_WORDS[c.statement]}\n\n${mdTable(['output', 'measurement', 'measured (± U, k = 2)', 'limits', 'margin', 'statement', 'note'], c.checks.map(checkCells))}`,
   );
-  return [`## Results of the latest run (${runLabel(last)})`, ...blocks].join('\n\n');
+  return [`## Results of the latest run: ${runLabel(last)}`, ...blocks].join('\n\n');
 }
 
 function causes(rec: UnitRecord): string {
