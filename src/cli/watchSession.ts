@@ -8,7 +8,7 @@ import { existsSync, mkdirSync, readdirSync, statSync } from 'node:fs';
 import { basename, join, resolve } from 'node:path';
 import type { PlanOverrides, Spec } from '../spec/index.js';
 import type { TextStyle } from '../report/index.js';
-import { BenchError } from '../types/index.js';
+import { BenchError, isBenchError } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { loadSpec, planCapture } from './checkRun.js';
 import type { TimingOptions } from './checkRun.js';
@@ -75,7 +75,7 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
       poll: settings.poll,
       ignore: notACapture(spec, resolve(location.dir) === dir),
       onSettled: (path) => queue.push(join(settings.dir, basename(path))),
-      onError: (err) => print({ status: 'error', file: settings.dir, error: err }),
+      onError: (err) => print(folderErrorOutcome(settings.dir, err)),
     });
     const stopped = new Promise<void>((done) => (stop.aborted ? done() : stop.addEventListener('abort', () => done(), { once: true })));
     await Promise.race([folder.ready, stopped]);
@@ -180,4 +180,26 @@ function badNameError(shown: string): BenchError {
     expected: 'file names in UTF-8 (letters, digits, - and _ are safe everywhere)',
     fix: 'rename the file (e.g. on the scope, or with a file manager), then it is checked on landing',
   });
+}
+
+/**
+ * What the folder watcher reports about one entry (a link that loops, an entry that vanished or
+ * cannot be read) names that entry as a BenchError, so it is a line about a file, not an internal
+ * error; anything else stays as it was.
+ */
+function folderErrorOutcome(dir: string, err: Error): CaptureOutcome {
+  const { code, path } = err as NodeJS.ErrnoException;
+  if (isBenchError(err) || typeof path !== 'string' || !['ELOOP', 'EACCES', 'EPERM', 'ENOENT', 'ENAMETOOLONG', 'EIO'].includes(code ?? '')) return { status: 'error', file: dir, error: err };
+  const file = join(dir, basename(path));
+  return {
+    status: 'error',
+    file,
+    error: new BenchError({
+      code: 'watch.unreadable',
+      file,
+      problem: `the entry cannot be read (${code === 'ELOOP' ? 'a symbolic link that loops' : code}); it was not recorded`,
+      expected: 'a capture file saved in the watched folder',
+      fix: 'save the capture as a regular file in the folder (not a link), then it is checked on landing',
+    }),
+  };
 }
