@@ -62,12 +62,13 @@ describe('decideUnit', () => {
     expect(v.statement).toBe('not-measured');
   });
 
-  it('reports checks of a condition without a capture, or a measurement the analysis did not report, as not measured', () => {
+  it('reports checks of a condition without a capture (waiting), or a measurement the analysis did not report, as not measured', () => {
     const noMax = captured('FK-0101', 'low', channel('CH1', 'triangle', { frequency: [100, 0.01] }));
     const v = decideUnit(spec, 'FK-0101', [noMax]);
     expect(v.conditions[0].checks[0].note).toBe('the analysis reports no maximum for channel "CH1" (recognised as triangle)');
     expect(v.conditions[1].checks.every((c) => c.statement === 'not-measured')).toBe(true);
-    expect(v.conditions[1].checks[0].note).toBe('no capture of output "out" at condition "high" was given');
+    expect(v.conditions[1]).toMatchObject({ waiting: true });
+    expect(v.conditions[1].checks[0].note).toBe('waiting for a capture at condition "high"');
   });
 
   it('decides without a guard band, and says so, when the analysis gives no uncertainty', () => {
