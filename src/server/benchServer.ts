@@ -76,13 +76,25 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
   registerUnitRoutes(app, setup);
   registerPlotRoutes(app, setup, createCaptureCache(setup.location.dir));
   registerBatchRoutes(app, setup);
-  const marker = watchStoreMarker(setup.location.dir, () => hub.publish('changed', { at: new Date().toISOString() }), options.markerMs);
+  const marker = watchStoreMarker(
+    setup.location.dir,
+    () => {
+      try {
+        setup.refresh();
+      } catch (err) {
+        // The records stay readable through the handle already open; the next change tries again.
+        ctx.io.stderr(`benchproof serve: the records could not be opened again: ${err instanceof Error ? err.message : String(err)}\n`);
+      }
+      hub.publish('changed', { at: new Date().toISOString() });
+    },
+    options.markerMs,
+  );
   try {
     await app.listen({ host, port });
   } catch (err) {
     marker.stop();
     hub.close();
-    setup.store.close();
+    setup.close();
     throw listenError(err, host, port);
   }
   const address = app.server.address();
@@ -100,7 +112,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
       marker.stop();
       hub.close();
       await app.close();
-      setup.store.close();
+      setup.close();
     },
   };
 }

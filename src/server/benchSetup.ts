@@ -29,16 +29,40 @@ export interface BenchSetup {
   /** The spec file as given to --spec, if any. */
   readonly specFile?: string;
   readonly limits: UploadLimits;
+  /** The records as of the last change; reads are verified (hash chain, fingerprints) per handle. */
   readonly store: RecordStore;
   readonly hub: EventHub;
+  /** Open the records again after they changed, so the next read verifies what was added. */
+  refresh(): void;
+  close(): void;
 }
 
 /** Opens the records for writing (creating the data folder as `check` would) and keeps them open. */
 export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub, specFile: string | undefined, limits: UploadLimits): BenchSetup {
-  const { store, location } = openDataStore(ctx, flags, 'write');
+  const first = openDataStore(ctx, flags, 'write');
+  const location = first.location;
+  let store = first.store;
   // Later calls resolve the data folder from other working directories (a drop's temporary folder).
   const absolute: StoreFlags = { ...flags, data: location.dir };
-  return { ctx, flags: absolute, location, ...(specFile !== undefined ? { specFile } : {}), limits, store, hub };
+  return {
+    ctx,
+    flags: absolute,
+    location,
+    ...(specFile !== undefined ? { specFile } : {}),
+    limits,
+    hub,
+    get store() {
+      return store;
+    },
+    // The store verifies itself once per open handle; a long-running server opens a fresh one after
+    // every change, so what another process added is verified before the page shows it.
+    refresh() {
+      const next = openDataStore(ctx, absolute, 'read').store;
+      store.close();
+      store = next;
+    },
+    close: () => store.close(),
+  };
 }
 
 /** A context for one piece of work: its own working directory, its notices collected. */

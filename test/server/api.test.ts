@@ -5,6 +5,7 @@
  * column (the definition of min/max decimation; common practice, no source).
  */
 import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openStore } from '../../src/records/index.js';
 import { runCli } from '../helpers/cliHarness.js';
@@ -49,7 +50,6 @@ describe('the bench page routes', () => {
     const body = (await res.json()) as { error: { code: string; message: string } };
     expect(res.status).toBe(422);
     const { mkdtempSync, writeFileSync } = await import('node:fs');
-    const { join } = await import('node:path');
     const { tmpdir } = await import('node:os');
     const dir = mkdtempSync(join(tmpdir(), 'benchproof-bad-'));
     writeFileSync(join(dir, 'FK-0102_mid.csv'), bad);
@@ -103,5 +103,22 @@ describe('the bench page routes', () => {
     expect((await fetch(`${t.base}/api/plot/wave?${q}`)).status).toBe(404);
     expect((await fetch(`${t.base}/api/plot/wave?unit=FK-0101`)).status).toBe(400);
     expect((await fetch(`${t.base}/api/units/FK-9999`)).status).toBe(404);
+  });
+
+  it('refuses to show records changed behind the store’s back, with the records error check would print', async () => {
+    const Database = (await import('better-sqlite3')).default;
+    const db = new Database(join(t.dataDir, 'records.db'));
+    try {
+      // The store's own guard refuses this; a hand edit of the file (trigger dropped) gets past it.
+      expect(() => db.prepare("UPDATE runs SET operator = 'someone else'").run()).toThrow(/append-only/);
+      db.exec('DROP TRIGGER runs_no_update');
+      db.prepare("UPDATE runs SET operator = 'someone else' WHERE id = 1").run();
+    } finally {
+      db.close();
+    }
+    await expect.poll(async () => (await fetch(`${t.base}/api/board`)).status, { timeout: 10_000 }).toBe(422);
+    const body = (await (await fetch(`${t.base}/api/board`)).json()) as { error: { code: string; message: string } };
+    expect(body.error.code).toMatch(/^records\.(tampered|damaged)$/);
+    expect(body.error.message).toContain('fix: ');
   });
 });
