@@ -26,6 +26,7 @@ import { fileURLToPath } from 'node:url';
 import Database from 'better-sqlite3';
 import { LATEST_SCHEMA, openStore, summarizeBatch } from '../../src/records/index.js';
 import { kestrelRun } from './fixtures/kestrelRun.js';
+import { runCli } from '../helpers/cliHarness.js';
 import { makeTempDir, removeTempDir } from './helpers/tempData.js';
 
 const FIXTURE = fileURLToPath(new URL('./fixtures/store-c320a2a.records.db.gz', import.meta.url));
@@ -117,6 +118,22 @@ describe('a store written by the release before attempts', () => {
         { unit: 'FK-0102', waitingFor: ['low', 'high'] },
         { unit: 'FK-0103', waitingFor: ['low', 'mid'] },
       ]);
+    } finally {
+      store.close();
+    }
+  });
+
+  it('completes an attempt the old release left waiting when the missing conditions are checked now, from the archived capture', async () => {
+    const r = await runCli(['check', 'samples/captures/FK-0102_low.csv', 'samples/captures/FK-0102_high.csv', '--spec', 'samples/fh210-spec.yaml', '--data', dir, '--summary']);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toContain('FK-0102: checked together with FK-0102_mid.csv from its open attempt #1');
+    expect(r.stderr).toContain('stored run 2 of FK-0102, attempt #1 (PASS)');
+    const store = openStore(dir);
+    try {
+      const [spec] = summarizeBatch(store.runs()).specs;
+      // FK-0101 and now FK-0102 passed their first complete attempt, FK-0106 failed: 2 of 3.
+      expect(spec.firstPass).toMatchObject({ units: 3, accepted: 2 });
+      expect(spec.incomplete).toEqual([{ unit: 'FK-0103', waitingFor: ['low', 'mid'] }]);
     } finally {
       store.close();
     }
