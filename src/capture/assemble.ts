@@ -172,6 +172,7 @@ function readingOf(a: AssembleInput, timing: Timing): CaptureReading {
     channels: a.kept.map((col) => ({ name: roles.columns[col].name, unitFrom: roles.unitSources[col], scale: roles.columns[col].scale, offset: roles.offsets[col] })),
     segments: sink.segments,
     segmentRead: options.segment ?? 1,
+    weighed: sniffed.weighed,
   };
 }
 

@@ -29,6 +29,8 @@ export interface HeaderReading {
   /** Name–value pairs from cells of the names row beyond the data columns. */
   readonly pairs: readonly (readonly [string, string])[];
   readonly score: number;
+  /** Every reading weighed, in words with its score (the chosen one included). */
+  readonly weighed?: readonly { readonly what: string; readonly score: number }[];
 }
 
 export interface HeaderContext {
@@ -65,7 +67,8 @@ export function readHeaderRows(lines: readonly SampleLine[], start: number, ctx:
   if (r1 && r2 && isUnitsRow(r1.cells, ctx, extra) && isNamesRow(r2.cells, ctx, extra)) candidates.push(reading(r2, r1, ctx));
   // A names row reads its unit cells as units too, so readings that score the same give the same
   // columns; the one that reads more rows explains more of the file.
-  return candidates.reduce((a, b) => (b.score > a.score || (b.score === a.score && b.lines.length > a.lines.length) ? b : a));
+  const best = candidates.reduce((a, b) => (b.score > a.score || (b.score === a.score && b.lines.length > a.lines.length) ? b : a));
+  return { ...best, weighed: candidates.map((c) => ({ what: describeHeader(c), score: c.score })) };
 }
 
 function forcedReading(n: number, r1: Row | null, r2: Row | null, ctx: HeaderContext, none: HeaderReading): HeaderReading {
@@ -107,6 +110,13 @@ function score(r: HeaderReading, ctx: HeaderContext): number {
     if (cell.unit !== '' || (r.units && r.units[c] !== '')) s += 2;
   }
   return s;
+}
+
+export function describeHeader(c: HeaderReading): string {
+  if (c.namesLine !== null && c.unitsLine !== null) return `names on line ${c.namesLine}, units on line ${c.unitsLine}`;
+  if (c.namesLine !== null) return `names on line ${c.namesLine}`;
+  if (c.unitsLine !== null) return `units alone on line ${c.unitsLine}`;
+  return 'no header row';
 }
 
 function dataCells(cells: readonly string[], ctx: HeaderContext): string[] {

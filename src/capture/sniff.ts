@@ -12,7 +12,7 @@ import type { DecimalMark, Delimiter } from '../types/index.js';
 import { captureError, EXPECTED_CSV } from './errors.js';
 import { splitFields } from './fields.js';
 import type { SampleLine, SampleLines } from './lines.js';
-import { readHeaderRows } from './headerRows.js';
+import { describeHeader, readHeaderRows } from './headerRows.js';
 import { NUMBER, parseNumberText, TEXT } from './scanNumber.js';
 
 export const MAX_COLUMNS = 1024;
@@ -51,6 +51,8 @@ export interface Sniffed {
   readonly dataOffset: number;
   /** Lines dropped by --skip-rows. */
   readonly skippedLines: number;
+  /** The readings weighed, in words, with their scores and the one chosen (for `inspect`). */
+  readonly weighed: readonly { readonly what: string; readonly score: number; readonly chosen: boolean }[];
   /**
    * Numbers of the sniffed data rows (file units; NaN for an empty or text cell), for telling a
    * time column from data. Read on first call and kept: reading some 4 000 fields as text is a
@@ -129,6 +131,13 @@ export function sniffLayout(s: SampleLines, file: string, hints: LayoutHints = {
     firstDataLine: lines[start].line,
     dataOffset: lines[start].start,
     skippedLines: skip,
+    weighed: [
+      // Pairs that read the same numbers (one column has no delimiter to tell) count as one reading.
+      ...readings
+        .filter((r) => r === chosen || (r.signature !== chosen.signature && readings.find((q) => q.signature === r.signature) === r))
+        .map((r) => ({ what: `${describe(r)}, data from line ${lines[r.start].line} (${r.score} of the first ${Math.min(lines.length, CHOOSE_LINES)} lines read as data)`, score: r.score, chosen: r === chosen })),
+      ...(header.weighed ?? []).map((w) => ({ what: `header: ${w.what} (${w.score} points)`, score: w.score, chosen: w.what === describeHeader(header) })),
+    ],
     sampleRows: () => (rows ??= numericRows(sampleText(), decimalMark)),
     integerWritten: () => (integers ??= integerColumns(sampleText(), columns, decimalMark)),
   };

@@ -54,6 +54,10 @@ function inspectionText(d: Inspection, style: TextStyle): string {
   out.push('', `  ${style.bold('lines')}`);
   for (const line of d.lines) out.push(lineText(line));
   if (c.layout.lastDataLine > (d.lines.at(-1)?.line ?? 0)) out.push(`  ${'…'.padStart(6)}  data to line ${c.layout.lastDataLine}`);
+  if (r?.weighed && r.weighed.length > 1) {
+    out.push('', `  ${style.bold('readings weighed')}`);
+    for (const w of r.weighed) out.push(`    ${w.chosen ? '*' : ' '} ${w.what}`);
+  }
   if (r && r.recognised.length > 0) {
     out.push('', `  ${style.bold('preamble understood')}`);
     for (const k of r.recognised) out.push(`    ${k.key} → ${k.meaning}: ${typeof k.value === 'number' ? String(k.value) : k.value}`);

@@ -64,6 +64,8 @@ export interface CaptureReading {
   /** Acquisitions found in the file (time restarting), and which one was read (1-based). */
   readonly segments: number;
   readonly segmentRead: number;
+  /** The readings weighed while sniffing, in words with their scores, and which were chosen. */
+  readonly weighed?: readonly { readonly what: string; readonly score: number; readonly chosen: boolean }[];
 }
 
 /** How to read a capture when inference cannot tell, from flags, a reading profile or a spec. */
