@@ -151,7 +151,7 @@ const digestOfFolder = (dir: string): string => {
 };
 
 describe('tampering with a store', () => {
-  it('is detected for every kind of change, seeded', () => {
+  it('is detected for every kind of change, seeded', { timeout: scaled(120_000, 60 * 60_000) }, () => {
     let i = 0;
     fc.assert(
       fc.property(fc.constantFrom(...KINDS), fc.nat(1000), (kind, pick) => {
