@@ -4,7 +4,8 @@
  * §2. Values are plain numbers in the SI unit named in the `unit` column (no prefixes), at full
  * precision; U is the expanded uncertainty (k = 2); empty cells for none. With a comma decimal mark
  * the fields are separated by semicolons, as spreadsheets set to such a locale expect (common
- * practice, no source). Text cells are neutralised against formulas (escapeText.ts).
+ * practice, no source). Text cells are neutralised against formulas (escapeText.ts). The last column
+ * holds the records' chain head, which pins the store's state the export was made from.
  */
 import { waitingConditions } from '../types/index.js';
 import type { StoredRun, UnitRecord } from '../types/index.js';
@@ -12,7 +13,7 @@ import { csvText } from './escapeText.js';
 
 export const RECORD_CSV_COLUMNS = [
   'unit', 'attempt', 'attempt_state', 'run', 'run_id', 'started_at_utc', 'spec_revision', 'condition', 'output', 'measurement',
-  'value', 'unit_si', 'expanded_uncertainty', 'lower', 'upper', 'statement', 'note', 'attempt_notes',
+  'value', 'unit_si', 'expanded_uncertainty', 'lower', 'upper', 'statement', 'note', 'attempt_notes', 'records_chain_head',
 ] as const;
 
 export type DecimalMark = '.' | ',';
@@ -34,6 +35,8 @@ export function renderRecordCsv(rec: UnitRecord, mark: DecimalMark = '.'): strin
             cell(rec.unit), String(attempt), state, String(run.number ?? ''), String(run.id), cell(run.startedAt), cell(run.spec.revision),
             cell(k.condition), cell(k.output), cell(k.measurement), num(k.value), cell(k.unit), num(k.expandedUncertainty),
             num(k.lower), num(k.upper), k.statement, cell(k.note ?? ''), cell(notes.join('; ')),
+            // The store's chain head when the export was made (README "Records"), on every row.
+            rec.source?.chainHead ?? '',
           ].join(sep),
         );
       }

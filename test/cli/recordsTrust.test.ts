@@ -151,6 +151,8 @@ describe('tampering is seen by every command that reads records', () => {
     expect(html.stdout).toContain(`chain head <code>${link.slice(0, 16)}</code>`);
     const csv = await cli('batch', '--format', 'csv');
     expect(csv.stdout.split('\r\n')[1].endsWith(`,${link}`)).toBe(true);
+    const recordCsv = await cli('record', 'FK-0101', '--format', 'csv');
+    expect(recordCsv.stdout.split('\r\n')[1].endsWith(`,${link}`)).toBe(true);
     const json = await cli('record', 'FK-0101', '--json');
     expect((JSON.parse(json.stdout) as { source: { chainHead: string } }).source.chainHead).toBe(link);
   });
