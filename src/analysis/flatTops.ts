@@ -30,7 +30,7 @@
  * whose vertical offset moves its codes off zero is only recognised from the full scale it states.
  */
 import type { FlatTop } from '../types/index.js';
-import { quantiles } from './quantiles.js';
+import { extremes, quantiles } from './quantiles.js';
 
 const BAND_SIGMAS = 6;
 const DWELL_RATIO = 1.5;
@@ -47,36 +47,36 @@ export interface FlatTopOptions {
   readonly span: number;
   /** The capture's full-scale limits for this channel, when it states them. */
   readonly fullScale?: { readonly low: number; readonly high: number };
+  /** The record's extremes, when the caller has them (saves a pass). */
+  readonly range?: { readonly min: number; readonly max: number };
 }
 
 export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTop[] {
   const { noise, span, fullScale } = options;
-  let max = -Infinity;
-  let min = Infinity;
-  for (let i = 0; i < samples.length; i++) {
-    const v = samples[i];
-    if (v > max) max = v;
-    if (v < min) min = v;
-  }
+  const { min, max } = options.range ?? extremes(samples);
   if (!(max > min) || !(span > 0)) return [];
   const out: FlatTop[] = [];
-  // A noisy flat is sought below its 0.1 % extreme, so a lone spike past it does not hide it.
-  const [qLow, qHigh] = quantiles(samples, [0.001, 0.999], { min, max });
   // Values printed with 15 digits differ in the last one: "exactly" flat means within this much.
   const equal = 1e-9 * Math.max(Math.abs(max), Math.abs(min), span);
+  const held = heldLevels(samples, equal);
+  let tails: number[] | null = null;
   for (const dir of [1, -1] as const) {
     const side = dir > 0 ? 'high' : 'low';
     const extreme = dir > 0 ? max : min;
     // A stray sample past a flat run (a simulator's or scope's overshoot) must not hide it: the exact
     // level is the highest (lowest) one held for MIN_RUN samples in a row.
-    const level = heldLevel(samples, dir, equal) ?? extreme;
-    const from = fullScaleOf(samples, side, extreme, max, min, fullScale);
+    const level = (dir > 0 ? held.high : held.low) ?? extreme;
     const q = stepAt(samples, level, -dir, equal);
+    const from = fullScaleOf(side, extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min, fullScale);
     const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
     const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
     // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
     let found = flatSamples(samples, level, dir, exact, span, from === null);
-    if (found.count < MIN_SHARE * samples.length) found = flatSamples(samples, from === null ? (dir > 0 ? qHigh : qLow) : extreme, dir, noisy, span, from === null);
+    if (found.count < MIN_SHARE * samples.length) {
+      // A noisy flat is sought below its 0.1 % extreme, so a lone spike past it does not hide it.
+      tails ??= quantiles(samples, [0.001, 0.999], { min, max });
+      found = flatSamples(samples, from === null ? (dir > 0 ? tails[1] : tails[0]) : extreme, dir, noisy, span, from === null);
+    }
     if (found.count < MIN_SHARE * samples.length) continue;
     out.push({
       side,
@@ -107,8 +107,10 @@ function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, sp
   let count = 0;
   let sum = 0;
   let i = 0;
+  const edge = level - dir * sc.band;
   while (i < x.length) {
-    if (!(depthOf(i) <= sc.band)) {
+    // Hot loop: outside the band, move on without a call.
+    if (dir > 0 ? !(x[i] >= edge) : !(x[i] <= edge)) {
       i++;
       continue;
     }
@@ -164,9 +166,9 @@ function samplesToDepth(x: Float64Array, from: number, by: number, depthOf: (i: 
 
 /** Whether `level` is the capture's full scale on this side, and how that is known (null: inside the range). */
 function fullScaleOf(
-  x: Float64Array,
   side: 'high' | 'low',
   level: number,
+  q: number,
   max: number,
   min: number,
   fullScale: FlatTopOptions['fullScale'],
@@ -176,7 +178,6 @@ function fullScaleOf(
     const tol = 0.005 * (fullScale.high - fullScale.low);
     return Math.abs(level - edge) <= tol ? 'preamble' : null;
   }
-  const q = stepAt(x, level, side === 'high' ? -1 : 1);
   if (!(q > 0) || q < 1e-5 * (max - min)) return null;
   const codes = (max - min) / q;
   const code = level / q;
@@ -203,13 +204,17 @@ function stepAt(x: Float64Array, level: number, towards: number, equal = 0): num
   return best;
 }
 
-/** The highest (dir 1) or lowest (dir −1) value held within `equal` for MIN_RUN samples in a row; null if none. */
-function heldLevel(x: Float64Array, dir: 1 | -1, equal: number): number | null {
-  let best: number | null = null;
+/** The highest and lowest values held within `equal` for MIN_RUN samples in a row (null where none), in one pass. */
+function heldLevels(x: Float64Array, equal: number): { high: number | null; low: number | null } {
+  let high = -Infinity;
+  let low = Infinity;
   let run = 1;
   for (let i = 1; i < x.length; i++) {
-    run = Math.abs(x[i] - x[i - 1]) <= equal ? run + 1 : 1;
-    if (run >= MIN_RUN && (best === null || dir * (x[i] - best) > 0)) best = x[i];
+    const v = x[i];
+    run = Math.abs(v - x[i - 1]) <= equal ? run + 1 : 1;
+    if (run < MIN_RUN) continue;
+    if (v > high) high = v;
+    if (v < low) low = v;
   }
-  return best;
+  return { high: high > -Infinity ? high : null, low: low < Infinity ? low : null };
 }
