@@ -53,15 +53,19 @@ export async function boardLine(units = 2000) {
     }
     store.close();
     const { server, base } = await startServer(dataDir);
-    const times = [];
     let count = 0;
-    for (let i = 0; i < 8; i++) {
-      const ms = await timed(async () => (count = (await (await fetch(`${base}/api/board`)).json()).units.length));
-      if (i > 0) times.push(ms); // the first request warms the code
-    }
+    const ask = () => timed(async () => (count = (await (await fetch(`${base}/api/board`)).json()).units.length));
+    // The first answer after the records changed lists (and verifies) them; later ones reuse that
+    // listing until the next change. The target is judged on the first: a page sees it at each change.
+    const first = await ask();
+    const again = [];
+    for (let i = 0; i < 7; i++) again.push(await ask());
     await server.close();
-    const ms = median(times);
-    return { target: `board with ${count} units answers < 300 ms`, measured: `${ms.toFixed(0)} ms (median of ${times.length})`, status: count === units && ms < 300 ? 'PASS' : 'FAIL' };
+    return {
+      target: `board with ${count} units answers < 300 ms`,
+      measured: `${first.toFixed(0)} ms the first time after a change (store verification and units listing), ${median(again).toFixed(0)} ms again (median of ${again.length})`,
+      status: count === units && first < 300 ? 'PASS' : 'FAIL',
+    };
   } finally {
     rmSync(dataDir, { recursive: true, force: true });
   }

@@ -6,16 +6,23 @@
 import type { FastifyInstance } from 'fastify';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { UnitSummary } from '../types/index.js';
+import type { RecordStore } from '../records/index.js';
 import { loadSpec } from '../cli/checkRun.js';
 import type { Spec } from '../spec/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { errorBody } from './errorBody.js';
 
 export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup): void {
+  // The units listing reads every run of every unit; it is kept until the records change (a new
+  // store handle), so the pages that all ask again at a change cost one listing, not one each.
+  let kept: { store: RecordStore; spec: string | undefined; units: UnitSummary[] } | undefined;
   app.get('/api/board', async () => {
     const current = currentSpec(setup);
     const spec = current.ok ? current.spec : undefined;
-    const units = setup.store.listUnits(spec ? { spec: spec.name } : {});
+    if (kept?.store !== setup.store || kept.spec !== spec?.name) {
+      kept = { store: setup.store, spec: spec?.name, units: setup.store.listUnits(spec ? { spec: spec.name } : {}) };
+    }
+    const units = [...kept.units];
     return {
       spec: spec ? { name: spec.name, revision: spec.revision, file: setup.specFile } : null,
       specProblem: current.ok ? null : current.error,

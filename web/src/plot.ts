@@ -146,7 +146,7 @@ function drawMarks(u: uPlot, spec: PlotSpec): void {
       c.moveTo(left, py);
       c.lineTo(left + width, py);
       c.stroke();
-      c.fillText(name, left + width - c.measureText(name).width - 4, py + 13 * devicePixelRatio);
+      c.fillText(name, left + width - c.measureText(name).width - 4, py + 13 * devicePixelRatio > top + height ? py - 4 * devicePixelRatio : py + 13 * devicePixelRatio);
     }
     c.setLineDash([]);
     for (const t of m.crossings) {
