@@ -4,6 +4,7 @@
 //   memory    the server's heap after 500 dropped captures            target: flat (growth from drop 100 to 500 < 16 MiB)
 // Usage: node bench/serve.js [--only board|zoom|memory] [--rows N]   (npm run bench runs it last)
 // Run node with --expose-gc for the memory line (bench/run.js does); without it the heap is read as is.
+/* global fetch, URLSearchParams, FormData, Blob -- Node 20 has them built in */
 import process from 'node:process';
 import { mkdtempSync, readFileSync, rmSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
