@@ -16,7 +16,7 @@ import { join, resolve } from 'node:path';
 import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
 import type { RecordStore } from '../records/index.js';
 import { BenchError, isBenchError, waitingConditions } from '../types/index.js';
-import type { Statement, VerdictState } from '../types/index.js';
+import type { Statement, UnitVerdict, VerdictState } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { checkPlans, planFiles, runOf, worstStatement } from './checkRun.js';
 import type { RunAuthor, TimingOptions } from './checkRun.js';
@@ -125,7 +125,6 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
     const record = await refreshRecord(env, plan.unit).catch((err: Error) => err);
     const first = checked.diagnosis.causes[0];
     const waitingFor = waitingConditions(checked.verdict);
-    const total = checked.verdict.conditions.length;
     return {
       status: 'checked',
       file,
@@ -139,7 +138,7 @@ export const checkEachCapture: CaptureHandlerFactory = (env) => async (file) => 
       ...(record instanceof Error ? { recordError: record } : record ? { record } : {}),
       state: waitingFor.length ? 'incomplete' : 'complete',
       waitingFor,
-      progress: { captured: total - waitingFor.length, total },
+      progress: progressOf(checked.verdict, plan.perOutput),
       soFar: checked.verdict.soFar ?? checked.verdict.statement,
       ...(saved.run.attempt !== undefined ? { attempt: saved.run.attempt } : {}),
       ...(saved.run.number !== undefined ? { runNumber: saved.run.number } : {}),
@@ -181,6 +180,20 @@ function unreadableLanded(file: string, why: string): BenchError {
     expected: 'a capture file saved in the watched folder',
     fix: 'save the capture as a regular file in the folder (not a link or a device), then it is checked on landing',
   });
+}
+
+/**
+ * How much of the attempt has landed: conditions captured of all, or with one file per output the
+ * (condition, output) pairs captured of all.
+ */
+function progressOf(verdict: UnitVerdict, perOutput: boolean): { captured: number; total: number } {
+  if (!perOutput) return { captured: verdict.conditions.filter((c) => !c.waiting).length, total: verdict.conditions.length };
+  const pairs = new Map<string, boolean>();
+  for (const k of verdict.conditions.flatMap((c) => c.checks)) {
+    const key = `${k.condition}\u0000${k.output}`;
+    pairs.set(key, (pairs.get(key) ?? false) || !k.waiting);
+  }
+  return { captured: [...pairs.values()].filter(Boolean).length, total: pairs.size };
 }
 
 /** The statement of the checks this file supplies: its outputs at its condition. */

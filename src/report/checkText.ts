@@ -35,6 +35,10 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string
     }
     const outputs = [...new Set(cond.checks.map((c) => c.output))];
     for (const output of outputs) {
+      if (cond.checks.filter((c) => c.output === output).every((c) => c.waiting)) {
+        lines.push(`${style.bold(`${cond.condition} · ${output}`)}  ${style.dim('waiting for a capture: not checked yet')}`, '');
+        continue;
+      }
       const capture = verdict.captures.find((c) => c.condition === cond.condition && c.outputs.some((o) => o.output === output));
       const channel = capture?.outputs.find((o) => o.output === output)?.channel;
       const source = capture ? `${capture.path}, channel "${channel}"` : 'no capture';
@@ -89,7 +93,7 @@ function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextSty
 }
 
 function overallLine(verdict: UnitVerdict, style: TextStyle): string {
-  const checks = verdict.conditions.filter((c) => !c.waiting).flatMap((c) => c.checks);
+  const checks = verdict.conditions.flatMap((c) => c.checks).filter((k) => !k.waiting);
   const count = (s: Statement): number => checks.filter((c) => c.statement === s).length;
   const parts = [`${count('fail')} failed`, `${count('conditional-fail')} cond. failed`, `${count('not-measured')} not measured`, `${count('conditional-pass')} cond. passed`];
   const waiting = waitingConditions(verdict);
@@ -108,7 +112,7 @@ export function renderCheckSummary(units: readonly UnitCheck[], style: TextStyle
   const width = Math.max(4, ...units.map((u) => u.verdict.unit.length));
   const lines = units.map(({ verdict, diagnosis }) => {
     const waiting = waitingConditions(verdict);
-    const checks = verdict.conditions.filter((c) => !c.waiting).flatMap((c) => c.checks);
+    const checks = verdict.conditions.flatMap((c) => c.checks).filter((k) => !k.waiting);
     const off = checks.filter((c) => c.statement !== 'pass').length;
     const word = waiting.length ? INCOMPLETE_WORD : STATEMENT_WORDS[verdict.statement];
     const shown = waiting.length ? style.bold(INCOMPLETE_WORD) : style.statement(verdict.statement);

@@ -24,14 +24,20 @@ export function decideUnits(spec: Spec, captures: readonly CheckedCapture[]): Un
 
 export function decideUnit(spec: Spec, unit: string, captures: readonly CheckedCapture[]): UnitVerdict {
   refuseDuplicates(captures);
-  // A condition with no capture at all is waiting, not failed: the unit is INCOMPLETE until it lands.
-  const waitingFor = spec.conditions.filter((cond) => !captures.some((c) => c.condition === cond.name)).map((cond) => cond.name);
+  // A condition (or, with one file per output, an output at a condition) with no capture at all is
+  // waiting, not failed: the unit is INCOMPLETE until it lands.
+  const waitingFor: string[] = [];
   const conditions: ConditionVerdict[] = spec.conditions.map((cond) => {
-    if (waitingFor.includes(cond.name)) return waitingCondition(cond.name, cond.checks);
-    const checks = cond.checks.map((check) => decideOne(spec, check, cond.name, captures));
+    if (!captures.some((c) => c.condition === cond.name)) {
+      waitingFor.push(cond.name);
+      const note = `waiting for a capture at condition "${cond.name}"`;
+      return { condition: cond.name, statement: 'not-measured', checks: cond.checks.map((check) => waitingCheck(check, cond.name, note)), waiting: true };
+    }
+    const checks = cond.checks.map((check) => (outputCaptured(captures, cond.name, check.output) ? decideOne(spec, check, cond.name, captures) : waitingCheck(check, cond.name)));
+    for (const output of new Set(checks.filter((k) => k.waiting).map((k) => k.output))) waitingFor.push(`${cond.name} (${output})`);
     return { condition: cond.name, statement: worstStatement(checks.map((c) => c.statement)), checks };
   });
-  const captured = conditions.filter((c) => !c.waiting);
+  const captured = conditions.flatMap((c) => c.checks).filter((k) => !k.waiting);
   return {
     schemaVersion: 1,
     unit,
@@ -42,16 +48,19 @@ export function decideUnit(spec: Spec, unit: string, captures: readonly CheckedC
     captures,
     state: waitingFor.length ? 'incomplete' : 'complete',
     waitingFor,
-    soFar: worstStatement(captured.map((c) => c.statement)),
+    soFar: worstStatement(captured.map((k) => k.statement)),
   };
 }
 
+const outputCaptured = (captures: readonly CheckedCapture[], condition: string, output: string): boolean =>
+  captures.some((c) => c.condition === condition && c.outputs.some((o) => o.output === output));
+
 /**
- * The checks of a condition nobody has captured yet: not measured (so the unit can never read as a
- * pass), marked waiting, with a note that says so rather than a reason the unit is at fault.
+ * A check nobody has captured for yet: not measured (so the unit can never read as a pass), marked
+ * waiting, with a note that says so rather than a reason the unit is at fault.
  */
-function waitingCondition(condition: string, checks: readonly SpecCheck[]): ConditionVerdict {
-  const decided = checks.map((check): CheckVerdict => ({
+function waitingCheck(check: SpecCheck, condition: string, note = `waiting for a capture of output "${check.output}" at condition "${condition}"`): CheckVerdict {
+  return {
     output: check.output,
     condition,
     measurement: check.measurement,
@@ -64,9 +73,9 @@ function waitingCondition(condition: string, checks: readonly SpecCheck[]): Cond
     guard: 0,
     margin: null,
     statement: 'not-measured',
-    note: `waiting for a capture at condition "${condition}"`,
-  }));
-  return { condition, statement: 'not-measured', checks: decided, waiting: true };
+    note,
+    waiting: true,
+  };
 }
 
 function refuseDuplicates(captures: readonly CheckedCapture[]): void {

@@ -40,6 +40,8 @@ export interface CheckVerdict {
   readonly note?: string;
   /** The user's own hint from the spec, shown with a failure. */
   readonly hint?: string;
+  /** True when nothing was captured for this check yet (its condition or output is still to land). */
+  readonly waiting?: boolean;
 }
 
 export interface ConditionVerdict {
@@ -84,7 +86,10 @@ export interface UnitVerdict {
    * it with `verdictState`.
    */
   readonly state?: VerdictState;
-  /** Conditions still waiting for a capture, in spec order; empty when complete. */
+  /**
+   * What still waits for a capture, in spec order; empty when complete. A whole condition by its name
+   * (`mid`); with one file per output, an output at a captured condition as `mid (pulse out)`.
+   */
   readonly waitingFor?: readonly string[];
   /** Worst statement over the conditions captured so far (what the unit shows while it waits). */
   readonly soFar?: Statement;
