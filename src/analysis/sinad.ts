@@ -13,6 +13,7 @@ import type { MeasureResult, Shape } from '../types/index.js';
 import type { HarmonicAnalysis } from './harmonicAnalysis.js';
 import type { NoiseFloor } from './noiseFloor.js';
 import { LobeScan } from './noiseFloor.js';
+import { frameKernel } from './spectralFrame.js';
 import { noiseDbUncertainty } from './snr.js';
 
 export function sinad(h: HarmonicAnalysis, shape: Shape): MeasureResult {
@@ -45,16 +46,40 @@ export function enob(sinadResult: MeasureResult): MeasureResult {
   };
 }
 
-/** Noise-and-distortion variance: bins outside the DC and fundamental lobes, those lobes at the noise level. */
+/** Bins around the fundamental (and DC) where its window sidelobes are taken out before summing: beyond, under −134 dB (harmonicFit.ts). */
+const LEAKAGE_BINS = 256;
+
+/**
+ * Noise-and-distortion variance: bins outside the DC and fundamental lobes, those lobes at the noise
+ * level. Within 256 window bins of the fundamental and of DC the fitted DC and fundamental are
+ * subtracted first, so their window sidelobes (up to −92 dB for the 4-term Blackman-Harris window,
+ * Harris 1978) are not taken for noise: a 16-bit converter's noise lies near −98 dB.
+ */
 function noiseAndDistortion(h: HarmonicAnalysis, noise: NoiseFloor): number {
   const { frame, fit } = h;
   const s = frame.spectrum;
-  const lobes = new LobeScan(frame.lobeBins, fit.fundamental / frame.binWidth, 1);
+  const p = fit.fundamental / frame.binWidth;
+  const reach = (LEAKAGE_BINS * s.size) / frame.length;
+  const [c0, a, b] = [fit.coefficients[0], fit.coefficients[1], fit.coefficients[2]];
+  const lobes = new LobeScan(frame.lobeBins, p, 1);
   let sum = 0;
   let excluded = 0;
   for (let k = 1; k < s.bins - 1; k++) {
-    if (lobes.covers(k)) excluded++;
-    else sum += s.power(k);
+    if (lobes.covers(k)) {
+      excluded++;
+      continue;
+    }
+    if (Math.abs(k - p) > reach && k > reach) {
+      sum += s.power(k);
+      continue;
+    }
+    // Model of DC and the fundamental at bin k (harmonicFit.ts): c₀W(k) + ½c·W(k − p) + ½c̄·W(k + p).
+    const w0 = frameKernel(frame, k);
+    const wm = frameKernel(frame, k - p);
+    const wp = frameKernel(frame, k + p);
+    const re = c0 * w0.re + (a * (wm.re + wp.re) - b * (wm.im - wp.im)) / 2;
+    const im = c0 * w0.im + (a * (wm.im + wp.im) + b * (wm.re - wp.re)) / 2;
+    sum += (s.re(k) - re) ** 2 + (s.im(k) - im) ** 2;
   }
   return (sum + excluded * noise.perBin) / (frame.s2 * (s.bins - 2));
 }

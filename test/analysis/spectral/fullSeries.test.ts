@@ -74,6 +74,19 @@ function enobByThreeParameterFit(x: Float64Array, cyclesPerSample: number): numb
   return (10 * Math.log10((coef[0] ** 2 + coef[1] ** 2) / 2 / nad) - 1.76) / 6.02;
 }
 
+describe('enob of ideal 8- and 16-bit sines', () => {
+  for (const bits of [8, 16]) {
+    it(`enob of ideal ${bits}-bit sines at non-coherent, near-coherent and near-Nyquist ratios is within 0.1 bit of the IEEE 1057 time-domain fit`, () => {
+      const q = 2 / 2 ** bits;
+      for (const ratio of [7.3, 37.77, 64.0001, 90.00001, 301.3]) {
+        const sig = synthesize({ shape: 'sine', frequency: 1000, amplitude: 1 - q, sampleRate: ratio * 1000, samples: 16_384, bits, fullScale: 2, phase: 0.31 });
+        const enob = value(analyzeSpectrum(sig.values, sig.dt, 1000, 'sine').measurements.enob);
+        expectWithin(enob, enobByThreeParameterFit(sig.values, 1 / ratio), { abs: 0.1 }, `IEEE 1057 three-parameter sine fit at ${ratio} samples per cycle`);
+      }
+    });
+  }
+});
+
 describe('sinad and enob of ideal quantised sines', () => {
   const bits = 12;
   const fullScale = 2;
