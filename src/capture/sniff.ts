@@ -135,7 +135,7 @@ export function sniffLayout(s: SampleLines, file: string, hints: LayoutHints = {
       // Pairs that read the same numbers (one column has no delimiter to tell) count as one reading.
       ...readings
         .filter((r) => r === chosen || (r.signature !== chosen.signature && readings.find((q) => q.signature === r.signature) === r))
-        .map((r) => ({ what: `${describe(r)}, data from line ${lines[r.start].line} (${r.score} of the first ${Math.min(lines.length, CHOOSE_LINES)} lines read as data)`, score: r.score, chosen: r === chosen })),
+        .map((r) => ({ what: `${describe(r)}, data from line ${lines[r === chosen ? start : r.start].line} (${r.score} of ${Math.min(lines.length, CHOOSE_LINES)} lines)`, score: r.score, chosen: r === chosen })),
       ...(header.weighed ?? []).map((w) => ({ what: `header: ${w.what} (${w.score} points)`, score: w.score, chosen: w.what === describeHeader(header) })),
     ],
     sampleRows: () => (rows ??= numericRows(sampleText(), decimalMark)),
@@ -233,7 +233,7 @@ function choose(readings: readonly Reading[], lines: readonly SampleLine[], file
 
 function describe(r: Reading): string {
   const d = r.pair[0] === '\t' ? 'tab' : r.pair[0] === ' ' ? 'space' : `"${r.pair[0]}"`;
-  return `${r.columns} column(s) split by ${d} with decimal "${r.pair[1]}"`;
+  return `${r.columns} column(s), ${d} between fields, decimal "${r.pair[1]}"`;
 }
 
 /**

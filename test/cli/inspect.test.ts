@@ -25,7 +25,7 @@ describe('benchproof inspect', () => {
     expect(r.stdout).toContain('from preamble key "Sampling period"');
     expect(r.stdout).toContain('unit from none stated: converter counts');
     expect(r.stdout).toContain('raw-counts');
-    expect(r.stdout).toMatch(/readings weighed\n {4}\* 1 column\(s\) split by "," with decimal "\.", data from line 4 \(397 of the first 400 lines read as data\)\n {4}\* header: no header row/);
+    expect(r.stdout).toMatch(/readings weighed\n {4}\* 1 column\(s\), "," between fields, decimal "\.", data from line 4 \(397 of 400 lines\)\n {4}\* header: no header row/);
   });
 
   it('prints one JSON document with the lines, their roles and the first samples, and follows a reading profile', async () => {
