@@ -97,6 +97,24 @@ describe('the bench page guard', () => {
     expect(many.status).toBe(413);
   });
 
+  it('asks for the token on an interface other than loopback, and takes only that interface as Host', async () => {
+    // fastify's inject() runs requests without a socket, so no test listens beyond 127.0.0.1.
+    const { default: Fastify } = await import('fastify');
+    const { installGuard } = await import('../../src/server/security.js');
+    for (const host of ['192.0.2.10', '0.0.0.0']) {
+      const app = Fastify();
+      installGuard(app, { host, token: 'a'.repeat(64), port: () => 8400 });
+      app.get('/api/board', async () => ({ ok: true }));
+      const ask = (hostHeader: string, auth?: string) => app.inject({ url: '/api/board', headers: { host: hostHeader, ...(auth ? { authorization: `Bearer ${auth}` } : {}) } });
+      expect((await ask('192.0.2.10:8400')).statusCode, host).toBe(401);
+      expect((await ask('192.0.2.10:8400', 'b'.repeat(64))).statusCode, host).toBe(401);
+      expect((await ask('192.0.2.10:8400', 'a'.repeat(64))).statusCode, host).toBe(200);
+      expect((await ask('bench.example.com:8400', 'a'.repeat(64))).statusCode, host).toBe(421);
+      expect((await ask('192.0.2.10:9999', 'a'.repeat(64))).statusCode, host).toBe(421);
+      await app.close();
+    }
+  });
+
   it('refuses a stored capture path outside the archive', async () => {
     const { insideArchive } = await import('../../src/server/captureCache.js');
     expect(() => insideArchive(open.dataDir, '../../etc/passwd')).toThrow(/outside the capture archive/);
