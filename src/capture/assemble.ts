@@ -135,12 +135,17 @@ function cutAtSplice(a: AssembleInput, timing: Timing, warnings: CaptureWarning[
   const n = timing.channels[0].length;
   const head = splice.at >= n - splice.at;
   const [from, to] = head ? [0, splice.at] : [splice.at, n];
-  const name = a.roles.columns[a.kept[splice.channel]].name;
+  const { name, siUnit } = a.roles.columns[a.kept[splice.channel]];
+  const size = `${splice.step.toPrecision(3)}${siUnit ? ` ${siUnit}` : ''}`;
+  const what =
+    splice.kind === 'step'
+      ? `${name} jumps by ${size} between samples ${splice.at} and ${splice.at + 1}, far more than the signal moves anywhere else`
+      : `${name} stops repeating itself from sample ${splice.at + 1} on (it differs by ${size} from one period earlier, where everywhere else it repeats)`;
   warnings.push({
     code: 'spliced',
     channel: name,
     ...(timing.resampled ? {} : { line: a.sink.firstLine + splice.at }),
-    message: `${name} jumps by ${splice.step.toPrecision(3)} between samples ${splice.at} and ${splice.at + 1}, far more than the signal moves anywhere else: the record looks spliced; samples ${from + 1}–${to} (the longer continuous part) were kept and ${n - (to - from)} dropped`,
+    message: `${what}: the record looks spliced; samples ${from + 1}–${to} (the longer continuous part) were kept and ${n - (to - from)} dropped`,
   });
   return { channels: timing.channels.map((c) => c.subarray(from, to)), startTime: timing.startTime + from * timing.sampleInterval };
 }

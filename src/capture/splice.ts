@@ -33,6 +33,8 @@ export interface Splice {
   readonly channel: number;
   /** The step, or the disagreement with the period before, in the channel's unit. */
   readonly step: number;
+  /** A step between two samples, or a record that stops repeating itself one period on. */
+  readonly kind: 'step' | 'period';
 }
 
 /** The first splice found over the channels, or null. */
@@ -44,7 +46,7 @@ export function findSplice(channels: readonly Float64Array[]): Splice | null {
   return null;
 }
 
-function spliceIn(x: Float64Array): { at: number; step: number } | null {
+function spliceIn(x: Float64Array): Omit<Splice, 'channel'> | null {
   const n = x.length;
   if (n < 64) return null;
   let lo = Infinity;
@@ -66,11 +68,11 @@ function spliceIn(x: Float64Array): { at: number; step: number } | null {
   if (!(hi > lo)) return null;
   const period = medianPeriod(x, lo, hi);
   if (period === null) return null;
-  if (at > 0 && second > 0 && big > SPLICE_RATIO * second && Math.max(at, n - at) >= 2 * period) return { at, step: big };
+  if (at > 0 && second > 0 && big > SPLICE_RATIO * second && Math.max(at, n - at) >= 2 * period) return { at, step: big, kind: 'step' };
   return periodSplice(x, period, lo, hi);
 }
 
-function periodSplice(x: Float64Array, period: number, lo: number, hi: number): { at: number; step: number } | null {
+function periodSplice(x: Float64Array, period: number, lo: number, hi: number): Omit<Splice, 'channel'> | null {
   const n = x.length;
   if (period < 8 || 3 * period > n) return null;
   const from = Math.ceil(period) + 1;
@@ -106,7 +108,7 @@ function periodSplice(x: Float64Array, period: number, lo: number, hi: number): 
     if (count - (b - a) > ELSEWHERE_SHARE * ((n - from - (end - k)) / stride)) return null;
     let first = k;
     while (first - 1 >= Math.max(from, k - stride + 1) && miss(first - 1) > limit) first--;
-    return { at: first, step: miss(first) };
+    return { at: first, step: miss(first), kind: 'period' };
   }
   return null;
 }
