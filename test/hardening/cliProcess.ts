@@ -73,9 +73,19 @@ export function runCliProcess(args: readonly string[], options: { cwd?: string; 
   return startCli(args, options).done;
 }
 
-/** "stored run #12 of FK-0101" lines on stderr: the runs `check` reported as stored. */
-export function reportedRuns(stderr: string): { id: number; unit: string }[] {
-  return [...stderr.matchAll(/stored run #(\d+) of (\S+)/g)].map((m) => ({ id: Number(m[1]), unit: m[2] }));
+/** A run `check` reported as stored: by its store-wide id ("run #12"), or by its number among its unit's runs ("run 2"). */
+export interface ReportedRun {
+  readonly unit: string;
+  readonly id?: number;
+  readonly number?: number;
+}
+
+/**
+ * "stored run #12 of FK-0101 (PASS)" or "stored run 2 of FK-0101, attempt #1 (INCOMPLETE, …)" lines on
+ * stderr: the runs `check` reported as stored.
+ */
+export function reportedRuns(stderr: string): ReportedRun[] {
+  return [...stderr.matchAll(/stored run (#?)(\d+) of (.+?)(?:, attempt #\d+)? \(/g)].map((m) => (m[1] ? { id: Number(m[2]), unit: m[3] } : { number: Number(m[2]), unit: m[3] }));
 }
 
 /** `watch --json` lines on stdout for stored captures: {"event":"checked","runId":…,"unit":…}. */

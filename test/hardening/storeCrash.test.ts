@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { newTally, saveTally, scaled, seedFor } from './budget.js';
 import type { Tally } from './budget.js';
 import { builtCli, drainWatch, dropCapture, hasCommand, makeBench, reportedRuns, runCliProcess, seeded, sleep, startCli, watchedRuns } from './cliProcess.js';
+import type { ReportedRun } from './cliProcess.js';
 import type { Bench, Finished } from './cliProcess.js';
 import { auditStore } from './storeAudit.js';
 
@@ -29,15 +30,25 @@ function checkArgs(b: Bench, unit: string, conditions: readonly string[]): strin
 }
 
 /** Compare what the processes reported with what the audit found; count what is lost. */
-function settle(t: Tally, dataDir: string, reported: readonly { id: number; unit: string }[]): ReturnType<typeof auditStore> {
+function settle(t: Tally, dataDir: string, reported: readonly ReportedRun[]): ReturnType<typeof auditStore> {
   const audit = auditStore(dataDir);
   for (const p of audit.problems) t.notes.push(`store: ${p}`);
   if (audit.problems.length > 0) t.crashes++;
+  const perUnit = new Map<string, number>();
+  for (const unit of audit.runs.values()) perUnit.set(unit, (perUnit.get(unit) ?? 0) + 1);
+  const numbers = new Set<string>();
   for (const r of reported) {
-    if (audit.runs.get(r.id) !== r.unit) {
+    if (r.id !== undefined && audit.runs.get(r.id) !== r.unit) {
       t.lost++;
       t.notes.push(`run #${r.id} of ${r.unit} was reported as stored but is ${audit.runs.has(r.id) ? `unit ${audit.runs.get(r.id)}` : 'missing'}`);
     }
+    // Reported by its number among the unit's runs: that many runs of the unit must be there, and no
+    // two processes may have reported the same number.
+    if (r.number !== undefined && (r.number > (perUnit.get(r.unit) ?? 0) || numbers.has(`${r.unit} ${r.number}`))) {
+      t.lost++;
+      t.notes.push(`run ${r.number} of ${r.unit} was reported as stored, but the store has ${perUnit.get(r.unit) ?? 0} run(s) of it${numbers.has(`${r.unit} ${r.number}`) ? ' and the number was reported twice' : ''}`);
+    }
+    if (r.number !== undefined) numbers.add(`${r.unit} ${r.number}`);
   }
   return audit;
 }
@@ -46,7 +57,8 @@ function settle(t: Tally, dataDir: string, reported: readonly { id: number; unit
 function judgeExit(t: Tally, f: Finished, what: string): number {
   if (f.signal !== null) return 0;
   const stored = reportedRuns(f.stderr).length + watchedRuns(f.stdout).length;
-  if (f.code === 3 || f.code === 2 || ((f.code === 0 || f.code === 1) && stored === 0 && what.startsWith('check'))) {
+  // 4: stored, and the unit's attempt still waits for a condition (README, exit status).
+  if (f.code === 3 || f.code === 2 || ((f.code === 0 || f.code === 1 || f.code === 4) && stored === 0 && what.startsWith('check'))) {
     t.crashes++;
     t.notes.push(`${what} exited ${f.code}: ${f.stderr.split('\n').slice(0, 2).join(' / ')}`);
     return 1;
@@ -60,7 +72,7 @@ describe.skipIf(!builtCli())('records when benchproof processes are killed (buil
     benches.push(b);
     const env = { BENCHPROOF_DATA: b.data };
     const rand = seeded(seedFor(7));
-    const reported: { id: number; unit: string }[] = [];
+    const reported: ReportedRun[] = [];
     const t0 = Date.now();
     const first = await runCliProcess(checkArgs(b, 'FK-0101', CONDITIONS), { env });
     const typical = Date.now() - t0;
@@ -105,7 +117,7 @@ describe.skipIf(!builtCli())('records when benchproof processes are killed (buil
     const env = { BENCHPROOF_DATA: b.data };
     const rand = seeded(seedFor(8));
     let failed = 0;
-    const reported: { id: number; unit: string }[] = [];
+    const reported: ReportedRun[] = [];
     const dropped: string[] = [];
     const iterations = scaled(2, 40);
     mkdirSync(drop);
