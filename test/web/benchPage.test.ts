@@ -134,6 +134,17 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     }
     await page.waitForTimeout(300);
     await fig.screenshot({ path: join(SHOTS, 'unit-plot-zoomed.png') });
+    // Back to the whole record, then drag across its first sixth: the view becomes that span.
+    await fig.getByRole('button', { name: /^Show the whole record/ }).click();
+    await expect.poll(async () => Number(await fig.getAttribute('data-from'))).toBe(before.from);
+    const box = (await fig.locator('.u-over').boundingBox())!;
+    await page.mouse.move(box.x + 2, box.y + box.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width / 6, box.y + box.height / 2, { steps: 5 });
+    await page.mouse.up();
+    await expect.poll(async () => Number(await fig.getAttribute('data-to'))).toBeLessThan(before.from + (before.to - before.from) / 5);
+    await page.waitForTimeout(300);
+    await fig.screenshot({ path: join(SHOTS, 'unit-plot-drag-zoom.png') });
     await page.screenshot({ path: join(SHOTS, 'unit-top.png') });
     await page.screenshot({ path: join(SHOTS, 'unit-whole.png'), fullPage: true });
   });
