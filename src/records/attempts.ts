@@ -112,7 +112,7 @@ export interface OpenAttempt {
 export function openAttempt(db: Database, numbered: readonly StoredRun[], specName: string): OpenAttempt | undefined {
   const last = numbered[numbered.length - 1];
   if (!last || last.attempt === undefined || stillOpen(db, last, specName) !== true) return undefined;
-  return { number: last.attempt, runId: last.id, waitingFor: waitingConditions(last.verdict), captures: last.captures };
+  return { number: last.attempt, runId: last.id, waitingFor: waitingConditions(last.verdict), captures: runCaptures(db, last.id) };
 }
 
 /** What a listing shows of a unit's attempts: the latest one's state and the complete ones' statements. */
@@ -133,4 +133,70 @@ export function attemptFacts(attempts: readonly AttemptSummary[]): AttemptFacts 
     attempts: attempts.length,
     ...(complete.length ? { firstComplete: complete[0].statement, latestComplete: complete[complete.length - 1].statement } : {}),
   };
+}
+
+interface HeadRow {
+  id: number;
+  unit: string;
+  spec_name: string;
+  spec_revision: string;
+  spec_sha256: string;
+  started_at: string;
+  stored_at: string;
+  statement: string;
+  attempt: number | null;
+  attempt_reason: string | null;
+  note: string | null;
+  waiting_json: string | null;
+  captured_json: string;
+  conditions_json: string;
+}
+
+/**
+ * The unit's runs, oldest first, with only what placing a new run needs: spec, times, attempt
+ * columns and which conditions each verdict holds (taken out of the stored JSON by SQLite, so the
+ * measurement reports with their plot data are not parsed). Verdicts here hold only that.
+ */
+export function readRunHeads(db: Database, unit: string): StoredRun[] {
+  const rows = db
+    .prepare(
+      `SELECT id, unit, spec_name, spec_revision, spec_sha256, started_at, stored_at, statement, attempt, attempt_reason, note,
+         json_extract(verdict_json, '$.waitingFor') AS waiting_json,
+         (SELECT json_group_array(json_extract(c.value, '$.condition')) FROM json_each(verdict_json, '$.captures') c) AS captured_json,
+         (SELECT json_group_array(json_extract(c.value, '$.condition')) FROM json_each(verdict_json, '$.conditions') c) AS conditions_json
+       FROM runs WHERE unit = ? AND json_valid(verdict_json) ORDER BY started_at, id`,
+    )
+    .all(unit) as HeadRow[];
+  return rows.map((r) => {
+    const waitingFor = r.waiting_json === null ? undefined : (JSON.parse(r.waiting_json) as string[]);
+    const verdict = {
+      conditions: (JSON.parse(r.conditions_json) as string[]).map((condition) => ({ condition })),
+      captures: (JSON.parse(r.captured_json) as string[]).map((condition) => ({ condition })),
+      ...(waitingFor ? { waitingFor } : {}),
+    };
+    return {
+      id: r.id,
+      unit: r.unit,
+      spec: { name: r.spec_name, revision: r.spec_revision, sha256: r.spec_sha256 },
+      startedAt: r.started_at,
+      storedAt: r.stored_at,
+      statement: r.statement,
+      verdict,
+      captures: [],
+      ...(r.attempt !== null ? { attempt: r.attempt } : {}),
+      ...(r.attempt_reason !== null ? { attemptReason: r.attempt_reason } : {}),
+      ...(r.note !== null ? { note: r.note } : {}),
+    } as unknown as StoredRun;
+  });
+}
+
+/** The archived captures of one run, in their order. */
+export function runCaptures(db: Database, runId: number): StoredCapture[] {
+  const rows = db
+    .prepare(
+      `SELECT rc.sha256, rc.original_path, rc.size, rc.layout, rc.condition, b.file
+       FROM run_captures rc JOIN blobs b ON b.sha256 = rc.sha256 WHERE rc.run_id = ? ORDER BY rc.seq`,
+    )
+    .all(runId) as { sha256: string; original_path: string; size: number; layout: string; condition: string; file: string }[];
+  return rows.map((r) => ({ path: r.original_path, sha256: r.sha256, size: r.size, layout: r.layout, condition: r.condition, archivePath: r.file }));
 }

@@ -19,7 +19,7 @@ import { auditStore } from './auditStore.js';
 import type { StoreAudit } from './auditStore.js';
 import { chainHead } from './chain.js';
 import { buildUnitRecord, listUnits } from './unitSummaries.js';
-import { numberRuns, openAttempt } from './attempts.js';
+import { numberRuns, openAttempt, readRunHeads } from './attempts.js';
 import type { OpenAttempt } from './attempts.js';
 import { calibratedSerials, readCalibrations, withCalibrations } from './calibrationRead.js';
 import { saveCalibration } from './calibrationSave.js';
@@ -190,7 +190,7 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial))),
     // Like saveRun, not behind the audit: it only chooses which archived captures a new check re-reads,
     // and archiving them again re-checks their SHA-256 (archive.ts).
-    openAttempt: (serial, specName) => guarded(label, () => openAttempt(db, numberRuns(readRuns(db, { unit: serial })), specName)),
+    openAttempt: (serial, specName) => guarded(label, () => openAttempt(db, numberRuns(readRunHeads(db, serial)), specName)),
     audit,
     chainHead: () => guarded(label, () => chainHead(db)),
   };

@@ -9,9 +9,8 @@ import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
 import { archiveCapture } from './archive.js';
 import { runDigest, sha256Hex } from './digest.js';
 import { insertMeasurements } from './measurementRows.js';
-import { numberRuns, placeRun } from './attempts.js';
+import { numberRuns, placeRun, readRunHeads } from './attempts.js';
 import type { AttemptPlacement } from './attempts.js';
-import { readRuns } from './readRuns.js';
 import { appendLink } from './chain.js';
 
 /** Fault injection for tests: called inside the transaction after every row is written, before commit. */
@@ -47,7 +46,7 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
   const write = db.transaction((): StoredRun => {
     const storedAt = new Date().toISOString();
     // The attempt is decided inside the transaction, and the run's fingerprint covers it and the note.
-    const numbered = numberRuns(readRuns(db, { unit: run.unit }));
+    const numbered = numberRuns(readRunHeads(db, run.unit));
     const placed = { ...placeRun(db, run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
     const digest = runDigest({ ...base, ...placed });
     const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed);

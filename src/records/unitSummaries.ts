@@ -1,8 +1,7 @@
 /** The unit listing and the per-unit record, built from stored runs. The latest run decides the status. */
 import type { Database } from 'better-sqlite3';
 import type { RunSpec, Statement, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
-import { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
-import { readRuns } from './readRuns.js';
+import { attemptFacts, numberRuns, readRunHeads, summarizeAttempts } from './attempts.js';
 
 interface SummaryRow {
   unit: string;
@@ -50,7 +49,8 @@ export function listUnits(db: Database, spec?: string): UnitSummary[] {
       firstTestedAt: first.started_at,
       lastTestedAt: last.started_at,
       runs: last.n,
-      ...attemptFacts(summarizeAttempts(numberRuns(readRuns(db, { unit })))),
+      // The light read: state and statements only, not the measurement reports.
+      ...attemptFacts(summarizeAttempts(numberRuns(readRunHeads(db, unit)))),
     });
   }
   return out.sort((a, b) => compareSerials(a.unit, b.unit));
