@@ -100,7 +100,7 @@ export class RowSink {
     let n = fieldCount;
     if (this.trailingDelimiter && n === C + 1 && kinds[C] === EMPTY) n = C;
     if (n !== C || kinds[this.lead] === TEXT || isTextRow(kinds, n)) return this.hold(n, line);
-    if (this.pending) throw this.pendingError(this.pending);
+    if (this.pending) this.endPending(vals, kinds);
     const x = this.xColumn;
     if (x >= 0) {
       const t = vals[x];
@@ -125,6 +125,18 @@ export class RowSink {
     this.lastLine = line;
     this.length = row + 1;
     return true;
+  }
+
+  /**
+   * Text or short rows followed by more data are an error, unless the data after them starts the
+   * time again: then they only separate two acquisitions (a repeated header, a segment title).
+   */
+  private endPending(vals: Float64Array, kinds: Uint8Array): void {
+    const x = this.xColumn;
+    const axis = this.cfg.axis;
+    const restart = x >= 0 && axis !== null && kinds[x] === NUMBER && (this.segments > this.wanted ? vals[x] < this.lastX : axis.restartsAt(vals[x]));
+    if (!restart) throw this.pendingError(this.pending!);
+    this.pending = null;
   }
 
   /** The time fell back: a new acquisition starts on this row. Returns whether to keep the row. */

@@ -60,6 +60,11 @@ export class TimeAxis {
     this.firstRepeatLine = 0;
   }
 
+  /** Whether a time falls back to the first one (within a step): a new acquisition starts there. */
+  restartsAt(t: number): boolean {
+    return this.count > 2 && t < this.prev && Math.abs(t - this.t0) <= Math.max(0.5 * Math.abs(this.d), this.maxQ);
+  }
+
   /**
    * Takes src[at] (read from the array so that no boxed double is passed per row). Returns
    * NEW_SEGMENT, taking nothing, when the time falls back to the first one: a new acquisition.
@@ -75,7 +80,7 @@ export class TimeAxis {
     else {
       const step = t - this.prev;
       if (!(step > 0)) {
-        if (step < 0 && n > 2 && Math.abs(t - this.t0) <= Math.max(0.5 * Math.abs(this.d), this.maxQ)) return NEW_SEGMENT;
+        if (step < 0 && this.restartsAt(t)) return NEW_SEGMENT;
         if (!(step === 0 && this.repeatsAllowed)) throw this.notIncreasing(t, line, step);
         if (this.firstRepeatLine === 0) this.firstRepeatLine = line;
         if (this.times === null) this.storeFrom(n, line);

@@ -211,6 +211,17 @@ describe('readCapture on what bench instruments write', () => {
     expect((await failure(write('trait12c.csv', text), { segment: 4 })).code).toBe('capture.unknown-segment');
   });
 
+  it('takes a repeated header between acquisitions for a separator, not for text in the data (trait 12)', async () => {
+    const seg = rows((i) => `${time(i).toExponential(6)},${tri[i].toFixed(4)}`, 500);
+    const text = ['Time (s),CH1 (V)', ...seg, '', 'Time (s),CH1 (V)', ...seg, ''].join('\n');
+    const c = await readCapture(write('frames.csv', text));
+    expect([c.length, c.layout.reading?.segments]).toEqual([500, 2]);
+    expect(c.warnings.map((w) => w.code)).toEqual(['segments']);
+    // A title row followed by data whose time runs on is still refused.
+    const runOn = ['Time (s),CH1 (V)', ...seg.slice(0, 50), 'Trigger re-armed,', ...rows((i) => `${time(i + 50).toExponential(6)},${tri[i + 50].toFixed(4)}`, 50)].join('\n');
+    expect((await failure(write('run-on.csv', runOn))).code).toBe('capture.text-in-data');
+  });
+
   it('reads a shorter channel with trailing empty cells and 0/1 logic columns without taking them for time or counts (trait 12)', async () => {
     const text = ['Time (s),CH1 (V),D0,D1', ...rows((i) => `${time(i).toExponential(6)},${i < 1500 ? tri[i].toFixed(4) : ''},${pulse[i] > 5 ? 1 : 0},${i % 2}`)].join('\n');
     const c = await readCapture(write('trait12d.csv', text));
@@ -264,7 +275,8 @@ describe('readCapture on what bench instruments write', () => {
       expect(text).toContain('time base');
       expect(text).toContain(`${doc.capture.length} samples`);
     }
-    // Every file written above but the two refused on purpose: the spectrum and the numbers that read two ways.
-    expect(explained).toBe(written.length - 2);
+    // Every file written above but the three refused on purpose: the spectrum, the numbers that read
+    // two ways, and text in the data with the time running on.
+    expect(explained).toBe(written.length - 3);
   });
 });
