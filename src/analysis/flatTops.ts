@@ -24,9 +24,9 @@
  * 4. The flat samples on a side reach 0.5 % of the record.
  * At full scale rules 2 and 3 are not asked: any flat run there is the screen's edge, whatever the shape.
  * Full scale: the channel's limits when the capture states them; otherwise a level that sits on a
- * converter end code (level/q = 2^(b−1) − 1 at the top or −2^(b−1) at the bottom, two's complement,
- * for b = 8, 10, 12, 14 or 16 bits with every code of the record inside that range, q the step between
- * the level and the next value), or a record whose codes fill 2^b − 1 steps from end to end. A scope
+ * converter end code (|level/q| = 2^(b−1) or 2^(b−1) − 1 for b = 8, 10, 12, 14 or 16 bits, with every
+ * code of the record inside ±2^(b−1), q the step between the level and the next value), or a record
+ * whose codes fill 2^b − 1 steps or more from end to end. A scope
  * whose vertical offset moves its codes off zero is only recognised from the full scale it states.
  */
 import type { FlatTop } from '../types/index.js';
@@ -187,9 +187,11 @@ function fullScaleOf(
   const highCode = Math.round(max / q);
   for (const b of CONVERTER_BITS) {
     const half = 2 ** (b - 1);
-    // Two's-complement codes −2^(b−1) … 2^(b−1) − 1, and the record must fit in them.
-    if (lowCode < -half || highCode > half - 1) continue;
-    if (Math.round(code) === (side === 'high' ? half - 1 : -half) || Math.round(codes) === 2 ** b - 1) return 'converter-codes';
+    // Codes −2^(b−1) … 2^(b−1) − 1 (two's complement), or ±2^(b−1) where an export scales them
+    // symmetrically; the record must fit in them.
+    if (lowCode < -half || highCode > half) continue;
+    const c = Math.abs(Math.round(code));
+    if (c === half || c === half - 1 || Math.round(codes) >= 2 ** b - 1) return 'converter-codes';
   }
   return null;
 }

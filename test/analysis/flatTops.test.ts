@@ -55,6 +55,9 @@ describe('flatTops', () => {
     const x = synthesize({ ...base, bits: 8, fullScale: 4.8 }).values;
     const f = flatsOf(x);
     expect(f.map((t) => [t.side, t.cause, t.fullScaleFrom])).toEqual([['high', 'scope-range', 'converter-codes'], ['low', 'scope-range', 'converter-codes']]);
+    // Clamped symmetrically at ±2.5 V = ±128 codes of 19.53 mV, as an export that scales codes about zero gives.
+    const sym = synthesize({ ...base, clip: { low: -2.5, high: 2.5 } }).values.map((v) => Math.round(v / (5 / 256)) * (5 / 256));
+    expect(flatsOf(sym).map((t) => [t.side, t.cause])).toEqual([['high', 'scope-range'], ['low', 'scope-range']]);
     const y = synthesize({ ...base, clip: { low: -2.5, high: 2.5 } }).values;
     const stated = flatTops(y, { noise: noiseLevel(y), span: 5, fullScale: { low: -2.5, high: 2.5 } });
     expect(stated.every((t) => t.cause === 'scope-range' && t.fullScaleFrom === 'preamble')).toBe(true);
