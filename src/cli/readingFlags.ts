@@ -27,6 +27,8 @@ export interface ReadingFlags {
 
 export function addReadingOptions(cmd: Command): Command {
   return cmd
+    .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
+    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
     .option('--profile <file>', 'reading profile: how this instrument writes its files (YAML; see README)')
     .option('--delimiter <d>', 'field delimiter: comma, semicolon, tab or space')
     .option('--decimal <mark>', 'decimal mark: point or comma')

@@ -36,8 +36,6 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
     .option('--summary', 'one line per unit (statement, checks not passed, first likely cause) instead of the tables')
     .option('--strict', 'treat a conditional pass as a failure (exit 1)')
-    .option('--sample-rate <Hz>', 'sample rate, when a file has no time column or interval metadata')
-    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
     .option('--note <text>', 'what was done to the unit before this check (a part replaced, a trimmer turned); starts a new test attempt')
     .option('--new-attempt', "start a new test attempt instead of continuing the unit's open one")
     .addHelpText(

@@ -13,8 +13,6 @@ export function registerInspect(program: Command, ctx: CommandContext): Command 
     .command('inspect')
     .description('show how capture files are understood: layout, preamble, header and unit rows, time base, channels, warnings and the first samples')
     .argument('<captures...>', 'CSV exports from a scope, logger or simulator (.csv or .csv.gz)')
-    .option('--sample-rate <Hz>', 'sample rate, when the file has no time column or interval metadata')
-    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of text');
   return addReadingOptions(cmd)
     .addHelpText(

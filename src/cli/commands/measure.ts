@@ -18,8 +18,6 @@ export function registerMeasure(program: Command, ctx: CommandContext): Command 
     .description('measure every channel of one or more CSV captures')
     .argument('<captures...>', 'CSV exports from a scope, logger or simulator (.csv or .csv.gz)')
     .option('-c, --channel <name|N>', 'measure only this channel (name, or 1-based number)')
-    .option('--sample-rate <Hz>', 'sample rate, when the file has no time column or interval metadata')
-    .option('--interval <s>', 'sample interval in seconds (instead of --sample-rate)')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
     .option('--plot-data', 'include waveform and spectrum excerpts for plotting in the JSON');
   return addReadingOptions(cmd)
