@@ -49,7 +49,7 @@ export function columnRoles(s: Sniffed, meta: MetadataTiming, options: ReadingOp
   const data = Array.from({ length: n }, (_, c) => c).filter((c) => !ignored.has(c));
   const raw = Array.from({ length: n }, (_, c) => baseLayout(s, c));
   const kinds = raw.map((c, k) => xKindOf(c, s.unitCells?.[k] ?? ''));
-  refuseSpectrum(s, raw, data, file);
+  refuseSpectrum(s, raw, kinds, data, file);
   const found = findX(s, meta, raw, kinds, data, options, file);
   const { time, index } = found;
   const x = time ?? index;
@@ -175,8 +175,12 @@ function pickColumn(wanted: number | string, raw: readonly ColumnLayout[], data:
   });
 }
 
-/** A frequency column with levels in dB, or dB levels over a rising first column: a spectrum export. */
-function refuseSpectrum(s: Sniffed, raw: readonly ColumnLayout[], data: readonly number[], file: string): void {
+/**
+ * A rising frequency column, or dB levels over a rising first column, and no time column: a
+ * spectrum export. (A logger's frequency reading beside a time column is a channel like any other.)
+ */
+function refuseSpectrum(s: Sniffed, raw: readonly ColumnLayout[], kinds: readonly XKind[], data: readonly number[], file: string): void {
+  if (data.some((c) => kinds[c] === 'time')) return;
   const freq = data.find((c) => raw[c].siUnit === 'Hz' || FREQUENCY_NAME.test(raw[c].name));
   const db = data.some((c) => raw[c].siUnit === DECIBELS);
   const first = data[0];

@@ -240,6 +240,9 @@ describe('readCapture on what bench instruments write', () => {
     const f = await failure(write('spectrum.csv', text));
     expect(f.code).toBe('capture.spectrum-export');
     expect(f.message).toContain('not a waveform');
+    // A frequency logged over time (a calibration sweep) is a channel, not a spectrum.
+    const sweep = await readCapture(write('sweep.csv', ['Time (s),Frequency (Hz)', ...rows((i) => `${(i * 0.1).toFixed(1)},${(65.41 * 2 ** (i / 400)).toFixed(3)}`, 400)].join('\n')));
+    expect(sweep.channels.map((ch) => [ch.name, ch.unit])).toEqual([['Frequency', 'Hz']]);
   });
 
   it('names the options that decide when the numbers read two ways, and follows them', async () => {
