@@ -56,7 +56,7 @@ describe('writeDraftSpec (spec init)', () => {
   it('sets no limit tighter than 3U of the golden reading: its own U, the next unit\'s U and the guard band', () => {
     for (const [i, g] of golden.entries()) {
       for (const k of drafted.conditions[i].checks) {
-        const ch = g.report.channels[drafted.outputs.find((o) => o.name === k.output)!.channel - 1];
+        const ch = g.report.channels[Number(drafted.outputs.find((o) => o.name === k.output)!.channel) - 1];
         const u = ch.measurements[k.measurement]!.uncertainty!;
         const half = Math.min(k.limit.upper! - k.limit.nominal!, k.limit.nominal! - k.limit.lower!);
         expect(half, `${k.output} ${k.measurement} at ${g.condition}`).toBeGreaterThanOrEqual(3 * 2 * u * (1 - 1e-9));
