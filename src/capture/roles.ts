@@ -204,7 +204,7 @@ function rises(rows: readonly (readonly number[])[], c: number): boolean {
 function risesWithRepeats(rows: readonly (readonly number[])[], c: number): boolean {
   if (rows.length < 8) return false;
   for (let r = 1; r < rows.length; r++) if (!(rows[r][c] >= rows[r - 1][c])) return false;
-  return distinct(rows, c) >= Math.max(3, rows.length / 16);
+  return distinct(rows, c) >= Math.max(3, rows.length / 64);
 }
 
 function distinct(rows: readonly (readonly number[])[], c: number): number {
