@@ -201,11 +201,13 @@ function readAs(lines: readonly SampleLine[], pair: readonly [Delimiter, Decimal
   const first = runs.find((r) => r.len >= Math.min(3, longest))!;
   const columns = counts[first.start];
   const score = counts.slice(first.start).filter((c) => c === columns).length;
+  // What the reading makes of the rows: their numbers, a trailing empty field (a delimiter that ends
+  // each row) left out, so that tabs and the runs of blanks around them read alike.
   const signature = split
     .slice(first.start, first.start + 3)
-    .map((fields) => fields.map((f) => parseNumberText(f, pair[1]).value).join('|'))
+    .map((fields) => (fields.length > 1 && fields[fields.length - 1] === '' ? fields.slice(0, -1) : fields).map((f) => parseNumberText(f, pair[1]).value).join('|'))
     .join('/');
-  return { pair, start: first.start, columns, score, signature: `${first.start}:${columns}:${signature}` };
+  return { pair, start: first.start, columns, score, signature: `${first.start}:${signature}` };
 }
 
 function choose(readings: readonly Reading[], lines: readonly SampleLine[], file: string): Reading {

@@ -150,7 +150,10 @@ const UNIT_WORDS: Readonly<Record<string, string>> = { s: 'Second', V: 'Volt', A
 function unitCells(channels: readonly CsvChannel[], layout: CsvLayoutOptions): string[] {
   const x = layout.xColumn ?? 'time';
   const units = [...(x === 'time' ? [layout.timeUnit ?? 's'] : x === 'index' ? [''] : []), ...channels.map((c) => c.unit ?? '')];
-  return units.map((u) => (u === '' ? '' : layout.unitRow === 'words' && UNIT_WORDS[u] ? UNIT_WORDS[u] : `(${u})`));
+  const words = layout.unitRow === 'words';
+  // A sample index has no unit; its cell says it counts samples (never blank: runs of spaces would lose it).
+  const cells = units.map((u) => (u === '' ? (words ? 'Index' : '(#)') : words && UNIT_WORDS[u] ? UNIT_WORDS[u] : `(${u})`));
+  return x === 'index' ? cells : cells.map((c, i) => (units[i] === '' ? '' : c));
 }
 
 function headerCells(channels: readonly CsvChannel[], layout: CsvLayoutOptions): string[] {
