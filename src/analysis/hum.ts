@@ -14,11 +14,11 @@
  *   from a least-squares fit of one tone there (harmonicFit.ts), so there is no scallop loss.
  * The level is the rss of the family's components over the fundamental, in dBc.
  * Nothing found: an upper bound instead of a value. A tone of peak A that lies δ DFT bins off a bin
- * centre reads |X| = A·|W(δ)|/2 (Heinzel et al. 2002, §9), least at δ = ½, so any tone reaching
- * (√20 + 2)·√(noise) at the worst offset (the detection level plus two standard deviations of the
- * noise along the tone, common practice, no source) stands above the threshold; each of the two
- * components of either family is below that, so the family's rss is below √2 times it. Where a
- * harmonic of the fundamental covers a mains frequency the bound would not hold, and hum is withheld.
+ * centre reads |X| = A·|W(δ)|/2 (Heinzel et al. 2002, §9), least at δ = ½, and noise of mean power
+ * N per bin moves that bin by more than 2√N with odds e⁻⁴ (Rayleigh law); so a tone anywhere in a
+ * search band is at most 2·(largest |X| there + 2√N)/|W(½)| (common practice, no source), and the
+ * family's level at most the rss of its two bands' bounds. Where a harmonic of the fundamental covers
+ * a mains frequency the bound would not hold, and hum is withheld.
  */
 import type { MeasureResult } from '../types/index.js';
 import { fitHarmonics } from './harmonicFit.js';
@@ -80,12 +80,21 @@ function noneFound(frame: SpectralFrame, blocked: Uint8Array, noise: number, ref
   }
   if (reference === null || !(reference > 0)) return null;
   const edge = Math.hypot(frameKernel(frame, 0.5).re, frameKernel(frame, 0.5).im);
-  const weakest = Math.min(...MAINS_LINES.map((f) => frame.response(f)));
-  const component = (2 * (Math.sqrt(DETECT) + 2) * Math.sqrt(noise)) / (edge * weakest);
-  const level = 20 * Math.log10((Math.SQRT2 * component) / reference);
-  const each = (20 * Math.log10(component / reference)).toFixed(1);
-  const detail = `no 50/60 Hz mains component or 100/120 Hz ripple stands above the noise; each would show from ${each} dBc`;
-  const method = `upper bound: no component of either mains family above ${each} dBc (13 dB over the local noise at the least favourable bin offset, plus 2σ), so the family's rss is below ${level.toFixed(1)} dBc`;
+  // Largest amplitude a component in a search band can have: its peak bin reads at least
+  // A·|W(½)|/2, and that bin holds at most the band's largest magnitude plus 2σ of the noise in it.
+  const largest = (mains: number, order: number): number => {
+    const k0 = Math.ceil((order * mains * 0.94) / frame.binWidth);
+    const k1 = Math.min(blocked.length - 1, Math.floor((order * mains * 1.04) / frame.binWidth));
+    let m = 0;
+    for (let k = k0; k <= k1; k++) if (!blocked[k]) m = Math.max(m, frame.spectrum.magnitude(k));
+    return (2 * (m + 2 * Math.sqrt(noise))) / (edge * frame.response(order * mains));
+  };
+  const families = ([50, 60] as const).map((mains) => ({ mains, parts: [largest(mains, 1), largest(mains, 2)] }));
+  const worst = families.reduce((a, b) => (Math.hypot(...b.parts) > Math.hypot(...a.parts) ? b : a));
+  const dbc = (a: number): string => (20 * Math.log10(a / reference)).toFixed(1);
+  const level = 20 * Math.log10(Math.hypot(...worst.parts) / reference);
+  const detail = `no 50/60 Hz mains component or 100/120 Hz ripple stands above the noise (a component would show from ${dbc(2 * (Math.sqrt(DETECT) + 2) * Math.sqrt(noise) / edge)} dBc)`;
+  const method = `upper bound: the largest bin in each mains search band, plus 2σ of the noise, read at the least favourable bin offset; the ${worst.mains} Hz family's rss is then below ${level.toFixed(1)} dBc (${worst.mains} Hz under ${dbc(worst.parts[0])} dBc, ${2 * worst.mains} Hz under ${dbc(worst.parts[1])} dBc)`;
   return { bound: bounded('upper', level, detail, method) as MeasureResult & { ok: false } };
 }
 
