@@ -163,4 +163,34 @@ describe('readCapture round trip (fast-check)', () => {
       { seed: 1407, numRuns: 120 },
     );
   });
+
+  it('rebuilds the time base of a time column printed with too few digits, for any layout', async () => {
+    let k = 0;
+    await fc.assert(
+      fc.asyncProperty(
+        fc.record({
+          delimiter: fc.constantFrom<',' | ';' | '\t' | ' '>(',', ';', '\t', ' '),
+          header: fc.boolean(),
+          decimals: fc.constantFrom(2, 3),
+          rows: fc.integer({ min: 200, max: 3000 }),
+          seed: fc.integer({ min: 1, max: 1000 }),
+        }),
+        async (l) => {
+          // Stamps 10 or 100 samples apart (0.001 or 0.01 s printed, 0.1 ms steps); a column with no
+          // name is taken for time only up to 64 rows per stamp.
+          const decimals = l.header ? l.decimals : 3;
+          const sig = synthesize({ shape: 'triangle', frequency: 50, amplitude: 1, sampleRate: 10_000, samples: l.rows, noise: 0.01, seed: l.seed });
+          const c = await readCapture(write(`coarse${k++}.csv`, writeCsv([{ name: 'probe', unit: 'V', signal: sig }], { delimiter: l.delimiter, header: l.header, timeDecimals: decimals })));
+          expect(c.warnings.map((w) => w.code)).toContain('time-rebuilt');
+          expect(c.length).toBe(l.rows);
+          // Least-squares slope of stamps rounded to q (error spread q/√12) over n rows: standard
+          // error (q/√12)/√(n³/12) (closed form for a straight-line fit); four of them allowed.
+          const q = 10 ** -decimals;
+          expectWithin(c.sampleInterval, 1e-4, { abs: (4 * (q / Math.sqrt(12))) / Math.sqrt(l.rows ** 3 / 12) }, 'synthesizer rate 10 kHz');
+          expectSamples(c.channels[0].samples, sig.values, 1.5e-8, 'nine significant digits written');
+        },
+      ),
+      { seed: 1408, numRuns: 30 },
+    );
+  });
 });
