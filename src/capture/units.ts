@@ -102,8 +102,10 @@ export function parseHeaderCell(cell: string): { name: string; unit: string } {
   const suffix = /^(.+?)_([A-Za-zµμ/]+)$/.exec(s);
   if (suffix && parseUnit(suffix[2])) return { name: suffix[1], unit: suffix[2] };
   const alone = parseUnitCell(s);
-  // A cell that is only a unit names nothing: `(ms)`, `[V]`, and the unit words (`Second`, `Volt`).
-  if (alone !== null && (alone !== s || /^[a-z]{4,}$/i.test(s))) return { name: '', unit: alone };
+  // A unit in brackets alone names nothing (`(ms)`, `[V]`); a unit word (`Second`, `Volts`) is both
+  // the column's name, as before, and its unit.
+  if (alone !== null && alone !== s) return { name: '', unit: alone };
+  if (alone !== null && /^[a-z]{4,}$/i.test(s)) return { name: s, unit: alone };
   return { name: s, unit: '' };
 }
 
