@@ -75,6 +75,13 @@ describe('the bench page routes', () => {
     expect(board.units.map((u) => u.unit)).toContain('FK-0103');
   });
 
+  it('reports the reading progress of a drop as live events, then its outcome', async () => {
+    const event = (await nextEvent(t.base, 'drop', () => drop([sample('FK-0104_mid.csv')]))) as { status: string; file: string; done: number; total: number };
+    expect(event.status).toBe('reading');
+    expect(event.file).toBe('FK-0104_mid.csv');
+    expect(event.total).toBe(readFileSync('samples/captures/FK-0104_mid.csv').length);
+  });
+
   it('sends plot columns that are the min and max of the archived record in each column', async () => {
     const unit = (await (await fetch(`${t.base}/api/units/FK-0101`)).json()) as { runs: { id: number; captures: { sha256: string; path: string; channels: { name: string }[] }[] }[] };
     const run = unit.runs[0];
