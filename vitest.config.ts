@@ -7,5 +7,7 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
+    // Times are shown in the local zone; tests pin it so their expected text holds on any machine.
+    env: { TZ: 'UTC' },
   },
 });

@@ -10,7 +10,8 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const bin = join(root, 'bin', 'benchproof.js');
 const captures = 'samples/captures';
 const spec = 'samples/fh210-spec.yaml';
-const reports = 'benchproof-data/reports';
+// Reports go beside the store, never inside it: benchproof refuses to write into its data folder.
+const reports = 'benchproof-reports';
 
 if (!existsSync(join(root, 'dist', 'cli', 'main.js'))) {
   process.stderr.write('benchproof is not built yet: run `npm ci` (or `npm run build`) first.\n');
