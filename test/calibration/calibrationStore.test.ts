@@ -85,7 +85,11 @@ describe('calibration records', () => {
     db.exec('DROP TRIGGER calibration_iterations_no_update');
     db.prepare("UPDATE calibration_iterations SET result_json = replace(result_json, '\"as found\"', '\"as left\"')").run();
     db.close();
-    const again = openStore(dir, { mode: 'read' });
+    // Read by default, the changed store is refused; asked to read anyway, the iteration is marked.
+    const refused = openStore(dir, { mode: 'read' });
+    expect(() => refused.calibrations('FK-0104')).toThrow(expect.objectContaining({ code: 'records.tampered' }));
+    refused.close();
+    const again = openStore(dir, { mode: 'read', unverified: 'mark' });
     expect(again.calibrations('FK-0104')[0].iterations[0].intact).toBe(false);
     again.close();
   });
