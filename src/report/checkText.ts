@@ -7,7 +7,7 @@
 import { INCOMPLETE_WORD, STATEMENT_WORDS, waitingConditions } from '../types/index.js';
 import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
-import { formatLimits, formatMeasured, formatQuantity } from './unitsSi.js';
+import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './unitsSi.js';
 import { renderCircuitView } from './circuitText.js';
 
 /** One checked unit: its verdict and the likely causes. This is what `check` prints, stores and reports. */
@@ -57,13 +57,16 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string
 }
 
 function table(checks: readonly CheckVerdict[], style: TextStyle): string[] {
-  const rows = checks.map((c) => [
-    c.measurement,
-    c.value === null ? (c.bound ? `${c.bound.kind === 'upper' ? '<' : '>'} ${formatQuantity(c.bound.value, c.unit, 3)}` : '—') : formatMeasured(c.value, c.expandedUncertainty, c.unit),
-    formatLimits(c.lower, c.upper, c.unit),
-    c.margin === null ? '—' : `${c.margin >= 0 ? '+' : '−'}${formatQuantity(Math.abs(c.margin), c.unit, 3)}`,
-  ]);
-  const head = ['check', 'measured ± U', 'limits', 'margin'];
+  const rows = checks.map((c) => {
+    const e = valueExponent(c.value ?? c.bound?.value, c.expandedUncertainty, c.unit);
+    return [
+      measurementLabel(c.measurement),
+      c.value === null ? (c.bound ? `${c.bound.kind === 'upper' ? '<' : '>'} ${formatQuantity(c.bound.value, c.unit, 3)}` : '—') : formatMeasured(c.value, c.expandedUncertainty, c.unit),
+      formatLimits(c.lower, c.upper, c.unit, e),
+      formatMargin(c.margin, c.unit, e),
+    ];
+  });
+  const head = ['check', 'measured ± U (k = 2)', 'limits', 'margin'];
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const pad = (cells: readonly string[]): string => cells.map((s, i) => s.padEnd(widths[i])).join('  ');
   const out = [`  ${style.dim(`${pad(head)}  statement`)}`];

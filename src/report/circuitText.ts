@@ -6,13 +6,15 @@
  */
 import type { CircuitFigure, CircuitView } from '../types/index.js';
 import type { TextStyle } from './style.js';
-import { formatMeasured, formatQuantity } from './unitsSi.js';
+import { formatInPrefix } from '../types/index.js';
+import { formatMeasured, formatQuantity, prefixExponent } from './unitsSi.js';
 
 function designCell(f: CircuitFigure): string {
   if (f.design === undefined) return '—';
   if (f.designTolerance === undefined || f.designTolerance === 0) return formatQuantity(f.design, f.unit, 4);
   const rel = f.design !== 0 && f.unit !== '%' ? ` (${Number(((f.designTolerance / Math.abs(f.design)) * 100).toPrecision(2))} %)` : '';
-  return `${formatQuantity(f.design, f.unit, 4)} ± ${formatQuantity(f.designTolerance, f.unit, 2)}${rel}`;
+  // The tolerance in the design value's prefix, so both read in one unit ("4.7 nF ± 0.24 nF").
+  return `${formatQuantity(f.design, f.unit, 4)} ± ${formatInPrefix(f.designTolerance, f.unit, prefixExponent(f.design, f.unit), 2)}${rel}`;
 }
 
 function deviationCell(f: CircuitFigure): string {

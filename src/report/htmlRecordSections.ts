@@ -6,7 +6,8 @@ import type { CheckVerdict, StoredRun, UnitRecord } from '../types/index.js';
 import { esc, facts, numCell, statusHtml, table } from './htmlPage.js';
 import { renderPlotsSection, renderTrendsSection } from './htmlRecordPlots.js';
 import { renderCalibrationSection } from './calibrationHtml.js';
-import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { quantityParts } from '../types/index.js';
+import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './unitsSi.js';
 import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
 
 export interface RecordHtmlSection {
@@ -47,7 +48,10 @@ function status(rec: UnitRecord): string {
 
 export function checkRow(run: StoredRun, k: CheckVerdict): string {
   const attrs = `data-run="${run.id}" data-condition="${esc(k.condition)}" data-output="${esc(k.output)}" data-measurement="${esc(k.measurement)}"`;
-  return `<tr ${attrs}><td>${esc(k.output)}</td><td>${esc(measurementLabel(k.measurement))}</td>${numCell(k.value, formatMeasured(k.value, k.expandedUncertainty, k.unit))}${numCell(k.expandedUncertainty, formatQuantity(k.expandedUncertainty, k.unit, 2))}<td class="num">${esc(formatLimits(k.lower, k.upper, k.unit))}</td>${numCell(k.margin, formatQuantity(k.margin, k.unit, 3))}<td>${statusHtml(k.statement)}</td><td>${esc([k.note, k.hint].filter(Boolean).join(' — '))}</td></tr>`;
+  const e = valueExponent(k.value, k.expandedUncertainty, k.unit);
+  const U = k.value !== null && k.expandedUncertainty !== null ? quantityParts(k.value, k.unit, k.expandedUncertainty) : null;
+  const uText = U?.uncertainty ? `${U.uncertainty}${U.unit ? ` ${U.unit}` : ''}` : '—';
+  return `<tr ${attrs}><td>${esc(k.output)}</td><td>${esc(measurementLabel(k.measurement))}</td>${numCell(k.value, formatMeasured(k.value, k.expandedUncertainty, k.unit))}${numCell(k.expandedUncertainty, uText)}<td class="num">${esc(formatLimits(k.lower, k.upper, k.unit, e))}</td>${numCell(k.margin, formatMargin(k.margin, k.unit, e))}<td>${statusHtml(k.statement)}</td><td>${esc([k.note, k.hint].filter(Boolean).join(' — '))}</td></tr>`;
 }
 
 function conditions(rec: UnitRecord): string {

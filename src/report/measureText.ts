@@ -1,9 +1,10 @@
 /**
  * `benchproof measure` as plain aligned text: one block per capture, one per channel, measurements
- * grouped by what they describe (timing, levels, ramps, edges, spectrum), each with its uncertainty
- * (standard, k = 1) or, when withheld, the words NOT MEASURED and the note that says what to do.
+ * grouped by what they describe (timing, levels, ramps, edges, spectrum), each with its expanded
+ * uncertainty U (k = 2), as every other report shows it, or, when withheld, the words NOT MEASURED and the note that says what to do.
  * Status is always a word; the style only adds emphasis.
  */
+import { MEASUREMENT_LABELS } from '../types/index.js';
 import type { ChannelReport, MeasureReport, Measurement, MeasurementId } from '../types/index.js';
 import { formatQuantity, group, quantityParts } from './format.js';
 import type { TextStyle } from './style.js';
@@ -16,39 +17,7 @@ const GROUPS: readonly (readonly [string, readonly MeasurementId[]])[] = [
   ['spectrum', ['thd', 'snr', 'sinad', 'sfdr', 'enob', 'shapeError', 'evenOddRatio', 'humFrequency', 'humLevel']],
 ];
 
-export const MEASUREMENT_LABELS: Readonly<Record<MeasurementId, string>> = {
-  frequency: 'frequency',
-  period: 'period',
-  jitter: 'period jitter',
-  highLevel: 'high level',
-  lowLevel: 'low level',
-  amplitude: 'amplitude',
-  maximum: 'maximum',
-  minimum: 'minimum',
-  peakToPeak: 'peak-to-peak',
-  dcOffset: 'DC offset',
-  rms: 'rms',
-  acRms: 'AC rms',
-  riseSlope: 'rise slope',
-  fallSlope: 'fall slope',
-  slopeRatio: 'slope ratio',
-  symmetry: 'symmetry (rising share)',
-  linearity: 'ramp non-linearity',
-  dutyCycle: 'duty cycle',
-  riseTime: 'rise time (10–90 %)',
-  fallTime: 'fall time (90–10 %)',
-  overshoot: 'overshoot',
-  undershoot: 'undershoot',
-  thd: 'THD',
-  snr: 'SNR',
-  sinad: 'SINAD',
-  sfdr: 'SFDR',
-  enob: 'ENOB',
-  shapeError: 'shape error',
-  evenOddRatio: 'even/odd harmonics',
-  humFrequency: 'hum frequency',
-  humLevel: 'hum level',
-};
+export { MEASUREMENT_LABELS };
 
 const MAX_HARMONICS_SHOWN = 10;
 
@@ -67,7 +36,7 @@ function renderReport(r: MeasureReport, style: TextStyle): string {
 }
 
 function renderChannel(ch: ChannelReport, style: TextStyle): string[] {
-  const lines = [`  ${style.bold(ch.name)}${ch.unit ? ` (${ch.unit})` : ''}  shape: ${ch.shape}`];
+  const lines = [`  ${style.bold(ch.name)}${ch.unit ? ` (${ch.unit})` : ''}  shape: ${ch.shape}  ${style.dim('± is U (k = 2)')}`];
   lines.push(...ch.warnings.map((w) => `    ${style.warn('warning:')} ${w.message}`));
   const rows = GROUPS.map(([title, ids]) => [title, ids.filter((id) => ch.measurements[id] !== undefined)] as const).filter(([, ids]) => ids.length > 0);
   const cells = rows.flatMap(([, ids]) => ids.map((id) => cellsOf(ch.measurements[id] as Measurement)));
@@ -89,7 +58,7 @@ function renderChannel(ch: ChannelReport, style: TextStyle): string[] {
         lines.push(`      ${label}  ${style.statement('not-measured')}  ${seen !== undefined ? `(as for ${seen})` : note}`.trimEnd());
         continue;
       }
-      const u = c.uncertainty === null ? '' : `± ${c.uncertainty}`;
+      const u = c.uncertainty === null ? '' : `± ${c.uncertainty} ${c.unit}`.trimEnd();
       lines.push(`      ${label}  ${c.value.padStart(valueWidth)} ${c.unit.padEnd(unitWidth)}  ${u}`.trimEnd());
     }
   }
@@ -103,7 +72,8 @@ function cellsOf(m: Measurement): { value: string; unit: string; uncertainty: st
     const p = quantityParts(outward(m.bound.value, m.bound.kind), m.unit, null);
     return { value: `${m.bound.kind === 'upper' ? '<' : '>'} ${p.value}`, unit: p.unit, uncertainty: null };
   }
-  return m.value === null ? null : quantityParts(m.value, m.unit, m.uncertainty);
+  // U = 2u (k = 2), the same expanded uncertainty check, the record and the batch report show.
+  return m.value === null ? null : quantityParts(m.value, m.unit, m.uncertainty === null ? null : 2 * m.uncertainty);
 }
 
 /** A bound rounded to 3 significant digits away from the side it bounds, so the shown bound still holds. */
@@ -117,7 +87,7 @@ function renderHarmonics(ch: ChannelReport, style: TextStyle): string[] {
   const shown = ch.harmonics.filter((h) => h.n >= 2).slice(0, MAX_HARMONICS_SHOWN);
   if (shown.length === 0) return [];
   const more = ch.harmonics.filter((h) => h.n >= 2).length - shown.length;
-  const list = shown.map((h) => `${h.n}: ${h.dbc.toFixed(1)}`).join('  ');
+  const list = shown.map((h) => `${h.n}: ${group(h.dbc.toFixed(1))}`).join('  ');
   return [
     `    ${style.dim('harmonics (dBc)')}`,
     `      ${list}${more > 0 ? `  (+${more} more with --json)` : ''}`,

@@ -4,7 +4,7 @@
  */
 import type { CheckVerdict, DocumentSource, StoredRun, UnitRecord } from '../types/index.js';
 import { STATEMENT_WORDS } from '../types/index.js';
-import { formatBytes, formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './unitsSi.js';
 import { renderCalibrationMarkdown } from './calibrationMarkdown.js';
 import { mdText } from './escapeText.js';
 import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
@@ -48,8 +48,8 @@ function checkCells(k: CheckVerdict): string[] {
     md(k.output),
     md(measurementLabel(k.measurement)),
     md(formatMeasured(k.value, k.expandedUncertainty, k.unit)),
-    md(formatLimits(k.lower, k.upper, k.unit)),
-    md(formatQuantity(k.margin, k.unit, 3)),
+    md(formatLimits(k.lower, k.upper, k.unit, valueExponent(k.value, k.expandedUncertainty, k.unit))),
+    md(formatMargin(k.margin, k.unit, valueExponent(k.value, k.expandedUncertainty, k.unit))),
     STATEMENT_WORDS[k.statement],
     md([k.note, k.hint].filter(Boolean).join(' — ')),
   ];

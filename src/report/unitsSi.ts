@@ -1,71 +1,55 @@
 /**
- * Numbers with SI units for records and batch reports: engineering prefixes (k, M, m, µ, n, p) for
- * base units, and a value with its expanded uncertainty rounded as JCGM 100:2008 (GUM) §7.2.6 advises:
- * the uncertainty to two significant digits, the value to the same decimal place.
+ * Numbers with SI units for records and batch reports, through the one shared formatter
+ * (`src/types/quantityText.ts`), plus times, dates, fractions and sizes.
  */
 
-const PREFIXED = new Set(['Hz', 's', 'V', 'A', 'V/s', 'F', 'Ω']);
-const PREFIXES: Readonly<Record<number, string>> = { [-12]: 'p', [-9]: 'n', [-6]: 'µ', [-3]: 'm', 0: '', 3: 'k', 6: 'M', 9: 'G' };
+import {
+  formatInPrefix,
+  formatLimitsIn,
+  formatMarginIn,
+  formatMeasured as measuredText,
+  formatSignificant,
+  measurementLabel as labelOf,
+  prefixExponent as prefixFor,
+} from '../types/index.js';
 
 /** Engineering exponent (multiple of 3, −12…9) for showing `v` in `unit`; 0 for units without prefixes. */
 export function prefixExponent(v: number, unit: string): number {
-  if (!PREFIXED.has(unit) || v === 0 || !Number.isFinite(v)) return 0;
-  const e = Math.floor(Math.log10(Math.abs(v)) / 3) * 3;
-  return Math.min(9, Math.max(-12, e));
+  return prefixFor(v, unit);
 }
 
-function join(num: string, exp: number, unit: string): string {
-  const u = `${PREFIXES[exp] ?? ''}${unit}`;
-  if (u === '') return num;
-  return unit === '%' ? `${num} %` : `${num} ${u}`;
-}
-
-/** `261.63 Hz`, `2.0930 kHz`, `14.8 µA`; `—` for null. `digits` significant digits (default 5). */
+/** `261.63 Hz`, `2093 Hz`, `14.8 µA`; `—` for null. `digits` significant digits (default 5), trailing zeros dropped. */
 export function formatQuantity(v: number | null | undefined, unit: string, digits = 5): string {
   if (v === null || v === undefined || !Number.isFinite(v)) return '—';
-  const exp = prefixExponent(v, unit);
-  return join(trimExponent(v / 10 ** exp, digits), exp, unit);
+  return formatSignificant(v, unit, digits);
 }
 
-function trimExponent(x: number, digits: number): string {
-  const s = x.toPrecision(digits);
-  if (!s.includes('e')) return s;
-  // toPrecision switches to e-notation for large/small magnitudes; keep it readable without a prefix.
-  return Number(s).toString();
-}
-
-/**
- * `261.630 Hz ± 0.010 Hz`: U to two significant digits (GUM §7.2.6), the value to the same place. The
- * prefix steps down towards the base unit while it would need more than three decimals (2093.000 Hz,
- * not 2.093000 kHz).
- */
+/** `261.630 Hz ± 0.010 Hz`: U rounded up to two significant digits (GUM §7.2.6), the value to the same place; `—` for null. */
 export function formatMeasured(v: number | null | undefined, U: number | null | undefined, unit: string): string {
   if (v === null || v === undefined || !Number.isFinite(v)) return '—';
-  if (U === null || U === undefined || !Number.isFinite(U) || U <= 0) return formatQuantity(v, unit);
-  // The prefix fits the larger of value and U, so a small value with a wide U reads `−0.1 mV ± 1.8 mV`.
-  let exp = prefixExponent(Math.max(Math.abs(v), U), unit);
-  const decimalsAt = (e: number): number => Math.max(0, 1 - Math.floor(Math.log10(U / 10 ** e)));
-  while (decimalsAt(exp) > 3 && exp > 0) exp -= 3;
-  const decimals = decimalsAt(exp);
-  if (decimals > 12) return formatQuantity(v, unit);
-  const scale = 10 ** exp;
-  const unitText = join('', exp, unit).trim();
-  const tail = unitText ? ` ${unitText}` : '';
-  return `${(v / scale).toFixed(decimals)}${tail} ± ${(U / scale).toFixed(decimals)}${tail}`;
+  return measuredText(v, U === undefined ? null : U, unit);
 }
 
-/** A limit as written in a spec: up to six significant digits, trailing zeros dropped (`5.7 V`, `2.0511 kHz`). */
-export function formatLimit(v: number, unit: string): string {
-  const exp = prefixExponent(v, unit);
-  return join(String(Number((v / 10 ** exp).toPrecision(6))), exp, unit);
+/** The prefix a measured value is shown in (from the larger of value and U), for its limits and margin. */
+export function valueExponent(v: number | null | undefined, U: number | null | undefined, unit: string): number | undefined {
+  if (v === null || v === undefined || !Number.isFinite(v)) return undefined;
+  return prefixFor(Math.max(Math.abs(v), U !== null && U !== undefined && U > 0 ? U : 0), unit);
 }
 
-/** Limits as `lower … upper`, `≥ lower` or `≤ upper`. */
-export function formatLimits(lower: number | null, upper: number | null, unit: string): string {
-  if (lower !== null && upper !== null) return `${formatLimit(lower, unit)} … ${formatLimit(upper, unit)}`;
-  if (lower !== null) return `≥ ${formatLimit(lower, unit)}`;
-  if (upper !== null) return `≤ ${formatLimit(upper, unit)}`;
-  return 'no limits';
+/** A limit as written in a spec, in the prefix given (the measured value's) or its own. */
+export function formatLimit(v: number, unit: string, exponent?: number): string {
+  return formatInPrefix(v, unit, exponent ?? prefixFor(v, unit));
+}
+
+/** Limits as `lower … upper`, `≥ lower` or `≤ upper`, in the prefix given or that of the larger limit. */
+export function formatLimits(lower: number | null, upper: number | null, unit: string, exponent?: number): string {
+  const e = exponent ?? prefixFor(Math.max(Math.abs(lower ?? 0), Math.abs(upper ?? 0)), unit);
+  return formatLimitsIn(lower, upper, unit, e);
+}
+
+/** A margin, always signed, in the prefix given or its own. */
+export function formatMargin(m: number | null, unit: string, exponent?: number): string {
+  return m === null || !Number.isFinite(m) ? '—' : formatMarginIn(m, unit, exponent ?? prefixFor(m, unit));
 }
 
 /**
@@ -105,31 +89,7 @@ export function formatBytes(n: number): string {
   return `${(n / 1024 ** 2).toFixed(1)} MiB`;
 }
 
-const LABELS: Readonly<Record<string, string>> = {
-  peakToPeak: 'peak-to-peak',
-  highLevel: 'high state level',
-  lowLevel: 'low state level',
-  dcOffset: 'DC offset',
-  rms: 'RMS',
-  acRms: 'AC RMS',
-  riseSlope: 'rising slope',
-  fallSlope: 'falling slope',
-  slopeRatio: 'slope ratio',
-  dutyCycle: 'duty cycle',
-  riseTime: 'rise time',
-  fallTime: 'fall time',
-  thd: 'THD',
-  snr: 'SNR',
-  sinad: 'SINAD',
-  sfdr: 'SFDR',
-  enob: 'ENOB',
-  humFrequency: 'hum frequency',
-  humLevel: 'hum level',
-  shapeError: 'shape error',
-  evenOddRatio: 'even/odd ratio',
-};
-
-/** The trade's name for a measurement id (`peakToPeak` → `peak-to-peak`); unknown ids as they are. */
+/** The one display name of a measurement id (`src/types/measurementLabels.ts`); unknown ids as they are. */
 export function measurementLabel(id: string): string {
-  return LABELS[id] ?? id;
+  return labelOf(id);
 }

@@ -16,7 +16,7 @@
  */
 import { MEASUREMENT_UNITS } from '../types/index.js';
 import type { ChannelReport, MeasureReport, MeasurementId, Shape } from '../types/index.js';
-import { formatQuantity } from './quantity.js';
+import { formatSpecQuantity } from './quantity.js';
 
 export interface GoldenCapture {
   readonly path: string;
@@ -136,4 +136,4 @@ function outputName(ch: ChannelReport, i: number): string {
 }
 
 /** Value for the spec file: a number when the quantity has no unit (never a quoted string), else text such as "5.938 V". */
-export const written = (value: number, unit: string): string | number => (unit === '' ? Number(value.toPrecision(NOMINAL_DIGITS)) : formatQuantity(value, unit, NOMINAL_DIGITS));
+export const written = (value: number, unit: string): string | number => (unit === '' ? Number(value.toPrecision(NOMINAL_DIGITS)) : formatSpecQuantity(value, unit, NOMINAL_DIGITS));

@@ -4,6 +4,7 @@
  * back to the same numbers. Prefixes follow the SI Brochure (BIPM, 9th ed., 2019, Table 7); the
  * decorations Vpp/Vpk/Vrms are trade habit (common practice, no source) and all mean volts.
  */
+import { PREFIX_EXPONENTS as PREFIX, formatSignificant } from '../types/index.js';
 
 export interface Quantity {
   readonly value: number;
@@ -11,8 +12,6 @@ export interface Quantity {
   readonly unit: string;
 }
 
-/** Decimal exponent of each prefix (µ written as µ, μ or u). */
-const PREFIX: Readonly<Record<string, number>> = { p: -12, n: -9, u: -6, µ: -6, μ: -6, m: -3, '': 0, k: 3, M: 6, G: 9 };
 
 /** n·10^e, dividing for negative e so "4.7 nF" gives exactly the double nearest 4.7e-9. */
 const scale = (n: number, e: number): number => (e < 0 ? n / 10 ** -e : n * 10 ** e);
@@ -38,16 +37,17 @@ const UNITS: Readonly<Record<string, { si: string; prefix: boolean; exponent?: n
   bits: { si: 'bits', prefix: false },
 };
 
-const NUMBER = /^([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/;
+/** A number, its integer part optionally grouped in threes by spaces as the formatter writes it. */
+const NUMBER = /^([+-]?(?:\d{1,3}(?: \d{3})+(?:\.\d*)?|\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*)$/;
 const SLOPE = /^([pnuµμmkMG]?)V\/([pnuµμmkMG]?)s$/;
 
 /** Parse a number with an optional unit; null when the text is not one. A bare number has unit ''. */
 export function parseQuantity(input: string | number): Quantity | null {
   if (typeof input === 'number') return Number.isFinite(input) ? { value: input, unit: '' } : null;
-  const text = input.trim().replace(/^−/, '-');
+  const text = input.trim().replace(/^\u2212/, '-');
   const m = NUMBER.exec(text);
   if (!m) return null;
-  const n = Number(m[1]);
+  const n = Number(m[1].replace(/ /g, ''));
   const scaled = parseUnit(m[2].trim());
   if (!scaled || !Number.isFinite(n)) return null;
   return { value: scale(n, scaled.exponent), unit: scaled.si };
@@ -71,25 +71,14 @@ export function valueIn(q: Quantity, siUnit: string): number | null {
   return null;
 }
 
-const PREFIXABLE = new Set(['Hz', 's', 'V', 'A', 'F', 'Ω', 'V/s']);
-const STEPS: readonly [string, number][] = [
-  ['G', 9],
-  ['M', 6],
-  ['k', 3],
-  ['', 0],
-  ['m', -3],
-  ['µ', -6],
-  ['n', -9],
-  ['p', -12],
-];
-
-/** "261.63 Hz", "14.8 mV", "4.7 nF", "-3 V", "1.5 %": `significant` digits, trailing zeros dropped. */
+/** "261.63 Hz", "14.8 mV", "1 968.3 Hz", "−3 V" for people (notes, causes): the shared formatter, `significant` digits, trailing zeros dropped. */
 export function formatQuantity(value: number, unit: string, significant = 5): string {
   if (!Number.isFinite(value)) throw new RangeError(`formatQuantity: value ${value} is not finite`);
-  const digits = (x: number): string => String(Number(x.toPrecision(significant)));
-  if (!PREFIXABLE.has(unit) || value === 0) return unit === '' ? digits(value) : `${digits(value)} ${unit}`;
-  const mag = Math.abs(value);
-  const [p, e] = STEPS.find(([, step]) => mag >= scale(1 - 1e-12, step)) ?? STEPS[STEPS.length - 1];
-  const body = unit === 'V/s' ? `${p}V/s` : `${p}${unit}`;
-  return `${digits(scale(value, -e))} ${body}`;
+  return formatSignificant(value, unit, significant);
+}
+
+/** The same number for a spec file a program reads back (`spec init`): ASCII minus, no digit groups ("1968 Hz", "-3 V"). */
+export function formatSpecQuantity(value: number, unit: string, significant = 5): string {
+  if (!Number.isFinite(value)) throw new RangeError(`formatSpecQuantity: value ${value} is not finite`);
+  return formatSignificant(value, unit, significant, { plain: true });
 }

@@ -77,3 +77,23 @@ export type {
   TrimAdjustment,
   TrimAdvice,
 } from './calibration.js';
+export { MEASUREMENT_LABELS, measurementLabel } from './measurementLabels.js';
+export {
+  MINUS,
+  PREFIXABLE_UNITS,
+  PREFIX_EXPONENTS,
+  SI_PREFIXES,
+  formatInPrefix,
+  formatLimitsIn,
+  formatMarginIn,
+  formatMeasured,
+  formatMeasuredLabelled,
+  formatSignificant,
+  group,
+  prefixExponent,
+  prefixSymbol,
+  prefixedUnit,
+  quantityParts,
+  uncertaintyLabel,
+} from './quantityText.js';
+export type { Coverage, QuantityParts, TextOptions } from './quantityText.js';

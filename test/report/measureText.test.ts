@@ -52,24 +52,24 @@ describe('renderMeasureText', () => {
         20 000 samples at 10 µs (200 ms), sha256 ab12cd34ef56
         warning: ignored 2 footer lines (line 20003)
 
-        triangle out (V)  shape: triangle
+        triangle out (V)  shape: triangle  ± is U (k = 2)
           timing
-            frequency      261.6302 Hz  ± 0.0005
+            frequency      261.63020 Hz  ± 0.00086 Hz
             period jitter  NOT MEASURED  the period scatter is within the capture floor
           levels
-            amplitude         5.984 V   ± 0.007
+            amplitude          5.984 V   ± 0.013 V
           ramps
-            slope ratio      1.0803     ± 0.0004
+            slope ratio      1.08030     ± 0.00080
 
-        pulse out (V)  shape: square
+        pulse out (V)  shape: square  ± is U (k = 2)
           warning: may be aliased
           levels
-            low level   NOT MEASURED  the trace is clipped
-            amplitude   NOT MEASURED  (as for low level)
+            low state level  NOT MEASURED  the trace is clipped
+            amplitude        NOT MEASURED  (as for low state level)
           edges
-            duty cycle  49.98 %  ± 0.10
+            duty cycle       49.98 %  ± 0.20 %
           harmonics (dBc)
-            3: -9.5
+            3: −9.5
             least-squares fit
       "
     `);

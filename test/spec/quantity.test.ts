@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { formatQuantity, parseQuantity } from '../../src/spec/index.js';
+import { formatSpecQuantity } from '../../src/spec/quantity.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
 // SI prefixes and their factors: SI Brochure (BIPM, 9th edition 2019), Table 7.
@@ -69,6 +70,7 @@ describe('parseQuantity', () => {
         (mag, neg, unit) => {
           const v = neg ? -mag : mag;
           const q = parseQuantity(formatQuantity(v, unit, 15));
+          expectWithin(parseQuantity(formatSpecQuantity(v, unit, 15))?.value, v, { rel: 1e-13 }, 'round trip of the spec-file form');
           expectWithin(q?.value, v, { rel: 1e-13 }, 'round trip (15 significant digits)');
         },
       ),
@@ -77,11 +79,14 @@ describe('parseQuantity', () => {
 });
 
 describe('formatQuantity', () => {
-  it('picks the engineering prefix that leaves 1 to 999 in front', () => {
-    expect(formatQuantity(2093, 'Hz')).toBe('2.093 kHz');
+  it('picks the engineering prefix that leaves 1 to 999 in front, four-digit values unprefixed (SI Brochure Table 7)', () => {
+    expect(formatQuantity(2093, 'Hz')).toBe('2 093 Hz');
+    expect(formatSpecQuantity(2093, 'Hz')).toBe('2093 Hz');
+    expect(formatSpecQuantity(-3, 'V')).toBe('-3 V');
+    expect(formatQuantity(20_930, 'Hz')).toBe('20.93 kHz');
     expect(formatQuantity(4.7e-9, 'F')).toBe('4.7 nF');
     expect(formatQuantity(0.0148, 'V')).toBe('14.8 mV');
-    expect(formatQuantity(-3, 'V')).toBe('-3 V');
+    expect(formatQuantity(-3, 'V')).toBe('\u22123 V');
     expect(formatQuantity(25_000, 'V/s')).toBe('25 kV/s');
     expect(formatQuantity(1.5, '%')).toBe('1.5 %');
     expect(formatQuantity(1.0833, '')).toBe('1.0833');
