@@ -61,7 +61,7 @@ export function readHeaderRows(lines: readonly SampleLine[], start: number, ctx:
   // starts like a value (`20.00uS`, `0.5`): then it is no `key,value` line.
   const allText = r1 !== null && r1.cells.every((f) => !/^[+-]?[\d.,]/.test(f));
   if (r1 && isNamesRow(r1.cells, ctx, allText)) candidates.push(reading(r1, null, ctx));
-  if (r1 && isUnitsRow(r1.cells, ctx, false)) candidates.push(reading(null, r1, ctx));
+  if (r1 && isUnitsRow(r1.cells, ctx, false, true)) candidates.push(reading(null, r1, ctx));
   // Names over units may run past the data columns together (a column-wise preamble).
   const extra = r1 !== null && r2 !== null && r2.cells.length > ctx.columns && r1.cells.length === r2.cells.length;
   if (r1 && r2 && isUnitsRow(r1.cells, ctx, extra) && isNamesRow(r2.cells, ctx, extra)) candidates.push(reading(r2, r1, ctx));
@@ -129,16 +129,29 @@ function dataCells(cells: readonly string[], ctx: HeaderContext): string[] {
  */
 function isNamesRow(cells: readonly string[], ctx: HeaderContext, extra: boolean): boolean {
   if (extra ? cells.length < ctx.columns : cells.length !== ctx.columns) return false;
-  const kinds = dataCells(cells, ctx).map((f) => parseNumberText(f, ctx.decimalMark).kind);
-  return !kinds.includes(NUMBER) && kinds.includes(TEXT);
+  const data = dataCells(cells, ctx);
+  const kinds = data.map((f) => parseNumberText(f, ctx.decimalMark).kind);
+  return !kinds.includes(NUMBER) && kinds.includes(TEXT) && !data.some(isPreambleCell);
+}
+
+/**
+ * A cell no header holds: a value (`50 kS/s`, `2e-5`), a key with its value (`Sample interval: 2e-5`),
+ * or a key waiting for one (`unit:`). Such a row is a preamble line.
+ */
+function isPreambleCell(cell: string): boolean {
+  return /^[+-]?[\d.,]/.test(cell) || /[:=]\s*$/.test(cell) || /^[^:=]*\w\s*[:=]\s*\S/.test(cell);
 }
 
 function hasNames(cells: readonly string[], ctx: HeaderContext): boolean {
   return dataCells(cells, ctx).some((f) => f !== '' && parseHeaderCell(f).name !== '');
 }
 
-/** A names-like row whose non-blank data cells are all units or sample-index words. */
-function isUnitsRow(cells: readonly string[], ctx: HeaderContext, extra: boolean): boolean {
+/**
+ * A names-like row whose non-blank data cells are all units or sample-index words. Alone (with no
+ * names row above it) a single letter (`A`, `V`, `s`) reads as a name as well as a unit, so a units
+ * row alone needs its units in brackets or longer than one letter.
+ */
+function isUnitsRow(cells: readonly string[], ctx: HeaderContext, extra: boolean, alone = false): boolean {
   if (!isNamesRow(cells, ctx, extra)) return false;
-  return dataCells(cells, ctx).every((f) => f === '' || parseUnitCell(f) !== null || INDEX_UNIT.test(f.replace(/^[([{]\s*|\s*[)\]}]$/g, '')));
+  return dataCells(cells, ctx).every((f) => f === '' || ((parseUnitCell(f) !== null || INDEX_UNIT.test(f.replace(/^[([{]\s*|\s*[)\]}]$/g, ''))) && !(alone && /^\w$/.test(f))));
 }

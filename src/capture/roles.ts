@@ -40,6 +40,8 @@ const INDEX_NAME = /^(index|idx|sample|samples|sample\s*(no\.?|number|#)|n|no\.?
 const FREQUENCY_NAME = /^(freq(uency)?|f)\b/i;
 /** Fewer distinct codes than this, and integers are levels (a 0/10 V pulse, logic 0/1), not converter codes. */
 const MIN_DISTINCT_CODES = 8;
+/** Sniffed rows a column must rise over to be taken for time without a name, unless it is the first of a headerless file. */
+const MIN_RISING_ROWS = 16;
 
 type XKind = 'time' | 'index' | 'channel' | null;
 
@@ -121,7 +123,10 @@ function findX(s: Sniffed, meta: MetadataTiming, raw: readonly ColumnLayout[], k
   if (i !== undefined) return { time: null, index: i, foundBy: 'name' };
   if (data.length < 2) return { time: null, index: null, foundBy: null };
   const free = data.filter((c) => kinds[c] === null);
-  const rising = free.find((c) => rises(rows(), c));
+  // Any column may rise over a handful of rows; beyond the first column of a file without a header
+  // (the rule of old), a rising column counts only over enough rows to mean it.
+  const enough = rows().length >= MIN_RISING_ROWS;
+  const rising = free.find((c) => (enough || (c === data[0] && s.headerCells === null && s.unitCells === null)) && rises(rows(), c));
   if (rising !== undefined) return countsByOne(rows(), rising) ? { time: null, index: rising, foundBy: 'rising' } : { time: rising, index: null, foundBy: 'rising' };
   // Time printed with too few digits repeats each stamp; only the leftmost column is taken so.
   if (free.length > 0 && free[0] === data[0] && risesWithRepeats(rows(), free[0])) return { time: free[0], index: null, foundBy: 'rising-with-repeats' };
@@ -200,11 +205,15 @@ function rises(rows: readonly (readonly number[])[], c: number): boolean {
   return true;
 }
 
-/** Never falls, rises overall, and takes many values: a time column printed with too few digits. */
+/** Never falls, repeats values, rises overall, and takes many values: a time column printed with too few digits. */
 function risesWithRepeats(rows: readonly (readonly number[])[], c: number): boolean {
-  if (rows.length < 8) return false;
-  for (let r = 1; r < rows.length; r++) if (!(rows[r][c] >= rows[r - 1][c])) return false;
-  return distinct(rows, c) >= Math.max(3, rows.length / 64);
+  if (rows.length < MIN_RISING_ROWS) return false;
+  let repeats = 0;
+  for (let r = 1; r < rows.length; r++) {
+    if (!(rows[r][c] >= rows[r - 1][c])) return false;
+    if (rows[r][c] === rows[r - 1][c]) repeats++;
+  }
+  return repeats > 0 && distinct(rows, c) >= Math.max(3, rows.length / 64);
 }
 
 function distinct(rows: readonly (readonly number[])[], c: number): number {

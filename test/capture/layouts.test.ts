@@ -141,8 +141,8 @@ describe('readCapture round trip (fast-check)', () => {
           bom: l.bom, preamble: l.preamble ? 'auto' : undefined, precision: l.precision,
           unitRow: l.unitRow, plusSign: l.plusSign, xColumn: l.xColumn, quote: l.quote && l.delimiter !== ' ', format: l.format,
           trailingDelimiter: l.trailingDelimiter && l.delimiter !== ' ',
-          // The preamble beside the data needs rows of data past its four entries, and a delimiter that is not a run of spaces.
-          preambleBeside: l.preambleBeside && l.preamble && rows >= 8 && l.delimiter !== ' ',
+          // The preamble beside the data needs rows enough for its time column (not first) to show that it rises, and a delimiter that is not a run of spaces.
+          preambleBeside: l.preambleBeside && l.preamble && rows >= 16 && l.delimiter !== ' ',
         });
         const path = write(`prop${k++}.csv`, text);
         const before = sha256(path);
