@@ -144,7 +144,11 @@ export class PgSyncClient {
       throw new PgCallError(waited === 'timed-out' ? `no answer within ${timeoutMs} ms` : 'the store connection stopped answering', 'ETIMEDOUT', 'timeout');
     }
     const a = got.message as Answer;
-    if (!a.ok) throw new PgCallError(a.message, a.code, a.kind);
+    if (!a.ok) {
+      // A lost connection is not used again: later calls fail at once instead of waiting on it.
+      if (a.kind === 'connection' || /^(08|57P0[123])/.test(a.code ?? '')) this.terminate();
+      throw new PgCallError(a.message, a.code, a.kind);
+    }
     return a;
   }
 }
