@@ -63,6 +63,7 @@ export async function measureStep(ctx: CommandContext, session: CalibrationSessi
   let started = false;
   try {
     const capture = await readCapture(resolve(ctx.io.cwd, entry.path), {
+      ...(session.spec.reading ? { ...session.spec.reading, profile: `${session.spec.file} captures.reading` } : {}),
       ...session.timing,
       onProgress: (done, total) => {
         if (!started) progress.start(entry.path, total);
