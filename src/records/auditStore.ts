@@ -18,7 +18,7 @@ import { closeSync, openSync, readSync, statSync } from 'node:fs';
 import { isAbsolute, join, normalize } from 'node:path';
 import { CHAIN_START, chainEntries, chainLink } from './chain.js';
 import type { ChainEntry } from './chain.js';
-import { readRunRows } from './readRuns.js';
+import { readRunDigests } from './readRuns.js';
 import { readCalibrationRows } from './calibrationRead.js';
 
 export type AuditProblemKind = 'changed' | 'damaged' | 'missing' | 'unchained' | 'chain-broken' | 'capture-missing' | 'capture-changed';
@@ -51,12 +51,21 @@ interface Fingerprinted {
   readonly captures: readonly { readonly sha256: string; readonly size: number; readonly archivePath: string }[];
 }
 
-export function auditStore(db: Database, dataDir: string): StoreAudit {
+export interface AuditOptions {
+  /**
+   * Re-hash the archived captures too (default). A listing that reads no capture (units, batch)
+   * leaves them out; a unit's record re-hashes its own (auditUnitCaptures).
+   */
+  readonly archive?: boolean;
+}
+
+export function auditStore(db: Database, dataDir: string, options: AuditOptions = {}): StoreAudit {
+  const { archive = true } = options;
   const problems: AuditProblem[] = [];
   const entries = chainEntries(db);
   const head = checkLinks(entries, problems);
   const byRow = new Map(entries.map((e) => [`${e.kind}:${e.row_id}`, e]));
-  const { runs, damaged } = readRunRows(db);
+  const { rows: runs, damaged } = readRunDigests(db);
   const calibrations = readCalibrationRows(db);
   const rows: Fingerprinted[] = [
     ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })),
@@ -79,8 +88,19 @@ export function auditStore(db: Database, dataDir: string): StoreAudit {
       problems.push({ kind: e.kind, id: e.row_id, unit: null, problem: 'missing', detail: 'it is in the hash chain but no longer in the store: it was deleted' });
     }
   }
-  const archived = checkArchive(dataDir, rows, problems);
+  const archived = archive ? checkArchive(dataDir, rows, problems) : 0;
   return { head, chained: entries.length, archived, problems };
+}
+
+/** The archived captures of one unit's runs and calibration iterations, re-hashed. */
+export function auditUnitCaptures(db: Database, dataDir: string, unit: string): AuditProblem[] {
+  const problems: AuditProblem[] = [];
+  const runs = readRunDigests(db, { unit }).rows.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures }));
+  const calibrations = readCalibrationRows(db)
+    .runs.filter((c) => c.unit === unit)
+    .flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures })));
+  checkArchive(dataDir, [...runs, ...calibrations], problems);
+  return problems;
 }
 
 /** Each link against the one stored before it; a gap in the entry numbers is a deleted entry. */
@@ -107,7 +127,7 @@ function checkArchive(dataDir: string, rows: readonly Fingerprinted[], problems:
   for (const r of rows) {
     for (const c of r.captures) {
       const u = users.get(c.archivePath) ?? { sha256: c.sha256, size: c.size, rows: [] };
-      if (!u.rows.includes(r)) u.rows.push(r);
+      if (u.rows[u.rows.length - 1] !== r) u.rows.push(r); // a run's captures are listed together
       users.set(c.archivePath, u);
     }
   }

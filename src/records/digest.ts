@@ -6,8 +6,17 @@
 import { createHash } from 'node:crypto';
 import type { Diagnosis, RunKind, RunSpec, StoredCapture, UnitVerdict } from '../types/index.js';
 
+/**
+ * JSON text already in canonical form, written by canonicalJson as it is. Runs store their verdict
+ * and diagnosis as canonical text, so verifying a run hashes the stored text without parsing it.
+ */
+export class CanonicalText {
+  constructor(readonly text: string) {}
+}
+
 /** JSON text with object keys sorted at every level; `undefined` members are left out as JSON does. */
 export function canonicalJson(value: unknown): string {
+  if (value instanceof CanonicalText) return value.text;
   if (value === null || typeof value !== 'object') return JSON.stringify(value) ?? 'null';
   if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
   const obj = value as Record<string, unknown>;
@@ -32,8 +41,8 @@ export interface DigestedRun {
   readonly station: string;
   readonly spec: RunSpec;
   readonly toolVersion: string;
-  readonly verdict: UnitVerdict;
-  readonly diagnosis: Diagnosis;
+  readonly verdict: UnitVerdict | CanonicalText;
+  readonly diagnosis: Diagnosis | CanonicalText;
   readonly captures: readonly Omit<StoredCapture, 'archivePath'>[];
   /** Schema 5 (attempts); absent on older runs, so their digests are unchanged. */
   readonly attempt?: number;

@@ -15,8 +15,8 @@ import type { RunFilter } from './readRuns.js';
 import { saveRun } from './saveRun.js';
 import type { SaveHooks } from './saveRun.js';
 import { damagedFileError, missingError, noRecordsError, openError, storeError, unverifiedError } from './storeErrors.js';
-import { auditStore } from './auditStore.js';
-import type { StoreAudit } from './auditStore.js';
+import { auditStore, auditUnitCaptures } from './auditStore.js';
+import type { AuditProblem, StoreAudit } from './auditStore.js';
 import { chainHead } from './chain.js';
 import { buildUnitRecord, listUnits } from './unitSummaries.js';
 import { numberRuns, openAttempt, readRunHeads } from './attempts.js';
@@ -154,15 +154,31 @@ function guarded<T>(label: string, fn: () => T): T {
 }
 
 function wrap(db: Db, dir: string, dbFile: string, version: number, label: string, unverified: 'refuse' | 'mark'): RecordStore {
-  let audited: StoreAudit | undefined;
-  const audit = (): StoreAudit => (audited ??= guarded(label, () => auditStore(db, dir)));
+  // Each read verifies what it reads: every fingerprint and the whole chain always (cheap: the
+  // stored texts are hashed as they are), the archived captures of a unit when its runs are read.
+  let rows: StoreAudit | undefined;
+  let full: StoreAudit | undefined;
+  const unitCaptures = new Map<string, readonly AuditProblem[]>();
+  const rowAudit = (): StoreAudit => full ?? (rows ??= guarded(label, () => auditStore(db, dir, { archive: false })));
+  const audit = (): StoreAudit => (full ??= guarded(label, () => auditStore(db, dir)));
+  const scoped = (unit?: string): StoreAudit => {
+    const base = rowAudit();
+    if (unit === undefined || full !== undefined) return base;
+    let captures = unitCaptures.get(unit);
+    if (captures === undefined) {
+      captures = guarded(label, () => auditUnitCaptures(db, dir, unit));
+      unitCaptures.set(unit, captures);
+    }
+    return captures.length === 0 ? base : { ...base, problems: [...base.problems, ...captures] };
+  };
+  let lastScope: StoreAudit | undefined;
   /** Every read goes through here: nothing is read from a store that failed verification unless asked. */
-  const verified = <T>(read: () => T): T => {
-    const found = audit();
+  const verified = <T>(read: () => T, unit?: string): T => {
+    const found = (lastScope = scoped(unit));
     if (found.problems.length > 0 && unverified === 'refuse') throw unverifiedError(label, found);
     return guarded(label, read);
   };
-  const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set(audit().problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
+  const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set((lastScope ?? rowAudit()).problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
   const mark = (runs: StoredRun[]): StoredRun[] => {
     const bad = flagged('run');
     return runs.map((r) => (r.intact && bad.has(r.id) ? { ...r, intact: false } : r));
@@ -176,9 +192,9 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     dbFile,
     schemaVersion: version,
     saveRun: (run, hooks) => guarded(label, () => saveRun(db, dir, run, hooks)),
-    listUnits: (filter = {}) => verified(() => withUnverified(listUnits(db, filter.spec), audit())),
-    unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial)))),
-    runs: (filter) => verified(() => mark(readRuns(db, filter))),
+    listUnits: (filter = {}) => verified(() => withUnverified(listUnits(db, filter.spec), rowAudit())),
+    unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial))), serial),
+    runs: (filter) => verified(() => mark(readRuns(db, filter)), filter?.unit),
     unitSerials: () => verified(() => [...new Set([...distinct(db, 'unit'), ...calibratedSerials(db)])].sort()),
     specNames: () => verified(() => distinct(db, 'spec_name')),
     specText: (sha256) => guarded(label, () => specText(db, sha256)),
@@ -187,7 +203,7 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     captureRecorded: (key) => verified(() => captureRecorded(db, key)),
     saveRunOnce: (run, hooks) => guarded(label, () => saveRunOnce(db, dir, run, hooks)),
     saveCalibration: (iteration) => guarded(label, () => saveCalibration(db, dir, iteration)),
-    calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial))),
+    calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial)), serial),
     // Like saveRun, not behind the audit: it only chooses which archived captures a new check re-reads,
     // and archiving them again re-checks their SHA-256 (archive.ts).
     openAttempt: (serial, specName) => guarded(label, () => openAttempt(db, numberRuns(readRunHeads(db, serial)), specName)),

@@ -6,7 +6,7 @@
  */
 import type { Database } from 'better-sqlite3';
 import type { AttemptReason, RunKind, Statement, StoredCapture, StoredRun } from '../types/index.js';
-import { runDigest } from './digest.js';
+import { CanonicalText, runDigest } from './digest.js';
 import { parseDiagnosis, parseVerdict } from './rowShape.js';
 
 interface RunRow {
@@ -131,6 +131,67 @@ function toStoredRun(row: RunRow, captures: readonly StoredCapture[]): StoredRun
   };
   const intact = runDigest(run) === row.digest && run.verdict.statement === run.statement && run.verdict.unit === run.unit;
   return { ...run, intact };
+}
+
+/** What verifying a run needs: its fingerprint, whether the row still matches it, and its captures. */
+export interface RunDigestRow {
+  readonly id: number;
+  readonly unit: string;
+  readonly digest: string;
+  readonly intact: boolean;
+  readonly captures: readonly StoredCapture[];
+}
+
+/**
+ * Every run's fingerprint checked without building the run: the stored verdict and diagnosis are
+ * canonical JSON (saveRun), so the fingerprint is recomputed over their text as stored, and the
+ * statement and serial columns are compared with the verdict's by SQLite's JSON functions. A row
+ * that does not match that way (stored before the texts were canonical, or changed) is read in full
+ * and judged as readRuns judges it, so nothing is believed that readRuns would not believe.
+ */
+export function readRunDigests(db: Database, filter: RunFilter = {}): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
+  const where = filter.unit !== undefined ? 'WHERE unit = ?' : '';
+  const sql = `SELECT *, json_extract(verdict_json, '$.statement') AS verdict_statement, json_extract(verdict_json, '$.unit') AS verdict_unit
+    FROM runs ${where} ORDER BY started_at, id`;
+  let rows: (RunRow & { verdict_statement: unknown; verdict_unit: unknown })[];
+  try {
+    rows = db.prepare(sql).all(...(filter.unit !== undefined ? [filter.unit] : [])) as typeof rows;
+  } catch {
+    // A verdict that is not JSON at all stops json_extract: judge every row the slow way.
+    const read = readRunRows(db, filter);
+    return { rows: read.runs.map((r) => ({ id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })), damaged: read.damaged };
+  }
+  const captures = capturesByRun(db, rows);
+  const out: RunDigestRow[] = [];
+  const damaged: DamagedRow[] = [];
+  for (const row of rows) {
+    const caps = captures.get(row.id) ?? [];
+    const unit = String(row.unit);
+    const fast =
+      row.verdict_statement === row.statement &&
+      row.verdict_unit === row.unit &&
+      runDigest({
+        unit,
+        kind: row.kind as RunKind,
+        startedAt: String(row.started_at),
+        operator: String(row.operator),
+        station: String(row.station),
+        spec: { name: String(row.spec_name), revision: String(row.spec_revision), sha256: String(row.spec_sha256) },
+        toolVersion: String(row.tool_version),
+        verdict: new CanonicalText(String(row.verdict_json)),
+        diagnosis: new CanonicalText(String(row.diagnosis_json)),
+        captures: caps,
+        ...attemptColumns(row),
+      }) === row.digest;
+    if (fast) {
+      out.push({ id: row.id, unit, digest: String(row.digest), intact: true, captures: caps });
+      continue;
+    }
+    const run = toStoredRun(row, caps);
+    if ('problem' in run) damaged.push(run);
+    else out.push({ id: run.id, unit: run.unit, digest: run.digest, intact: run.intact, captures: run.captures });
+  }
+  return { rows: out, damaged };
 }
 
 /** Distinct unit serials and spec names, sorted, for listings and "did you mean" hints. */

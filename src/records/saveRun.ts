@@ -7,7 +7,7 @@
 import type { Database } from 'better-sqlite3';
 import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
 import { archiveCapture } from './archive.js';
-import { runDigest, sha256Hex } from './digest.js';
+import { canonicalJson, runDigest, sha256Hex } from './digest.js';
 import { insertMeasurements } from './measurementRows.js';
 import { numberRuns, placeRun, readRunHeads } from './attempts.js';
 import type { AttemptPlacement } from './attempts.js';
@@ -70,7 +70,7 @@ function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: stri
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     )
     .run(run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, JSON.stringify(verdict), JSON.stringify(run.diagnosis), digest,
+      run.toolVersion, verdict.decisionRule, verdict.statement, canonicalJson(verdict), canonicalJson(run.diagnosis), digest,
       placed.attempt, placed.attemptReason ?? null, placed.note ?? null);
   const runId = Number(info.lastInsertRowid);
   const cond = db.prepare('INSERT INTO condition_results (run_id, condition, statement) VALUES (?, ?, ?)');
