@@ -83,21 +83,32 @@ function countRecaptures(runs: readonly StoredRun[]): number {
  * never open the same number twice). Reads the unit's runs to number its attempts as a record would.
  */
 export function placeRun(db: Database, run: NewRun, numbered: readonly StoredRun[]): AttemptPlacement {
+  return placeRunWith(sqliteCalibrationAt(db), run, numbered);
+}
+
+/** When the unit's latest calibration iteration was stored (ISO time), or null: the one thing placing reads besides the runs. */
+export type CalibrationClock = (unit: string) => string | null;
+
+const sqliteCalibrationAt = (db: Database): CalibrationClock => (unit) =>
+  (db.prepare('SELECT MAX(i.stored_at) AS at FROM calibration_iterations i JOIN calibration_runs c ON c.id = i.calibration_id WHERE c.unit = ?').get(unit) as { at: string | null }).at;
+
+/** placeRun for any engine: the same rule, with the latest calibration time read by the caller's engine. */
+export function placeRunWith(calibratedAt: CalibrationClock, run: NewRun, numbered: readonly StoredRun[]): AttemptPlacement {
   const last = numbered[numbered.length - 1];
   if (!last || last.attempt === undefined) return { attempt: 1, attemptReason: 'first' };
   const next = (attemptReason: AttemptReason): AttemptPlacement => ({ attempt: (last.attempt ?? 0) + 1, attemptReason });
   if (run.newAttempt) return next('requested');
   if (run.note !== undefined) return next('note');
-  const open = stillOpen(db, last, run.spec.name);
+  const open = stillOpen(calibratedAt, last, run.spec.name);
   return open === true ? { attempt: last.attempt } : next(open);
 }
 
 /** True when the unit's latest attempt can take this run; else why a new one opens. */
-function stillOpen(db: Database, last: StoredRun, specName: string): true | AttemptReason {
+function stillOpen(calibratedAt: CalibrationClock, last: StoredRun, specName: string): true | AttemptReason {
   if (verdictState(last.verdict) === 'complete') return 'after-complete';
   if (last.spec.name !== specName) return 'other-spec';
-  const row = db.prepare('SELECT MAX(i.stored_at) AS at FROM calibration_iterations i JOIN calibration_runs c ON c.id = i.calibration_id WHERE c.unit = ?').get(last.unit) as { at: string | null };
-  if (row.at !== null && row.at > last.storedAt) return 'after-calibration';
+  const at = calibratedAt(last.unit);
+  if (at !== null && at > last.storedAt) return 'after-calibration';
   return true;
 }
 
@@ -111,7 +122,7 @@ export interface OpenAttempt {
 
 export function openAttempt(db: Database, numbered: readonly StoredRun[], specName: string): OpenAttempt | undefined {
   const last = numbered[numbered.length - 1];
-  if (!last || last.attempt === undefined || stillOpen(db, last, specName) !== true) return undefined;
+  if (!last || last.attempt === undefined || stillOpen(sqliteCalibrationAt(db), last, specName) !== true) return undefined;
   return { number: last.attempt, runId: last.id, waitingFor: waitingConditions(last.verdict), captures: runCaptures(db, last.id) };
 }
 
@@ -135,7 +146,7 @@ export function attemptFacts(attempts: readonly AttemptSummary[]): AttemptFacts 
   };
 }
 
-interface HeadRow {
+export interface HeadRow {
   id: number;
   unit: string;
   spec_name: string;
@@ -167,27 +178,30 @@ export function readRunHeads(db: Database, unit: string): StoredRun[] {
        FROM runs WHERE unit = ? AND json_valid(verdict_json) ORDER BY started_at, id`,
     )
     .all(unit) as HeadRow[];
-  return rows.map((r) => {
-    const waitingFor = r.waiting_json === null ? undefined : (JSON.parse(r.waiting_json) as string[]);
-    const verdict = {
-      conditions: (JSON.parse(r.conditions_json) as string[]).map((condition) => ({ condition })),
-      captures: (JSON.parse(r.captured_json) as string[]).map((condition) => ({ condition })),
-      ...(waitingFor ? { waitingFor } : {}),
-    };
-    return {
-      id: r.id,
-      unit: r.unit,
-      spec: { name: r.spec_name, revision: r.spec_revision, sha256: r.spec_sha256 },
-      startedAt: r.started_at,
-      storedAt: r.stored_at,
-      statement: r.statement,
-      verdict,
-      captures: [],
-      ...(r.attempt !== null ? { attempt: r.attempt } : {}),
-      ...(r.attempt_reason !== null ? { attemptReason: r.attempt_reason } : {}),
-      ...(r.note !== null ? { note: r.note } : {}),
-    } as unknown as StoredRun;
-  });
+  return rows.map(runHead);
+}
+
+/** One row of a run-heads query (either engine) as the light StoredRun placing a run needs. */
+export function runHead(r: HeadRow): StoredRun {
+  const waitingFor = r.waiting_json === null ? undefined : (JSON.parse(r.waiting_json) as string[]);
+  const verdict = {
+    conditions: (JSON.parse(r.conditions_json) as string[]).map((condition) => ({ condition })),
+    captures: (JSON.parse(r.captured_json) as string[]).map((condition) => ({ condition })),
+    ...(waitingFor ? { waitingFor } : {}),
+  };
+  return {
+    id: r.id,
+    unit: r.unit,
+    spec: { name: r.spec_name, revision: r.spec_revision, sha256: r.spec_sha256 },
+    startedAt: r.started_at,
+    storedAt: r.stored_at,
+    statement: r.statement,
+    verdict,
+    captures: [],
+    ...(r.attempt !== null ? { attempt: r.attempt } : {}),
+    ...(r.attempt_reason !== null ? { attemptReason: r.attempt_reason } : {}),
+    ...(r.note !== null ? { note: r.note } : {}),
+  } as unknown as StoredRun;
 }
 
 /** The archived captures of one run, in their order. */

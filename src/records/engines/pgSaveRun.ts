@@ -1,0 +1,146 @@
+/**
+ * Store one run in the shared store: the same rows, fingerprint, attempt rule and hash-chain link as
+ * the embedded store (saveRun.ts), and the capture bytes in the chunk table, all in one transaction.
+ *
+ * Several benches write at once. The chain is one sequence for the whole store (each link hashes
+ * the one before), so every write takes one transaction-level advisory lock first: writes are
+ * serialized in the order they take it, each sees every run committed before it, and the lock is
+ * released by COMMIT or ROLLBACK (or the server, when a bench's connection drops). Two benches
+ * testing the same unit at once therefore never get the same run placed twice or an attempt number
+ * decided on a stale view: the second run is placed after the first by the same rule as on one
+ * bench (it continues the first's attempt while that one still waits, else opens the next).
+ */
+import { readFileSync } from 'node:fs';
+import type { NewRun, StoredCapture, StoredRun, UnitVerdict } from '../../types/index.js';
+import { canonicalJson, runDigest, sha256Hex } from '../digest.js';
+import { numberRuns, placeRunWith, runHead } from '../attempts.js';
+import type { AttemptPlacement, HeadRow } from '../attempts.js';
+import { chainLink, CHAIN_START } from '../chain.js';
+import type { ChainKind } from '../chain.js';
+import type { PgSyncClient } from './pgSync.js';
+import { putCapture } from './pgCaptures.js';
+
+/** Fixed number naming the store-wide write lock (pg_advisory_xact_lock); distinct from the schema lock. */
+export const WRITE_LOCK = 2_026_120_521;
+
+export function pgSaveRun(client: PgSyncClient, run: NewRun): StoredRun {
+  checkRun(run);
+  // Read before the transaction: a bench's slow disk does not hold the store-wide lock.
+  const bytes = run.captures.map((c) => {
+    if (!c.bytes && c.sourcePath === undefined) throw new TypeError(`pgSaveRun: capture ${c.path} has neither bytes nor sourcePath`);
+    const b = c.bytes ? Buffer.from(c.bytes) : readFileSync(c.sourcePath as string);
+    if (sha256Hex(b) !== c.sha256) throw new RangeError(`pgSaveRun: capture ${c.path} changed since it was read (SHA-256 differs)`);
+    return b;
+  });
+  const captures: StoredCapture[] = run.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, archivePath: `chunks:${c.sha256}` }));
+  const spec = { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 };
+  const base = {
+    unit: run.unit,
+    kind: run.kind ?? 'check',
+    startedAt: new Date(run.startedAt).toISOString(),
+    operator: run.operator,
+    station: run.station,
+    spec,
+    toolVersion: run.toolVersion,
+    statement: run.verdict.statement,
+    verdict: run.verdict,
+    diagnosis: run.diagnosis,
+    captures,
+  } as const;
+  return client.transaction((): StoredRun => {
+    client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
+    const storedAt = new Date().toISOString();
+    const numbered = numberRuns(pgRunHeads(client, run.unit));
+    const placed = { ...placeRunWith((unit) => pgCalibratedAt(client, unit), run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
+    const digest = runDigest({ ...base, ...placed });
+    bytes.forEach((b) => putCapture(client, b, storedAt));
+    const id = insertRunRows(client, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed);
+    pgAppendLink(client, 'run', id, digest);
+    return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
+  });
+}
+
+/** The unit's runs as attempts.ts's runHead reads them, from PostgreSQL's JSON functions. */
+export function pgRunHeads(client: PgSyncClient, unit: string): StoredRun[] {
+  const conditionsOf = (key: string): string =>
+    `COALESCE((SELECT jsonb_agg(e.value -> 'condition' ORDER BY e.ord) FROM jsonb_array_elements(verdict_json::jsonb -> '${key}') WITH ORDINALITY AS e(value, ord)), '[]'::jsonb)::text`;
+  const rows = client.query<HeadRow>(
+    `SELECT id, unit, spec_name, spec_revision, spec_sha256, started_at, stored_at, statement, attempt, attempt_reason, note,
+       NULLIF(verdict_json::jsonb -> 'waitingFor', 'null'::jsonb)::text AS waiting_json,
+       ${conditionsOf('captures')} AS captured_json, ${conditionsOf('conditions')} AS conditions_json
+     FROM runs WHERE unit = $1 ORDER BY started_at, id`,
+    [unit],
+  ).rows;
+  return rows.map(runHead);
+}
+
+function pgCalibratedAt(client: PgSyncClient, unit: string): string | null {
+  return client.query<{ at: string | null }>('SELECT MAX(i.stored_at) AS at FROM calibration_iterations i JOIN calibration_runs c ON c.id = i.calibration_id WHERE c.unit = $1', [unit]).rows[0].at;
+}
+
+export function pgChainHead(client: PgSyncClient): string {
+  return client.query<{ link: string }>('SELECT link FROM chain ORDER BY seq DESC LIMIT 1').rows[0]?.link ?? CHAIN_START;
+}
+
+/** Append a link; the caller holds WRITE_LOCK, so no other link is added between reading the head and this one. */
+export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: number, digest: string): string {
+  const link = chainLink(pgChainHead(client), kind, rowId, digest);
+  client.query('INSERT INTO chain (kind, row_id, row_digest, link) VALUES ($1, $2, $3, $4)', [kind, rowId, digest, link]);
+  return link;
+}
+
+function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }): number {
+  const { spec, verdict } = run;
+  const text = spec.text === undefined ? null : Buffer.from(spec.text);
+  client.query('INSERT INTO specs (sha256, name, revision, text) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [spec.sha256, spec.name, spec.revision, text]);
+  if (text) client.query('UPDATE specs SET text = $1 WHERE sha256 = $2 AND text IS NULL', [text, spec.sha256]);
+  const runId = client.query<{ id: number }>(
+    `INSERT INTO runs (unit, kind, started_at, stored_at, operator, station, spec_name, spec_revision, spec_sha256,
+       tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18) RETURNING id`,
+    [run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
+      run.toolVersion, verdict.decisionRule, verdict.statement, canonicalJson(verdict), canonicalJson(run.diagnosis), digest,
+      placed.attempt, placed.attemptReason ?? null, placed.note ?? null],
+  ).rows[0].id;
+  let seq = 0;
+  for (const c of verdict.conditions) {
+    client.query('INSERT INTO condition_results (run_id, condition, statement) VALUES ($1, $2, $3)', [runId, c.condition, c.statement]);
+    for (const k of c.checks) {
+      client.query(
+        `INSERT INTO checks (run_id, seq, condition, output, measurement, unit, value, expanded_uncertainty, lower, upper, nominal, guard, margin, statement, note)
+         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15)`,
+        [runId, seq++, k.condition, k.output, k.measurement, k.unit, k.value, k.expandedUncertainty, k.lower, k.upper, k.nominal, k.guard, k.margin, k.statement, k.note ?? null],
+      );
+    }
+  }
+  run.diagnosis.causes.forEach((c, i) =>
+    client.query('INSERT INTO causes (run_id, rank, cause_id, title, score, evidence_json, confirm) VALUES ($1, $2, $3, $4, $5, $6, $7)', [runId, i + 1, c.id, c.title, c.score, JSON.stringify(c.evidence), c.confirm]),
+  );
+  captures.forEach((c, i) =>
+    client.query('INSERT INTO run_captures (run_id, seq, sha256, original_path, size, layout, condition) VALUES ($1, $2, $3, $4, $5, $6, $7)', [runId, i, c.sha256, c.path, c.size, c.layout, c.condition]),
+  );
+  insertMeasurements(client, runId, verdict);
+  return runId;
+}
+
+function insertMeasurements(client: PgSyncClient, runId: number, verdict: UnitVerdict): void {
+  verdict.captures.forEach((capture, ci) => {
+    capture.report.channels.forEach((channel, chi) => {
+      for (const [id, m] of Object.entries(channel.measurements)) {
+        if (!m) continue;
+        client.query(
+          `INSERT INTO measurements (run_id, capture_index, capture_sha256, channel_index, channel, measurement, value, uncertainty, unit, reason, method)
+           VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
+          [runId, ci, capture.sha256, chi, channel.name, id, m.value, m.uncertainty, m.unit, m.reason ?? null, m.method ?? null],
+        );
+      }
+    });
+  });
+}
+
+function checkRun(run: NewRun): void {
+  if (typeof run.unit !== 'string' || run.unit.trim() === '') throw new TypeError(`pgSaveRun: unit serial is empty (${JSON.stringify(run.unit)})`);
+  if (run.verdict.unit !== run.unit) throw new RangeError(`pgSaveRun: verdict is for unit ${run.verdict.unit}, run is for ${run.unit}`);
+  if (Number.isNaN(Date.parse(run.startedAt))) throw new RangeError(`pgSaveRun: startedAt ${JSON.stringify(run.startedAt)} is not an ISO 8601 time`);
+  if (run.spec.text !== undefined && sha256Hex(run.spec.text) !== run.spec.sha256) throw new RangeError('pgSaveRun: spec.text does not hash to spec.sha256');
+}
