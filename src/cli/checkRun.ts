@@ -86,7 +86,7 @@ export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonl
         },
       });
       const named = { ...capture, path: plan.path };
-      checked.push(bindCapture(spec, plan, named, measureCapture(named, { plotData: true })));
+      checked.push(bindCapture(spec, plan, named, measureCapture(named, { plotData: true, ...(spec.harmonicSet ? { harmonicSet: spec.harmonicSet } : {}) })));
     }
   } finally {
     progress.stop();

@@ -7,6 +7,8 @@
 import { MEASUREMENT_IDS, MEASUREMENT_UNITS, isBenchError, isMeasurementId } from '../types/index.js';
 import type { DecisionRule, MeasurementId, ReadingSettings, Shape } from '../types/index.js';
 import { readingSettings } from '../capture/index.js';
+import type { HarmonicSet } from '../analysis/index.js';
+import { parseQuantity, valueIn } from './quantity.js';
 import { fieldsAt, hasLimit, mergeFields, resolveLimit } from './limits.js';
 import type { FieldSet } from './limits.js';
 import { nearest } from './nearest.js';
@@ -46,6 +48,7 @@ export function resolveSpec(raw: unknown, file: string, sha256: string, issues: 
   checkPattern(pattern, conditionNames.length > 1, ['captures', 'pattern'], issues);
   const design = top.design === undefined ? undefined : resolveDesign(obj(top.design), conditionNames, issues);
   const reading = obj(top.captures).reading === undefined ? undefined : resolveReading(obj(top.captures).reading, file, issues);
+  const harmonicSet = top.harmonics === undefined ? undefined : resolveHarmonics(obj(top.harmonics), issues);
   return {
     format: 1,
     file,
@@ -59,6 +62,7 @@ export function resolveSpec(raw: unknown, file: string, sha256: string, issues: 
     conditions,
     ...(design ? { design } : {}),
     ...(reading ? { reading } : {}),
+    ...(harmonicSet ? { harmonicSet } : {}),
     ...(top.calibration !== undefined ? { calibration: resolveCalibration(top.calibration, outputs, issues) } : {}),
   };
 }
@@ -156,6 +160,27 @@ function mergeChecks(base: readonly BaseCheck[], overrides: Record<string, Field
     if (limit) out.push({ output: b.output, measurement: b.measurement, unit, limit, ...(b.hint ? { hint: b.hint } : {}) });
   }
   return out;
+}
+
+/**
+ * `harmonics:`: a design specified over a fixed harmonic count or a bandwidth (audio-band designs
+ * commonly state THD up to 20 kHz; common practice, no source); one of the two, never both. Without
+ * it every harmonic below Nyquist counts.
+ */
+function resolveHarmonics(raw: Obj, issues: SpecIssue[]): HarmonicSet | undefined {
+  const count = typeof raw.count === 'number' ? raw.count : undefined;
+  if (raw.bandwidth === undefined) return count === undefined ? undefined : { harmonics: count };
+  const q = typeof raw.bandwidth === 'string' || typeof raw.bandwidth === 'number' ? parseQuantity(raw.bandwidth) : null;
+  const hz = q === null ? null : valueIn(q, 'Hz');
+  if (hz === null || !(hz > 0)) {
+    issues.push({ code: 'spec.wrong-unit', path: ['harmonics', 'bandwidth'], problem: `harmonics.bandwidth: "${String(raw.bandwidth)}" is not a positive frequency`, expected: 'a frequency with its unit, e.g. "20 kHz"', fix: 'write the bandwidth with Hz, kHz or MHz, e.g. bandwidth: 20 kHz' });
+    return undefined;
+  }
+  if (count !== undefined) {
+    issues.push({ code: 'spec.limit-conflict', path: ['harmonics'], problem: 'harmonics: both `count` and `bandwidth` are given, and they may disagree', expected: 'one of `count` or `bandwidth`', fix: 'keep the one your design states and delete the other' });
+    return undefined;
+  }
+  return { bandwidth: hz };
 }
 
 /** `captures.reading`: the capture reader's own rules check it, each mistake a spec issue. */

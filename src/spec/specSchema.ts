@@ -61,6 +61,7 @@ export const specFileSchema = z.strictObject({
   conditions: z.record(z.string(), condition).optional(),
   design: design.optional(),
   calibration: calibrationSchema.optional(),
+  harmonics: z.strictObject({ count: z.number().int().min(2).max(100_000).optional(), bandwidth: z.union([z.string(), z.number()]).optional() }).optional(),
 });
 
 export type SpecFile = z.infer<typeof specFileSchema>;
@@ -93,6 +94,9 @@ export const FIELD_EXPECTS: Readonly<Record<string, string>> = {
   expect: 'a map of output → measurement → limit',
   design: 'design values (timingCapacitance, chargeCurrent, swing, thresholds, rails, logic levels)',
   at: 'the name of a condition',
+  harmonics: 'the harmonics THD, SINAD and the other sums take: `count` (harmonics 1 to N) or `bandwidth` (e.g. "20 kHz"); every harmonic below Nyquist when absent',
+  count: 'a whole number of harmonics, 2 or more',
+  bandwidth: 'a frequency with its unit, e.g. "20 kHz"',
   output: 'the name of a spec output, e.g. triangle',
   ...CALIBRATION_EXPECTS,
 };

@@ -1,6 +1,7 @@
 /** The design spec after validation: plain readonly data, every value in SI units. */
 import type { DecisionRule, MeasurementId, ReadingSettings, Shape } from '../types/index.js';
 import type { CalibrationSection } from './calibrationTypes.js';
+import type { HarmonicSet } from '../analysis/index.js';
 
 /** Tolerance limits of one check; null means unbounded on that side. */
 export interface Limit {
@@ -82,6 +83,8 @@ export interface Spec {
   readonly calibration?: CalibrationSection;
   /** How to read this design's captures (`captures.reading`), under any flags or profile given. */
   readonly reading?: ReadingSettings;
+  /** The harmonics THD, SINAD and the other sums take, where the design states them (`harmonics:`). */
+  readonly harmonicSet?: HarmonicSet;
 }
 
 /** Name of the single condition of a spec that lists none. */
