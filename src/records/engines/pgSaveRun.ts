@@ -102,40 +102,40 @@ function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, stored
       run.toolVersion, verdict.decisionRule, verdict.statement, canonicalJson(verdict), canonicalJson(run.diagnosis), digest,
       placed.attempt, placed.attemptReason ?? null, placed.note ?? null],
   ).rows[0].id;
-  let seq = 0;
+  const checks: unknown[][] = [];
   for (const c of verdict.conditions) {
-    client.query('INSERT INTO condition_results (run_id, condition, statement) VALUES ($1, $2, $3)', [runId, c.condition, c.statement]);
     for (const k of c.checks) {
-      client.query(
-        `INSERT INTO checks (run_id, seq, condition, output, measurement, unit, value, expanded_uncertainty, lower, upper, nominal, guard, margin, statement, note)
-         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15)`,
-        [runId, seq++, k.condition, k.output, k.measurement, k.unit, k.value, k.expandedUncertainty, k.lower, k.upper, k.nominal, k.guard, k.margin, k.statement, k.note ?? null],
-      );
+      checks.push([runId, checks.length, k.condition, k.output, k.measurement, k.unit, k.value, k.expandedUncertainty, k.lower, k.upper, k.nominal, k.guard, k.margin, k.statement, k.note ?? null]);
     }
   }
-  run.diagnosis.causes.forEach((c, i) =>
-    client.query('INSERT INTO causes (run_id, rank, cause_id, title, score, evidence_json, confirm) VALUES ($1, $2, $3, $4, $5, $6, $7)', [runId, i + 1, c.id, c.title, c.score, JSON.stringify(c.evidence), c.confirm]),
-  );
-  captures.forEach((c, i) =>
-    client.query('INSERT INTO run_captures (run_id, seq, sha256, original_path, size, layout, condition) VALUES ($1, $2, $3, $4, $5, $6, $7)', [runId, i, c.sha256, c.path, c.size, c.layout, c.condition]),
-  );
-  insertMeasurements(client, runId, verdict);
+  insertRows(client, 'condition_results (run_id, condition, statement)', verdict.conditions.map((c) => [runId, c.condition, c.statement]));
+  insertRows(client, 'checks (run_id, seq, condition, output, measurement, unit, value, expanded_uncertainty, lower, upper, nominal, guard, margin, statement, note)', checks);
+  insertRows(client, 'causes (run_id, rank, cause_id, title, score, evidence_json, confirm)', run.diagnosis.causes.map((c, i) => [runId, i + 1, c.id, c.title, c.score, JSON.stringify(c.evidence), c.confirm]));
+  insertRows(client, 'run_captures (run_id, seq, sha256, original_path, size, layout, condition)', captures.map((c, i) => [runId, i, c.sha256, c.path, c.size, c.layout, c.condition]));
+  insertRows(client, 'measurements (run_id, capture_index, capture_sha256, channel_index, channel, measurement, value, uncertainty, unit, reason, method)', measurementRows(runId, verdict));
   return runId;
 }
 
-function insertMeasurements(client: PgSyncClient, runId: number, verdict: UnitVerdict): void {
+/** Up to 500 rows per INSERT: one round trip to the server instead of one per row. */
+function insertRows(client: PgSyncClient, into: string, rows: readonly (readonly unknown[])[]): void {
+  for (let at = 0; at < rows.length; at += 500) {
+    const part = rows.slice(at, at + 500);
+    const params: unknown[] = [];
+    const tuples = part.map((r) => `(${r.map((v) => `$${params.push(v)}`).join(', ')})`);
+    client.query(`INSERT INTO ${into} VALUES ${tuples.join(', ')}`, params);
+  }
+}
+
+function measurementRows(runId: number, verdict: UnitVerdict): unknown[][] {
+  const rows: unknown[][] = [];
   verdict.captures.forEach((capture, ci) => {
     capture.report.channels.forEach((channel, chi) => {
       for (const [id, m] of Object.entries(channel.measurements)) {
-        if (!m) continue;
-        client.query(
-          `INSERT INTO measurements (run_id, capture_index, capture_sha256, channel_index, channel, measurement, value, uncertainty, unit, reason, method)
-           VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
-          [runId, ci, capture.sha256, chi, channel.name, id, m.value, m.uncertainty, m.unit, m.reason ?? null, m.method ?? null],
-        );
+        if (m) rows.push([runId, ci, capture.sha256, chi, channel.name, id, m.value, m.uncertainty, m.unit, m.reason ?? null, m.method ?? null]);
       }
     });
   });
+  return rows;
 }
 
 function checkRun(run: NewRun): void {

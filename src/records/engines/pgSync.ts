@@ -1,8 +1,9 @@
 /**
  * A synchronous client for PostgreSQL, so the store's callers stay synchronous on both engines.
  * node-postgres (`pg`) only speaks asynchronously; it runs in a worker thread, and each call here
- * posts the request on a message port, then blocks on `Atomics.wait` over a SharedArrayBuffer until
- * the worker has posted its answer and notified, and takes the answer with `receiveMessageOnPort`
+ * posts the request to the worker, then blocks on `Atomics.wait` over a SharedArrayBuffer until the
+ * worker has posted its answer on a channel kept for answers and notified, and takes the answer from
+ * that channel with `receiveMessageOnPort`
  * (the pattern of the synckit package, written here in a few lines). Every wait is bounded: a server
  * that does not answer within the timeout ends the call with an error, never a hang.
  *
@@ -39,29 +40,30 @@ export interface PgSyncOptions {
 
 const WORKER_SOURCE = `
 const { parentPort, workerData } = require('node:worker_threads');
+const port = workerData.port;
 const pg = require(workerData.pgPath);
 const flag = new Int32Array(workerData.shared);
 let client;
-const answer = (port, body) => { port.postMessage(body); Atomics.store(flag, 0, 1); Atomics.notify(flag, 0); };
+const answer = (body) => { port.postMessage(body); Atomics.store(flag, 0, 1); Atomics.notify(flag, 0); };
 const failure = (err, kind) => ({ ok: false, message: String(err && err.message || err), code: err && err.code, kind });
-parentPort.on('message', async ({ port, op, sql, params }) => {
+parentPort.on('message', async ({ op, sql, params }) => {
   try {
     if (op === 'connect') {
       client = new pg.Client({ connectionString: workerData.url, connectionTimeoutMillis: workerData.connectTimeoutMs });
       // A connection lost between calls is reported at the next call, not thrown here.
       client.on('error', () => {});
       await client.connect();
-      answer(port, { ok: true });
+      answer({ ok: true });
     } else if (op === 'query') {
       const r = await client.query({ text: sql, values: params });
-      answer(port, { ok: true, rows: r.rows, rowCount: r.rowCount ?? 0 });
+      answer({ ok: true, rows: r.rows, rowCount: r.rowCount ?? 0 });
     } else if (op === 'end') {
       if (client) await client.end().catch(() => {});
-      answer(port, { ok: true });
+      answer({ ok: true });
     }
   } catch (err) {
     const server = err && typeof err.code === 'string' && /^[0-9A-Z]{5}$/.test(err.code) && err.severity !== undefined;
-    answer(port, failure(err, server ? 'server' : 'connection'));
+    answer(failure(err, server ? 'server' : 'connection'));
   }
 });
 `;
@@ -71,6 +73,8 @@ type Answer = { ok: true; rows?: unknown[]; rowCount?: number } | { ok: false; m
 export class PgSyncClient {
   private readonly worker: Worker;
   private readonly flag: Int32Array;
+  /** The one channel every answer comes back on, read synchronously with receiveMessageOnPort. */
+  private readonly answers: MessagePort;
   private readonly callTimeoutMs: number;
   private closed = false;
 
@@ -81,7 +85,9 @@ export class PgSyncClient {
     const shared = new SharedArrayBuffer(4);
     this.flag = new Int32Array(shared);
     const pgPath = createRequire(import.meta.url).resolve('pg');
-    this.worker = new Worker(WORKER_SOURCE, { eval: true, workerData: { shared, pgPath, url, connectTimeoutMs } });
+    const { port1, port2 } = new MessageChannel();
+    this.answers = port1;
+    this.worker = new Worker(WORKER_SOURCE, { eval: true, workerData: { shared, pgPath, url, connectTimeoutMs, port: port2 }, transferList: [port2] });
     // The worker must not keep a command alive once its work is done.
     this.worker.unref();
     try {
@@ -127,17 +133,16 @@ export class PgSyncClient {
 
   private terminate(): void {
     this.closed = true;
+    this.answers.close();
     void this.worker.terminate();
   }
 
   private call(op: string, sql: string | undefined, params: readonly unknown[] | undefined, timeoutMs: number): Answer & { ok: true } {
     if (this.closed) throw new PgCallError('the connection to the store is closed', undefined, 'connection');
-    const { port1, port2 } = new MessageChannel();
     Atomics.store(this.flag, 0, 0);
-    this.worker.postMessage({ port: port2, op, sql, params }, [port2 as unknown as MessagePort]);
+    this.worker.postMessage({ op, sql, params });
     const waited = Atomics.wait(this.flag, 0, 0, timeoutMs);
-    const got = receiveMessageOnPort(port1);
-    port1.close();
+    const got = receiveMessageOnPort(this.answers);
     if (!got) {
       // The worker may still be inside the call; it is not trusted with another one.
       this.terminate();
