@@ -4,6 +4,8 @@ export interface CliIo {
   readonly stderr: (s: string) => void;
   readonly stdoutIsTTY: boolean;
   readonly stderrIsTTY: boolean;
+  /** Columns of the terminal stdout writes to, when it is one. */
+  readonly stdoutColumns?: number;
   readonly env: Readonly<Record<string, string | undefined>>;
   readonly cwd: string;
 }
@@ -14,6 +16,7 @@ export function processIo(): CliIo {
     stderr: (s) => void process.stderr.write(s),
     stdoutIsTTY: Boolean(process.stdout.isTTY),
     stderrIsTTY: Boolean(process.stderr.isTTY),
+    stdoutColumns: process.stdout.columns,
     env: process.env,
     cwd: process.cwd(),
   };

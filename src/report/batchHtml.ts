@@ -4,11 +4,11 @@ import { STATEMENT_WORDS } from '../types/index.js';
 import { batchFilterText, describeWaiting, describeYield, unitFirst, unitLatest } from './batchMarkdown.js';
 import { esc, facts, htmlPage, numCell, statusHtml, table } from './htmlPage.js';
 import { renderHistogramSvg } from './svgHistogram.js';
-import { formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { formatIndex, formatStat, formatTime, measurementLabel } from './unitsSi.js';
 
 function statsRow(s: SpecBatch, m: MeasurementStats): string {
   const attrs = `data-spec="${esc(s.spec)}" data-condition="${esc(m.condition)}" data-output="${esc(m.output)}" data-measurement="${esc(m.measurement)}"`;
-  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatQuantity(m.mean, m.unit, 6))}${numCell(m.sd, formatQuantity(m.sd, m.unit, 3))}${numCell(m.min, formatQuantity(m.min, m.unit))}${numCell(m.max, formatQuantity(m.max, m.unit))}${numCell(m.lower, m.lower === null ? '—' : formatLimit(m.lower, m.unit))}${numCell(m.upper, m.upper === null ? '—' : formatLimit(m.upper, m.unit))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}<td class="note">${esc(m.notes.join('; '))}</td></tr>`;
+  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatStat(m.mean, m.unit, m.mean))}${numCell(m.sd, formatStat(m.sd, m.unit, m.mean, 3))}${numCell(m.min, formatStat(m.min, m.unit, m.mean))}${numCell(m.max, formatStat(m.max, m.unit, m.mean))}${numCell(m.lower, formatStat(m.lower, m.unit, m.mean))}${numCell(m.upper, formatStat(m.upper, m.unit, m.mean))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}<td class="note">${esc(m.notes.join('; '))}</td></tr>`;
 }
 
 function specSection(s: SpecBatch): string {

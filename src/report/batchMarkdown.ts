@@ -2,7 +2,7 @@
 import type { BatchReport, BatchUnit, SpecBatch, YieldFigure } from '../types/index.js';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import { md, mdTable, sourceLine } from './recordMarkdown.js';
-import { formatFraction, formatIndex, formatLimit, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { formatFraction, formatIndex, formatStat, formatTime, measurementLabel } from './unitsSi.js';
 
 export function describeYield(y: YieldFigure): string {
   const cond = y.conditional ? `, ${y.conditional} of them ${STATEMENT_WORDS['conditional-pass']}` : '';
@@ -36,8 +36,8 @@ function specBlock(s: SpecBatch): string {
   );
   const rows = s.measurements.map((m) => [
     md(m.condition), md(m.output), md(measurementLabel(m.measurement)), String(m.count),
-    md(formatQuantity(m.mean, m.unit, 6)), md(formatQuantity(m.sd, m.unit, 3)), md(formatQuantity(m.min, m.unit)), md(formatQuantity(m.max, m.unit)),
-    md(m.lower === null ? '—' : formatLimit(m.lower, m.unit)), md(m.upper === null ? '—' : formatLimit(m.upper, m.unit)), formatIndex(m.cp), formatIndex(m.cpk), md(m.notes.join('; ')),
+    md(formatStat(m.mean, m.unit, m.mean)), md(formatStat(m.sd, m.unit, m.mean, 3)), md(formatStat(m.min, m.unit, m.mean)), md(formatStat(m.max, m.unit, m.mean)),
+    md(formatStat(m.lower, m.unit, m.mean)), md(formatStat(m.upper, m.unit, m.mean)), formatIndex(m.cp), formatIndex(m.cpk), md(m.notes.join('; ')),
   ]);
   return [
     `## ${md(s.spec)}`,

@@ -9,6 +9,9 @@ import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/i
 import type { TextStyle } from './style.js';
 import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './unitsSi.js';
 import { renderCircuitView } from './circuitText.js';
+import { totalsLine } from './checkBrief.js';
+import { wrap } from './wrapText.js';
+import { INCOMPLETE_MARK, STATEMENT_MARKS } from './statementMarks.js';
 
 /** One checked unit: its verdict and the likely causes. This is what `check` prints, stores and reports. */
 export interface UnitCheck {
@@ -23,7 +26,8 @@ const RULE_WORDS: Readonly<Record<UnitVerdict['decisionRule'], string>> = {
 };
 
 export function renderCheckText(units: readonly UnitCheck[], style: TextStyle): string {
-  return units.map((u) => renderUnit(u, style)).join('\n');
+  const text = units.map((u) => renderUnit(u, style)).join('\n');
+  return units.length > 1 ? `${text}\n${totalsLine(units)}\n` : text;
 }
 
 function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string {
@@ -70,7 +74,7 @@ function table(checks: readonly CheckVerdict[], style: TextStyle): string[] {
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const pad = (cells: readonly string[]): string => cells.map((s, i) => s.padEnd(widths[i])).join('  ');
   const out = [`  ${style.dim(`${pad(head)}  statement`)}`];
-  rows.forEach((r, i) => out.push(`  ${pad(r)}  ${style.statement(checks[i].statement)}`));
+  rows.forEach((r, i) => out.push(`  ${pad(r)}  ${STATEMENT_MARKS[checks[i].statement]} ${style.statement(checks[i].statement)}`));
   // One line per distinct note (a clipped trace withholds several checks for the same reason).
   const notes = new Map<string, string[]>();
   for (const c of checks) if (c.note) notes.set(c.note, [...(notes.get(c.note) ?? []), c.measurement]);
@@ -102,29 +106,33 @@ function overallLine(verdict: UnitVerdict, style: TextStyle): string {
   const waiting = waitingConditions(verdict);
   if (waiting.length) {
     const soFar = verdict.soFar ?? verdict.statement;
-    return `${style.bold(verdict.unit)}: ${style.bold(INCOMPLETE_WORD)}, waiting for ${waiting.join(', ')}  ${style.dim(`(so far ${STATEMENT_WORDS[soFar]}: ${parts.join(', ')} of ${checks.length} checks captured)`)}`;
+    return `${style.bold(verdict.unit)}: ${INCOMPLETE_MARK} ${style.bold(INCOMPLETE_WORD)}, waiting for ${waiting.join(', ')}  ${style.dim(`(so far ${STATEMENT_WORDS[soFar]}: ${parts.join(', ')} of ${checks.length} checks captured)`)}`;
   }
-  return `${style.bold(verdict.unit)}: ${style.statement(verdict.statement)}  ${style.dim(`(${parts.join(', ')} of ${checks.length} checks)`)}`;
+  return `${style.bold(verdict.unit)}: ${STATEMENT_MARKS[verdict.statement]} ${style.statement(verdict.statement)}  ${style.dim(`(${parts.join(', ')} of ${checks.length} checks)`)}`;
 }
 
 /**
  * One line per unit, for checking a whole batch at once: the unit's statement, the count of checks
  * that did not pass, and the first likely cause. The full tables stay one `check` away.
  */
-export function renderCheckSummary(units: readonly UnitCheck[], style: TextStyle): string {
+export function renderCheckSummary(units: readonly UnitCheck[], style: TextStyle, columns = Number.POSITIVE_INFINITY): string {
   const width = Math.max(4, ...units.map((u) => u.verdict.unit.length));
   const lines = units.map(({ verdict, diagnosis }) => {
     const waiting = waitingConditions(verdict);
     const checks = verdict.conditions.flatMap((c) => c.checks).filter((k) => !k.waiting);
-    const off = checks.filter((c) => c.statement !== 'pass').length;
-    const word = waiting.length ? INCOMPLETE_WORD : STATEMENT_WORDS[verdict.statement];
-    const shown = waiting.length ? style.bold(INCOMPLETE_WORD) : style.statement(verdict.statement);
+    // A conditional pass is a pass (ILAC-G8:09/2019 §4.2.3), counted apart, never as "not passed".
+    const off = checks.filter((c) => c.statement !== 'pass' && c.statement !== 'conditional-pass').length;
+    const conditional = checks.filter((c) => c.statement === 'conditional-pass').length;
+    const word = `${waiting.length ? INCOMPLETE_MARK : STATEMENT_MARKS[verdict.statement]} ${waiting.length ? INCOMPLETE_WORD : STATEMENT_WORDS[verdict.statement]}`;
+    const shown = waiting.length ? `${INCOMPLETE_MARK} ${style.bold(INCOMPLETE_WORD)}` : `${STATEMENT_MARKS[verdict.statement]} ${style.statement(verdict.statement)}`;
+    const cond = conditional ? `, ${conditional} passed conditionally` : '';
     const first = diagnosis.causes[0];
     const cause = first ? `likely cause${waiting.length ? ' (preliminary)' : ''}: ${first.title}` : '';
     const counted = waiting.length
-      ? `waiting for ${waiting.join(', ')}; so far ${STATEMENT_WORDS[verdict.soFar ?? verdict.statement]}, ${off} of ${checks.length} checks not passed`
-      : `${off} of ${checks.length} checks not passed`;
-    return `${verdict.unit.padEnd(width)}  ${shown}${' '.repeat(Math.max(1, 13 - word.length))}${style.dim(counted)}${cause ? `  ${cause}` : ''}`;
+      ? `waiting for ${waiting.join(', ')}; so far ${STATEMENT_WORDS[verdict.soFar ?? verdict.statement]}, ${off} of ${checks.length} checks not passed${cond}`
+      : `${off} of ${checks.length} checks not passed${cond}`;
+    return `${verdict.unit.padEnd(width)}  ${shown}${' '.repeat(Math.max(1, 17 - word.length))}${style.dim(counted)}${cause ? `  ${cause}` : ''}`;
   });
-  return `${lines.join('\n')}\n`;
+  if (units.length > 1) lines.push(totalsLine(units));
+  return `${lines.flatMap((l) => wrap(l, columns, '', '    ')).join('\n')}\n`;
 }

@@ -47,6 +47,12 @@ export function formatLimits(lower: number | null, upper: number | null, unit: s
   return formatLimitsIn(lower, upper, unit, e);
 }
 
+/** Batch statistics of one measurement, all in the prefix of the mean so the columns compare: `digits` significant digits; `—` for null. */
+export function formatStat(v: number | null, unit: string, mean: number | null, digits = 6): string {
+  if (v === null || !Number.isFinite(v)) return '—';
+  return formatInPrefix(v, unit, prefixFor(mean ?? v, unit), digits);
+}
+
 /** A margin, always signed, in the prefix given or its own. */
 export function formatMargin(m: number | null, unit: string, exponent?: number): string {
   return m === null || !Number.isFinite(m) ? '—' : formatMarginIn(m, unit, exponent ?? prefixFor(m, unit));

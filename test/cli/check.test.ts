@@ -23,24 +23,24 @@ beforeAll(() => {
 
 describe('benchproof check on the demo captures', () => {
   it('exits 0 and prints PASS for a good unit', async () => {
-    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0101'), '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0101'), '--spec', SPEC, '--detail']);
     expect(r.stderr).toBe('');
-    expect(r.stdout).toContain('FK-0101: PASS');
+    expect(r.stdout).toContain('FK-0101: ✓ PASS');
     expect(r.code).toBe(0);
   });
 
   it('exits 1 for a unit with a large timing capacitor, naming it as the first likely cause', async () => {
-    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC, '--detail']);
     expect(r.code).toBe(1);
-    expect(r.stdout).toMatch(/frequency +61\.70\d+ Hz ± [\d.]+ Hz +64\.42\d+ Hz … 66\.39\d+ Hz +−2\.7\d Hz +FAIL/);
+    expect(r.stdout).toMatch(/frequency +61\.70\d+ Hz ± [\d.]+ Hz +64\.42\d+ Hz … 66\.39\d+ Hz +−2\.7\d Hz +✗ FAIL/);
     expect(r.stdout).toMatch(/Likely causes\n {2}1\. timing capacitor off its value/);
     expect(r.stdout).toMatch(/evidence: capacitance 4\.98\d* nF effective vs 4\.7 nF ± 5 % — consistent with a capacitor above its tolerance/);
     expect(r.stdout).toContain('the captures cannot tell it from: reference current off (both currents by the same ratio)');
-    expect(r.stdout).toContain('FK-0104: FAIL');
+    expect(r.stdout).toContain('FK-0104: ✗ FAIL');
   });
 
   it('shows the circuit view block with the back-computed figures when the spec has a design section', async () => {
-    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC, '--detail']);
     const block = r.stdout.slice(r.stdout.indexOf('Circuit view'), r.stdout.indexOf('Likely causes'));
     expect(block).toMatch(/ {2}mid\n {4}figure +from the captures +design +deviation\n/);
     expect(block).toMatch(/timing capacitance, I\/\(dV\/dt\) from both ramps +4\.98\d nF ± 0\.0\d+ nF +4\.7 nF ± 0\.24 nF \(5 %\) +\+[56]\.\d\d % outside/);
@@ -84,19 +84,19 @@ describe('benchproof check decisions and exit codes', () => {
   });
 
   it('reports a unit with conditions not captured yet as INCOMPLETE, and exits 1 when what was captured already failed', async () => {
-    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0104_mid.csv', '--spec', SPEC]);
+    const r = await runCli(['check', '--no-store', 'samples/captures/FK-0104_mid.csv', '--spec', SPEC, '--detail']);
     expect(r.code).toBe(1);
     expect(r.stdout).toContain('low  waiting for a capture: not checked yet');
-    expect(r.stdout).toMatch(/FK-0104: INCOMPLETE, waiting for low, high {2}\(so far FAIL: 2 failed/);
+    expect(r.stdout).toMatch(/FK-0104: … INCOMPLETE, waiting for low, high {2}\(so far FAIL: 2 failed/);
   });
 
   it('takes the unit and condition from --unit and --condition for a file named otherwise', async () => {
     const odd = join(dir, 'scope-export-07.csv');
     copyFileSync('samples/captures/FK-0101_mid.csv', odd);
     const spec = triangleSpec('mid-only.yaml', '        nominal: 261.63 Hz\n        tolerance: 1.5 %');
-    const r = await runCli(['check', '--no-store', odd, '--spec', spec, '--unit', 'FK-0107', '--condition', 'mid']);
+    const r = await runCli(['check', '--no-store', odd, '--spec', spec, '--unit', 'FK-0107', '--condition', 'mid', '--detail']);
     expect(r.code).toBe(0);
-    expect(r.stdout).toContain('FK-0107: PASS');
+    expect(r.stdout).toContain('FK-0107: ✓ PASS');
   });
 });
 

@@ -8,6 +8,7 @@ import type { ReadingFlags } from '../readingFlags.js';
 import { addReadingOptions, readingOptionsFrom } from '../readingFlags.js';
 import type { StoreFlags } from '../dataOptions.js';
 import { waitingConditions } from '../../types/index.js';
+import { terminalWidth } from '../terminalWidth.js';
 
 interface CheckOptions extends StoreFlags, ReadingFlags {
   spec: string;
@@ -15,6 +16,7 @@ interface CheckOptions extends StoreFlags, ReadingFlags {
   condition?: string;
   json?: boolean;
   summary?: boolean;
+  detail?: boolean;
   strict?: boolean;
   note?: string;
   newAttempt?: boolean;
@@ -35,6 +37,7 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
     .option('--condition <name>', 'condition of every capture, instead of the one in the file names')
     .option('--json', 'print one JSON document (schemaVersion 1) instead of tables')
     .option('--summary', 'one line per unit (statement, checks not passed, first likely cause) instead of the tables')
+    .option('--detail', 'every check in full tables, the notes, the evidence for each cause and the circuit view')
     .option('--strict', 'treat a conditional pass as a failure (exit 1)')
     .option('--note <text>', 'what was done to the unit before this check (a part replaced, a trimmer turned); starts a new test attempt')
     .option('--new-attempt', "start a new test attempt instead of continuing the unit's open one")
@@ -43,6 +46,7 @@ export function registerCheck(program: Command, ctx: CommandContext): Command {
       `
 Examples:
   benchproof check samples/captures/FK-0101_*.csv --spec samples/fh210-spec.yaml
+  benchproof check samples/captures/FK-0104_*.csv --spec samples/fh210-spec.yaml --detail --no-store
   benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --summary --no-store
   benchproof check samples/captures/FK-010*_*.csv --spec samples/fh210-spec.yaml --json
   benchproof check bench/scope-01.csv --spec samples/fh210-spec.yaml --unit FK-0107 --condition mid
@@ -63,7 +67,7 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       const readOptions = await readingOptionsFrom(ctx, opts);
       const startedAt = new Date().toISOString();
       // The stages load here, not at start-up: `benchproof --help` should not wait for them.
-      const [{ checkPlans, loadSpec, planFiles }, { createProgress }, { checkDocument, renderCheckSummary, renderCheckText }, { storeCheckedUnits }, companionsModule] = await Promise.all([
+      const [{ checkPlans, loadSpec, planFiles }, { createProgress }, { checkDocument, renderCheckBrief, renderCheckSummary, renderCheckText }, { storeCheckedUnits }, companionsModule] = await Promise.all([
         import('../checkRun.js'),
         import('../progress.js'),
         import('../../report/index.js'),
@@ -83,8 +87,11 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       // Every checked unit is stored by default, one transaction each; --no-store skips it.
       storeCheckedUnits(ctx, opts, units, startedAt, specText, { note, newAttempt: opts.newAttempt, sources: companions?.sources, specFile: opts.spec });
 
-      const render = opts.summary ? renderCheckSummary : renderCheckText;
-      ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : render(units, ctx.styleFor(cmd)));
+      // The default view fits the terminal (per unit a status line, what did not pass, the top causes).
+      const width = terminalWidth(ctx.io);
+      const style = ctx.styleFor(cmd);
+      const text = (): string => (opts.summary ? renderCheckSummary(units, style, width) : opts.detail ? renderCheckText(units, style) : renderCheckBrief(units, style, width));
+      ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : text());
       ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));
       flagConditional(ctx, spec, units, Boolean(opts.strict));
     });

@@ -1,0 +1,15 @@
+/**
+ * The width text output is fitted to: COLUMNS when set to a whole number (the shell's, or the user's
+ * own choice), else the terminal's width when stdout is one, else 80 columns, the classic terminal
+ * width (common practice, no source). Never below 40, where no table can be read anyway.
+ */
+import type { CliIo } from './io.js';
+
+export const DEFAULT_WIDTH = 80;
+const NARROWEST = 40;
+
+export function terminalWidth(io: CliIo): number {
+  const fromEnv = Number(io.env.COLUMNS);
+  const chosen = Number.isInteger(fromEnv) && fromEnv > 0 ? fromEnv : io.stdoutIsTTY && io.stdoutColumns ? io.stdoutColumns : DEFAULT_WIDTH;
+  return Math.max(NARROWEST, chosen);
+}
