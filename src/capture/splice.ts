@@ -15,8 +15,8 @@
  * or triangle at 8 or more points per period, with noise, hum, 8-bit steps or clipping, shows none
  * of these on its own (test/capture/splice.test.ts).
  *
- * Speed: this runs on every capture read, so long records are scanned in three passes, the last two
- * at every STRIDE-th sample with the exact place refined locally.
+ * Speed: this runs on every capture read, so long records are scanned in three passes at every
+ * STRIDE-th sample, each find placed exactly among the samples skipped.
  */
 
 export const SPLICE_RATIO = 6;
@@ -25,7 +25,9 @@ const BLOCK_SHARE = 0.6;
 const ELSEWHERE_SHARE = 0.03;
 /** Records longer than this are scanned at every STRIDE-th sample where the period allows. */
 const LONG = 1 << 16;
-const STRIDE = 4;
+const STRIDE = 16;
+/** Samples whose disagreement with the period before sets the typical level. */
+const PROBES = 1024;
 
 export interface Splice {
   /** Index of the first sample after the break. */
@@ -37,27 +39,41 @@ export interface Splice {
   readonly kind: 'step' | 'period';
 }
 
-/** The first splice found over the channels, or null. */
+/**
+ * The first splice found over the channels, or null. A splice breaks every channel at the same row,
+ * so the search stops at the first channel that repeats itself cleanly (a square wave, whose edges
+ * never line up exactly one period on, cannot tell, and the next channel is asked).
+ */
 export function findSplice(channels: readonly Float64Array[]): Splice | null {
   for (let c = 0; c < channels.length; c++) {
     const s = spliceIn(channels[c]);
+    if (s === CLEAN) return null;
     if (s) return { ...s, channel: c };
   }
   return null;
 }
 
-function spliceIn(x: Float64Array): Omit<Splice, 'channel'> | null {
+/** A channel that repeats itself everywhere: no splice, and no need to look at the others. */
+const CLEAN = 'clean';
+type Found = Omit<Splice, 'channel'> | typeof CLEAN | null;
+
+function spliceIn(x: Float64Array): Found {
   const n = x.length;
   if (n < 64) return null;
+  // Long records: the range from every STRIDE-th sample, and no step search of its own, since a
+  // step also stops the record repeating itself and the period search finds it.
+  const long = n > LONG;
+  const stride = long ? STRIDE : 1;
   let lo = Infinity;
   let hi = -Infinity;
   let big = 0;
   let second = 0;
   let at = -1;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < n; i += stride) {
     const v = x[i];
     if (v < lo) lo = v;
     if (v > hi) hi = v;
+    if (long) continue;
     const d = i > 0 ? Math.abs(v - x[i - 1]) : 0;
     if (d > big) {
       second = big;
@@ -72,30 +88,30 @@ function spliceIn(x: Float64Array): Omit<Splice, 'channel'> | null {
   return periodSplice(x, period, lo, hi);
 }
 
-function periodSplice(x: Float64Array, period: number, lo: number, hi: number): Omit<Splice, 'channel'> | null {
+function periodSplice(x: Float64Array, period: number, lo: number, hi: number): Found {
   const n = x.length;
   if (period < 8 || 3 * period > n) return null;
   const from = Math.ceil(period) + 1;
-  const miss = (i: number): number => {
-    const back = i - period;
-    const j = Math.floor(back);
-    return Math.abs(x[i] - (x[j] + (x[j + 1] - x[j]) * (back - j)));
-  };
-  // The typical disagreement from a few thousand evenly spread samples: a median needs no more.
-  const spread = Math.max(1, Math.floor((n - from) / 4096));
-  const probe: number[] = [];
-  for (let i = from; i < n; i += spread) probe.push(miss(i));
-  probe.sort((a, b) => a - b);
+  // x(i − P) between the samples c = ⌈P⌉ and c − 1 back, at the same fraction w for every i.
+  const c = Math.ceil(period);
+  const w = c - period;
+  const miss = (i: number): number => Math.abs(x[i] - (x[i - c] + (x[i - c + 1] - x[i - c]) * w));
+  // The typical disagreement from a thousand evenly spread samples: a median needs no more.
+  const spread = Math.max(1, Math.floor((n - from) / PROBES));
+  const probe = new Float64Array(Math.ceil((n - from) / spread));
+  for (let i = from, k = 0; i < n; i += spread) probe[k++] = miss(i);
+  probe.sort();
   const limit = Math.max(8 * probe[probe.length >> 1], 0.05 * (hi - lo));
   if (!(limit > 0)) return null;
-  const stride = n > LONG && period >= 8 * STRIDE ? STRIDE : 1;
+  // Long records are looked at some 32 times a period: a block of one period still shows plainly.
+  const stride = n > LONG ? Math.max(1, Math.floor(period / 32)) : 1;
   const len = Math.round(period);
   // Only the disagreeing samples are kept; more than a block and the allowance elsewhere means no splice.
   const most = Math.ceil((ELSEWHERE_SHARE * n + len) / stride) + 1;
   const hits = new Int32Array(most);
   let count = 0;
   for (let i = from; i < n; i += stride) {
-    if (!(miss(i) > limit)) continue;
+    if (!(Math.abs(x[i] - (x[i - c] + (x[i - c + 1] - x[i - c]) * w)) > limit)) continue;
     if (count === most) return null;
     hits[count++] = i;
   }
@@ -110,7 +126,7 @@ function periodSplice(x: Float64Array, period: number, lo: number, hi: number): 
     while (first - 1 >= Math.max(from, k - stride + 1) && miss(first - 1) > limit) first--;
     return { at: first, step: miss(first), kind: 'period' };
   }
-  return null;
+  return CLEAN;
 }
 
 /**

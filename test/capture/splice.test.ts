@@ -40,4 +40,14 @@ describe('findSplice', () => {
     findSplice([x]);
     expect(x).toEqual(copy);
   });
+
+  it('finds a joined tail in a long record (searched at every fourth sample) within a few samples, and nothing in a whole one', () => {
+    const long = synthesize({ shape: 'triangle', frequency: 261.63, amplitude: 3, sampleRate: 1e6, samples: 200_000, noise: 0.01, seed: 5 }).values;
+    expect(findSplice([long])).toBeNull();
+    for (const [at, lag, offset] of [[150_001, 1234, 0.5], [170_003, 777, 0], [120_002, 2000, -0.3]]) {
+      const spliced = Float64Array.from(long, (v, i) => (i < at ? v : long[i - lag] + offset));
+      const s = findSplice([spliced]);
+      expect(s !== null && s.at >= at && s.at <= at + 5, `splice at ${at}, found ${s?.at}`).toBe(true);
+    }
+  });
 });
