@@ -10,6 +10,7 @@ import { specFileSchema } from './specSchema.js';
 import { formatPath, fromZodIssues, lineOf, specError } from './specIssues.js';
 import type { SpecIssue } from './specIssues.js';
 import { resolveSpec } from './resolveSpec.js';
+import { yamlSyntaxIssues } from './yamlErrors.js';
 import type { Spec } from './specTypes.js';
 
 /**
@@ -36,19 +37,8 @@ export function parseSpec(text: string, file: string): Spec {
   const doc = parseDocument(text, { lineCounter: counter, uniqueKeys: false, logLevel: 'error' });
   const duplicates = doc.errors.length > 0 ? [] : duplicateKeys(doc, counter, file);
   if (duplicates.length > 0) throw specError(file, duplicates);
-  if (doc.errors.length > 0) {
-    throw specError(
-      file,
-      doc.errors.map((e) => ({
-        code: 'spec.syntax',
-        file,
-        line: e.linePos?.[0].line,
-        problem: `not valid YAML or JSON: ${e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '')}`,
-        expected: 'YAML (indented `key: value` lines) or JSON',
-        fix: 'correct the syntax at this line (check indentation, colons and closing brackets)',
-      })),
-    );
-  }
+  // In plain words with line and column, one problem per mistake (yamlErrors.ts).
+  if (doc.errors.length > 0) throw specError(file, yamlSyntaxIssues(text, doc.errors, file));
   const raw = specValue(doc, file);
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
     throw specError(file, [{ code: 'spec.not-a-map', file, line: 1, problem: 'the spec is not a map of fields', expected: 'a YAML map with name, revision, outputs …', fix: 'start from `benchproof spec init` or samples/fh210-spec.yaml' }]);

@@ -71,7 +71,7 @@ describe('benchproof spec init', () => {
     expect(init.stderr).toContain(`wrote ${out}: 2 outputs, 3 conditions`);
     expect(readFileSync(out, 'utf8')).toContain('pattern: "{unit}_{condition}.csv"');
     const good = await runCli(['check', ...unitFiles('FK-0101'), '--spec', out]);
-    expect(good.stdout).toContain('FK-0101: PASS');
+    expect(good.stdout).toMatch(/^✓ PASS {2}FK-0101 · /);
     expect(good.code).toBe(0);
     const faulty = await runCli(['check', ...unitFiles('FK-0104'), '--spec', out, '--json']);
     expect(faulty.code).toBe(1);
