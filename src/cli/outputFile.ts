@@ -17,7 +17,7 @@ import { closeSync, constants, fsyncSync, lstatSync, openSync, realpathSync, ren
 import type { Stats } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, relative, resolve } from 'node:path';
-import { BenchError } from '../types/index.js';
+import { BenchError, systemErrorWords } from '../types/index.js';
 import type { CommandContext } from './context.js';
 
 export interface OutputRules {
@@ -76,7 +76,7 @@ export function writeOutputFile(ctx: CommandContext, file: string, text: string,
     created = false;
   } catch (err) {
     if (err instanceof BenchError) throw err;
-    throw refusal(file, rules, 'output.cannot-write', `the file could not be written (${(err as { code?: string }).code ?? 'write error'})`, 'a file path in an existing folder this user may write to', `choose another ${rules.option} path, or create its folder first`);
+    throw refusal(file, rules, 'output.cannot-write', `the file could not be written: ${systemErrorWords((err as { code?: string }).code)}`, 'a file path in an existing folder this user may write to', `choose another ${rules.option} path, or create its folder first`);
   } finally {
     // Only the temporary this call created exclusively is ever removed.
     if (created) rmSync(temp, { force: true });
@@ -90,7 +90,7 @@ function realFolder(file: string, folder: string, rules: OutputRules): string {
     if (!statSync(real).isDirectory()) throw Object.assign(new Error('not a folder'), { code: 'ENOTDIR' });
     return real;
   } catch (err) {
-    throw refusal(file, rules, 'output.cannot-write', `the folder of the file cannot be used (${(err as { code?: string }).code ?? 'error'})`, 'a file path in an existing folder', `create the folder first, or choose another ${rules.option} path`);
+    throw refusal(file, rules, 'output.cannot-write', `the folder of the file cannot be used: ${systemErrorWords((err as { code?: string }).code)}`, 'a file path in an existing folder', `create the folder first, or choose another ${rules.option} path`);
   }
 }
 

@@ -8,7 +8,7 @@ import type { Command } from 'commander';
 import type { CommandContext } from './context.js';
 import { resolvePath } from './context.js';
 import type { ReadCaptureOptions, ReadingSettings } from '../types/index.js';
-import { BenchError } from '../types/index.js';
+import { BenchError, systemErrorWords } from '../types/index.js';
 import { parsePositive } from './options.js';
 
 export interface ReadingFlags {
@@ -51,7 +51,7 @@ export async function readingOptionsFrom(ctx: CommandContext, flags: ReadingFlag
       throw new BenchError({
         code: 'usage.profile-unreadable',
         file: flags.profile!,
-        problem: `cannot read the reading profile (${e.code ?? e.message})`,
+        problem: `cannot read the reading profile: ${e.code ? systemErrorWords(e.code) : e.message}`,
         expected: 'the path of a YAML reading profile',
         fix: 'check the path given to --profile',
       });

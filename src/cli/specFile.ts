@@ -5,7 +5,7 @@
  * blocking, so a FIFO with no writer cannot hang the command.
  */
 import { closeSync, constants, fstatSync, openSync, readSync } from 'node:fs';
-import { BenchError } from '../types/index.js';
+import { BenchError, systemErrorWords } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { resolvePath } from './context.js';
 
@@ -61,7 +61,7 @@ function unreadable(file: string, code: string, example: string): BenchError {
   return new BenchError({
     code: 'spec.unreadable',
     file,
-    problem: `cannot read the spec (${code})`,
+    problem: `cannot read the spec: ${code === 'read error' ? 'the file could not be read' : systemErrorWords(code)}`,
     expected: 'a readable YAML or JSON spec file',
     fix: `check the path, e.g. ${example}`,
   });

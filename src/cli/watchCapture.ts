@@ -15,7 +15,7 @@ import { createHash } from 'node:crypto';
 import { join, resolve } from 'node:path';
 import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
 import type { RecordStore } from '../records/index.js';
-import { BenchError, isBenchError, waitingConditions } from '../types/index.js';
+import { BenchError, isBenchError, systemErrorWords, waitingConditions } from '../types/index.js';
 import type { Statement, UnitVerdict, VerdictState } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { checkPlans, planFiles, runOf, worstStatement } from './checkRun.js';
@@ -176,7 +176,7 @@ function unreadableLanded(file: string, why: string): BenchError {
   return new BenchError({
     code: 'watch.unreadable',
     file,
-    problem: `the landed file cannot be read (${why === 'ELOOP' ? 'a symbolic link that loops' : why}); it was not recorded`,
+    problem: `the landed file cannot be read (${/^E[A-Z]+$/.test(why) ? systemErrorWords(why) : why}); it was not recorded`,
     expected: 'a capture file saved in the watched folder',
     fix: 'save the capture as a regular file in the folder (not a link or a device), then it is checked on landing',
   });

@@ -6,7 +6,6 @@ export type {
   CaptureLayout,
   CaptureReading,
   CaptureWarning,
-  ClipInfo,
   ColumnLayout,
   DecimalMark,
   Delimiter,
@@ -97,3 +96,4 @@ export {
   uncertaintyLabel,
 } from './quantityText.js';
 export type { Coverage, QuantityParts, TextOptions } from './quantityText.js';
+export { systemErrorWords } from './systemErrorWords.js';

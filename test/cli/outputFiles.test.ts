@@ -105,7 +105,7 @@ describe('report files (--out)', () => {
   it('refuses an output folder that does not exist with a usage error, not an internal one', async () => {
     const r = await runCli(['batch', '--data', data, '--out', join(root, 'no-such-folder', 'b.md')], inRoot);
     expect(r.code).toBe(2);
-    expect(r.stderr).toContain('--out: the folder of the file cannot be used (ENOENT)');
+    expect(r.stderr).toContain('--out: the folder of the file cannot be used: there is no file or folder at this path');
     expect(existsSync(join(root, 'no-such-folder'))).toBe(false);
   });
 });
