@@ -75,11 +75,18 @@ function resolveSteps(raw: unknown, kind: CalibrationLawKind, bad: Bad): Calibra
     // A plain word in a range calibration is a labelled knob position with no control value.
     return { index, label: control === null && typeof s === 'string' ? s.trim() : label, control: control?.value ?? null };
   });
-  const seen = new Set<string>();
+  // A label the user wrote is fixed by renaming; one taken from the control value means the value
+  // itself was entered twice, so the fix is the value (or removing the step), not a `label:`.
+  const written = list.map((s) => typeof obj(s).label === 'string');
+  const seen = new Map<string, number>();
   steps.forEach((s) => {
     const path = [...ROOT, 'steps', s.index];
-    if (seen.has(s.label.toLowerCase())) bad(path, `step label "${s.label}" is used twice`, 'a different label for each step', 'give the step its own `label:`', 'spec.duplicate-step');
-    seen.add(s.label.toLowerCase());
+    const first = seen.get(s.label.toLowerCase());
+    if (first !== undefined) {
+      if (written[s.index]) bad(path, `step label "${s.label}" is used twice (steps ${first + 1} and ${s.index + 1})`, 'a different label for each step', 'give this step its own `label:`', 'spec.duplicate-step');
+      else bad(path, `step ${s.index + 1} repeats step ${first + 1} ("${s.label}")`, 'each control value once, in the order the steps are taken', `change step ${s.index + 1} to the control value it is taken at, or delete it if it was entered twice`, 'spec.duplicate-step');
+    }
+    if (first === undefined) seen.set(s.label.toLowerCase(), s.index);
     if (kind !== 'range' && s.control === null) bad(path, `step "${s.label}" has no control value, which a ${kind} law needs`, 'a control value such as "2 V"', 'add `control:` to the step', 'spec.missing-field');
   });
   if (kind !== 'range' && new Set(steps.map((s) => s.control)).size < 2 && steps.length >= 2) {
