@@ -24,7 +24,7 @@ describe('a duplicated calibration step', () => {
     const r = await runCli(['spec', 'validate', specWith('[0 V, 1 V, 2 V, 2 V, 4 V, 5 V]'), '--json']);
     expect(r.code).toBe(2);
     const issue = (JSON.parse(r.stderr) as { error: { issues: { code: string; problem: string; fix: string }[] } }).error.issues.find((i) => i.code === 'spec.duplicate-step')!;
-    expect(issue.problem).toBe('calibration.steps[3]: step 4 repeats step 3 ("2 V")');
+    expect(issue.problem).toBe('calibration.steps[3]: step 4 repeats step 3 ("2")');
     expect(issue.fix).toBe('change step 4 to the control value it is taken at, or delete it if it was entered twice');
     expect(issue.fix).not.toContain('label');
   });
