@@ -1,6 +1,5 @@
 /** The Capture built from the rows read: time base, channels with their checks, warnings, provenance. */
 import type { Capture, CaptureChannel, CaptureReading, CaptureWarning, ReadCaptureOptions } from '../types/index.js';
-import { detectClipping } from './clipping.js';
 import { captureError } from './errors.js';
 import type { SampleLines } from './lines.js';
 import type { MetadataTiming } from './metadata.js';
@@ -102,11 +101,6 @@ function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Arr
       message: `${invalidCount} invalid sample(s) in ${layout.name} (empty, NaN, infinite or overflow markers) are kept as gaps, first on line ${firstInvalidLine}`,
     });
   }
-  const clipped = detectClipping(samples);
-  if (clipped) {
-    const where = [clipped.high ? `${clipped.high} at the top` : '', clipped.low ? `${clipped.low} at the bottom` : ''].filter(Boolean).join(' and ');
-    warnings.push({ code: 'clipped', channel: layout.name, message: `${layout.name} is clipped: ${where} of the record sit pinned at its extreme; levels there are not measured` });
-  }
   return {
     name: layout.name,
     unit: layout.siUnit,
@@ -114,7 +108,6 @@ function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Arr
     samples,
     invalidCount,
     ...(firstInvalidLine !== undefined ? { firstInvalidLine } : {}),
-    ...(clipped ? { clipped } : {}),
   };
 }
 

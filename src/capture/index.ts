@@ -28,12 +28,11 @@
  *   capture.resample-too-large    time steps so uneven that the median-step grid would explode
  *   capture.too-large             more than 2^28 samples (2 GiB) over the kept channels
  *
- * Capture warning codes: invalid-samples, clipped, resampled, footer, option-ignored,
+ * Capture warning codes: invalid-samples, resampled, footer, option-ignored,
  * interval-mismatch, record-length-mismatch, time-rebuilt, dropouts, clock-times, segments, spliced,
  * raw-counts.
  */
 export { readCapture } from './readCapture.js';
-export { detectClipping } from './clipping.js';
 export { readCaptureLines } from './readCapture.js';
 export { inspectCapture, inspectFailure } from './inspect.js';
 export type { FailedInspection, Inspection, InspectedLine, LineRole } from './inspect.js';

@@ -96,13 +96,6 @@ export interface CaptureWarning {
   readonly channel?: string;
 }
 
-export interface ClipInfo {
-  /** Samples pinned at the top of the record's range. */
-  readonly high: number;
-  /** Samples pinned at the bottom of the record's range. */
-  readonly low: number;
-}
-
 export interface CaptureChannel {
   readonly name: string;
   /** SI unit of the samples (`V`, `A`, or '' when unknown). */
@@ -115,8 +108,6 @@ export interface CaptureChannel {
   readonly invalidCount: number;
   /** 1-based file line of the first invalid sample, when there is one. */
   readonly firstInvalidLine?: number;
-  /** Set when runs of samples sit pinned at the record's extremes. */
-  readonly clipped?: ClipInfo;
   /**
    * The channel's full-scale limits in SI units, when the capture states them (e.g. from the vertical
    * range and offset in a preamble); analysis tells the scope's clipping from circuit saturation by them.

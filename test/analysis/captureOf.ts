@@ -1,12 +1,11 @@
 /** Wraps synthesized signals into a Capture, as the reader would hand it to measureCapture. */
-import type { Capture, CaptureChannel, ClipInfo } from '../../src/types/index.js';
+import type { Capture, CaptureChannel } from '../../src/types/index.js';
 import type { SynthSignal } from '../../src/synth/index.js';
 import { plainLayout } from '../helpers/plainLayout.js';
 
 export interface ChannelSpec {
   readonly name?: string;
   readonly unit?: string;
-  readonly clipped?: ClipInfo;
   /** Full-scale limits the capture states for the channel. */
   readonly fullScale?: { readonly low: number; readonly high: number };
 }
@@ -20,7 +19,6 @@ export function channelOf(signal: SynthSignal, spec: ChannelSpec = {}): CaptureC
     displayUnit: spec.unit ?? 'V',
     samples: signal.values,
     invalidCount: invalid,
-    ...(spec.clipped ? { clipped: spec.clipped } : {}),
     ...(spec.fullScale ? { fullScale: spec.fullScale } : {}),
   };
 }

@@ -4,6 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fileURLToPath } from 'node:url';
+import { measureCapture } from '../../src/analysis/index.js';
 import { readCapture } from '../../src/capture/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
@@ -63,15 +64,14 @@ describe('readCapture on hand-made fixtures', () => {
     expect(c.warnings.filter((w) => w.code === 'invalid-samples').map((w) => [w.channel, w.line])).toEqual([['CH1', 9], ['CH2', 15]]);
   });
 
-  it('flags the clipped top of an 8-bit triangle but not its quantised, unclipped bottom', async () => {
+  it('reads the flat top of an 8-bit triangle as it is, leaving the judgement to the analysis, which finds it on the top only', async () => {
     const c = await readCapture(fixture('clipped_triangle.csv'));
-    const ch = c.channels[0];
-    expect(ch.clipped).toBeDefined();
-    expect(ch.clipped!.low).toBe(0);
+    expect(c.warnings).toEqual([]);
+    const tops = measureCapture(c).channels[0].flatTops ?? [];
+    expect(tops.map((t) => t.side)).toEqual(['high']);
     // Two peaks in the 8 ms record (at T/2 and 3T/2). Codes that round to ≥ 2.55 V start at 32.5 LSB
     // = 2.539 V, so each peak spends 2·(3 − 2.539 V)/(3139.6 V/s) = 294 µs = 14.7 samples pinned (closed form).
-    expectWithin(ch.clipped!.high, 29.4, { abs: 2 }, 'closed form: time a triangle spends above a level');
-    expect(c.warnings.map((w) => w.code)).toEqual(['clipped']);
+    expectWithin(tops[0].samples, 29.4, { abs: 2 }, 'closed form: time a triangle spends above a level');
   });
 
   it('ignores a footer line after the data with a warning naming it', async () => {

@@ -28,11 +28,7 @@ export function captureOf(path: string, channels: readonly SignalChannel[]): Cap
     startTime: t0,
     sampleInterval: dt,
     length: values.length,
-    // The synthesizer knows where it clamped, so the pinned samples are flagged from that truth.
-    channels: channels.map((c) => {
-      const high = c.clipHigh === undefined ? 0 : c.signal.values.filter((v) => v >= c.clipHigh!).length;
-      return { name: c.name, unit: 'V', displayUnit: 'V', samples: c.signal.values, invalidCount: 0, ...(high > 0 ? { clipped: { high, low: 0 } } : {}) };
-    }),
+    channels: channels.map((c) => ({ name: c.name, unit: 'V', displayUnit: 'V', samples: c.signal.values, invalidCount: 0 })),
     warnings: [],
   };
 }
