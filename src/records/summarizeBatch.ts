@@ -90,6 +90,8 @@ function yieldOf(statements: readonly Statement[]): YieldFigure {
 interface Gathered {
   readonly limits: CheckVerdict;
   readonly values: { unit: string; value: number; runId: number }[];
+  /** Expanded uncertainty U (k = 2) of each value that has one. */
+  readonly expanded: number[];
   withheld: number;
   limitsDiffer: boolean;
 }
@@ -101,10 +103,13 @@ function measurementStats(latestRuns: readonly StoredRun[]): MeasurementStats[] 
   for (const run of newestFirst) {
     for (const check of run.verdict.conditions.flatMap((c) => c.checks)) {
       const key = JSON.stringify([check.condition, check.output, check.measurement]);
-      const g = byKey.get(key) ?? { limits: check, values: [], withheld: 0, limitsDiffer: false };
+      const g = byKey.get(key) ?? { limits: check, values: [], expanded: [], withheld: 0, limitsDiffer: false };
       if (check.lower !== g.limits.lower || check.upper !== g.limits.upper) g.limitsDiffer = true;
       if (check.value === null) g.withheld += 1;
-      else g.values.push({ unit: run.unit, value: check.value, runId: run.id });
+      else {
+        g.values.push({ unit: run.unit, value: check.value, runId: run.id });
+        if (check.expandedUncertainty !== null && check.expandedUncertainty > 0) g.expanded.push(check.expandedUncertainty);
+      }
       byKey.set(key, g);
     }
   }
@@ -115,8 +120,12 @@ function statsOf(g: Gathered): MeasurementStats {
   const { limits } = g;
   const values = [...g.values].sort((a, b) => compareSerials(a.unit, b.unit));
   const sample = describeSample(values.map((v) => v.value));
+  // A spread smaller than one value's standard uncertainty u = U/2 (GUM §6.2.1) is the measurement's
+  // own scatter or its resolution, not the units': Cp/Cpk from it would be meaningless (common practice).
+  const u = medianOf(g.expanded) / 2;
+  const belowU = sample.sd !== null && sample.sd > 0 && u > 0 && sample.sd < u;
   const cap =
-    sample.mean !== null && sample.sd !== null
+    sample.mean !== null && sample.sd !== null && !belowU
       ? capability({ mean: sample.mean, sd: sample.sd, lower: limits.lower, upper: limits.upper })
       : { cp: null, cpu: null, cpl: null, cpk: null };
   return {
@@ -130,9 +139,20 @@ function statsOf(g: Gathered): MeasurementStats {
     ...sample,
     withheld: g.withheld,
     ...cap,
-    notes: notesFor(g, sample.count, sample.sd),
+    notes: belowU ? [...notesFor(g, sample.count, sample.sd).filter((n) => !n.includes('rough')), spreadNote(sample.sd!, u, limits.unit)] : notesFor(g, sample.count, sample.sd),
     values,
   };
+}
+
+function medianOf(xs: readonly number[]): number {
+  if (xs.length === 0) return 0;
+  const s = [...xs].sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+}
+
+function spreadNote(sd: number, u: number, unit: string): string {
+  const q = (x: number): string => `${Number(x.toPrecision(2))}${unit ? ` ${unit}` : ''}`;
+  return `spread between units (s = ${q(sd)}) below the measurement's standard uncertainty (u = ${q(u)}): no Cp/Cpk, they would describe the measurement, not the units`;
 }
 
 function notesFor(g: Gathered, count: number, sd: number | null): string[] {
