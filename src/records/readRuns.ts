@@ -9,7 +9,7 @@ import type { AttemptReason, RunKind, Statement, StoredCapture, StoredRun } from
 import { CanonicalText, runDigest } from './digest.js';
 import { parseDiagnosis, parseVerdict } from './rowShape.js';
 
-interface RunRow {
+export interface RunRow {
   id: number;
   unit: string;
   kind: string;
@@ -107,7 +107,8 @@ function capturesByRun(db: Database, runs: readonly RunRow[]): Map<number, Store
   return out;
 }
 
-function toStoredRun(row: RunRow, captures: readonly StoredCapture[]): StoredRun | DamagedRow {
+/** One stored row as a run, re-hashed against its digest (either engine's row). */
+export function toStoredRun(row: RunRow, captures: readonly StoredCapture[]): StoredRun | DamagedRow {
   const verdict = parseVerdict(row.verdict_json);
   const diagnosis = parseDiagnosis(row.diagnosis_json);
   const unit = String(row.unit);

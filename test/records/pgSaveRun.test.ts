@@ -11,6 +11,8 @@ import { fileURLToPath } from 'node:url';
 import { PgSyncClient } from '../../src/records/engines/pgSync.js';
 import { applyPgMigrations } from '../../src/records/engines/pgSchema.js';
 import { pgSaveRun } from '../../src/records/engines/pgSaveRun.js';
+import { pgReadRunRows } from '../../src/records/engines/pgRuns.js';
+import type { StoredRun } from '../../src/types/index.js';
 import { CHAIN_START, chainLink, openStore } from '../../src/records/index.js';
 import { kestrelRun } from './fixtures/kestrelRun.js';
 import { exited } from './helpers/children.js';
@@ -59,6 +61,34 @@ describe.skipIf(skip !== undefined)('pgSaveRun', () => {
       expect(verifyChain(c)).toBe(3);
       const head = c.query<{ link: string }>('SELECT link FROM chain ORDER BY seq DESC LIMIT 1').rows[0].link;
       expect(head).toBe(local.chainHead());
+    } finally {
+      local.close();
+      c.close();
+      removeTempDir(dir);
+    }
+  });
+
+  it('pgReadRunRows reads back the runs the embedded store reads for the same saves, and marks a run changed behind the store', () => {
+    const url = cluster.createDatabase('readback');
+    const c = new PgSyncClient(url);
+    const dir = makeTempDir();
+    const local = openStore(dir);
+    try {
+      applyPgMigrations(c, 'test');
+      for (const [unit, minute] of [['FK-0103', 0], ['FK-0104', 5], ['FK-0103', 10]] as const) {
+        const run = kestrelRun({ unit, startedAt: `2026-12-05T10:${String(minute).padStart(2, '0')}:00Z`, seed: 11 + minute });
+        local.saveRun(run);
+        pgSaveRun(c, run);
+      }
+      // What the record shows does not depend on the engine: ids, storing times and archive places aside.
+      const shape = (r: StoredRun): unknown => ({ ...r, id: 0, storedAt: '', captures: r.captures.map((k) => ({ ...k, archivePath: '' })) });
+      const fromPg = pgReadRunRows(c, { unit: 'FK-0103' });
+      expect(fromPg.damaged).toEqual([]);
+      expect(fromPg.runs.map(shape)).toEqual(local.runs({ unit: 'FK-0103' }).map(shape));
+      expect(fromPg.runs.every((r) => r.intact)).toBe(true);
+      cluster.psql("SET session_replication_role = replica; UPDATE runs SET operator = 'someone else' WHERE unit = 'FK-0104'", 'readback');
+      const after = pgReadRunRows(c).runs;
+      expect(after.map((r) => [r.unit, r.intact])).toEqual([['FK-0103', true], ['FK-0104', false], ['FK-0103', true]]);
     } finally {
       local.close();
       c.close();
