@@ -32,6 +32,7 @@ function iterationMarkdown(s: StoredCalibrationIteration): string {
   return [
     title,
     `${formatTime(s.startedAt)}, ${md(s.operator)}, ${md(s.station)}: ${md(outcomeText(it))}`,
+    it.note !== undefined ? `What was done before it: ${md(it.note)}` : '',
     figures.join('\n'),
     guidance.length ? `Trim guidance:\n\n${guidance.join('\n')}` : '',
     ...it.notes.map((n) => `_${md(n)}_`),

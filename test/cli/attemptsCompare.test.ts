@@ -57,6 +57,9 @@ describe('a calibration between two checks', () => {
     expect(cal.stderr).toContain('next: re-check the unit: capture it at every condition, then benchproof check FK-0104_low.csv FK-0104_mid.csv FK-0104_high.csv --spec samples/fh210-spec.yaml');
     const md = await runCli(['record', 'FK-0104', '--data', data]);
     expect(md.stdout).toMatch(/The unit met its calibration limits on .+, after its latest check: the status above predates the trim; re-check the unit/);
+    expect(md.stdout).toContain('What was done before it: scale trimmer turned');
+    const html = await runCli(['record', 'FK-0104', '--format', 'html', '--data', data]);
+    expect(html.stdout).toContain('<p class="attempt-note">What was done before it: scale trimmer turned</p>');
     // The attempt waiting for low and high is closed by the calibration: the next check starts attempt #2.
     const again = await runCli(['check', 'samples/captures/FK-0104_low.csv', '--spec', SPEC, '--data', data]);
     expect(again.stderr).toContain('stored run 2 of FK-0104, attempt #2 (');
