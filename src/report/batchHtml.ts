@@ -4,11 +4,11 @@ import { STATEMENT_WORDS } from '../types/index.js';
 import { batchFilterText, describeWaiting, describeYield, unitFirst, unitLatest } from './batchMarkdown.js';
 import { esc, facts, htmlPage, numCell, statusHtml, table } from './htmlPage.js';
 import { renderHistogramSvg } from './svgHistogram.js';
-import { formatIndex, formatStat, formatTime, measurementLabel } from './unitsSi.js';
+import { formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './unitsSi.js';
 
 function statsRow(s: SpecBatch, m: MeasurementStats): string {
   const attrs = `data-spec="${esc(s.spec)}" data-condition="${esc(m.condition)}" data-output="${esc(m.output)}" data-measurement="${esc(m.measurement)}"`;
-  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatStat(m.mean, m.unit, m.mean))}${numCell(m.sd, formatStat(m.sd, m.unit, m.mean, 3))}${numCell(m.min, formatStat(m.min, m.unit, m.mean))}${numCell(m.max, formatStat(m.max, m.unit, m.mean))}${numCell(m.lower, formatStat(m.lower, m.unit, m.mean))}${numCell(m.upper, formatStat(m.upper, m.unit, m.mean))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}<td class="note">${esc(m.notes.join('; '))}</td></tr>`;
+  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatStat(m.mean, m.unit, scaleOf(m)))}${numCell(m.sd, formatStat(m.sd, m.unit, scaleOf(m), 3))}${numCell(m.min, formatStat(m.min, m.unit, scaleOf(m)))}${numCell(m.max, formatStat(m.max, m.unit, scaleOf(m)))}${numCell(m.lower, formatStat(m.lower, m.unit, scaleOf(m)))}${numCell(m.upper, formatStat(m.upper, m.unit, scaleOf(m)))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}</tr>${m.notes.length ? `<tr class="stat-notes"><td></td><td colspan="11" class="note">${esc(m.notes.join('; '))}</td></tr>` : ''}`;
 }
 
 function specSection(s: SpecBatch): string {
@@ -16,7 +16,7 @@ function specSection(s: SpecBatch): string {
     ['unit', 'runs', 'first pass', 'latest', 'last tested'],
     s.units.map((u) => `<tr><td>${esc(u.unit)}</td>${numCell(u.runs, String(u.runs))}<td>${u.firstComplete ? statusHtml(u.firstComplete) : esc(unitFirst(u))}</td><td>${u.state === 'incomplete' ? esc(unitLatest(u)) : statusHtml(u.latest)}</td><td>${esc(formatTime(u.lastTestedAt))}</td></tr>`),
   );
-  const stats = table(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk', 'notes'], s.measurements.map((m) => statsRow(s, m)));
+  const stats = table(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk'], s.measurements.map((m) => statsRow(s, m)));
   const hists = s.measurements
     .map((m) => {
       const title = `${m.condition} · ${m.output} · ${measurementLabel(m.measurement)}`;

@@ -2,7 +2,7 @@
 import type { BatchReport, BatchUnit, SpecBatch, YieldFigure } from '../types/index.js';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import { md, mdTable, sourceLine } from './recordMarkdown.js';
-import { formatFraction, formatIndex, formatStat, formatTime, measurementLabel } from './unitsSi.js';
+import { formatFraction, formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './unitsSi.js';
 
 export function describeYield(y: YieldFigure): string {
   const cond = y.conditional ? `, ${y.conditional} of them ${STATEMENT_WORDS['conditional-pass']}` : '';
@@ -36,8 +36,8 @@ function specBlock(s: SpecBatch): string {
   );
   const rows = s.measurements.map((m) => [
     md(m.condition), md(m.output), md(measurementLabel(m.measurement)), String(m.count),
-    md(formatStat(m.mean, m.unit, m.mean)), md(formatStat(m.sd, m.unit, m.mean, 3)), md(formatStat(m.min, m.unit, m.mean)), md(formatStat(m.max, m.unit, m.mean)),
-    md(formatStat(m.lower, m.unit, m.mean)), md(formatStat(m.upper, m.unit, m.mean)), formatIndex(m.cp), formatIndex(m.cpk), md(m.notes.join('; ')),
+    md(formatStat(m.mean, m.unit, scaleOf(m))), md(formatStat(m.sd, m.unit, scaleOf(m), 3)), md(formatStat(m.min, m.unit, scaleOf(m))), md(formatStat(m.max, m.unit, scaleOf(m))),
+    md(formatStat(m.lower, m.unit, scaleOf(m))), md(formatStat(m.upper, m.unit, scaleOf(m))), formatIndex(m.cp), formatIndex(m.cpk), md(m.notes.join('; ')),
   ]);
   return [
     `## ${md(s.spec)}`,

@@ -51,13 +51,20 @@ export function renderHistogramSvg(h: HistogramInput): string {
     const w = Math.max(1.5, x1 - x0 - 1);
     parts.push(`<rect x="${n2(x0 + 0.5)}" y="${n2(frame.y(c))}" width="${n2(w)}" height="${n2(frame.y(0) - frame.y(c))}" fill="${TRACE}" fill-opacity="0.75" stroke="${INK}" stroke-width="0.5"><title>${c}</title></rect>`);
   });
-  const vline = (v: number, label: string, color: string, dash: string): string => {
-    const px = n2(frame.x(v));
-    return `<line x1="${px}" y1="${frame.top}" x2="${px}" y2="${frame.bottom}" stroke="${color}" stroke-width="1.4"${dash ? ` stroke-dasharray="${dash}"` : ''}/><text x="${px}" y="${frame.top - 4}" text-anchor="middle" fill="${color}">${esc(label)}</text>`;
+  // Limit names sit above the frame; the mean's name sits inside it, beside its line, so a mean close to
+  // a limit never prints over that limit's name.
+  const vline = (v: number, label: string, color: string, dash: string, inside = false): string => {
+    const x = frame.x(v);
+    const px = n2(x);
+    const nearRight = x > (frame.left + frame.right) / 2;
+    const text = inside
+      ? `<text x="${n2(nearRight ? x - 3 : x + 3)}" y="${frame.top + 12}" text-anchor="${nearRight ? 'end' : 'start'}" fill="${color}">${esc(label)}</text>`
+      : `<text x="${px}" y="${frame.top - 4}" text-anchor="middle" fill="${color}">${esc(label)}</text>`;
+    return `<line x1="${px}" y1="${frame.top}" x2="${px}" y2="${frame.bottom}" stroke="${color}" stroke-width="1.4"${dash ? ` stroke-dasharray="${dash}"` : ''}/>${text}`;
   };
   if (h.lower !== null) parts.push(vline(h.lower, 'LSL', INK, ''));
   if (h.upper !== null) parts.push(vline(h.upper, 'USL', INK, ''));
-  if (h.mean !== null) parts.push(vline(h.mean, 'mean', MARK, '4 3'));
+  if (h.mean !== null) parts.push(vline(h.mean, 'mean', MARK, '4 3', true));
   parts.push('</svg>');
   return parts.join('');
 }

@@ -47,7 +47,13 @@ export function formatLimits(lower: number | null, upper: number | null, unit: s
   return formatLimitsIn(lower, upper, unit, e);
 }
 
-/** Batch statistics of one measurement, all in the prefix of the mean so the columns compare: `digits` significant digits; `—` for null. */
+/** The magnitude that sets one prefix for a row of batch statistics: the largest of its limits and values. */
+export function scaleOf(m: { mean: number | null; min: number | null; max: number | null; lower: number | null; upper: number | null }): number | null {
+  const xs = [m.mean, m.min, m.max, m.lower, m.upper].filter((x): x is number => x !== null && Number.isFinite(x)).map(Math.abs);
+  return xs.length ? Math.max(...xs) : null;
+}
+
+/** Batch statistics of one measurement, all in one prefix (from `scaleOf`) so the columns compare: `digits` significant digits; `—` for null. */
 export function formatStat(v: number | null, unit: string, mean: number | null, digits = 6): string {
   if (v === null || !Number.isFinite(v)) return '—';
   return formatInPrefix(v, unit, prefixFor(mean ?? v, unit), digits);
