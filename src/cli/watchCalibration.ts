@@ -8,13 +8,17 @@ import type { CaptureHandlerFactory } from './watchCapture.js';
 import { calibrateCapture } from './calibrateRun.js';
 import type { CalibrationFlags, CalibrationSession } from './calibrateRun.js';
 
-export function calibrateEachCapture(unit: string, flags: CalibrationFlags, label?: string): CaptureHandlerFactory {
+export function calibrateEachCapture(unit: string, flags: CalibrationFlags, label?: string, note?: string): CaptureHandlerFactory {
   return (env) => {
-    const session: CalibrationSession = { spec: env.spec, specText: env.specText, unit, timing: env.timing, flags, steps: new Map(), ...(label ? { label } : {}) };
+    const steps = new Map();
+    // The note says what was done before this session: it goes with the first iteration stored.
+    let noteLeft = note;
     return async (file) => {
       try {
+        const session: CalibrationSession = { spec: env.spec, specText: env.specText, unit, timing: env.timing, flags, steps, ...(label ? { label } : {}), ...(noteLeft !== undefined ? { note: noteLeft } : {}) };
         const out = await calibrateCapture(env.ctx, session, file);
         const it = out.iteration;
+        if (it) noteLeft = undefined;
         return {
           status: 'calibration-step',
           file,

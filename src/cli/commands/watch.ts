@@ -72,7 +72,7 @@ Ctrl-C (or SIGTERM) stops after the file in hand and prints a summary; exit stat
       const attempt = note !== undefined || opts.newAttempt ? { ...(note !== undefined ? { note } : {}), ...(opts.newAttempt ? { newAttempt: true } : {}) } : undefined;
       const timing = { sampleRate: parsePositive('--sample-rate', opts.sampleRate), interval: parsePositive('--interval', opts.interval) };
       const { runWatchSession } = await import('../watchSession.js');
-      const onCapture = opts.calibrate ? (await import('../watchCalibration.js')).calibrateEachCapture(requireUnit(opts.unit), opts, opts.iteration) : undefined;
+      const onCapture = opts.calibrate ? (await import('../watchCalibration.js')).calibrateEachCapture(requireUnit(opts.unit), opts, opts.iteration, note) : undefined;
       const stop = stopOnSignals();
       try {
         await runWatchSession(
