@@ -23,7 +23,7 @@ afterEach(() => removeTempDir(root));
 describe('watch --calibrate', { timeout: 180_000 }, () => {
   it('places each landed capture at its step and stores the full set as one iteration with guidance', async () => {
     const data = join(root, 'data');
-    const s = startSession(root, { onCapture: calibrateEachCapture('FK-0104', { data }, 'as built') });
+    const s = startSession(root, { onCapture: calibrateEachCapture('FK-0104', { data }, 'as built', 'R12 replaced') });
     await s.ready;
     const files = readdirSync('samples/calibration/before').sort();
     for (const [i, f] of files.entries()) {
@@ -41,6 +41,7 @@ describe('watch --calibrate', { timeout: 180_000 }, () => {
       expect(runs[0].iterations).toHaveLength(1);
       expect(runs[0].iterations[0].result.steps).toHaveLength(6);
       expect(runs[0].iterations[0].captures).toHaveLength(6);
+      expect(runs[0].iterations[0].result.note).toBe('R12 replaced');
     } finally {
       store.close();
     }
