@@ -10,10 +10,10 @@
  * in the outer half of it. These causes refine the pattern rules (frequencyRules, shapeRules,
  * edgeRules): a refined rule's evidence moves under the part that explains it.
  */
-import type { Cause } from '../types/index.js';
+import type { Cause, CauseFact } from '../types/index.js';
 import type { Observation, PartFit, PartId } from './circuitFit.js';
 import { attributeParts, observations } from './circuitFit.js';
-import type { PartContext } from './circuitParts.js';
+import type { PartContext, PartReading } from './circuitParts.js';
 import { PARTS } from './circuitParts.js';
 import type { CoreReading } from './coreReadings.js';
 import { scoreFrom } from './rule.js';
@@ -77,6 +77,7 @@ interface Ranked {
   readonly fit: PartFit;
   readonly figure: string;
   readonly multiple: number;
+  readonly observed?: PartReading['observed'];
 }
 
 /** Groups of causes, best step first; within a group, the parts the data cannot tell apart. */
@@ -88,7 +89,7 @@ export function circuitCauses(facts: UnitFacts, readings: readonly CoreReading[]
     const ranked: Ranked[] = step.group
       .map((fit) => {
         const r = PARTS[fit.part].read(fit.theta, fit.uTheta, ctx);
-        return { fit, figure: r.figure, multiple: r.toleranceMultiple ?? 1 };
+        return { fit, figure: r.figure, multiple: r.toleranceMultiple ?? 1, observed: r.observed };
       })
       .sort((a, b) => a.multiple - b.multiple);
     const lead = ranked[0];
@@ -96,12 +97,12 @@ export function circuitCauses(facts: UnitFacts, readings: readonly CoreReading[]
     if (!clear || !(lead.multiple > 1 || (facts.statement !== 'pass' && lead.multiple >= 0.5))) continue;
     const score = Math.round(step.share * scoreFrom(lead.fit.theta, 0.01, 0.05) * 100) / 100;
     const common = (m: Ranked): string[] => [seen(obs), `${PARTS[m.fit.part].short} explains ${Math.round(step.share * 100)} % of that deviation (χ² of the captures against the design)`];
-    groups.push(ranked.map((m, i) => causeFor(m, ranked, common(m), readings, Math.max(0.01, score - 0.01 * i))));
+    groups.push(ranked.map((m, i) => causeFor(m, ranked, common(m), readings, Math.max(0.01, score - 0.01 * i), step.share)));
   }
   return groups;
 }
 
-function causeFor(m: Ranked, group: readonly Ranked[], common: readonly string[], readings: readonly CoreReading[], score: number): Cause {
+function causeFor(m: Ranked, group: readonly Ranked[], common: readonly string[], readings: readonly CoreReading[], score: number, share: number): Cause {
   const part = PARTS[m.fit.part];
   const others = group.filter((o) => o !== m);
   const evidence = [m.figure, ...common];
@@ -118,6 +119,17 @@ function causeFor(m: Ranked, group: readonly Ranked[], common: readonly string[]
     confirm: part.measure,
     where: part.where,
     ...(others.length ? { indistinguishableFrom: others.map((o) => o.fit.part) } : {}),
+    ...(m.observed ? { facts: [factOf(part.short.replace(/^the /, ''), m.observed, share, part.measure)] } : {}),
+  };
+}
+
+function factOf(partName: string, o: NonNullable<PartReading['observed']>, share: number, confirm: string): CauseFact {
+  return {
+    part: partName,
+    observed: { value: o.value, unit: o.unit },
+    ...(o.design ? { design: { ...o.design, unit: o.unit } } : {}),
+    shareExplained: share,
+    confirm,
   };
 }
 

@@ -19,6 +19,8 @@ export interface PartReading {
   readonly figure: string;
   /** Deviation over the tolerance half-width (1 = at the edge of its tolerance); null without one. */
   readonly toleranceMultiple: number | null;
+  /** The same reading as data (value on the board, design band), for parts moved to facts. */
+  readonly observed?: { readonly value: number; readonly unit: string; readonly design?: { readonly nominal: number; readonly lower: number; readonly upper: number } };
 }
 
 export interface PartText {
@@ -67,7 +69,11 @@ export const PARTS: Readonly<Record<PartId, PartText>> = {
     read: (theta, _u, ctx) => {
       const c = ctx.design.timingCapacitance!;
       const value = c.nominal * Math.exp(theta);
-      return { figure: `capacitance ${q(value, 'F')} effective vs ${q(c.nominal, 'F', 3)} ± ${tolText(c)} — ${position(value, c, 'a capacitor')}`, toleranceMultiple: multiple(value, c) };
+      return {
+        figure: `capacitance ${q(value, 'F')} effective vs ${q(c.nominal, 'F', 3)} ± ${tolText(c)} — ${position(value, c, 'a capacitor')}`,
+        toleranceMultiple: multiple(value, c),
+        observed: { value, unit: 'F', design: { nominal: c.nominal, lower: c.lower, upper: c.upper } },
+      };
     },
   },
   'reference-current': {

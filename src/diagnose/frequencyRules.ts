@@ -10,7 +10,7 @@
  * A deviation counts when it passes a third of the frequency tolerance (0.5 % without one) and the
  * expanded uncertainty; both are common practice (no source).
  */
-import type { Cause } from '../types/index.js';
+import type { Cause, CauseFact } from '../types/index.js';
 import { formatQuantity } from '../spec/index.js';
 import type { CauseRule } from './rule.js';
 import { scoreFrom } from './rule.js';
@@ -37,8 +37,11 @@ export const timingScale: CauseRule = (f) => {
     `errors ${listing(ps)}`,
   ];
   const c = f.design.timingCapacitance;
+  const facts: CauseFact[] = [];
   if (c) {
     const needed = c.nominal / mean;
+    // f = I/(2·C·Vpp): a capacitor alone off by 1/mean explains the whole ratio (share 1).
+    facts.push({ part: 'timing capacitor', observed: { value: needed, unit: 'F' }, design: { nominal: c.nominal, lower: c.lower, upper: c.upper, unit: 'F' }, shareExplained: 1, confirm: 'measure it out of circuit on a capacitance meter' });
     evidence.push(`f = I/(2·C·Vpp): ×${num(mean, 4)} needs C ≈ ${formatQuantity(needed, 'F', 3)} (${pct(needed / c.nominal - 1, 1)}; design ${formatQuantity(c.nominal, 'F', 3)}, ${formatQuantity(c.lower, 'F', 3)} … ${formatQuantity(c.upper, 'F', 3)}) or the reference current ${pct(mean - 1, 1)}`);
   }
   const swings = outputsShaped(f, ['triangle']).map((o) => valueOf(o.channel, 'peakToPeak')).filter((v): v is number => v !== null);
@@ -51,6 +54,7 @@ export const timingScale: CauseRule = (f) => {
     evidence,
     confirm: `measure the timing capacitor out of circuit${c ? ` (design ${formatQuantity(c.nominal, 'F', 3)})` : ''}, then the charge current at one condition; f = I/(2·C·Vpp) says which of the two is off`,
     where: 'timing capacitor; reference current source (exponential converter reference resistor, scale trim)',
+    ...(facts.length ? { facts } : {}),
   };
 };
 

@@ -5,9 +5,10 @@
  * with evidence and the next measurement, and one overall line per unit.
  */
 import { INCOMPLETE_WORD, STATEMENT_WORDS, waitingConditions } from '../types/index.js';
-import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
+import { formatInPrefix } from '../types/index.js';
+import type { CauseFact, CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
-import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './unitsSi.js';
+import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, prefixExponent, valueExponent } from './unitsSi.js';
 import { renderCircuitView } from './circuitText.js';
 import { totalsLine } from './checkBrief.js';
 import { wrap } from './wrapText.js';
@@ -91,12 +92,21 @@ function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextSty
   diagnosis.causes.forEach((c, i) => {
     out.push(`  ${i + 1}. ${c.title}  ${style.dim(`(weight ${c.score.toFixed(2)})`)}`);
     for (const e of c.evidence) out.push(`     evidence: ${e}`);
+    for (const f of c.facts ?? []) out.push(`     part:     ${factText(f)}`);
     if (c.indistinguishableFrom?.length) out.push(`     the captures cannot tell it from: ${c.indistinguishableFrom.map((id) => diagnosis.causes.find((x) => x.id === id)?.title ?? id).join('; ')}`);
     out.push(`     confirm:  ${c.confirm}`);
     if (c.where) out.push(`     look at:  ${c.where}`);
   });
   out.push('');
   return out;
+}
+
+/** 'timing capacitor ≈ 4.98 nF against 4.7 nF (4.47 nF … 4.94 nF), would explain 100 % of the error; confirm: …'. */
+export function factText(f: CauseFact): string {
+  const e = prefixExponent(f.design?.nominal ?? f.observed.value, f.observed.unit);
+  const design = f.design ? ` against ${formatInPrefix(f.design.nominal, f.design.unit, e, 3)} (${formatInPrefix(f.design.lower, f.design.unit, e, 3)} … ${formatInPrefix(f.design.upper, f.design.unit, e, 3)})` : '';
+  const share = f.shareExplained === undefined ? '' : `, would explain ${Math.round(f.shareExplained * 100)} % of the error`;
+  return `${f.part} ≈ ${formatInPrefix(f.observed.value, f.observed.unit, e, 3)}${design}${share}; confirm: ${f.confirm}`;
 }
 
 function overallLine(verdict: UnitVerdict, style: TextStyle): string {

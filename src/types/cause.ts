@@ -15,6 +15,26 @@ export interface Cause {
   readonly where?: string;
   /** Ids of other causes the data cannot tell apart from this one. */
   readonly indistinguishableFrom?: readonly string[];
+  /**
+   * The same findings as data, for report to put into words with the shared formatter: per part,
+   * what the captures imply against its design value. Added beside `evidence` (kept for JSON
+   * readers); rules that have not been moved to facts yet leave it out.
+   */
+  readonly facts?: readonly CauseFact[];
+}
+
+/** One part's finding: the value the captures imply against the design's, and what would confirm it. */
+export interface CauseFact {
+  /** The part in the trade's words: 'timing capacitor'. */
+  readonly part: string;
+  /** What the captures imply for it, in SI units. */
+  readonly observed: { readonly value: number; readonly unit: string };
+  /** The design value and its tolerance band, when the spec gives them. */
+  readonly design?: { readonly nominal: number; readonly lower: number; readonly upper: number; readonly unit: string };
+  /** Share of the observed error this part alone would explain, 0…1, when computed. */
+  readonly shareExplained?: number;
+  /** The measurement that would confirm it. */
+  readonly confirm: string;
 }
 
 /** Figures back-computed from the captures and the spec's design section (issue: design-aware diagnosis). */

@@ -38,7 +38,7 @@ export type {
   UnitVerdict,
   VerdictState,
 } from './verdict.js';
-export type { Cause, CircuitFigure, CircuitView, Diagnosis } from './cause.js';
+export type { Cause, CauseFact, CircuitFigure, CircuitView, Diagnosis } from './cause.js';
 export type {
   AttemptComparison,
   AttemptReason,
