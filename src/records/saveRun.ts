@@ -28,21 +28,7 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
     condition: c.condition,
     archivePath: archiveCapture(dataDir, c),
   }));
-  const spec = { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 };
-  const base = {
-    unit: run.unit,
-    kind: run.kind ?? 'check',
-    // Normalised to UTC so stored times sort as text; the instant is unchanged.
-    startedAt: new Date(run.startedAt).toISOString(),
-    operator: run.operator,
-    station: run.station,
-    spec,
-    toolVersion: run.toolVersion,
-    statement: run.verdict.statement,
-    verdict: run.verdict,
-    diagnosis: run.diagnosis,
-    captures,
-  } as const;
+  const base = runBase(run, captures);
   const write = db.transaction((): StoredRun => {
     const storedAt = new Date().toISOString();
     // The attempt is decided inside the transaction, and the run's fingerprint covers it and the note.
@@ -56,6 +42,24 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
     return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
   });
   return write.immediate();
+}
+
+/** What a stored run holds before it is placed in an attempt, the same for either engine. */
+export function runBase(run: NewRun, captures: readonly StoredCapture[]) {
+  return {
+    unit: run.unit,
+    kind: run.kind ?? 'check',
+    // Normalised to UTC so stored times sort as text; the instant is unchanged.
+    startedAt: new Date(run.startedAt).toISOString(),
+    operator: run.operator,
+    station: run.station,
+    spec: { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 },
+    toolVersion: run.toolVersion,
+    statement: run.verdict.statement,
+    verdict: run.verdict,
+    diagnosis: run.diagnosis,
+    captures,
+  } as const;
 }
 
 function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }): number {

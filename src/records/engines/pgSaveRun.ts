@@ -19,6 +19,7 @@ import { chainLink, CHAIN_START } from '../chain.js';
 import type { ChainKind } from '../chain.js';
 import type { PgSyncClient } from './pgSync.js';
 import { putCapture } from './pgCaptures.js';
+import { runBase } from '../saveRun.js';
 
 /** Fixed number naming the store-wide write lock (pg_advisory_xact_lock); distinct from the schema lock. */
 export const WRITE_LOCK = 2_026_120_521;
@@ -33,20 +34,7 @@ export function pgSaveRun(client: PgSyncClient, run: NewRun): StoredRun {
     return b;
   });
   const captures: StoredCapture[] = run.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, archivePath: `chunks:${c.sha256}` }));
-  const spec = { name: run.spec.name, revision: run.spec.revision, sha256: run.spec.sha256 };
-  const base = {
-    unit: run.unit,
-    kind: run.kind ?? 'check',
-    startedAt: new Date(run.startedAt).toISOString(),
-    operator: run.operator,
-    station: run.station,
-    spec,
-    toolVersion: run.toolVersion,
-    statement: run.verdict.statement,
-    verdict: run.verdict,
-    diagnosis: run.diagnosis,
-    captures,
-  } as const;
+  const base = runBase(run, captures);
   return client.transaction((): StoredRun => {
     client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
     const storedAt = new Date().toISOString();
