@@ -71,8 +71,11 @@ function checkLine(k: CheckVerdict): string {
   const limits = formatLimits(k.lower, k.upper, k.unit, e).split(' … ').map(glued).join(' … ');
   const parts = [`${STATEMENT_WORDS[k.statement]} ${k.condition} · ${k.output} · ${measurementLabel(k.measurement)} ${shown}`, `limits ${limits}`];
   if (k.margin !== null) parts.push(`margin ${glued(formatMargin(k.margin, k.unit, e))}`);
-  // The notes (why a value was withheld or rough) stay in --detail; the spec's hint is short and says where to look.
-  return `${parts.join(', ')}${k.hint ? `; ${k.hint}` : ''}`;
+  // The notes (why a value was withheld or rough) stay in --detail; the spec's hint is short and says
+  // where to look. Only a statement the margin does not explain (a FAIL inside its limits, a value
+  // withheld) carries its note here, or the line would contradict itself.
+  const unexplained = k.note !== undefined && k.note !== '' && (k.value === null || (k.margin !== null && k.margin >= 0 && k.statement !== 'pass' && k.statement !== 'conditional-pass'));
+  return `${parts.join(', ')}${unexplained ? `: ${k.note}` : ''}${k.hint ? `; ${k.hint}` : ''}`;
 }
 
 /** '6 units: 3 ✓ PASS, 1 (✓) COND. PASS, 2 ✗ FAIL'. */
