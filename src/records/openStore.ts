@@ -5,7 +5,8 @@
  */
 import Database from 'better-sqlite3';
 import type { Database as Db } from 'better-sqlite3';
-import { existsSync, lstatSync, mkdirSync, statSync } from 'node:fs';
+import { existsSync, linkSync, lstatSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
 import type { NewCalibrationIteration, NewRun, StoredCalibrationRun, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
 import { removeStaleTemps } from './archive.js';
@@ -84,6 +85,7 @@ export function openStore(dir: string, options: OpenStoreOptions = {}): RecordSt
   const { mode = 'write', busyTimeoutMs = 15_000, schemaVersion: upTo = LATEST_SCHEMA, label = dir, unverified = 'refuse' } = options;
   prepareFolder(dir, mode, label);
   const dbFile = join(dir, DATABASE_FILE);
+  if (mode === 'write' && !existsSync(dbFile)) createStore(dir, dbFile, label, busyTimeoutMs, upTo);
   let db: Db | undefined;
   let version: number;
   try {
@@ -101,6 +103,40 @@ export function openStore(dir: string, options: OpenStoreOptions = {}): RecordSt
     throw openError(err, dir, label, mode);
   }
   return wrap(db, dir, dbFile, version, label, unverified);
+}
+
+/**
+ * A new store is made whole under a name of its own (schema applied), then linked into place in one
+ * step. So records.db is never seen empty while another process creates it (two benches starting on
+ * a new data folder at once), and an empty records.db always means records lost. Whoever links
+ * second finds the other's store there and uses it.
+ */
+function createStore(dir: string, dbFile: string, label: string, busyTimeoutMs: number, upTo: number): void {
+  const temp = join(dir, `${DATABASE_FILE}.new-${process.pid}-${randomBytes(4).toString('hex')}`);
+  try {
+    const fresh = new Database(temp, { timeout: busyTimeoutMs });
+    try {
+      fresh.pragma('journal_mode = WAL');
+      fresh.pragma('synchronous = FULL');
+      fresh.pragma('foreign_keys = ON');
+      applyMigrations(fresh, label, upTo);
+    } finally {
+      fresh.close();
+    }
+    try {
+      linkSync(temp, dbFile);
+    } catch (err) {
+      const code = (err as { code?: string }).code;
+      if (code === 'EEXIST') return;
+      // A file system without hard links (some shares and USB sticks): a rename, only where none is yet.
+      if (!['EPERM', 'ENOTSUP', 'EOPNOTSUPP', 'ENOSYS', 'EXDEV'].includes(code ?? '') || existsSync(dbFile)) throw err;
+      renameSync(temp, dbFile);
+    }
+  } catch (err) {
+    throw openError(err, dir, label, 'write');
+  } finally {
+    for (const f of [temp, `${temp}-wal`, `${temp}-shm`]) rmSync(f, { force: true });
+  }
 }
 
 function prepareFolder(dir: string, mode: 'write' | 'read', label: string): void {
