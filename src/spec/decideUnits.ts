@@ -61,13 +61,7 @@ const outputCaptured = (captures: readonly CheckedCapture[], condition: string, 
  */
 function waitingCheck(check: SpecCheck, condition: string, note = `waiting for a capture of output "${check.output}" at condition "${condition}"`): CheckVerdict {
   return {
-    output: check.output,
-    condition,
-    measurement: check.measurement,
-    unit: MEASUREMENT_UNITS[check.measurement],
-    lower: check.limit.lower,
-    upper: check.limit.upper,
-    nominal: check.limit.nominal,
+    ...checkIdentity(check, condition),
     value: null,
     expandedUncertainty: null,
     guard: 0,
@@ -123,8 +117,9 @@ function saturationNote(flats: readonly FlatTop[] | undefined, id: string, unit:
   return `the output saturates (flat ${where}, inside the scope's range): this value describes the clipped waveform, so the check fails`;
 }
 
-function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): CheckVerdict {
-  const base = {
+/** What every verdict of a check carries, whatever was measured: which check, and its limits. */
+function checkIdentity(check: SpecCheck, condition: string) {
+  return {
     output: check.output,
     condition,
     measurement: check.measurement,
@@ -133,6 +128,10 @@ function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: re
     upper: check.limit.upper,
     nominal: check.limit.nominal,
   };
+}
+
+function decideOne(spec: Spec, check: SpecCheck, condition: string, captures: readonly CheckedCapture[]): CheckVerdict {
+  const base = checkIdentity(check, condition);
   const { m, missing, flats } = findMeasurement(check, condition, captures);
   if (m && m.value === null && m.bound) return decideOnBound(check, base, m, m.bound);
   if (!m || m.value === null) {
