@@ -1,9 +1,9 @@
 // Lint: TypeScript rules plus one architectural rule: imports flow one way between stages
-// (capture → analysis → spec → diagnose → records → report; cli and server wire them; types and synth are shared).
+// (capture → analysis → design → diagnose → records → report; cli and server wire them; types and syntheticCaptures are shared).
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 
-const order = ['capture', 'analysis', 'spec', 'diagnose', 'records', 'report'];
+const order = ['capture', 'analysis', 'design', 'diagnose', 'records', 'report'];
 const later = (stage) => order.slice(order.indexOf(stage) + 1);
 const patternsFor = (stage) => [
   ...later(stage).map((s) => ({ group: [`**/${s}/**`, `../${s}/*`, `../${s}/index.js`], message: `${stage} may not import from the later stage ${s}` })),
@@ -11,7 +11,7 @@ const patternsFor = (stage) => [
   { group: ['**/server/**', '../server/*'], message: 'no stage imports the bench page server' },
 ];
 const inner = (stage) => ({
-  regex: '^(\\.\\./)+(capture|analysis|spec|diagnose|records|report|synth|types)/(?!index\\.js$).+',
+  regex: '^(\\.\\./)+(capture|analysis|design|diagnose|records|report|syntheticCaptures|types)/(?!index\\.js$).+',
   message: `import another stage through its index.ts only (${stage})`,
 });
 

@@ -5,7 +5,7 @@
 // scope's fixed timebase samples faster when given more memory.
 import process from 'node:process';
 import { closeSync, openSync, writeSync } from 'node:fs';
-import { synthesize, writeCsvChunks } from '../dist/synth/index.js';
+import { synthesize, writeCsvChunks } from '../dist/syntheticCaptures/index.js';
 
 const CYCLES = 50;
 const FREQUENCY = 261.63 * 1.0012; // Hz, FK-0101's mid frequency

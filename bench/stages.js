@@ -18,7 +18,7 @@ const cpuSeconds = (c0) => {
 async function stages(file) {
   const { readCapture } = await import('../dist/capture/index.js');
   const analysis = await import('../dist/analysis/index.js');
-  const spectral = await import('../dist/analysis/spectralAnalysis.js');
+  const spectral = await import('../dist/analysis/spectrum/spectralAnalysis.js');
   const { analyzeSpectrum } = spectral;
   let t = performance.now();
   let c = process.cpuUsage();
@@ -79,7 +79,7 @@ async function stages(file) {
 }
 
 async function fftProbe(points) {
-  const { realSpectrum, nextPowerOfTwo } = await import('../dist/analysis/spectrum.js');
+  const { realSpectrum, nextPowerOfTwo } = await import('../dist/analysis/spectrum/spectrum.js');
   const size = nextPowerOfTwo(points);
   const x = new Float64Array(size);
   for (let i = 0; i < points; i++) x[i] = Math.sin((2 * Math.PI * 1000.5 * i) / points);
@@ -93,7 +93,7 @@ async function fftProbe(points) {
   realSpectrum(x);
   const warm = seconds(t);
   const warmCpu = cpuSeconds(c);
-  return { points, size, cold, warm, cpu: { cold: coldCpu, warm: warmCpu }, wrapper: 'realSpectrum (src/analysis/spectrum.ts)' };
+  return { points, size, cold, warm, cpu: { cold: coldCpu, warm: warmCpu }, wrapper: 'realSpectrum (src/analysis/spectrum/spectrum.ts)' };
 }
 
 async function main() {

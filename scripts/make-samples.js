@@ -1,10 +1,10 @@
 #!/usr/bin/env node
-// Regenerates the demo captures in samples/captures/ from the seeded scenario (src/synth/scenario.ts).
+// Regenerates the demo captures in samples/captures/ from the seeded scenario (src/syntheticCaptures/scenario.ts).
 // Run after `npm run build`; the files are committed, so the demo never needs this step.
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { kestrelCalibrationFiles, kestrelSampleFiles } from '../dist/synth/index.js';
+import { kestrelCalibrationFiles, kestrelSampleFiles } from '../dist/syntheticCaptures/index.js';
 
 const out = join(dirname(fileURLToPath(import.meta.url)), '..', 'samples', 'captures');
 mkdirSync(out, { recursive: true });

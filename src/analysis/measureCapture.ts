@@ -10,11 +10,11 @@
 import type { Capture, CaptureChannel, CaptureWarning, ChannelReport, MeasureReport, Measurement, MeasurementId, MeasureResult } from '../types/index.js';
 import { MEASUREMENT_IDS } from '../types/index.js';
 import { MIN_SAMPLES, measureChannel } from './measureChannel.js';
-import type { HarmonicSet } from './harmonicAnalysis.js';
-import { analyzeSpectrum, spectralBufferLength } from './spectralAnalysis.js';
-import { unitFor } from './units.js';
-import { validRun } from './validRun.js';
-import { waveformPlot } from './waveformPlot.js';
+import type { HarmonicSet } from './spectrum/harmonicAnalysis.js';
+import { analyzeSpectrum, spectralBufferLength } from './spectrum/spectralAnalysis.js';
+import { unitFor } from './measurementUnits.js';
+import { validRun } from './levels/validRun.js';
+import { waveformPlot } from './plots/waveformPlot.js';
 
 export interface MeasureCaptureOptions {
   /** Include waveform and spectrum excerpts for plotting. */

@@ -11,23 +11,23 @@
  * under 8σ of the noise and its crossings do not form a regular train.
  */
 import type { CaptureWarning, FlatTop, MeasurementId, Shape } from '../types/index.js';
-import type { Levels, Results } from './channelLevels.js';
-import { isTwoState, levelResults, levelsOf, momentResults } from './channelLevels.js';
+import type { Levels, Results } from './levels/channelLevels.js';
+import { isTwoState, levelResults, levelsOf, momentResults } from './levels/channelLevels.js';
 import { classifyShape } from './classifyShape.js';
-import { flatTops } from './flatTops.js';
-import { frequency } from './frequency.js';
-import { jitter } from './jitter.js';
+import { flatTops } from './levels/flatTops.js';
+import { frequency } from './timing/frequency.js';
+import { jitter } from './timing/jitter.js';
 import { withheld } from './measureResult.js';
-import type { Crossings } from './midCrossings.js';
-import { midCrossings } from './midCrossings.js';
-import { noiseLevel } from './noiseLevel.js';
-import { period } from './period.js';
-import type { PeriodFit } from './periodFit.js';
-import { periodFit } from './periodFit.js';
-import { extremes, quantiles } from './quantiles.js';
-import type { RampFit } from './rampFits.js';
-import { shapeResults } from './shapeResults.js';
-import { sineFit } from './sineFit.js';
+import type { Crossings } from './timing/midCrossings.js';
+import { midCrossings } from './timing/midCrossings.js';
+import { noiseLevel } from './levels/noiseLevel.js';
+import { period } from './timing/period.js';
+import type { PeriodFit } from './timing/periodFit.js';
+import { periodFit } from './timing/periodFit.js';
+import { extremes, quantiles } from './levels/quantiles.js';
+import type { RampFit } from './ramps/rampFits.js';
+import { shapeResults } from './ramps/shapeResults.js';
+import { sineFit } from './fits/sineFit.js';
 import { mean, standardDeviation } from './stats.js';
 
 export interface ChannelOptions {

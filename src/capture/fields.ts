@@ -5,7 +5,7 @@
  * spaces and tabs separates fields, and a bracketed unit (`Time (s)`) stays with its name.
  */
 import type { Delimiter } from '../types/index.js';
-import { parseUnitCell } from './units.js';
+import { parseUnitCell } from './siUnits.js';
 
 export interface SplitLine {
   readonly fields: string[];

@@ -12,7 +12,7 @@ import type { DecimalMark, Delimiter } from '../types/index.js';
 import { splitFields } from './fields.js';
 import type { SampleLine } from './lines.js';
 import { NUMBER, parseNumberText, TEXT } from './scanNumber.js';
-import { parseHeaderCell, parseUnitCell } from './units.js';
+import { parseHeaderCell, parseUnitCell } from './siUnits.js';
 
 /** Unit-row words that mark a sample-index column (`Sequence`, `Index`, `Points`). */
 export const INDEX_UNIT = /^(sequence|index|idx|points?|samples?|no\.?|#|n|pt)$/i;

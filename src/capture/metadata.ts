@@ -8,7 +8,7 @@
  * taken in SI base units.
  */
 import type { DecimalMark } from '../types/index.js';
-import { parseHeaderCell, parseUnit } from './units.js';
+import { parseHeaderCell, parseUnit } from './siUnits.js';
 
 export interface MetadataTiming {
   /** Sample interval in seconds and the key it came from. */

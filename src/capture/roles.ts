@@ -17,7 +17,7 @@ import type { MetadataTiming } from './metadata.js';
 import type { ReadingOptions } from './readingOptions.js';
 import { optionFor } from './readingOptions.js';
 import type { Sniffed } from './sniff.js';
-import { columnLayout, COUNTS, DECIBELS, parseUnit } from './units.js';
+import { columnLayout, COUNTS, DECIBELS, parseUnit } from './siUnits.js';
 
 export interface ColumnRoles {
   readonly columns: readonly ColumnLayout[];

@@ -6,7 +6,7 @@
  */
 import { existsSync } from 'node:fs';
 import { basename, join } from 'node:path';
-import type { CapturePlan, Spec } from '../spec/index.js';
+import type { CapturePlan, Spec } from '../design/index.js';
 import type { RecordStore } from '../records/index.js';
 import { DATABASE_FILE } from '../records/index.js';
 import { BenchError } from '../types/index.js';

@@ -8,8 +8,8 @@
 import { resolve } from 'node:path';
 import { readCapture } from '../capture/index.js';
 import { measureCapture } from '../analysis/index.js';
-import { calibrationOf, calibrationReading, decideCalibration, describeLayout, matchCalibrationName } from '../spec/index.js';
-import type { CalibrationPlanEntry, Spec, StepReading } from '../spec/index.js';
+import { calibrationOf, calibrationReading, decideCalibration, describeLayout, matchCalibrationName } from '../design/index.js';
+import type { CalibrationPlanEntry, Spec, StepReading } from '../design/index.js';
 import { guideTrim } from '../diagnose/index.js';
 import { sha256Hex } from '../records/index.js';
 import type { IterationPlace } from '../report/index.js';

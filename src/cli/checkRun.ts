@@ -6,8 +6,8 @@
  */
 import { readCapture } from '../capture/index.js';
 import { measureCapture } from '../analysis/index.js';
-import { SPEC_MAX_BYTES, bindCapture, decideUnits, parseSpec, planCapture } from '../spec/index.js';
-import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
+import { SPEC_MAX_BYTES, bindCapture, decideUnits, parseSpec, planCapture } from '../design/index.js';
+import type { CapturePlan, PlanOverrides, Spec } from '../design/index.js';
 import { diagnoseUnit } from '../diagnose/index.js';
 import { BenchError } from '../types/index.js';
 import type { CheckedCapture, ReadCaptureOptions } from '../types/index.js';
@@ -17,7 +17,7 @@ import type { Progress } from './progress.js';
 import type { CheckedUnit } from './store.js';
 import { readSpecFile } from './specFile.js';
 
-export { planCapture, worstStatement } from '../spec/index.js';
+export { planCapture, worstStatement } from '../design/index.js';
 
 export interface LoadedSpec {
   readonly spec: Spec;

@@ -13,7 +13,7 @@ import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
 import { createHash } from 'node:crypto';
 import { join, resolve } from 'node:path';
-import type { CapturePlan, PlanOverrides, Spec } from '../spec/index.js';
+import type { CapturePlan, PlanOverrides, Spec } from '../design/index.js';
 import type { RecordStore } from '../records/index.js';
 import { BenchError, isBenchError, systemErrorWords, waitingConditions } from '../types/index.js';
 import type { Statement, UnitVerdict, VerdictState } from '../types/index.js';

@@ -6,7 +6,7 @@
  */
 import { existsSync, mkdirSync, readdirSync, statSync } from 'node:fs';
 import { basename, join, resolve } from 'node:path';
-import type { PlanOverrides, Spec } from '../spec/index.js';
+import type { PlanOverrides, Spec } from '../design/index.js';
 import type { TextStyle } from '../report/index.js';
 import { BenchError, isBenchError } from '../types/index.js';
 import type { CommandContext } from './context.js';

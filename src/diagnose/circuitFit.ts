@@ -9,7 +9,7 @@
  * Weighted least squares for one parameter: θ = Σ(a·y/u²)/Σ(a²/u²), u(θ) = 1/√Σ(a²/u²) (e.g. Taylor,
  * "An Introduction to Error Analysis", ch. 8 — from memory).
  */
-import type { DesignSection } from '../spec/index.js';
+import type { DesignSection } from '../design/index.js';
 import type { CoreReading } from './coreReadings.js';
 import { designSwing } from './circuitView.js';
 import { coreFrequency, designEstimate } from './circuitFormulas.js';

@@ -13,7 +13,7 @@
  * - 1 V/octave: the charge current sets the frequency (f ∝ I), so a current given at one condition
  *   scales to another by the ratio of their nominal frequencies (common practice, no source).
  */
-import type { DesignValue } from '../spec/index.js';
+import type { DesignValue } from '../design/index.js';
 
 /** A value with its standard uncertainty (k = 1). */
 export interface Estimate {

@@ -3,8 +3,8 @@
  * the board (an effective capacitance, current, swing, delay or level), set against its design
  * tolerance, and the independent measurement that confirms it.
  */
-import type { DesignSection, DesignValue } from '../spec/index.js';
-import { formatQuantity } from '../spec/index.js';
+import type { DesignSection, DesignValue } from '../design/index.js';
+import { formatQuantity } from '../design/index.js';
 import type { PartId } from './circuitFit.js';
 import type { CoreReading } from './coreReadings.js';
 import { designSwing } from './circuitView.js';

@@ -7,8 +7,8 @@
  * uncertainty propagation are in circuitFormulas.ts. Uncertainties here are expanded, U = 2u (k = 2).
  */
 import type { CircuitFigure, CircuitView } from '../types/index.js';
-import type { DesignSection, DesignValue } from '../spec/index.js';
-import { formatQuantity } from '../spec/index.js';
+import type { DesignSection, DesignValue } from '../design/index.js';
+import { formatQuantity } from '../design/index.js';
 import type { Estimate } from './circuitFormulas.js';
 import { capacitanceFromRamps, coreFrequency, currentFromSlope, designEstimate } from './circuitFormulas.js';
 import type { CoreReading } from './coreReadings.js';

@@ -6,7 +6,7 @@
  * saturating) gives no turn: its peak is left out, so no threshold is judged from it.
  */
 import type { ChannelReport, MeasurementId } from '../types/index.js';
-import type { DesignValue } from '../spec/index.js';
+import type { DesignValue } from '../design/index.js';
 import type { Estimate } from './circuitFormulas.js';
 import { designEstimate, scaleToCondition } from './circuitFormulas.js';
 import type { UnitFacts } from './unitFacts.js';

@@ -7,7 +7,7 @@
  * explains what is seen, taking over the pattern rules it refines.
  */
 import type { Cause, Diagnosis, UnitVerdict } from '../types/index.js';
-import type { Spec } from '../spec/index.js';
+import type { Spec } from '../design/index.js';
 import { lowEndLeakage, switchingDelay, timingScale } from './frequencyRules.js';
 import { currentMismatch, offsetBias, saturation, scopeClipping, thresholdLevels } from './shapeRules.js';
 import { edgeRinging, mainsHum, periodJitter, weakLogicHigh } from './edgeRules.js';

@@ -9,7 +9,7 @@
  * Thresholds (common practice, no source): 5 % aberration, −50 dBc hum, jitter 0.5 % of the period,
  * logic high below its design tolerance; each also beyond the expanded uncertainty.
  */
-import { formatQuantity } from '../spec/index.js';
+import { formatQuantity } from '../design/index.js';
 import type { CauseRule } from './rule.js';
 import { scoreFrom } from './rule.js';
 import { checkOf, expandedOf, num, outputsShaped, valueOf } from './unitFacts.js';

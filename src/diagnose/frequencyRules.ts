@@ -11,7 +11,7 @@
  * expanded uncertainty; both are common practice (no source).
  */
 import type { Cause, CauseFact } from '../types/index.js';
-import { formatQuantity } from '../spec/index.js';
+import { formatQuantity } from '../design/index.js';
 import type { CauseRule } from './rule.js';
 import { scoreFrom } from './rule.js';
 import type { FrequencyPoint, UnitFacts } from './unitFacts.js';

@@ -9,7 +9,7 @@
  * Thresholds: a 2 % slope mismatch, −45 dBc for H2, 2 % of the swing for an offset, 1 point of duty
  * (common practice, no source); always also beyond the measurement's expanded uncertainty.
  */
-import { formatQuantity } from '../spec/index.js';
+import { formatQuantity } from '../design/index.js';
 import type { CauseRule } from './rule.js';
 import { scoreFrom } from './rule.js';
 import type { OutputAt } from './unitFacts.js';

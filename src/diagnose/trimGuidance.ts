@@ -16,7 +16,7 @@
  */
 import { centsUncertainty, trackingFit } from '../analysis/index.js';
 import type { TrackingFit } from '../analysis/index.js';
-import type { CalibrationDecision, Spec } from '../spec/index.js';
+import type { CalibrationDecision, Spec } from '../design/index.js';
 import type { CalibrationIteration, CalibrationStepResult, TrimAdvice } from '../types/index.js';
 import { driftNotes } from './trimNotes.js';
 import { leave, offsetAdvice, scaleAdvice, signed } from './trimWords.js';

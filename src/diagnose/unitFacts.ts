@@ -4,7 +4,7 @@
  * Rules look at the whole pattern across conditions, not at one failed check.
  */
 import type { ChannelReport, CheckVerdict, FlatTop, MeasurementId, Shape, UnitVerdict } from '../types/index.js';
-import type { DesignSection, Spec } from '../spec/index.js';
+import type { DesignSection, Spec } from '../design/index.js';
 
 export interface OutputAt {
   readonly condition: string;

@@ -10,7 +10,7 @@
 import type { Database } from 'better-sqlite3';
 import { verdictState, waitingConditions } from '../types/index.js';
 import type { AttemptReason, AttemptSummary, NewRun, StoredCapture, StoredRun } from '../types/index.js';
-import { worstStatement } from '../spec/index.js';
+import { worstStatement } from '../design/index.js';
 
 /** Where a new run goes: its attempt number, and why when it opens that attempt. */
 export interface AttemptPlacement {

@@ -5,7 +5,7 @@
  */
 import type { AttemptReason, AttemptSummary, StoredRun, UnitRecord } from '../types/index.js';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
-import { formatTime } from './unitsSi.js';
+import { formatTime } from './reportNumbers.js';
 
 export const REASON_WORDS: Readonly<Record<AttemptReason, string>> = {
   first: 'first test',

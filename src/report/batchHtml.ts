@@ -4,7 +4,7 @@ import { STATEMENT_WORDS } from '../types/index.js';
 import { batchFilterText, describeWaiting, describeYield, unitFirst, unitLatest } from './batchMarkdown.js';
 import { esc, facts, htmlPage, numCell, statusHtml, table } from './htmlPage.js';
 import { renderHistogramSvg } from './svgHistogram.js';
-import { formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './unitsSi.js';
+import { formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './reportNumbers.js';
 
 function statsRow(s: SpecBatch, m: MeasurementStats): string {
   const attrs = `data-spec="${esc(s.spec)}" data-condition="${esc(m.condition)}" data-output="${esc(m.output)}" data-measurement="${esc(m.measurement)}"`;

@@ -2,7 +2,7 @@
 import type { BatchReport, BatchUnit, SpecBatch, YieldFigure } from '../types/index.js';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import { md, mdTable, sourceLine } from './recordMarkdown.js';
-import { formatFraction, formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './unitsSi.js';
+import { formatFraction, formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './reportNumbers.js';
 
 export function describeYield(y: YieldFigure): string {
   const cond = y.conditional ? `, ${y.conditional} of them ${STATEMENT_WORDS['conditional-pass']}` : '';

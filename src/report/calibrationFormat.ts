@@ -1,6 +1,6 @@
 /** Words and numbers shared by the calibration renderers (terminal, Markdown, HTML), so they cannot drift apart. */
 import type { CalibrationIteration, CalibrationLaw, CalibrationLimits, CalibrationStepResult, TrackingFigures } from '../types/index.js';
-import { formatMeasured, formatQuantity } from './unitsSi.js';
+import { formatMeasured, formatQuantity } from './reportNumbers.js';
 
 /** "+3.9" / "−15.6": a signed number with a true minus sign. */
 export function signed(x: number, digits = 1): string {

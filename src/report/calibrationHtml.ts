@@ -8,7 +8,7 @@ import type { StoredCalibrationIteration, StoredCalibrationRun, UnitRecord } fro
 import { STEP_HEAD, figurePairs, lawText, limitsText, outcomeText, stepCells } from './calibrationFormat.js';
 import { esc, facts, statusHtml, table } from './htmlPage.js';
 import { renderTrackingSvg } from './svgTracking.js';
-import { formatTime } from './unitsSi.js';
+import { formatTime } from './reportNumbers.js';
 
 export function renderCalibrationSection(rec: UnitRecord): string {
   const runs = rec.calibrations ?? [];

@@ -3,7 +3,7 @@ import type { StoredCalibrationIteration, StoredCalibrationRun, UnitRecord } fro
 import { STATEMENT_WORDS } from '../types/index.js';
 import { STEP_HEAD, figurePairs, lawText, limitsText, outcomeText, stepCells } from './calibrationFormat.js';
 import { md, mdTable } from './recordMarkdown.js';
-import { formatTime } from './unitsSi.js';
+import { formatTime } from './reportNumbers.js';
 
 export function renderCalibrationMarkdown(rec: UnitRecord): string {
   const runs = rec.calibrations ?? [];

@@ -9,7 +9,7 @@ import type { CheckVerdict, Statement } from '../types/index.js';
 import type { UnitCheck } from './checkText.js';
 import type { TextStyle } from './style.js';
 import { INCOMPLETE_MARK, STATEMENT_MARKS } from './statementMarks.js';
-import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './unitsSi.js';
+import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './reportNumbers.js';
 import { glued, wrap } from './wrapText.js';
 
 /** Causes shown per unit; the rest are one --detail away. */

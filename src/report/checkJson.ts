@@ -5,7 +5,7 @@
  */
 import { verdictState, waitingConditions } from '../types/index.js';
 import type { Diagnosis, Statement, UnitVerdict, VerdictState } from '../types/index.js';
-import type { Spec } from '../spec/index.js';
+import type { Spec } from '../design/index.js';
 import type { UnitCheck } from './checkText.js';
 
 export interface CheckDocument {

@@ -8,7 +8,7 @@ import { INCOMPLETE_WORD, STATEMENT_WORDS, waitingConditions } from '../types/in
 import { formatInPrefix } from '../types/index.js';
 import type { CauseFact, CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
-import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, prefixExponent, valueExponent } from './unitsSi.js';
+import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, prefixExponent, valueExponent } from './reportNumbers.js';
 import { renderCircuitView } from './circuitText.js';
 import { totalsLine } from './checkBrief.js';
 import { wrap } from './wrapText.js';

@@ -7,7 +7,7 @@
 import type { CircuitFigure, CircuitView } from '../types/index.js';
 import type { TextStyle } from './style.js';
 import { formatInPrefix } from '../types/index.js';
-import { formatMeasured, formatQuantity, prefixExponent } from './unitsSi.js';
+import { formatMeasured, formatQuantity, prefixExponent } from './reportNumbers.js';
 
 function designCell(f: CircuitFigure): string {
   if (f.design === undefined) return '—';

@@ -6,7 +6,7 @@
  */
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { AttemptComparison, ComparedAttempt, ComparedCheck } from '../types/index.js';
-import { formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './unitsSi.js';
+import { formatLimits, formatMeasured, formatQuantity, formatTime, measurementLabel } from './reportNumbers.js';
 import { md, mdTable } from './recordMarkdown.js';
 import { esc, htmlPage, statusHtml, table } from './htmlPage.js';
 

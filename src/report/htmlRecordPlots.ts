@@ -4,7 +4,7 @@ import { esc } from './htmlPage.js';
 import { renderSpectrumSvg } from './svgSpectrum.js';
 import { renderTrendSvg } from './svgTrend.js';
 import { renderWaveformSvg } from './svgWaveform.js';
-import { formatDate, measurementLabel } from './unitsSi.js';
+import { formatDate, measurementLabel } from './reportNumbers.js';
 
 function channelFigures(rec: UnitRecord, condition: string, file: string, ch: ChannelReport, output: string): string {
   const name = `${rec.unit} · ${condition} · ${ch.name}${output ? ` (${output})` : ''}`;

@@ -7,7 +7,7 @@ import { esc, facts, numCell, statusHtml, table } from './htmlPage.js';
 import { renderPlotsSection, renderTrendsSection } from './htmlRecordPlots.js';
 import { renderCalibrationSection } from './calibrationHtml.js';
 import { quantityParts } from '../types/index.js';
-import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './unitsSi.js';
+import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './reportNumbers.js';
 import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
 
 export interface RecordHtmlSection {

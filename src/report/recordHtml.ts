@@ -2,7 +2,7 @@
 import type { UnitRecord } from '../types/index.js';
 import { esc, htmlPage } from './htmlPage.js';
 import { RECORD_HTML_SECTIONS } from './htmlRecordSections.js';
-import { formatTime } from './unitsSi.js';
+import { formatTime } from './reportNumbers.js';
 
 export function renderRecordHtml(rec: UnitRecord): string {
   if (rec.runs.length === 0 && !rec.calibrations?.length) throw new RangeError(`renderRecordHtml: record of ${rec.unit} has no runs`);

@@ -4,7 +4,7 @@
  */
 import type { CheckVerdict, DocumentSource, StoredRun, UnitRecord } from '../types/index.js';
 import { STATEMENT_WORDS } from '../types/index.js';
-import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './unitsSi.js';
+import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './reportNumbers.js';
 import { renderCalibrationMarkdown } from './calibrationMarkdown.js';
 import { mdText } from './escapeText.js';
 import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';

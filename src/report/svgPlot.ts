@@ -5,7 +5,7 @@
  * a plot looks the same on screen, in print, and copied out on its own. No xmlns: inline SVG in HTML
  * needs none, and the record must not contain any URL.
  */
-import { prefixExponent } from './unitsSi.js';
+import { prefixExponent } from './reportNumbers.js';
 
 export const INK = '#1f2933';
 export const GRID = '#d9dee3';

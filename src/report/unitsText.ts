@@ -6,7 +6,7 @@
 import type { Statement, UnitSummary } from '../types/index.js';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { TextStyle } from './style.js';
-import { formatTime } from './unitsSi.js';
+import { formatTime } from './reportNumbers.js';
 
 const waits = (u: UnitSummary): boolean => u.state === 'incomplete';
 

@@ -8,7 +8,7 @@ import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { UnitSummary } from '../types/index.js';
 import type { RecordStore } from '../records/index.js';
 import { loadSpec } from '../cli/checkRun.js';
-import type { Spec } from '../spec/index.js';
+import type { Spec } from '../design/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { errorBody } from './errorBody.js';
 

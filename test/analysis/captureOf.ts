@@ -1,6 +1,6 @@
 /** Wraps synthesized signals into a Capture, as the reader would hand it to measureCapture. */
 import type { Capture, CaptureChannel } from '../../src/types/index.js';
-import type { SynthSignal } from '../../src/synth/index.js';
+import type { SynthSignal } from '../../src/syntheticCaptures/index.js';
 import { plainLayout } from '../helpers/plainLayout.js';
 
 export interface ChannelSpec {

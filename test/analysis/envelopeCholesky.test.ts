@@ -4,8 +4,8 @@
  * systems whose rows couple only a few neighbours, as the harmonic fit's normal equations do.
  */
 import { describe, expect, it } from 'vitest';
-import { at, envelopeCholeskySolve, envelopeOf } from '../../src/analysis/envelopeCholesky.js';
-import { createRandom } from '../../src/synth/index.js';
+import { at, envelopeCholeskySolve, envelopeOf } from '../../src/analysis/fits/envelopeCholesky.js';
+import { createRandom } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
 function denseSolve(a: number[][], b: number[]): number[] {

@@ -1,15 +1,15 @@
 /**
  * flatTops against closed forms: a symmetric triangle of peak A spends (A − L)/(2A) of each period
  * above a level L (closed form, straight ramps), so a buffer saturating at L is flat for that share;
- * an 8-bit converter's codes run from −128q to 127q (two's complement, mid-tread, as src/synth
+ * an 8-bit converter's codes run from −128q to 127q (two's complement, mid-tread, as src/syntheticCaptures
  * quantises). Demo figures are ours (FH-210 triangle ±3 V at 261.63 Hz).
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { flatTops } from '../../src/analysis/flatTops.js';
+import { flatTops } from '../../src/analysis/levels/flatTops.js';
 import { measureCapture } from '../../src/analysis/index.js';
-import { createRandom, synthesize } from '../../src/synth/index.js';
-import { noiseLevel } from '../../src/analysis/noiseLevel.js';
+import { createRandom, synthesize } from '../../src/syntheticCaptures/index.js';
+import { noiseLevel } from '../../src/analysis/levels/noiseLevel.js';
 import { captureOf } from './captureOf.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 

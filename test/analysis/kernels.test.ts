@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { midCrossings, noiseLevel, periodFit, sineFit } from '../../src/analysis/index.js';
-import { createRandom, synthesize } from '../../src/synth/index.js';
+import { createRandom, synthesize } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { sameSamples } from './captureOf.js';
 

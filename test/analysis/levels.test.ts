@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { measureCapture } from '../../src/analysis/index.js';
-import type { SynthSpec } from '../../src/synth/index.js';
-import { synthesize } from '../../src/synth/index.js';
+import type { SynthSpec } from '../../src/syntheticCaptures/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { captureOf } from './captureOf.js';
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { measureCapture } from '../../src/analysis/index.js';
 import { MEASUREMENT_IDS, MEASUREMENT_UNITS } from '../../src/types/index.js';
 import type { ChannelReport } from '../../src/types/index.js';
-import { synthesize } from '../../src/synth/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { captureOf, sameSamples } from './captureOf.js';
 

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { plotDecimate, plotDecimateSeries } from '../../src/analysis/index.js';
-import { createRandom } from '../../src/synth/index.js';
+import { createRandom } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
 function noisy(n: number, seed: number): Float64Array {

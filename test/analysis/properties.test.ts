@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { measureCapture } from '../../src/analysis/index.js';
 import type { MeasurementId } from '../../src/types/index.js';
-import type { SynthShape } from '../../src/synth/index.js';
-import { synthesize } from '../../src/synth/index.js';
+import type { SynthShape } from '../../src/syntheticCaptures/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { captureOf, sameSamples } from './captureOf.js';
 

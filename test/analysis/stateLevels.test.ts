@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { stateLevels } from '../../src/analysis/index.js';
-import { synthesize } from '../../src/synth/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { sameSamples } from './captureOf.js';
 

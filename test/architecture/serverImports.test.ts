@@ -14,7 +14,7 @@ async function restrictedMessages(file: string, code: string): Promise<string[]>
 
 describe('the import rule for the bench page server', () => {
   it('refuses an import of the server from any stage', async () => {
-    for (const stage of ['capture', 'analysis', 'spec', 'diagnose', 'records', 'report']) {
+    for (const stage of ['capture', 'analysis', 'design', 'diagnose', 'records', 'report']) {
       const msgs = await restrictedMessages(`src/${stage}/probe.ts`, "import { startBenchServer } from '../server/benchServer.js';\nexport const p = startBenchServer;\n");
       expect(msgs.join(' '), stage).toContain('no stage imports the bench page server');
     }

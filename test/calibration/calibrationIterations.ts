@@ -1,6 +1,6 @@
 /** Test helpers: calibration iterations of the fictional FK-0104 (demo only), ready for the store. */
 import { createHash } from 'node:crypto';
-import { decideCalibration } from '../../src/spec/index.js';
+import { decideCalibration } from '../../src/design/index.js';
 import { guideTrim } from '../../src/diagnose/index.js';
 import type { NewCalibrationIteration } from '../../src/types/index.js';
 import { givenReading, kestrelSpec, specText, unitFrequency } from './kestrelCalibration.js';

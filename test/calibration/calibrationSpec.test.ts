@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseSpec, planCalibration } from '../../src/spec/index.js';
+import { parseSpec, planCalibration } from '../../src/design/index.js';
 import { BenchError } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { kestrelSpec, specText, specWith } from './kestrelCalibration.js';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decideCalibration, expectedFrequency } from '../../src/spec/index.js';
+import { decideCalibration, expectedFrequency } from '../../src/design/index.js';
 import { guideTrim } from '../../src/diagnose/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { givenReading, kestrelSpec, measuredReading, specWith, unitFrequency } from './kestrelCalibration.js';

@@ -4,9 +4,9 @@
  */
 import { readFileSync } from 'node:fs';
 import { measureCapture } from '../../src/analysis/index.js';
-import { calibrationOf, calibrationReading, parseSpec } from '../../src/spec/index.js';
-import type { Spec, StepReading } from '../../src/spec/index.js';
-import { synthesize } from '../../src/synth/index.js';
+import { calibrationOf, calibrationReading, parseSpec } from '../../src/design/index.js';
+import type { Spec, StepReading } from '../../src/design/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
 import type { Measurement } from '../../src/types/index.js';
 import { captureOf } from '../analysis/captureOf.js';
 

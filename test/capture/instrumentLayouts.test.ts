@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { inspectCapture, readCapture } from '../../src/capture/index.js';
 import { createStyle, renderInspectText } from '../../src/report/index.js';
-import { synthesize } from '../../src/synth/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
 import { isBenchError } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';

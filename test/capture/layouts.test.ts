@@ -3,8 +3,8 @@ import fc from 'fast-check';
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { readCapture } from '../../src/capture/index.js';
-import { synthesize, writeCsv } from '../../src/synth/index.js';
-import type { CsvChannel, CsvLayoutOptions } from '../../src/synth/index.js';
+import { synthesize, writeCsv } from '../../src/syntheticCaptures/index.js';
+import type { CsvChannel, CsvLayoutOptions } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';
 

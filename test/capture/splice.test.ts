@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { findSplice } from '../../src/capture/splice.js';
-import { synthesize } from '../../src/synth/index.js';
-import type { SynthShape } from '../../src/synth/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
+import type { SynthShape } from '../../src/syntheticCaptures/index.js';
 
 // FH-210 Kestrel outputs (demo scenario, ours) at 50 kS/s, with the impairments a bench sees.
 const signal = (shape: SynthShape, seed: number, extra: Record<string, unknown> = {}) =>

@@ -3,8 +3,8 @@ import { createHash } from 'node:crypto';
 import { closeSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { readCapture } from '../../src/capture/index.js';
-import { synthesize, writeCsvChunks } from '../../src/synth/index.js';
-import type { CsvLayoutOptions } from '../../src/synth/index.js';
+import { synthesize, writeCsvChunks } from '../../src/syntheticCaptures/index.js';
+import type { CsvLayoutOptions } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readCapture } from '../../src/capture/index.js';
-import { createRandom, synthesize, writeCsv } from '../../src/synth/index.js';
+import { createRandom, synthesize, writeCsv } from '../../src/syntheticCaptures/index.js';
 import { isBenchError } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readMetadata } from '../../src/capture/metadata.js';
-import { parseHeaderCell, parseUnit } from '../../src/capture/units.js';
+import { parseHeaderCell, parseUnit } from '../../src/capture/siUnits.js';
 import { readCapture } from '../../src/capture/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { tempFolder } from './tempFiles.js';

@@ -2,7 +2,7 @@
  * The bench session end to end: a good unit's three captures landing in a watched folder make one
  * complete attempt and a first-pass yield of 100 %; a unit with one capture is INCOMPLETE, waiting for
  * two; a failed unit re-tested after a repair note shows both attempts, the note, and yields that count
- * attempts. Captures are the shipped demo files (invented scenario, src/synth/scenario.ts): FK-0101 is
+ * attempts. Captures are the shipped demo files (invented scenario, src/syntheticCaptures/scenario.ts): FK-0101 is
  * built good, FK-0106 has a slow comparator (FAIL), FK-0102 good. Expected statements are the
  * scenario's, as the README's demo lists them; yields are counted by hand from them.
  */

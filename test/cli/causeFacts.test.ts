@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { runCli } from '../helpers/cliHarness.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
-// FK-0104 of the demo scenario (samples/, src/synth/scenario.ts) is built with a timing capacitor
+// FK-0104 of the demo scenario (samples/, src/syntheticCaptures/scenario.ts) is built with a timing capacitor
 // about 6 % above its 4.7 nF ± 5 % design value. Its cause carries that as data: the part, the value
 // the captures imply, the design band from the spec, the share of the deviation it explains and the
 // measurement that would confirm it. Assertions read the facts, never numbers out of sentences.

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { runCli } from '../helpers/cliHarness.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
-// Demo captures (invented scenario, src/synth/scenario.ts) and the demo spec in samples/.
+// Demo captures (invented scenario, src/syntheticCaptures/scenario.ts) and the demo spec in samples/.
 const SPEC = 'samples/fh210-spec.yaml';
 const unitFiles = (serial: string): string[] => ['low', 'mid', 'high'].map((c) => `samples/captures/${serial}_${c}.csv`);
 

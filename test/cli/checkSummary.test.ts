@@ -1,5 +1,5 @@
 /**
- * `check --summary` on the demo captures (invented scenario, src/synth/scenario.ts): one line per
+ * `check --summary` on the demo captures (invented scenario, src/syntheticCaptures/scenario.ts): one line per
  * unit with its statement, the checks not passed and the first likely cause.
  */
 import { describe, it, expect } from 'vitest';

@@ -4,7 +4,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll } from 'vitest';
-import { parseSpec } from '../../src/spec/index.js';
+import { parseSpec } from '../../src/design/index.js';
 import { readingSettings } from '../../src/capture/index.js';
 import { parse } from 'yaml';
 import { runCli } from '../helpers/cliHarness.js';

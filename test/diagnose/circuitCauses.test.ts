@@ -1,10 +1,10 @@
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { decideUnit, parseSpec } from '../../src/spec/index.js';
-import type { Spec } from '../../src/spec/index.js';
+import { decideUnit, parseSpec } from '../../src/design/index.js';
+import type { Spec } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
-import { KESTREL_CONDITIONS } from '../../src/synth/index.js';
-import type { UnitTraits } from '../../src/synth/index.js';
+import { KESTREL_CONDITIONS } from '../../src/syntheticCaptures/index.js';
+import type { UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Cause, CircuitView, Diagnosis } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { checkedKestrel, kestrelTraits } from './kestrelUnit.js';

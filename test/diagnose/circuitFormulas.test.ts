@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { capacitanceFromRamps, capacitanceFromSlope, coreFrequency, currentFromSlope, octaves, scaleToCondition, toleranceU } from '../../src/diagnose/index.js';
 import type { Estimate } from '../../src/diagnose/index.js';
-import { createRandom } from '../../src/synth/index.js';
+import { createRandom } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
 const exact = (value: number): Estimate => ({ value, u: 0 });

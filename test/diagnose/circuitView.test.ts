@@ -1,9 +1,9 @@
 import { describe, it, expect } from 'vitest';
-import { decideUnit, parseSpec } from '../../src/spec/index.js';
-import type { Spec } from '../../src/spec/index.js';
+import { decideUnit, parseSpec } from '../../src/design/index.js';
+import type { Spec } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
-import { synthesize } from '../../src/synth/index.js';
-import type { ScenarioCondition } from '../../src/synth/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
+import type { ScenarioCondition } from '../../src/syntheticCaptures/index.js';
 import type { CircuitFigure, CircuitView } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { checkedSignals } from './kestrelUnit.js';

@@ -1,16 +1,16 @@
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { decideUnit, parseSpec } from '../../src/spec/index.js';
-import type { Spec } from '../../src/spec/index.js';
+import { decideUnit, parseSpec } from '../../src/design/index.js';
+import type { Spec } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
-import { KESTREL_CONDITIONS, synthesize } from '../../src/synth/index.js';
-import type { ScenarioCondition, UnitTraits } from '../../src/synth/index.js';
+import { KESTREL_CONDITIONS, synthesize } from '../../src/syntheticCaptures/index.js';
+import type { ScenarioCondition, UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Cause, CheckedCapture } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { checkedKestrel, checkedSignals, kestrelTraits } from './kestrelUnit.js';
 import { jitteryCore } from './jitteryCore.js';
 
-// Every capture here is synthesized with a fixed seed (src/synth); the faults are planted on purpose.
+// Every capture here is synthesized with a fixed seed (src/syntheticCaptures); the faults are planted on purpose.
 // These tests pin the pattern rules, so the spec's design section is left out: with it, the part
 // attribution takes over the rules it refines (test/diagnose/circuitCauses.test.ts).
 const { design: _design, ...withoutDesign } = parseSpec(readFileSync('samples/fh210-spec.yaml', 'utf8'), 'samples/fh210-spec.yaml');
@@ -99,7 +99,7 @@ describe('diagnoseUnit shape patterns', () => {
   it('blames saturation first for a triangle pinned flat (the scenario’s FK-0105)', () => {
     const causes = causesOf(checkedKestrel(spec, kestrelTraits('FK-0105')));
     expect(causes[0].id).toBe('saturation');
-    // The scenario clamps FK-0105's triangle at 2.55 V inside the 8-bit scope's ±10 V (src/synth/scenario.ts).
+    // The scenario clamps FK-0105's triangle at 2.55 V inside the 8-bit scope's ±10 V (src/syntheticCaptures/scenario.ts).
     expect(causes[0].evidence[0]).toMatch(/flat on its top at 2\.55 V, inside the scope's range/);
     expect(ids(causes)).not.toContain('threshold-levels');
   });

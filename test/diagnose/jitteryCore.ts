@@ -1,9 +1,9 @@
 /**
  * A triangle core whose every period is drawn afresh (a noisy threshold): triangle and pulse with
- * period T·(1 + σ·g), g standard normal from the seeded generator in src/synth. Test data only.
+ * period T·(1 + σ·g), g standard normal from the seeded generator in src/syntheticCaptures. Test data only.
  */
-import { createRandom } from '../../src/synth/index.js';
-import type { SynthSignal } from '../../src/synth/index.js';
+import { createRandom } from '../../src/syntheticCaptures/index.js';
+import type { SynthSignal } from '../../src/syntheticCaptures/index.js';
 
 export function jitteryCore(frequency: number, sigma: number, seed: number): { triangle: SynthSignal; pulse: SynthSignal } {
   const sampleRate = frequency * 200 * 1.0137;

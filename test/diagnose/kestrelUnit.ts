@@ -1,12 +1,12 @@
 /**
- * Test helper: synthesized FH-210 captures (src/synth scenario, fixed seeds) turned into Captures in
+ * Test helper: synthesized FH-210 captures (src/syntheticCaptures scenario, fixed seeds) turned into Captures in
  * memory, measured by the analysis stage and bound to a spec, as `benchproof check` would do with files.
  */
 import { measureCapture } from '../../src/analysis/index.js';
-import { bindCapture, planCapture } from '../../src/spec/index.js';
-import type { Spec } from '../../src/spec/index.js';
-import { KESTREL_CONDITIONS, KESTREL_UNITS, kestrelCapture } from '../../src/synth/index.js';
-import type { ScenarioCondition, SynthSignal, UnitTraits } from '../../src/synth/index.js';
+import { bindCapture, planCapture } from '../../src/design/index.js';
+import type { Spec } from '../../src/design/index.js';
+import { KESTREL_CONDITIONS, KESTREL_UNITS, kestrelCapture } from '../../src/syntheticCaptures/index.js';
+import type { ScenarioCondition, SynthSignal, UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Capture, CheckedCapture } from '../../src/types/index.js';
 import { plainLayout } from '../helpers/plainLayout.js';
 

@@ -1,7 +1,7 @@
 /** The README's examples stay true: its spec outline is a valid spec. Project rule (no source). */
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { parseSpec } from '../../src/spec/index.js';
+import { parseSpec } from '../../src/design/index.js';
 
 describe('README examples', () => {
   it('gives a spec outline that validates as written', () => {

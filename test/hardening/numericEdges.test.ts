@@ -9,8 +9,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { measureCapture } from '../../src/analysis/index.js';
-import { synthesize } from '../../src/synth/index.js';
-import type { SynthSignal } from '../../src/synth/index.js';
+import { synthesize } from '../../src/syntheticCaptures/index.js';
+import type { SynthSignal } from '../../src/syntheticCaptures/index.js';
 import type { ChannelReport, MeasureReport } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { captureOf } from '../analysis/captureOf.js';

@@ -10,7 +10,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { parse, stringify } from 'yaml';
-import { parseSpec } from '../../src/spec/index.js';
+import { parseSpec } from '../../src/design/index.js';
 import { isBenchError } from '../../src/types/index.js';
 import type { BenchErrorFields } from '../../src/types/index.js';
 import { runCli } from '../helpers/cliHarness.js';

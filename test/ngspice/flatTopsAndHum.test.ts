@@ -21,7 +21,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { readCapture } from '../../src/capture/index.js';
 import { measureCapture } from '../../src/analysis/index.js';
-import { bindCapture, decideUnit, parseSpec, planCapture } from '../../src/spec/index.js';
+import { bindCapture, decideUnit, parseSpec, planCapture } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
 import type { Capture, Diagnosis, UnitVerdict } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';

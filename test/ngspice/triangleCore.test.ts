@@ -14,7 +14,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { readCapture } from '../../src/capture/index.js';
 import { measureCapture } from '../../src/analysis/index.js';
-import { bindCapture, decideUnit, parseSpec, planCapture } from '../../src/spec/index.js';
+import { bindCapture, decideUnit, parseSpec, planCapture } from '../../src/design/index.js';
 import { coreFrequency, diagnoseUnit } from '../../src/diagnose/index.js';
 import type { CircuitFigure, MeasureReport } from '../../src/types/index.js';
 import type { CircuitView } from '../../src/types/index.js';

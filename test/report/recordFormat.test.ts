@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime } from '../../src/report/unitsSi.js';
+import { formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime } from '../../src/report/reportNumbers.js';
 
 // Expected strings follow JCGM 100:2008 (GUM) §7.2.6: U with at most two significant digits, the value
 // rounded to the same decimal place; SI prefixes as in the SI Brochure (BIPM, 9th ed., Table 7).

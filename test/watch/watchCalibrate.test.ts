@@ -1,6 +1,6 @@
 /**
  * `watch --calibrate` on a real folder: the demo calibration captures of FK-0104 (invented scenario,
- * src/synth/calibrationScenario.ts: scale and offset off before trimming) land one by one; each is
+ * src/syntheticCaptures/calibrationScenario.ts: scale and offset off before trimming) land one by one; each is
  * placed at its step with its error in cents, and the full set becomes one stored iteration with
  * trim guidance, as `benchproof calibrate` gives. Cents: 1200·log2(f/f_expected) (REFERENCES §9).
  */

@@ -1,6 +1,6 @@
 /**
  * `watch` sessions on a real temporary folder (chokidar, real files), run in-process. Captures are
- * copies of the demo files (invented scenario, src/synth/scenario.ts): FK-0101 is built good,
+ * copies of the demo files (invented scenario, src/syntheticCaptures/scenario.ts): FK-0101 is built good,
  * FK-0103 has a charge/discharge current mismatch, FK-0104 a timing capacitor 6 % high.
  */
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';

@@ -1,17 +1,17 @@
 /** Every command, one line each; main.ts registers them in this order. */
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { registerMeasure } from './measure.js';
-import { registerInspect } from './inspect.js';
-import { registerCheck } from './check.js';
-import { registerSpec } from './spec.js';
-import { registerUnits } from './units.js';
-import { registerRecord } from './record.js';
-import { registerCompare } from './compare.js';
-import { registerBatch } from './batch.js';
-import { registerWatch } from './watch.js';
-import { registerCalibrate } from './calibrate.js';
-import { registerServe } from './serve.js';
+import { registerMeasure } from './measureCommand.js';
+import { registerInspect } from './inspectCommand.js';
+import { registerCheck } from './checkCommand.js';
+import { registerSpec } from './specCommand.js';
+import { registerUnits } from './unitsCommand.js';
+import { registerRecord } from './recordCommand.js';
+import { registerCompare } from './compareCommand.js';
+import { registerBatch } from './batchCommand.js';
+import { registerWatch } from './watchCommand.js';
+import { registerCalibrate } from './calibrateCommand.js';
+import { registerServe } from './serveCommand.js';
 
 export type RegisterCommand = (program: Command, ctx: CommandContext) => Command;
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decimate } from '../../../src/analysis/decimate.js';
+import { decimate } from '../../../src/analysis/spectrum/decimate.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 describe('decimate', () => {

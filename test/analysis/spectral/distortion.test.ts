@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { synthesize } from '../../../src/synth/index.js';
-import { analyzeSpectrum } from '../../../src/analysis/spectralAnalysis.js';
+import { synthesize } from '../../../src/syntheticCaptures/index.js';
+import { analyzeSpectrum } from '../../../src/analysis/spectrum/spectralAnalysis.js';
 import type { MeasureResult } from '../../../src/types/index.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 import { truncatedThd } from './fourierSeries.js';

@@ -9,8 +9,8 @@
  *   the ENOB definition built on it), so a sine of peak A has SINAD = 10·log10((A²/2)/(q²/12)).
  */
 import { describe, expect, it } from 'vitest';
-import { synthesize } from '../../../src/synth/index.js';
-import { analyzeSpectrum } from '../../../src/analysis/spectralAnalysis.js';
+import { synthesize } from '../../../src/syntheticCaptures/index.js';
+import { analyzeSpectrum } from '../../../src/analysis/spectrum/spectralAnalysis.js';
 import type { MeasureResult } from '../../../src/types/index.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { synthesize } from '../../../src/synth/index.js';
-import { analyzeSpectrum, MAX_SPAN } from '../../../src/analysis/spectralAnalysis.js';
+import { synthesize } from '../../../src/syntheticCaptures/index.js';
+import { analyzeSpectrum, MAX_SPAN } from '../../../src/analysis/spectrum/spectralAnalysis.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 const CASE13 = 'REFERENCES test case 13';

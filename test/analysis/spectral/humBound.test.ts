@@ -5,8 +5,8 @@
  * bin power ∝ σ²).
  */
 import { describe, expect, it } from 'vitest';
-import { synthesize } from '../../../src/synth/index.js';
-import { analyzeSpectrum } from '../../../src/analysis/spectralAnalysis.js';
+import { synthesize } from '../../../src/syntheticCaptures/index.js';
+import { analyzeSpectrum } from '../../../src/analysis/spectrum/spectralAnalysis.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 const A = 3;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { LobeScan, inComponentLobe } from '../../../src/analysis/noiseFloor.js';
-import type { SpectralFrame } from '../../../src/analysis/spectralFrame.js';
+import { LobeScan, inComponentLobe } from '../../../src/analysis/spectrum/noiseFloor.js';
+import type { SpectralFrame } from '../../../src/analysis/spectrum/spectralFrame.js';
 
 /** The definition: bin k is in the DC lobe (k < r) or within r bins of a harmonic m·p, m = 1…exclude. */
 function covered(k: number, r: number, p: number, exclude: number): boolean {

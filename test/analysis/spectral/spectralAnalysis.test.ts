@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { synthesize } from '../../../src/synth/index.js';
-import { analyzeSpectrum } from '../../../src/analysis/spectralAnalysis.js';
+import { synthesize } from '../../../src/syntheticCaptures/index.js';
+import { analyzeSpectrum } from '../../../src/analysis/spectrum/spectralAnalysis.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 const tri = synthesize({ shape: 'triangle', frequency: 1000, amplitude: 3, sampleRate: 100_000, samples: 10_000, bandLimited: true, noise: 1e-3, seed: 21 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import FFT from 'fft.js';
-import { isPowerOfTwo, nextPowerOfTwo, realSpectrum, spectrumInPlace } from '../../../src/analysis/spectrum.js';
+import { isPowerOfTwo, nextPowerOfTwo, realSpectrum, spectrumInPlace } from '../../../src/analysis/spectrum/spectrum.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 /** Plain O(M²) DFT, X[k] = Σ x[i]·e^(−2πik·i/M): the textbook definition, independent of fft.js. */

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { windowFigures } from '../../../src/analysis/windowFigures.js';
-import { windowKernel, windowSamples, type WindowKind } from '../../../src/analysis/windows.js';
-import { realSpectrum } from '../../../src/analysis/spectrum.js';
+import { windowFigures } from '../../../src/analysis/spectrum/windowFigures.js';
+import { windowKernel, windowSamples, type WindowKind } from '../../../src/analysis/spectrum/windows.js';
+import { realSpectrum } from '../../../src/analysis/spectrum/spectrum.js';
 import { expectWithin } from '../../helpers/expectWithin.js';
 
 const HARRIS = 'Harris 1978, Table I (REFERENCES §1, test case 1)';

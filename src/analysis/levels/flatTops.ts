@@ -1,0 +1,222 @@
+/**
+ * Flat tops: stretches where the waveform sits at its extreme level instead of passing through it,
+ * and whether that level is the capture's own full scale (the trace ran off the scope's screen) or
+ * lies inside it (the circuit saturated). Common practice (no source); the rule, stated so it can be
+ * checked, with every threshold in the signal's own terms so it holds at any vertical resolution:
+ *
+ * 1. Flat: a run of at least 3 samples exactly (to 1e-9 of the span) at the highest (lowest) level
+ *    the record holds for 3 samples in a row, so a stray overshoot past it does not hide it; failing that, of
+ *    samples within a band b = 6σ below the level only 0.1 % of the record exceeds, σ the additive noise
+ *    (noiseLevel.ts), so noise riding on a saturated level stays inside the band and a lone spike
+ *    past it changes nothing. Nothing depends on the size of the converter's steps: an
+ *    exactly flat run counts at 1 µV as at 80 mV.
+ * 2. Longer than a peak would dwell there: more than 1.5 times the samples the signal then takes, on
+ *    the slower side, to fall 4u below the level (u = b, or the step q to the next value for an exact
+ *    run). A parabolic peak c·t² stays within u for 2√(u/c) samples and reaches 4u in 2√(u/c): ratio
+ *    1; a triangle's apex 1/2 (closed forms); a flat F samples long on a ramp of slope s, F·s/(4u) + 1/2.
+ * 3. Cuts off a ramp: walking away from the run on one side, the signal takes at least 3 times as many
+ *    samples to fall 4d below the level as to fall d; d = max(2q, 5 % of the span) for an exact run
+ *    (a straight ramp 4×, a parabolic peak √4 = 2×, the jump of a square edge 1×, closed forms) and
+ *    d = max(8b, 5 % of the span) for a noisy one (counted from the band's edge at b: a ramp at least
+ *    (32 − 1)/(8 − 1) ≈ 4.4×, a parabola at most (√32 − 1)/(√8 − 1) ≈ 2.55×). When 4d passes half
+ *    the span the rule cannot be judged and nothing is flagged. Only the run's core, within b/2 of its
+ *    median, counts as flat.
+ * 4. The flat samples on a side reach 0.5 % of the record.
+ * At full scale rules 2 and 3 are not asked: any flat run there is the screen's edge, whatever the shape.
+ * Full scale: the channel's limits when the capture states them; otherwise a level that sits on a
+ * converter end code (|level/q| = 2^(b−1) or 2^(b−1) − 1 for b = 8, 10, 12, 14 or 16 bits, with every
+ * code of the record inside ±2^(b−1), q the step between the level and the next value), or a record
+ * whose codes fill 2^b − 1 steps or more from end to end. A scope
+ * whose vertical offset moves its codes off zero is only recognised from the full scale it states.
+ */
+import type { FlatTop } from '../../types/index.js';
+import { extremes, quantiles } from './quantiles.js';
+
+const BAND_SIGMAS = 6;
+const DWELL_RATIO = 1.5;
+const RAMP_RATIO = 3;
+const MIN_SHARE = 0.005;
+const MIN_RUN = 3;
+/** Converter widths of bench oscilloscopes and digitisers. */
+const CONVERTER_BITS = [8, 10, 12, 14, 16] as const;
+
+export interface FlatTopOptions {
+  /** Standard deviation of the additive noise, in the samples' unit. */
+  readonly noise: number;
+  /** Span of the waveform (e.g. between its 0.5 % and 99.5 % quantiles). */
+  readonly span: number;
+  /** The capture's full-scale limits for this channel, when it states them. */
+  readonly fullScale?: { readonly low: number; readonly high: number };
+  /** The record's extremes, when the caller has them (saves a pass). */
+  readonly range?: { readonly min: number; readonly max: number };
+}
+
+export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTop[] {
+  const { noise, span, fullScale } = options;
+  const { min, max } = options.range ?? extremes(samples);
+  if (!(max > min) || !(span > 0)) return [];
+  const out: FlatTop[] = [];
+  // Values printed with 15 digits differ in the last one: "exactly" flat means within this much.
+  const equal = 1e-9 * Math.max(Math.abs(max), Math.abs(min), span);
+  const held = heldLevels(samples, equal);
+  let tails: number[] | null = null;
+  for (const dir of [1, -1] as const) {
+    const side = dir > 0 ? 'high' : 'low';
+    const extreme = dir > 0 ? max : min;
+    // A stray sample past a flat run (a simulator's or scope's overshoot) must not hide it: the exact
+    // level is the highest (lowest) one held for MIN_RUN samples in a row.
+    const level = (dir > 0 ? held.high : held.low) ?? extreme;
+    const q = stepAt(samples, level, -dir, equal);
+    const from = fullScaleOf(side, extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min, fullScale);
+    const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
+    const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
+    // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
+    let found = flatSamples(samples, level, dir, exact, span, from === null);
+    if (found.count < MIN_SHARE * samples.length) {
+      // A noisy flat is sought below its 0.1 % extreme, so a lone spike past it does not hide it.
+      tails ??= quantiles(samples, [0.001, 0.999], { min, max });
+      found = flatSamples(samples, from === null ? (dir > 0 ? tails[1] : tails[0]) : extreme, dir, noisy, span, from === null);
+    }
+    if (found.count < MIN_SHARE * samples.length) continue;
+    out.push({
+      side,
+      level: found.sum / found.count,
+      share: found.count / samples.length,
+      samples: found.count,
+      cause: from ? 'scope-range' : 'circuit',
+      ...(from ? { fullScaleFrom: from } : {}),
+    });
+  }
+  return out;
+}
+
+interface Scales {
+  /** Width of the flat band below the level (0: exactly equal samples). */
+  readonly band: number;
+  /** Depth unit of rule 2. */
+  readonly unit: number;
+  /** Depth d of rule 3. */
+  readonly d: number;
+}
+
+/** Samples (and their sum) in runs at `level` that pass rules 1 to 3 at the given scales. */
+function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, span: number, judge: boolean): { count: number; sum: number } {
+  const depthOf = (i: number): number => dir * (level - x[i]);
+  // Too coarse to follow a ramp over 4d within half the span: rule 3 cannot be judged.
+  if (judge && !(4 * sc.d <= span / 2 && sc.unit > 0)) return { count: 0, sum: 0 };
+  let count = 0;
+  let sum = 0;
+  let i = 0;
+  const edge = level - dir * sc.band;
+  while (i < x.length) {
+    // Hot loop: outside the band, move on without a call.
+    if (dir > 0 ? !(x[i] >= edge) : !(x[i] <= edge)) {
+      i++;
+      continue;
+    }
+    const a = i;
+    while (i < x.length && depthOf(i) <= sc.band) i++;
+    const run = i - a;
+    if (run < MIN_RUN) continue;
+    if (judge) {
+      const before = a > 0 ? samplesToDepth(x, a - 1, -1, depthOf, 4 * sc.unit) : -1;
+      const after = i < x.length ? samplesToDepth(x, i, 1, depthOf, 4 * sc.unit) : -1;
+      if (before < 0 && after < 0) continue;
+      if (run <= DWELL_RATIO * Math.max(before, after)) continue;
+      if (!cutsRamp(x, a - 1, -1, depthOf, sc.d) && !cutsRamp(x, i, 1, depthOf, sc.d)) continue;
+    }
+    const core = flatCore(x, a, i, sc.band / 2);
+    count += core.count;
+    sum += core.sum;
+  }
+  return { count, sum };
+}
+
+/**
+ * The run's samples within `half` of its median: the flat itself, without the ends of the ramps that
+ * lie inside the band (noise on a flat spreads ±3σ = half the band around its level).
+ */
+function flatCore(x: Float64Array, a: number, b: number, half: number): { count: number; sum: number } {
+  const sorted = x.slice(a, b).sort();
+  const median = sorted[sorted.length >> 1];
+  let count = 0;
+  let sum = 0;
+  for (let j = a; j < b; j++) {
+    if (Math.abs(x[j] - median) > half) continue;
+    count++;
+    sum += x[j];
+  }
+  return { count, sum };
+}
+
+function cutsRamp(x: Float64Array, from: number, by: number, depthOf: (i: number) => number, d: number): boolean {
+  const shallow = samplesToDepth(x, from, by, depthOf, d);
+  const deep = samplesToDepth(x, from, by, depthOf, 4 * d);
+  return shallow > 0 && deep >= RAMP_RATIO * shallow;
+}
+
+function samplesToDepth(x: Float64Array, from: number, by: number, depthOf: (i: number) => number, depth: number): number {
+  for (let k = 1, j = from; j >= 0 && j < x.length; k++, j += by) {
+    const dd = depthOf(j);
+    if (dd !== dd) return -1;
+    if (dd >= depth) return k;
+  }
+  return -1;
+}
+
+/** Whether `level` is the capture's full scale on this side, and how that is known (null: inside the range). */
+function fullScaleOf(
+  side: 'high' | 'low',
+  level: number,
+  q: number,
+  max: number,
+  min: number,
+  fullScale: FlatTopOptions['fullScale'],
+): FlatTop['fullScaleFrom'] | null {
+  if (fullScale) {
+    const edge = side === 'high' ? fullScale.high : fullScale.low;
+    const tol = 0.005 * (fullScale.high - fullScale.low);
+    return Math.abs(level - edge) <= tol ? 'preamble' : null;
+  }
+  if (!(q > 0) || q < 1e-5 * (max - min)) return null;
+  const codes = (max - min) / q;
+  const code = level / q;
+  const whole = (v: number): boolean => Math.abs(v - Math.round(v)) < 1e-3;
+  if (!whole(code) || !whole(codes)) return null;
+  const lowCode = Math.round(min / q);
+  const highCode = Math.round(max / q);
+  for (const b of CONVERTER_BITS) {
+    const half = 2 ** (b - 1);
+    // Codes −2^(b−1) … 2^(b−1) − 1 (two's complement), or ±2^(b−1) where an export scales them
+    // symmetrically; the record must fit in them.
+    if (lowCode < -half || highCode > half) continue;
+    const c = Math.abs(Math.round(code));
+    if (c === half || c === half - 1 || Math.round(codes) >= 2 ** b - 1) return 'converter-codes';
+  }
+  return null;
+}
+
+/** Distance from `level` to the nearest other value on the inside (`towards` −1 below, +1 above). */
+function stepAt(x: Float64Array, level: number, towards: number, equal = 0): number {
+  let best = Infinity;
+  for (let i = 0; i < x.length; i++) {
+    const d = towards * (x[i] - level);
+    if (d > equal && d < best) best = d;
+  }
+  return best;
+}
+
+/** The highest and lowest values held within `equal` for MIN_RUN samples in a row (null where none), in one pass. */
+function heldLevels(x: Float64Array, equal: number): { high: number | null; low: number | null } {
+  let high = -Infinity;
+  let low = Infinity;
+  let run = 1;
+  for (let i = 1; i < x.length; i++) {
+    const v = x[i];
+    run = Math.abs(v - x[i - 1]) <= equal ? run + 1 : 1;
+    if (run < MIN_RUN) continue;
+    if (v > high) high = v;
+    if (v < low) low = v;
+  }
+  return { high: high > -Infinity ? high : null, low: low < Infinity ? low : null };
+}

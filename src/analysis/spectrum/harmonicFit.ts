@@ -1,0 +1,228 @@
+/**
+ * Least-squares multi-harmonic fit at a known fundamental, done on the windowed spectrum.
+ *
+ * Model (IEEE Std 1057 sine fit, clause on the 3-parameter fit, extended to harmonics as in
+ * IEEE Std 1241's multi-harmonic fit): x[i] = c₀ + Σ_n Re(c_n·e^(iω_n·i)), ω_n = 2π·n·f₀/f_s.
+ * Windowed and transformed, each term becomes the window's transform centred on ±n·f₀
+ * (Harris 1978, eq. 8): X[k] = c₀W(k) + Σ_n ½c_n·W(k − p_n) + ½c̄_n·W(k + p_n), p_n in bins.
+ * W is known exactly (windows.ts), so solving for c over the main-lobe bins of every harmonic
+ * gives amplitudes with no scalloping whether or not the record holds whole cycles, and fits
+ * overlapping lobes (few cycles) jointly. Terms further apart than COUPLING_BINS window bins
+ * are not coupled: the 4-term Blackman-Harris sidelobes there are about −134 dB (its edge step
+ * w[0] = 6·10⁻⁵ sets a 6 dB/octave tail: 6·10⁻⁵/(π·256·a₀)).
+ */
+import { at, envelopeCholeskySolve, envelopeOf, type Envelope } from '../fits/envelopeCholesky.js';
+import { frameKernel, type SpectralFrame } from './spectralFrame.js';
+
+const COUPLING_BINS = 256;
+/**
+ * Harmonics past the first STRONG ones couple only within NEAR_BINS window bins (twice the 4-term
+ * lobe): a waveform with a jump has harmonics under A₁/n, so past n = 54 their sidelobes beyond that
+ * reach (under −100 dB, Harris 1978 Fig. 66) stay below the 1e-7·A₁ floor of harmonicAnalysis.ts, and
+ * a series of thousands of harmonics costs a few couplings per bin instead of hundreds.
+ */
+const STRONG = 54;
+const NEAR_BINS = 8;
+
+export interface HarmonicFit {
+  readonly fundamental: number;
+  /** Harmonics fitted: 1…count. */
+  readonly count: number;
+  /** Peak amplitude of harmonic n at index n; index 0 holds the residual DC. */
+  readonly amplitude: Float64Array;
+  /** Phase of harmonic n (cosine at the span's first sample), radians. */
+  readonly phase: Float64Array;
+  /** Σ|X − model|² over the fitted bins, and how many bins were fitted. */
+  readonly residualPower: number;
+  readonly fittedBins: number;
+  /** Solution vector [c₀, Re c₁, Im c₁, …] before any filter-response correction. */
+  readonly coefficients: Float64Array;
+}
+
+interface Layout {
+  /** Harmonic spacing in DFT bins. */
+  readonly spacing: number;
+  readonly count: number;
+  /** Coupling reach in DFT bins of the strong harmonics (DC, 1…STRONG) and of the rest. */
+  readonly far: number;
+  readonly near: number;
+  readonly unknowns: number;
+  readonly bins: Int32Array;
+}
+
+function layout(frame: SpectralFrame, fundamental: number, count: number): Layout {
+  const last = frame.spectrum.bins - 1;
+  const spacing = fundamental / frame.binWidth;
+  const perWindowBin = frame.spectrum.size / frame.length;
+  const fitted = new Uint8Array(last + 1);
+  let n = 0;
+  for (let g = 0; g <= count; g++) {
+    const lo = Math.max(0, Math.ceil(g * spacing - frame.lobeBins));
+    const hi = Math.min(last, Math.floor(g * spacing + frame.lobeBins));
+    for (let k = lo; k <= hi; k++) {
+      if (fitted[k]) continue;
+      fitted[k] = 1;
+      n++;
+    }
+  }
+  const bins = new Int32Array(n);
+  for (let k = 0, i = 0; k <= last; k++) if (fitted[k]) bins[i++] = k;
+  const near = Math.max(NEAR_BINS * perWindowBin, frame.lobeBins + 1);
+  return { spacing, count, far: COUPLING_BINS * perWindowBin, near, unknowns: 2 * count + 1, bins };
+}
+
+/** Column of the first unknown of harmonic g (DC has one, the others two). */
+const columnOf = (g: number): number => (g === 0 ? 0 : 2 * g - 1);
+
+/** Harmonics that may couple at bin k: the strong ones within `far`, the rest within `near` (a superset; images included). */
+function harmonicRange(lay: Layout, k: number): { gLo: number; gHi: number } {
+  const { spacing, count, far, near } = lay;
+  const strongHi = Math.min(count, STRONG, Math.floor((k + far) / spacing));
+  const strongLo = Math.max(0, Math.ceil((k - far) / spacing));
+  const weakLo = Math.max(STRONG + 1, Math.ceil((k - near) / spacing));
+  const weakHi = Math.min(count, Math.floor((k + near) / spacing));
+  const hasStrong = strongLo <= strongHi;
+  const hasWeak = weakLo <= weakHi;
+  if (!hasStrong && !hasWeak) return { gLo: 1, gHi: 0 };
+  return { gLo: hasStrong ? strongLo : weakLo, gHi: hasWeak ? weakHi : strongHi };
+}
+
+/**
+ * Complex coefficients at bin k of the unknowns from column `first` on (interleaved re, im, two
+ * values per unknown), zero where a harmonic is too far to couple. Returns `first` and the number of
+ * unknowns written (0 when none couples).
+ */
+function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array): { first: number; width: number } {
+  const { spacing } = lay;
+  const size = frame.spectrum.size;
+  const { gLo, gHi } = harmonicRange(lay, k);
+  if (gLo > gHi) return { first: 0, width: 0 };
+  const first = columnOf(gLo);
+  const width = 2 * gHi + 1 - first;
+  row.fill(0, 0, 2 * width);
+  for (let g = gLo; g <= gHi; g++) {
+    const reach = g <= STRONG ? lay.far : lay.near;
+    const p = g * spacing;
+    const nearImage = Math.min(Math.abs(k + p), Math.abs(size - k - p));
+    if (Math.abs(k - p) > reach && nearImage > reach) continue;
+    const wm = frameKernel(frame, k - p);
+    const u = columnOf(g) - first;
+    if (g === 0) {
+      row[2 * u] = wm.re;
+      row[2 * u + 1] = wm.im;
+      continue;
+    }
+    const wp = nearImage > reach ? { re: 0, im: 0 } : frameKernel(frame, k + p);
+    // ½c·W(k−p) + ½c̄·W(k+p) with c = a + ib: coefficient of a is (Wm + Wp)/2, of b is i(Wm − Wp)/2.
+    row[2 * u] = (wm.re + wp.re) / 2;
+    row[2 * u + 1] = (wm.im + wp.im) / 2;
+    row[2 * u + 2] = -(wm.im - wp.im) / 2;
+    row[2 * u + 3] = (wm.re - wp.re) / 2;
+  }
+  return { first, width };
+}
+
+/** First column each unknown couples with: over every fitted bin, the lowest unknown in its row. */
+function envelopeFor(lay: Layout): Envelope {
+  const first = new Int32Array(lay.unknowns);
+  for (let i = 0; i < first.length; i++) first[i] = i;
+  for (const k of lay.bins) {
+    const { gLo, gHi } = harmonicRange(lay, k);
+    if (gLo > gHi) continue;
+    const lo = columnOf(gLo);
+    for (let u = lo; u <= 2 * gHi; u++) if (first[u] > lo) first[u] = lo;
+  }
+  return envelopeOf(first);
+}
+
+/** Fits DC and harmonics 1…count of `fundamental` (Hz); null when the system is singular. */
+export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: number): HarmonicFit | null {
+  if (!(fundamental > 0) || !Number.isInteger(count) || count < 1) {
+    throw new RangeError(`fitHarmonics: need fundamental > 0 and an integer count ≥ 1, got ${fundamental}, ${count}`);
+  }
+  if (count * fundamental >= frame.sampleRate / 2) {
+    throw new RangeError(`fitHarmonics: harmonic ${count} of ${fundamental} Hz is not below Nyquist (${frame.sampleRate / 2} Hz)`);
+  }
+  const lay = layout(frame, fundamental, count);
+  const u = lay.unknowns;
+  const normal = envelopeFor(lay);
+  const rhs = new Float64Array(u);
+  const row = new Float64Array(2 * u);
+  const s = frame.spectrum;
+  let total = 0;
+  for (const k of lay.bins) {
+    const { first, width } = rowAt(frame, lay, k, row);
+    accumulate(normal, rhs, row, first, width, s.re(k), s.im(k));
+    total += s.power(k);
+  }
+  let maxDiag = 0;
+  for (let i = 0; i < u; i++) maxDiag = Math.max(maxDiag, normal.values[at(normal, i, i)]);
+  for (let i = 0; i < u; i++) normal.values[at(normal, i, i)] += 1e-14 * maxDiag;
+  const rhsCopy = rhs.slice();
+  const x = envelopeCholeskySolve(normal, rhs);
+  if (x === null) return null;
+  // At the least-squares solution ‖X − Ax‖² = ‖X‖² − xᵀAᵀX (normal equations), so no second pass.
+  let explained = 0;
+  for (let i = 0; i < u; i++) explained += x[i] * rhsCopy[i];
+  return summarise(frame, x, fundamental, count, Math.max(0, total - explained), lay.bins.length);
+}
+
+function accumulate(normal: Envelope, rhs: Float64Array, row: Float64Array, first: number, width: number, xr: number, xi: number): void {
+  for (let a = 0; a < width; a++) {
+    const ar = row[2 * a];
+    const ai = row[2 * a + 1];
+    if (ar === 0 && ai === 0) continue;
+    rhs[first + a] += ar * xr + ai * xi;
+    // Lower triangle only: A[first + a][first + b] for b ≤ a, inside the row's envelope by construction.
+    const base = at(normal, first + a, first);
+    for (let b = 0; b <= a; b++) normal.values[base + b] += ar * row[2 * b] + ai * row[2 * b + 1];
+  }
+}
+
+function summarise(
+  frame: SpectralFrame,
+  x: Float64Array,
+  fundamental: number,
+  count: number,
+  residualPower: number,
+  fittedBins: number,
+): HarmonicFit {
+  const amplitude = new Float64Array(count + 1);
+  const phase = new Float64Array(count + 1);
+  amplitude[0] = x[0];
+  for (let n = 1; n <= count; n++) {
+    const a = x[2 * n - 1];
+    const b = x[2 * n];
+    amplitude[n] = Math.hypot(a, b) / frame.response(n * fundamental);
+    phase[n] = Math.atan2(b, a);
+  }
+  return { fundamental, count, amplitude, phase, residualPower, fittedBins, coefficients: x };
+}
+
+/**
+ * Share of the power in harmonic n's main-lobe bins that the fitted model leaves unexplained.
+ * A steady tone at the given frequency leaves only noise; a wrong or drifting fundamental
+ * leaves a large share.
+ */
+export function lobeResidualShare(frame: SpectralFrame, fit: HarmonicFit, n: number): number {
+  const lay = layout(frame, fit.fundamental, fit.count);
+  const row = new Float64Array(2 * lay.unknowns);
+  const s = frame.spectrum;
+  const p = n * lay.spacing;
+  let residual = 0;
+  let total = 0;
+  const lo = Math.max(0, Math.ceil(p - frame.lobeBins));
+  const hi = Math.min(s.bins - 1, Math.floor(p + frame.lobeBins));
+  for (let k = lo; k <= hi; k++) {
+    const { first, width } = rowAt(frame, lay, k, row);
+    let mr = 0;
+    let mi = 0;
+    for (let a = 0; a < width; a++) {
+      mr += row[2 * a] * fit.coefficients[first + a];
+      mi += row[2 * a + 1] * fit.coefficients[first + a];
+    }
+    residual += (s.re(k) - mr) ** 2 + (s.im(k) - mi) ** 2;
+    total += s.power(k);
+  }
+  return total > 0 ? residual / total : 0;
+}
