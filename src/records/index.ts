@@ -20,3 +20,5 @@ export type { AttemptFacts, OpenAttempt } from './attempts.js';
 export { compareAttempts } from './compareAttempts.js';
 export type { CaptureKey, SaveOnceResult } from './captureSeen.js';
 export type { SavedIteration } from './calibrationSave.js';
+export { followStore, SWEEP_GAP_MS } from './followStore.js';
+export type { FollowedStore, StoreFollower } from './followStore.js';

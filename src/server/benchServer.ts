@@ -26,6 +26,7 @@ import { registerBatchRoutes } from './batchRoutes.js';
 import { createCaptureCache } from './captureCache.js';
 import { accessToken } from './accessToken.js';
 import { errorBody } from './errorBody.js';
+import { followStore } from '../records/index.js';
 
 export interface BenchServerOptions {
   readonly host?: string;
@@ -71,7 +72,8 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
     if (body.status === 500) ctx.io.stderr(`benchproof serve: internal error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
     return reply.code(body.status).send(body);
   });
-  registerBoardRoutes(app, setup);
+  const follower = followStore(setup.location.dir);
+  registerBoardRoutes(app, setup, follower);
   registerDropRoutes(app, setup);
   registerUnitRoutes(app, setup);
   registerPlotRoutes(app, setup, createCaptureCache(setup.location.dir));
@@ -85,6 +87,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
         // The records stay readable through the handle already open; the next change tries again.
         ctx.io.stderr(`benchproof serve: the records could not be opened again: ${err instanceof Error ? err.message : String(err)}\n`);
       }
+      follower.changed();
       hub.publish('changed', { at: new Date().toISOString() });
     },
     options.markerMs,
@@ -94,6 +97,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
   } catch (err) {
     marker.stop();
     hub.close();
+    follower.close();
     setup.close();
     throw listenError(err, host, port);
   }
@@ -112,6 +116,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
       marker.stop();
       hub.close();
       await app.close();
+      follower.close();
       setup.close();
     },
   };

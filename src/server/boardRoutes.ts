@@ -6,23 +6,22 @@
 import type { FastifyInstance } from 'fastify';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { UnitSummary } from '../types/index.js';
-import type { RecordStore } from '../records/index.js';
+import { unverifiedError } from '../records/index.js';
+import type { StoreFollower } from '../records/index.js';
 import { loadSpec } from '../cli/checkRun.js';
 import type { Spec } from '../design/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { errorBody } from './errorBody.js';
 
-export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup): void {
-  // The units listing reads every run of every unit; it is kept until the records change (a new
-  // store handle), so the pages that all ask again at a change cost one listing, not one each.
-  let kept: { store: RecordStore; spec: string | undefined; units: UnitSummary[] } | undefined;
+export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup, follower: StoreFollower): void {
+  // The follower has verified the records up to the chain head it last saw; each answer verifies only
+  // what was stored since (records/followStore.ts), and lists from light per-run heads.
   app.get('/api/board', async () => {
     const current = currentSpec(setup);
     const spec = current.ok ? current.spec : undefined;
-    if (kept?.store !== setup.store || kept.spec !== spec?.name) {
-      kept = { store: setup.store, spec: spec?.name, units: setup.store.listUnits(spec ? { spec: spec.name } : {}) };
-    }
-    const units = [...kept.units];
+    const followed = await follower.catchUp();
+    if (followed.audit.problems.length > 0 && !setup.flags.allowUnverified) throw unverifiedError(setup.location.shown, followed.audit);
+    const units = followed.units(spec?.name);
     return {
       spec: spec ? { name: spec.name, revision: spec.revision, file: setup.specFile } : null,
       specProblem: current.ok ? null : current.error,
