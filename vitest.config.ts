@@ -4,6 +4,8 @@ export default defineConfig({
   test: {
     include: ['test/**/*.test.ts'],
     reporters: ['default', './test/helpers/summaryReporter.ts'],
+    // One seed for every property-based run, printed with a failure (BENCHPROOF_PROPERTY_SEED overrides it).
+    setupFiles: ['./test/helpers/propertySeed.ts'],
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',

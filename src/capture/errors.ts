@@ -1,5 +1,5 @@
 /** BenchErrors of the capture reader; every code is listed in index.ts. */
-import { BenchError } from '../types/index.js';
+import { BenchError, type CaptureErrorName } from '../types/index.js';
 
 export interface CaptureProblem {
   readonly line?: number;
@@ -8,7 +8,7 @@ export interface CaptureProblem {
   readonly fix: string;
 }
 
-export function captureError(code: string, file: string, p: CaptureProblem): BenchError {
+export function captureError(code: CaptureErrorName, file: string, p: CaptureProblem): BenchError {
   return new BenchError({
     code: `capture.${code}`,
     file,

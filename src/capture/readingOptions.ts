@@ -136,7 +136,7 @@ export function mergeSettings(profile: ReadingSettings, flags: ReadCaptureOption
 
 function badProfile(file: string, problems: readonly Problem[]) {
   const fields = problems.map((p) => ({
-    code: 'capture.bad-profile',
+    code: 'capture.bad-profile' as const,
     file,
     problem: `${p.field}: ${p.problem}`,
     expected: p.expected,

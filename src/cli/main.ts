@@ -8,7 +8,7 @@ import { Command, CommanderError } from 'commander';
 import { writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { BenchError, isBenchError } from '../types/index.js';
+import { BenchError, isBenchError, type ErrorCode } from '../types/index.js';
 import { processIo } from './io.js';
 import { terminalSafeIo } from './terminalText.js';
 import type { CliIo } from './io.js';
@@ -113,7 +113,7 @@ function usageError(err: CommanderError): BenchError {
   return new BenchError({ code: fields.code, file: '-', problem: problem.replace(/\s*Allowed choices are [^.]+\./, ''), expected, fix });
 }
 
-const USAGE: Readonly<Record<string, { code: string; expected: string; fix: string }>> = {
+const USAGE: Readonly<Record<string, { code: ErrorCode; expected: string; fix: string }>> = {
   'commander.unknownCommand': { code: 'usage.unknown-command', expected: 'one of the commands that benchproof --help lists', fix: 'run benchproof --help' },
   'commander.unknownOption': { code: 'usage.unknown-option', expected: "an option that the command's --help lists", fix: 'run the command with --help to see its options' },
   'commander.missingMandatoryOptionValue': { code: 'usage.missing-option', expected: 'every required option given', fix: 'add the option named above' },

@@ -17,7 +17,7 @@ import { closeSync, constants, fsyncSync, lstatSync, openSync, realpathSync, ren
 import type { Stats } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, relative, resolve } from 'node:path';
-import { BenchError, systemErrorWords } from '../types/index.js';
+import { BenchError, systemErrorWords, type ErrorCode } from '../types/index.js';
 import type { CommandContext } from './context.js';
 
 export interface OutputRules {
@@ -135,6 +135,6 @@ function kindOf(s: Stats): string {
   return 'not a regular file';
 }
 
-function refusal(file: string, rules: OutputRules, code: string, problem: string, expected: string, fix: string): BenchError {
+function refusal(file: string, rules: OutputRules, code: ErrorCode, problem: string, expected: string, fix: string): BenchError {
   return new BenchError({ code, file, problem: `${rules.option}: ${problem}`, expected, fix });
 }

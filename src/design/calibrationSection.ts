@@ -4,7 +4,7 @@
  * pattern. Works on the raw parsed section and skips what zod already refused, so one run lists every
  * problem; the section it builds is used only when no issue was found.
  */
-import type { CalibrationLaw, CalibrationLawKind, TrimAdjustment } from '../types/index.js';
+import type { CalibrationLaw, CalibrationLawKind, ErrorCode, TrimAdjustment } from '../types/index.js';
 import { controlLabel, parseCents, parseControl, parseLinearScale, parseOctaveScale } from './calibrationValues.js';
 import type { CalibrationSection, CalibrationStep } from './calibrationTypes.js';
 import { DEFAULT_CALIBRATION_PATTERN } from './calibrationTypes.js';
@@ -22,7 +22,7 @@ const ALL_TRIMS: readonly TrimAdjustment[] = ['scale', 'offset', 'high-frequency
 
 export function resolveCalibration(raw: unknown, outputs: readonly SpecOutput[], issues: SpecIssue[]): CalibrationSection {
   const top = obj(raw);
-  const bad = (path: SpecPath, problem: string, expected: string, fix: string, code = 'spec.bad-value'): void => {
+  const bad = (path: SpecPath, problem: string, expected: string, fix: string, code: ErrorCode = 'spec.bad-value'): void => {
     issues.push({ code, path, problem: `${formatPath(path)}: ${problem}`, expected, fix });
   };
   const out = trackedOutput(top.output, outputs, issues);
@@ -59,7 +59,7 @@ function trackedOutput(raw: unknown, outputs: readonly SpecOutput[], issues: Spe
   return found;
 }
 
-type Bad = (path: SpecPath, problem: string, expected: string, fix: string, code?: string) => void;
+type Bad = (path: SpecPath, problem: string, expected: string, fix: string, code?: ErrorCode) => void;
 
 function resolveSteps(raw: unknown, kind: CalibrationLawKind, bad: Bad): CalibrationStep[] {
   const list = Array.isArray(raw) ? raw : [];

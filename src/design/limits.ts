@@ -12,6 +12,7 @@ import type { SpecIssue, SpecPath } from './specIssues.js';
 import { formatPath } from './specIssues.js';
 import type { Limit } from './specTypes.js';
 import { impossibleLimit } from './physicalRange.js';
+import type { ErrorCode } from '../types/index.js';
 
 export type LimitKey = 'nominal' | 'tolerance' | 'min' | 'max';
 export interface Sourced {
@@ -104,7 +105,7 @@ function readTolerance(f: Sourced, unit: string, nominal: number, what: string, 
 /** Resolve merged fields into limits; undefined after recording issues (pointing at `where` when nothing was given). */
 export function resolveLimit(f: FieldSet, unit: string, what: string, where: SpecPath, issues: SpecIssue[]): Limit | undefined {
   const at = formatPath(where);
-  const fail = (code: string, problem: string, fix: string): undefined => {
+  const fail = (code: ErrorCode, problem: string, fix: string): undefined => {
     issues.push({ code, path: where, problem: `${at}: ${problem}`, expected: 'min, max, or nominal with tolerance', fix });
     return undefined;
   };
@@ -132,7 +133,7 @@ export function resolveLimit(f: FieldSet, unit: string, what: string, where: Spe
  */
 export const MAX_MAGNITUDE = 1e15;
 
-function inRange(l: Limit, unit: string, what: string, fail: (code: string, problem: string, fix: string) => undefined): Limit | undefined {
+function inRange(l: Limit, unit: string, what: string, fail: (code: ErrorCode, problem: string, fix: string) => undefined): Limit | undefined {
   // A nominal or a window the quantity can never take (a duty cycle of 500 %, a negative frequency).
   const impossible = impossibleLimit(what, l.lower, l.upper, l.nominal);
   if (impossible !== null) return fail('spec.out-of-range', `${impossible} (in ${unit || 'no unit'})`, 'check the value, its sign and its unit for a typo');

@@ -6,7 +6,7 @@ import type { z } from 'zod';
 import { isMap, isPair, isScalar } from 'yaml';
 import type { Document, LineCounter } from 'yaml';
 import { BenchError } from '../types/index.js';
-import type { BenchErrorFields } from '../types/index.js';
+import type { BenchErrorFields, ErrorCode } from '../types/index.js';
 import { FIELD_EXPECTS } from './specSchema.js';
 import { DESIGN_KEYS } from './specTypes.js';
 import { nearest } from './nearest.js';
@@ -14,7 +14,7 @@ import { nearest } from './nearest.js';
 export type SpecPath = readonly PropertyKey[];
 
 export interface SpecIssue {
-  readonly code: string;
+  readonly code: ErrorCode;
   readonly path: SpecPath;
   readonly problem: string;
   readonly expected: string;

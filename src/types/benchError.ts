@@ -2,9 +2,11 @@
  * The one error class users see. Every field is data; the message is rendered from the fields
  * in one place (renderBenchError) so text and JSON output cannot drift apart.
  */
+import type { ErrorCode } from './errorCodes.js';
+
 export interface BenchErrorFields {
-  /** Stable dotted id, e.g. `capture.no-time-column`; tests and the README list them. */
-  readonly code: string;
+  /** Stable dotted id, e.g. `capture.no-time-base`: one of ERROR_CODES, which the README lists. */
+  readonly code: ErrorCode;
   /** The file the problem is in (a capture, a spec, the data folder); '-' for the command line. */
   readonly file: string;
   /** 1-based line in that file, where one applies. */
@@ -20,7 +22,7 @@ export interface BenchErrorFields {
 }
 
 export class BenchError extends Error implements BenchErrorFields {
-  readonly code: string;
+  readonly code: ErrorCode;
   readonly file: string;
   readonly line?: number;
   readonly problem: string;

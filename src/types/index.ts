@@ -1,5 +1,7 @@
 export { BenchError, renderBenchError, isBenchError } from './benchError.js';
 export type { BenchErrorFields } from './benchError.js';
+export { ERROR_CODES } from './errorCodes.js';
+export type { CaptureErrorName, ErrorCode } from './errorCodes.js';
 export type {
   Capture,
   CaptureChannel,
@@ -38,7 +40,7 @@ export type {
   UnitVerdict,
   VerdictState,
 } from './verdict.js';
-export type { Cause, CauseFact, CircuitFigure, CircuitView, Diagnosis } from './cause.js';
+export type { Cause, CauseFact, CauseFactKind, CauseRemark, CircuitFigure, CircuitGap, CircuitView, Diagnosis, ExpectedBasis, FactQuantity } from './cause.js';
 export type {
   AttemptComparison,
   AttemptReason,
