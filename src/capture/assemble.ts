@@ -8,6 +8,7 @@ import type { RowSink } from './rowSink.js';
 import type { Sniffed } from './sniff.js';
 import type { CaptureSource } from './source.js';
 import type { TimeAxis } from './timeAxis.js';
+import { channelFullScale } from './fullScale.js';
 import { findSplice } from './splice.js';
 import { resolveTiming } from './timing.js';
 import type { Timing } from './timing.js';
@@ -108,6 +109,7 @@ function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Arr
     samples,
     invalidCount,
     ...(firstInvalidLine !== undefined ? { firstInvalidLine } : {}),
+    ...channelFullScale(a.meta, a.roles, col, samples, warnings),
   };
 }
 

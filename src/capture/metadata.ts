@@ -9,6 +9,8 @@
  */
 import type { DecimalMark } from '../types/index.js';
 import { parseHeaderCell, parseUnit } from './siUnits.js';
+import { readVerticalEntry } from './verticalSetting.js';
+import type { VerticalEntry } from './verticalSetting.js';
 
 export interface MetadataTiming {
   /** Sample interval in seconds and the key it came from. */
@@ -21,6 +23,8 @@ export interface MetadataTiming {
   readonly codeScale?: { readonly step: number; readonly origin: number; readonly reference: number; readonly key: string };
   /** Volts per division, as stated (display only: without codes per division it converts nothing). */
   readonly voltsPerDivision?: number;
+  /** What the preamble states of the vertical setting (scale, divisions, offset, range, probe), in order (verticalSetting.ts). */
+  readonly vertical?: readonly VerticalEntry[];
   /** Keys of the preamble that were understood, as written, with what they gave. */
   readonly recognised: readonly { readonly key: string; readonly meaning: string; readonly value: number | string }[];
 }
@@ -36,6 +40,16 @@ const CODE_STEP = /y\s*-?\s*incr\w*|^yinc$|volts?\s*per\s*(count|code|lsb|step)|
 const CODE_ORIGIN = /y\s*-?\s*origin|^yorg$/;
 const CODE_REFERENCE = /y\s*-?\s*ref(erence)?$|^yref$/;
 const VOLTS_PER_DIV = /vertical\s*scale|volts?\s*(\/|per)\s*div|v\s*\/\s*div|^scale$/;
+
+const VERTICAL_MEANING: Readonly<Record<VerticalEntry['quantity'], string>> = {
+  'volts-per-division': 'volts per division',
+  divisions: 'vertical divisions on screen',
+  offset: 'vertical offset (V)',
+  position: 'vertical position (divisions)',
+  range: 'vertical range (V)',
+  probe: 'probe factor',
+  source: 'settings below are for',
+};
 
 interface Quantity {
   readonly value: number;
@@ -56,12 +70,22 @@ export function readMetadata(entries: readonly (readonly [string, string])[], de
   let reference = 0;
   let triggerIndex: number | undefined;
   const recognised: { key: string; meaning: string; value: number | string }[] = [];
+  const vertical: VerticalEntry[] = [];
   const note = (key: string, meaning: string, value: number | string): void => void recognised.push({ key: key.trim(), meaning, value });
   for (const [rawKey, rawValue] of entries) {
     const { name, unit: keyUnit } = parseHeaderCell(cleanKey(rawKey));
     const key = name.toLowerCase().trim();
     const value = cleanValue(rawValue);
     const q = quantity(value, keyUnit, decimalMark);
+    // The vertical setting, per channel (its keys name no time quantity, so they are read first).
+    const v = readVerticalEntry(name, rawValue, decimalMark, keyUnit);
+    if (v) {
+      vertical.push(v);
+      const first = v.values.find((x) => x !== null);
+      note(rawKey, `${VERTICAL_MEANING[v.quantity]}${v.channel ? ` (channel ${v.channel})` : ''}`, first ? first.value : `channel ${v.channel}`);
+      if (v.quantity === 'volts-per-division' && out.voltsPerDivision === undefined && first) out.voltsPerDivision = first.value;
+      continue;
+    }
     if (out.interval === undefined && INTERVAL.test(key) && q && isUnit(q.unit, 's') && q.value > 0) {
       out.interval = { value: q.value, key: rawKey.trim() };
       note(rawKey, 'sample interval (s)', q.value);
@@ -103,6 +127,7 @@ export function readMetadata(entries: readonly (readonly [string, string])[], de
   return {
     ...out,
     ...(step ? { codeScale: { step: step.value, origin, reference, key: step.key } } : {}),
+    ...(vertical.length > 0 ? { vertical } : {}),
     recognised,
   };
 }

@@ -113,6 +113,10 @@ export interface CaptureChannel {
    * range and offset in a preamble); analysis tells the scope's clipping from circuit saturation by them.
    */
   readonly fullScale?: { readonly low: number; readonly high: number };
+  /** Where fullScale came from: the vertical setting the preamble states (src/capture/fullScale.ts). */
+  readonly fullScaleFrom?: 'preamble';
+  /** The preamble keys fullScale was worked out from, as written. */
+  readonly fullScaleKeys?: readonly string[];
 }
 
 export interface Capture {
@@ -144,4 +148,6 @@ export interface ReadCaptureOptions extends ReadingSettings {
   readonly channel?: string;
   /** Called with bytes read so far, for progress display. */
   readonly onProgress?: (bytesRead: number, totalBytes: number) => void;
+  /** Most megabytes (10^6 bytes) a .csv.gz may unpack to; by default 100× its stored size, at least 256 MiB. */
+  readonly unpackLimitMB?: number;
 }

@@ -53,7 +53,7 @@ describe('readMetadata', () => {
   });
 
   it('ignores a trigger time without a time unit and keys it does not know', () => {
-    const m = readMetadata([['Trigger time', '2026-12-01 10:12'], ['Probe', 'x10'], ['Trigger delay', '12']], '.');
+    const m = readMetadata([['Trigger time', '2026-12-01 10:12'], ['Probe serial', 'x10'], ['Trigger delay', '12']], '.');
     expect(m).toEqual({ recognised: [] });
   });
 });

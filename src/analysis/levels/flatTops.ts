@@ -23,7 +23,8 @@
  *    median, counts as flat.
  * 4. The flat samples on a side reach 0.5 % of the record.
  * At full scale rules 2 and 3 are not asked: any flat run there is the screen's edge, whatever the shape.
- * Full scale: the channel's limits when the capture states them; otherwise a level that sits on a
+ * Full scale: the channel's limits when the capture states them (a level held at or past an edge, or
+ * within 0.5 % of the span inside it, see statedEdge); otherwise a level that sits on a
  * converter end code (|level/q| = 2^(b−1) or 2^(b−1) − 1 for b = 8, 10, 12, 14 or 16 bits, with every
  * code of the record inside ±2^(b−1), q the step between the level and the next value), or a record
  * whose codes fill 2^b − 1 steps or more from end to end. A scope
@@ -37,6 +38,8 @@ const DWELL_RATIO = 1.5;
 const RAMP_RATIO = 3;
 const MIN_SHARE = 0.005;
 const MIN_RUN = 3;
+/** How far inside a stated full-scale edge a held level still counts as on it, as a share of the span (statedEdge). */
+const EDGE_SHARE = 0.005;
 /** Converter widths of bench oscilloscopes and digitisers. */
 const CONVERTER_BITS = [8, 10, 12, 14, 16] as const;
 
@@ -67,7 +70,7 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
     // level is the highest (lowest) one held for MIN_RUN samples in a row.
     const level = (dir > 0 ? held.high : held.low) ?? extreme;
     const q = stepAt(samples, level, -dir, equal);
-    const from = fullScaleOf(side, extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min, fullScale);
+    const from = fullScale ? statedEdge(side, level, fullScale) : fullScaleOf(extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min);
     const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
     const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
     // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
@@ -164,20 +167,22 @@ function samplesToDepth(x: Float64Array, from: number, by: number, depthOf: (i: 
   return -1;
 }
 
-/** Whether `level` is the capture's full scale on this side, and how that is known (null: inside the range). */
-function fullScaleOf(
-  side: 'high' | 'low',
-  level: number,
-  q: number,
-  max: number,
-  min: number,
-  fullScale: FlatTopOptions['fullScale'],
-): FlatTop['fullScaleFrom'] | null {
-  if (fullScale) {
-    const edge = side === 'high' ? fullScale.high : fullScale.low;
-    const tol = 0.005 * (fullScale.high - fullScale.low);
-    return Math.abs(level - edge) <= tol ? 'preamble' : null;
-  }
+/**
+ * Whether a level held on this side is at the full scale the capture states: at or past its edge, or
+ * inside it by at most 0.5 % of the span. A scope clips at its converter's end, which lies at or
+ * beyond the screen's edge (some digitise ±5.12 div of a ±5 div screen), never inside it; the 0.5 %
+ * covers a preamble's settings printed to 3 significant digits (a half unit of the last digit of
+ * volts per division is at most 0.5 % of it, 0.25 % of the span) and an 8-bit converter whose end
+ * code sits one step (0.5 % of 200 steps on screen) inside the edge. Common practice (no source).
+ */
+function statedEdge(side: 'high' | 'low', level: number, fullScale: NonNullable<FlatTopOptions['fullScale']>): FlatTop['fullScaleFrom'] | null {
+  const tol = EDGE_SHARE * (fullScale.high - fullScale.low);
+  const at = side === 'high' ? level >= fullScale.high - tol : level <= fullScale.low + tol;
+  return at ? 'preamble' : null;
+}
+
+/** Whether `level` sits on a converter end code (rule above), null when it lies inside the range. */
+function fullScaleOf(level: number, q: number, max: number, min: number): FlatTop['fullScaleFrom'] | null {
   if (!(q > 0) || q < 1e-5 * (max - min)) return null;
   const codes = (max - min) / q;
   const code = level / q;
