@@ -13,6 +13,12 @@ import type { NewCapture } from '../types/index.js';
 export const ARCHIVE_FOLDER = 'captures';
 const TEMP_FOLDER = 'tmp';
 
+/** The archive path (relative to the data folder) of bytes with this SHA-256; gzip bytes keep `.csv.gz`. */
+export function archiveName(sha256: string, bytes: Uint8Array): string {
+  const gz = bytes.length >= 2 && bytes[0] === 0x1f && bytes[1] === 0x8b;
+  return `${ARCHIVE_FOLDER}/${sha256.slice(0, 2)}/${sha256}${gz ? '.csv.gz' : '.csv'}`;
+}
+
 /** Archive one capture; returns its path relative to the data folder (`/` separators). */
 export function archiveCapture(dataDir: string, capture: NewCapture): string {
   const first = eachPiece(capture, () => {});

@@ -121,9 +121,14 @@ export interface OpenAttempt {
 }
 
 export function openAttempt(db: Database, numbered: readonly StoredRun[], specName: string): OpenAttempt | undefined {
+  return openAttemptWith(sqliteCalibrationAt(db), numbered, specName, (runId) => runCaptures(db, runId));
+}
+
+/** openAttempt for any engine: the calibration clock and the run's captures read by the caller's engine. */
+export function openAttemptWith(calibratedAt: CalibrationClock, numbered: readonly StoredRun[], specName: string, capturesOf: (runId: number) => StoredCapture[]): OpenAttempt | undefined {
   const last = numbered[numbered.length - 1];
-  if (!last || last.attempt === undefined || stillOpen(sqliteCalibrationAt(db), last, specName) !== true) return undefined;
-  return { number: last.attempt, runId: last.id, waitingFor: waitingConditions(last.verdict), captures: runCaptures(db, last.id) };
+  if (!last || last.attempt === undefined || stillOpen(calibratedAt, last, specName) !== true) return undefined;
+  return { number: last.attempt, runId: last.id, waitingFor: waitingConditions(last.verdict), captures: capturesOf(last.id) };
 }
 
 /** What a listing shows of a unit's attempts: the latest one's state and the complete ones' statements. */

@@ -19,6 +19,8 @@ import { isAbsolute, join, normalize } from 'node:path';
 import { CHAIN_START, chainEntries, chainLink } from './chain.js';
 import type { ChainEntry } from './chain.js';
 import { readRunDigests } from './readRuns.js';
+import type { DamagedRow, RunDigestRow } from './readRuns.js';
+import type { StoredCalibrationRun } from '../types/index.js';
 import { readCalibrationRows } from './calibrationRead.js';
 
 export type AuditProblemKind = 'changed' | 'damaged' | 'missing' | 'unchained' | 'chain-broken' | 'capture-missing' | 'capture-changed';
@@ -61,12 +63,27 @@ export interface AuditOptions {
 
 export function auditStore(db: Database, dataDir: string, options: AuditOptions = {}): StoreAudit {
   const { archive = true } = options;
+  return judgeStore({ entries: chainEntries(db), runs: readRunDigests(db), calibrations: readCalibrationRows(db) }, archive ? (c) => hashFile(dataDir, c.archivePath) : undefined);
+}
+
+/** What verifying a store reads from either engine. */
+export interface StoreRows {
+  readonly entries: readonly ChainEntry[];
+  readonly runs: { readonly rows: readonly RunDigestRow[]; readonly damaged: readonly DamagedRow[] };
+  readonly calibrations: { readonly runs: readonly StoredCalibrationRun[]; readonly damaged: readonly DamagedRow[] };
+}
+
+/** The SHA-256 of a stored capture's bytes as the store holds them now, or null when they are gone. */
+export type CaptureHasher = (capture: { readonly sha256: string; readonly archivePath: string }) => string | null;
+
+/** The judgement of auditStore over rows either engine read; `hashOf` re-hashes the captures when given. */
+export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit {
   const problems: AuditProblem[] = [];
-  const entries = chainEntries(db);
+  const { entries } = read;
   const head = checkLinks(entries, problems);
   const byRow = new Map(entries.map((e) => [`${e.kind}:${e.row_id}`, e]));
-  const { rows: runs, damaged } = readRunDigests(db);
-  const calibrations = readCalibrationRows(db);
+  const { rows: runs, damaged } = read.runs;
+  const calibrations = read.calibrations;
   const rows: Fingerprinted[] = [
     ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })),
     ...calibrations.runs.flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures }))),
@@ -88,19 +105,26 @@ export function auditStore(db: Database, dataDir: string, options: AuditOptions 
       problems.push({ kind: e.kind, id: e.row_id, unit: null, problem: 'missing', detail: 'it is in the hash chain but no longer in the store: it was deleted' });
     }
   }
-  const archived = archive ? checkArchive(dataDir, rows, problems) : 0;
+  const archived = hashOf ? checkArchive(hashOf, rows, problems) : 0;
   return { head, chained: entries.length, archived, problems };
+}
+
+/** The captures of some runs and calibration iterations re-hashed by `hashOf` (one unit's, for a record). */
+export function judgeCaptures(runs: readonly RunDigestRow[], calibrations: readonly StoredCalibrationRun[], hashOf: CaptureHasher): AuditProblem[] {
+  const problems: AuditProblem[] = [];
+  const rows: Fingerprinted[] = [
+    ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })),
+    ...calibrations.flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures }))),
+  ];
+  checkArchive(hashOf, rows, problems);
+  return problems;
 }
 
 /** The archived captures of one unit's runs and calibration iterations, re-hashed. */
 export function auditUnitCaptures(db: Database, dataDir: string, unit: string): AuditProblem[] {
-  const problems: AuditProblem[] = [];
-  const runs = readRunDigests(db, { unit }).rows.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures }));
-  const calibrations = readCalibrationRows(db)
-    .runs.filter((c) => c.unit === unit)
-    .flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures })));
-  checkArchive(dataDir, [...runs, ...calibrations], problems);
-  return problems;
+  const runs = readRunDigests(db, { unit }).rows;
+  const calibrations = readCalibrationRows(db).runs.filter((c) => c.unit === unit);
+  return judgeCaptures(runs, calibrations, (c) => hashFile(dataDir, c.archivePath));
 }
 
 /** Each link against the one stored before it; a gap in the entry numbers is a deleted entry. */
@@ -122,17 +146,17 @@ function checkLinks(entries: readonly ChainEntry[], problems: AuditProblem[]): s
 }
 
 /** Re-hash every archived capture the rows use, once per file; name each row that uses a bad one. */
-function checkArchive(dataDir: string, rows: readonly Fingerprinted[], problems: AuditProblem[]): number {
-  const users = new Map<string, { sha256: string; size: number; rows: Fingerprinted[] }>();
+function checkArchive(hashOf: CaptureHasher, rows: readonly Fingerprinted[], problems: AuditProblem[]): number {
+  const users = new Map<string, { sha256: string; size: number; archivePath: string; rows: Fingerprinted[] }>();
   for (const r of rows) {
     for (const c of r.captures) {
-      const u = users.get(c.archivePath) ?? { sha256: c.sha256, size: c.size, rows: [] };
+      const u = users.get(c.archivePath) ?? { sha256: c.sha256, size: c.size, archivePath: c.archivePath, rows: [] };
       if (u.rows[u.rows.length - 1] !== r) u.rows.push(r); // a run's captures are listed together
       users.set(c.archivePath, u);
     }
   }
   for (const [file, u] of users) {
-    const found = hashFile(dataDir, file);
+    const found = hashOf(u);
     if (found === u.sha256) continue;
     const problem = found === null ? 'capture-missing' : 'capture-changed';
     const detail = found === null ? `its archived capture ${file} is missing` : `its archived capture ${file} no longer hashes to ${u.sha256.slice(0, 12)}…`;
@@ -144,7 +168,7 @@ function checkArchive(dataDir: string, rows: readonly Fingerprinted[], problems:
 const PIECE = 1 << 20;
 
 /** SHA-256 of an archived file, streamed; null when it is missing, not a file, or outside the archive. */
-function hashFile(dataDir: string, rel: string): string | null {
+export function hashFile(dataDir: string, rel: string): string | null {
   const clean = normalize(rel);
   if (isAbsolute(clean) || clean.startsWith('..')) return null;
   const path = join(dataDir, clean);

@@ -8,7 +8,7 @@ import { iterationDigest } from './calibrationDigest.js';
 import type { DamagedRow } from './readRuns.js';
 import { parseIteration } from './rowShape.js';
 
-interface RunRow {
+export interface CalibrationRunRow {
   id: number;
   unit: string;
   spec_name: string;
@@ -17,7 +17,7 @@ interface RunRow {
   started_at: string;
 }
 
-interface IterationRow {
+export interface IterationRow {
   id: number;
   calibration_id: number;
   number: number;
@@ -32,7 +32,7 @@ interface IterationRow {
   digest: string;
 }
 
-interface CaptureRow {
+export interface CalibrationCaptureRow {
   iteration_id: number;
   sha256: string;
   original_path: string;
@@ -51,7 +51,7 @@ export function readCalibrations(db: Database, unit: string): StoredCalibrationR
 export function readCalibrationRows(db: Database, unit?: string): { runs: StoredCalibrationRun[]; damaged: DamagedRow[] } {
   const runs = (unit === undefined
     ? db.prepare('SELECT * FROM calibration_runs ORDER BY id').all()
-    : db.prepare('SELECT * FROM calibration_runs WHERE unit = ? ORDER BY id').all(unit)) as RunRow[];
+    : db.prepare('SELECT * FROM calibration_runs WHERE unit = ? ORDER BY id').all(unit)) as CalibrationRunRow[];
   if (runs.length === 0) return { runs: [], damaged: [] };
   const ids = JSON.stringify(runs.map((r) => r.id));
   const iterations = db.prepare('SELECT * FROM calibration_iterations WHERE calibration_id IN (SELECT value FROM json_each(?)) ORDER BY calibration_id, number').all(ids) as IterationRow[];
@@ -61,12 +61,21 @@ export function readCalibrationRows(db: Database, unit?: string): { runs: Stored
        FROM calibration_captures cc JOIN blobs b ON b.sha256 = cc.sha256
        WHERE cc.iteration_id IN (SELECT value FROM json_each(?)) ORDER BY cc.iteration_id, cc.seq`,
     )
-    .all(JSON.stringify(iterations.map((i) => i.id))) as CaptureRow[];
+    .all(JSON.stringify(iterations.map((i) => i.id))) as CalibrationCaptureRow[];
+  return assembleCalibrations(runs, iterations, captures);
+}
+
+/** Calibration runs with their iterations from the rows either engine read (each iteration re-hashed). */
+export function assembleCalibrations(runs: readonly CalibrationRunRow[], iterations: readonly IterationRow[], captures: readonly CalibrationCaptureRow[]): { runs: StoredCalibrationRun[]; damaged: DamagedRow[] } {
   const damaged: DamagedRow[] = [];
+  const capturesOf = new Map<number, CalibrationCaptureRow[]>();
+  for (const c of captures) capturesOf.set(c.iteration_id, [...(capturesOf.get(c.iteration_id) ?? []), c]);
+  const iterationsOf = new Map<number, IterationRow[]>();
+  for (const i of iterations) iterationsOf.set(i.calibration_id, [...(iterationsOf.get(i.calibration_id) ?? []), i]);
   const out = runs.map((run) => {
     const its: StoredCalibrationIteration[] = [];
-    for (const row of iterations.filter((i) => i.calibration_id === run.id)) {
-      const it = toIteration(run, row, captures.filter((c) => c.iteration_id === row.id));
+    for (const row of iterationsOf.get(run.id) ?? []) {
+      const it = toIteration(run, row, capturesOf.get(row.id) ?? []);
       if ('problem' in it) damaged.push(it);
       else its.push(it);
     }
@@ -76,8 +85,8 @@ export function readCalibrationRows(db: Database, unit?: string): { runs: Stored
   return { runs: out, damaged };
 }
 
-function toIteration(run: RunRow, row: IterationRow, rows: readonly CaptureRow[]): StoredCalibrationIteration | DamagedRow {
-  const captures: StoredCapture[] = rows.map((c) => ({ path: c.original_path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.step, archivePath: c.file }));
+function toIteration(run: CalibrationRunRow, row: IterationRow, rows: readonly CalibrationCaptureRow[]): StoredCalibrationIteration | DamagedRow {
+  const captures: StoredCapture[] = rows.map((c) => ({ path: c.original_path, sha256: c.sha256, size: Number(c.size), layout: c.layout, condition: c.step, archivePath: c.file }));
   const parsed = parseIteration(row.result_json);
   if (!parsed.ok) return { kind: 'calibration', id: row.id, unit: String(run.unit), problem: parsed.problem };
   const result = parsed.value;

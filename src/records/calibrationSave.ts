@@ -11,6 +11,8 @@ import { archiveCapture } from './archive.js';
 import { iterationDigest } from './calibrationDigest.js';
 import { sha256Hex } from './digest.js';
 import { appendLink } from './chain.js';
+import { queueOutbox } from './outboxQueue.js';
+import type { SaveHooks } from './saveRun.js';
 
 export interface SavedIteration {
   /** The calibration run it belongs to, and whether this iteration started it. */
@@ -19,7 +21,7 @@ export interface SavedIteration {
   readonly iteration: StoredCalibrationIteration;
 }
 
-export function saveCalibration(db: Database, dataDir: string, it: NewCalibrationIteration): SavedIteration {
+export function saveCalibration(db: Database, dataDir: string, it: NewCalibrationIteration, hooks: SaveHooks = {}): SavedIteration {
   checkIteration(it);
   const captures: StoredCapture[] = it.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, archivePath: archiveCapture(dataDir, c) }));
   const startedAt = new Date(it.startedAt).toISOString();
@@ -38,6 +40,7 @@ export function saveCalibration(db: Database, dataDir: string, it: NewCalibratio
       .run(calibrationId, number, startedAt, storedAt, it.operator, it.station, it.toolVersion, it.result.statement, it.result.meetsLimits ? 1 : 0, JSON.stringify(it.result), digest);
     const id = Number(info.lastInsertRowid);
     appendLink(db, 'calibration', id, digest);
+    if (hooks.outbox) queueOutbox(db, 'calibration', id, hooks.uid, storedAt);
     const blob = db.prepare('INSERT OR IGNORE INTO blobs (sha256, size, file, first_stored_at) VALUES (?, ?, ?, ?)');
     const link = db.prepare('INSERT INTO calibration_captures (iteration_id, seq, sha256, original_path, size, layout, step) VALUES (?, ?, ?, ?, ?, ?, ?)');
     captures.forEach((c, i) => {

@@ -48,10 +48,17 @@ interface UnitState {
   readonly rows: readonly { kind: 'run' | 'calibration'; id: number; digest: string; intact: boolean }[];
   readonly damaged: readonly DamagedRow[];
   readonly heads: readonly StoredRun[];
+  /** The attempts of all the unit's runs, as a listing shows them; worked out once per verification. */
+  readonly facts: ReturnType<typeof attemptFacts> | null;
 }
 
-/** Least time between two background sweeps while changes keep arriving, in ms. */
-export const SWEEP_GAP_MS = 30_000;
+/**
+ * Least time between two background sweeps while changes keep arriving, in ms; beyond it the gap is
+ * four times the last sweep's duration, so re-verifying the older rows takes at most a fifth of the
+ * server's time (a sweep over 2 000 units takes tens of seconds on a busy 2-core machine).
+ */
+export const SWEEP_GAP_MS = 1_000;
+const SWEEP_GAP_FACTOR = 4;
 
 export function followStore(dir: string, options: { readonly sweepGapMs?: number } = {}): StoreFollower {
   const { sweepGapMs = SWEEP_GAP_MS } = options;
@@ -69,6 +76,9 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
   let full: Promise<void> | undefined = undefined;
   let sweepTimer: NodeJS.Timeout | undefined;
   let lastSweepEnd = 0;
+  let lastSweepMs = 0;
+  /** A change arrived while a sweep ran: the rows it already passed may have changed, so sweep again. */
+  let again = false;
   let closed = false;
   /** Bumped whenever anything verified changes, so an unchanged store answers from the last snapshot. */
   let version = 0;
@@ -106,7 +116,8 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
       ...cals.runs.flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, digest: i.digest, intact: i.intact }))),
     ];
     verifiedRows += rows.length + runs.damaged.length + cals.damaged.length;
-    const state = { rows, damaged: [...runs.damaged, ...cals.damaged], heads: readRunHeads(db, unit) };
+    const heads = readRunHeads(db, unit);
+    const state = { rows, damaged: [...runs.damaged, ...cals.damaged], heads, facts: heads.length ? attemptFacts(summarizeAttempts(numberRuns(heads))) : null };
     version += 1;
     if (state.rows.length === 0 && state.damaged.length === 0) units.delete(unit);
     else units.set(unit, state);
@@ -159,12 +170,33 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
   };
 
   const runSweep = (): Promise<void> => {
+    const started = Date.now();
     full ??= sweep().finally(() => {
       full = undefined;
       lastSweepEnd = Date.now();
+      lastSweepMs = lastSweepEnd - started;
+      if (again) {
+        again = false;
+        schedule();
+      }
     });
     return full;
   };
+
+  function schedule(): void {
+    if (closed) return;
+    if (full) {
+      again = true;
+      return;
+    }
+    if (sweepTimer) return;
+    const wait = Math.max(0, lastSweepEnd + Math.max(sweepGapMs, SWEEP_GAP_FACTOR * lastSweepMs) - Date.now());
+    sweepTimer = setTimeout(() => {
+      sweepTimer = undefined;
+      void runSweep();
+    }, wait);
+    sweepTimer.unref();
+  }
 
   return {
     async catchUp() {
@@ -182,15 +214,7 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
       if (last?.version !== version) last = { version, snap: snapshot(entries, linkProblems, units, head, verifiedRows, fullPasses) };
       return last.snap;
     },
-    changed() {
-      if (sweepTimer || closed) return;
-      const wait = Math.max(0, lastSweepEnd + sweepGapMs - Date.now());
-      sweepTimer = setTimeout(() => {
-        sweepTimer = undefined;
-        void runSweep();
-      }, wait);
-      sweepTimer.unref();
-    },
+    changed: () => schedule(),
     close() {
       closed = true;
       if (sweepTimer) clearTimeout(sweepTimer);
@@ -254,7 +278,7 @@ function listFollowed(units: ReadonlyMap<string, UnitState>, problems: readonly 
       firstTestedAt: first.startedAt,
       lastTestedAt: last.startedAt,
       runs: mine.length,
-      ...attemptFacts(summarizeAttempts(numberRuns(s.heads))),
+      ...s.facts,
       ...(bad ? { unverifiedRuns: [...bad] } : {}),
     });
   }

@@ -11,6 +11,7 @@ import { migrateTo2 } from './migration2.js';
 import { migrateTo3 } from './migration3.js';
 import { migrateTo4 } from './migration4.js';
 import { migrateTo5 } from './migration5.js';
+import { migrateTo6 } from './migration6.js';
 
 export interface Migration {
   readonly version: number;
@@ -24,6 +25,7 @@ export const MIGRATIONS: readonly Migration[] = [
   { version: 3, name: 'calibration runs with their iterations', up: migrateTo3 },
   { version: 4, name: 'hash chain over every stored run and iteration', up: migrateTo4 },
   { version: 5, name: 'test attempts: attempt number, reason and note on each run', up: migrateTo5 },
+  { version: 6, name: 'shared store: origin id and fingerprint of pushed rows; the bench outbox', up: migrateTo6 },
 ];
 
 export const LATEST_SCHEMA: number = MIGRATIONS[MIGRATIONS.length - 1].version;

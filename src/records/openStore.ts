@@ -15,9 +15,9 @@ import { distinct, readRuns, specText } from './readRuns.js';
 import type { RunFilter } from './readRuns.js';
 import { saveRun } from './saveRun.js';
 import type { SaveHooks } from './saveRun.js';
-import { damagedFileError, missingError, noRecordsError, openError, storeError, unverifiedError } from './storeErrors.js';
+import { damagedFileError, missingError, noRecordsError, openError, storeError } from './storeErrors.js';
 import { auditStore, auditUnitCaptures } from './auditStore.js';
-import type { AuditProblem, StoreAudit } from './auditStore.js';
+import type { StoreAudit } from './auditStore.js';
 import { chainHead } from './chain.js';
 import { buildUnitRecord, listUnits } from './unitSummaries.js';
 import { numberRuns, openAttempt, readRunHeads } from './attempts.js';
@@ -26,6 +26,9 @@ import { calibratedSerials, readCalibrations, withCalibrations } from './calibra
 import { saveCalibration } from './calibrationSave.js';
 import type { SavedIteration } from './calibrationSave.js';
 import { captureRecorded, saveRunOnce } from './captureSeen.js';
+import { verifiedReads, withUnverified } from './verifiedReads.js';
+import { unsentEntries } from './outboxQueue.js';
+import type { OutboxEntry } from './outboxQueue.js';
 import type { CaptureKey, SaveOnceResult } from './captureSeen.js';
 
 export const DATABASE_FILE = 'records.db';
@@ -48,8 +51,14 @@ export interface OpenStoreOptions {
 }
 
 export interface RecordStore {
+  /** 'embedded': SQLite in a data folder; 'shared': the PostgreSQL store several benches write to. */
+  readonly engine: 'embedded' | 'shared';
+  /** The data folder (for the shared store: the folder its captures are kept in once read). */
   readonly dir: string;
+  /** records.db; for the shared store, its address without the password. */
   readonly dbFile: string;
+  /** The store as messages name it: the data folder as given, or the address without the password. */
+  readonly location: string;
   readonly schemaVersion: number;
   /** Store one run (captures archived, all rows in one transaction); returns it as stored. */
   saveRun(run: NewRun, hooks?: SaveHooks): StoredRun;
@@ -67,7 +76,7 @@ export interface RecordStore {
   /** saveRun, unless every capture of the run is recorded already; checked inside the write transaction. */
   saveRunOnce(run: NewRun, hooks?: SaveHooks): SaveOnceResult;
   /** Store one calibration iteration (joining the unit's open calibration run, or starting one) in one transaction. */
-  saveCalibration(iteration: NewCalibrationIteration): SavedIteration;
+  saveCalibration(iteration: NewCalibrationIteration, hooks?: SaveHooks): SavedIteration;
   /** The unit's calibration runs with their iterations, oldest first. */
   calibrations(serial: string): StoredCalibrationRun[];
   /** The unit's test attempt a new run under this spec name would continue, if one is open (attempts.ts). */
@@ -79,6 +88,8 @@ export interface RecordStore {
   audit(): StoreAudit;
   /** The newest link of the hash chain. */
   chainHead(): string;
+  /** Runs and iterations stored here while the shared store could not be reached, not yet confirmed sent (outbox.ts). */
+  unsent(): OutboxEntry[];
 }
 
 export function openStore(dir: string, options: OpenStoreOptions = {}): RecordStore {
@@ -181,81 +192,42 @@ function checkDatabaseFile(file: string, label: string): void {
   if (st.size === 0) throw damagedFileError(label, 'records.db is empty (0 bytes): the records it held are gone');
 }
 
-function guarded<T>(label: string, fn: () => T): T {
-  try {
-    return fn();
-  } catch (err) {
-    throw storeError(err, label);
-  }
-}
-
 function wrap(db: Db, dir: string, dbFile: string, version: number, label: string, unverified: 'refuse' | 'mark'): RecordStore {
   // Each read verifies what it reads: every fingerprint and the whole chain always (cheap: the
   // stored texts are hashed as they are), the archived captures of a unit when its runs are read.
-  let rows: StoreAudit | undefined;
-  let full: StoreAudit | undefined;
-  const unitCaptures = new Map<string, readonly AuditProblem[]>();
-  const rowAudit = (): StoreAudit => full ?? (rows ??= guarded(label, () => auditStore(db, dir, { archive: false })));
-  const audit = (): StoreAudit => (full ??= guarded(label, () => auditStore(db, dir)));
-  const scoped = (unit?: string): StoreAudit => {
-    const base = rowAudit();
-    if (unit === undefined || full !== undefined) return base;
-    let captures = unitCaptures.get(unit);
-    if (captures === undefined) {
-      captures = guarded(label, () => auditUnitCaptures(db, dir, unit));
-      unitCaptures.set(unit, captures);
-    }
-    return captures.length === 0 ? base : { ...base, problems: [...base.problems, ...captures] };
-  };
-  let lastScope: StoreAudit | undefined;
-  /** Every read goes through here: nothing is read from a store that failed verification unless asked. */
-  const verified = <T>(read: () => T, unit?: string): T => {
-    const found = (lastScope = scoped(unit));
-    if (found.problems.length > 0 && unverified === 'refuse') throw unverifiedError(label, found);
-    return guarded(label, read);
-  };
-  const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set((lastScope ?? rowAudit()).problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
-  const mark = (runs: StoredRun[]): StoredRun[] => {
-    const bad = flagged('run');
-    return runs.map((r) => (r.intact && bad.has(r.id) ? { ...r, intact: false } : r));
-  };
-  const markCalibrations = (list: StoredCalibrationRun[]): StoredCalibrationRun[] => {
-    const bad = flagged('calibration');
-    return list.map((c) => ({ ...c, iterations: c.iterations.map((i) => (i.intact && bad.has(i.id) ? { ...i, intact: false } : i)) }));
-  };
+  const reads = verifiedReads(label, unverified, {
+    rows: () => auditStore(db, dir, { archive: false }),
+    full: () => auditStore(db, dir),
+    unitCaptures: (unit) => auditUnitCaptures(db, dir, unit),
+  });
+  const { verified, mark, markCalibrations, rowAudit } = reads;
+  const guard = <T>(fn: () => T): T => reads.guarded(fn);
   return {
+    engine: 'embedded',
     dir,
     dbFile,
+    location: label,
     schemaVersion: version,
-    saveRun: (run, hooks) => guarded(label, () => saveRun(db, dir, run, hooks)),
+    saveRun: (run, hooks) => guard(() => saveRun(db, dir, run, hooks)),
     listUnits: (filter = {}) => verified(() => withUnverified(listUnits(db, filter.spec), rowAudit())),
     unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial))), serial),
     runs: (filter) => verified(() => mark(readRuns(db, filter)), filter?.unit),
     unitSerials: () => verified(() => [...new Set([...distinct(db, 'unit'), ...calibratedSerials(db)])].sort()),
     specNames: () => verified(() => distinct(db, 'spec_name')),
-    specText: (sha256) => guarded(label, () => specText(db, sha256)),
-    integrityCheck: () => guarded(label, () => (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check)),
+    specText: (sha256) => guard(() => specText(db, sha256)),
+    integrityCheck: () => guard(() => (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check)),
     close: () => db.close(),
     captureRecorded: (key) => verified(() => captureRecorded(db, key)),
-    saveRunOnce: (run, hooks) => guarded(label, () => saveRunOnce(db, dir, run, hooks)),
-    saveCalibration: (iteration) => guarded(label, () => saveCalibration(db, dir, iteration)),
+    saveRunOnce: (run, hooks) => guard(() => saveRunOnce(db, dir, run, hooks)),
+    saveCalibration: (iteration, hooks) => guard(() => saveCalibration(db, dir, iteration, hooks)),
     calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial)), serial),
     // Like saveRun, not behind the audit: it only chooses which archived captures a new check re-reads,
     // and archiving them again re-checks their SHA-256 (archive.ts).
-    openAttempt: (serial, specName) => guarded(label, () => openAttempt(db, numberRuns(readRunHeads(db, serial)), specName)),
-    audit,
-    chainHead: () => guarded(label, () => chainHead(db)),
+    openAttempt: (serial, specName) => guard(() => openAttempt(db, numberRuns(readRunHeads(db, serial)), specName)),
+    audit: reads.audit,
+    chainHead: () => guard(() => chainHead(db)),
+    unsent: () => guard(() => unsentEntries(db)),
   };
-}
-
-/** Each unit's runs that failed verification, by number, so a listing can mark the unit. */
-function withUnverified(units: UnitSummary[], audit: StoreAudit): UnitSummary[] {
-  const byUnit = new Map<string, number[]>();
-  for (const p of audit.problems) {
-    if (p.kind !== 'run' || p.id === null || p.unit === null) continue;
-    byUnit.set(p.unit, [...new Set([...(byUnit.get(p.unit) ?? []), p.id])]);
-  }
-  return units.map((u) => (byUnit.has(u.unit) ? { ...u, unverifiedRuns: byUnit.get(u.unit) } : u));
 }
 
 /** For callers that must say which folder a failure was about without opening it. */

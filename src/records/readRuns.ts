@@ -154,7 +154,7 @@ export function readRunDigests(db: Database, filter: RunFilter = {}): { rows: Ru
   const where = filter.unit !== undefined ? 'WHERE unit = ?' : '';
   const sql = `SELECT *, json_extract(verdict_json, '$.statement') AS verdict_statement, json_extract(verdict_json, '$.unit') AS verdict_unit
     FROM runs ${where} ORDER BY started_at, id`;
-  let rows: (RunRow & { verdict_statement: unknown; verdict_unit: unknown })[];
+  let rows: DigestRow[];
   try {
     rows = db.prepare(sql).all(...(filter.unit !== undefined ? [filter.unit] : [])) as typeof rows;
   } catch {
@@ -162,7 +162,14 @@ export function readRunDigests(db: Database, filter: RunFilter = {}): { rows: Ru
     const read = readRunRows(db, filter);
     return { rows: read.runs.map((r) => ({ id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })), damaged: read.damaged };
   }
-  const captures = capturesByRun(db, rows);
+  return judgeDigestRows(rows, capturesByRun(db, rows));
+}
+
+/** A run row with the verdict's own statement and serial taken out of its JSON by the engine. */
+export type DigestRow = RunRow & { verdict_statement: unknown; verdict_unit: unknown };
+
+/** readRunDigests' judgement over rows either engine read: the fast fingerprint, else the full read. */
+export function judgeDigestRows(rows: readonly DigestRow[], captures: ReadonlyMap<number, StoredCapture[]>): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
   const out: RunDigestRow[] = [];
   const damaged: DamagedRow[] = [];
   for (const row of rows) {

@@ -12,10 +12,21 @@ import { insertMeasurements } from './measurementRows.js';
 import { numberRuns, placeRun, readRunHeads } from './attempts.js';
 import type { AttemptPlacement } from './attempts.js';
 import { appendLink } from './chain.js';
+import { queueOutbox } from './outboxQueue.js';
 
-/** Fault injection for tests: called inside the transaction after every row is written, before commit. */
+/** How a save is made besides the run itself. */
 export interface SaveHooks {
+  /** Fault injection for tests: called inside the transaction after every row is written, before commit. */
   readonly beforeCommit?: () => void;
+  /**
+   * The id this bench made for the run. The shared store stores a run with a known id once (a second
+   * save returns the first); the embedded store keeps it in its outbox when `outbox` is set.
+   */
+  readonly uid?: string;
+  /** Embedded store: the run is stored here because the shared store could not be reached (outbox.ts). */
+  readonly outbox?: boolean;
+  /** Shared store: the run's fingerprint in the store of the bench it was pushed from. */
+  readonly originDigest?: string;
 }
 
 export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveHooks = {}): StoredRun {
@@ -38,6 +49,7 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
     const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed);
     // The run joins the hash chain in the same transaction: stored and chained, or neither.
     appendLink(db, 'run', id, digest);
+    if (hooks.outbox) queueOutbox(db, 'run', id, hooks.uid, storedAt);
     hooks.beforeCommit?.();
     return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
   });

@@ -85,12 +85,12 @@ describe.skipIf(skip !== undefined)('captures in the shared store', () => {
       const bytes = Buffer.alloc(CHUNK_BYTES * 2 + CHUNK_BYTES / 2);
       for (let i = 0, x = 12345; i < bytes.length; i++) bytes[i] = (x = (x * 1103515245 + 12345) >>> 0) >>> 24;
       const expected = createHash('sha256').update(bytes).digest('hex');
-      const sha = c.transaction(() => putCapture(c, bytes, '2026-12-05T10:00:00Z'));
+      const sha = c.transaction(() => putCapture(c, bytes, 'captures/x.csv', '2026-12-05T10:00:00Z'));
       expect(sha).toBe(expected);
-      c.transaction(() => putCapture(c, bytes, '2026-12-05T11:00:00Z'));
+      c.transaction(() => putCapture(c, bytes, 'captures/x.csv', '2026-12-05T11:00:00Z'));
       expect(Number(c.query<{ n: string }>('SELECT COUNT(*) AS n FROM capture_chunks').rows[0].n)).toBe(3);
       expect(readCapture(c, sha, SHOWN).equals(bytes)).toBe(true);
-      const empty = c.transaction(() => putCapture(c, Buffer.alloc(0), '2026-12-05T12:00:00Z'));
+      const empty = c.transaction(() => putCapture(c, Buffer.alloc(0), 'captures/e.csv', '2026-12-05T12:00:00Z'));
       expect(readCapture(c, empty, SHOWN).length).toBe(0);
     } finally {
       c.close();
@@ -102,7 +102,7 @@ describe.skipIf(skip !== undefined)('captures in the shared store', () => {
     const c = new PgSyncClient(url);
     try {
       applyPgMigrations(c, SHOWN);
-      const sha = c.transaction(() => putCapture(c, Buffer.from('t,ch1\n0,0.5\n1e-6,0.6\n'), '2026-12-05T10:00:00Z'));
+      const sha = c.transaction(() => putCapture(c, Buffer.from('t,ch1\n0,0.5\n1e-6,0.6\n'), 'captures/s.csv', '2026-12-05T10:00:00Z'));
       // A superuser going around the triggers, as a restore from a damaged backup would.
       cluster.psql("SET session_replication_role = replica; UPDATE capture_chunks SET bytes = convert_to('t,ch1 0,0.5 1e-6,0.7', 'UTF8')", 'tampered');
       expect(caught(() => readCapture(c, sha, SHOWN))).toMatchObject({ code: 'records.capture-changed' });
@@ -119,7 +119,7 @@ describe.skipIf(skip !== undefined)('captures in the shared store', () => {
     const bytes = Buffer.from('t,ch1\n0,0.25\n');
     const err = caught(() =>
       c.transaction(() => {
-        putCapture(c, bytes, '2026-12-05T10:00:00Z');
+        putCapture(c, bytes, 'captures/x.csv', '2026-12-05T10:00:00Z');
         cluster.kill(); // immediate stop: no checkpoint, like a power cut of the server
         return c.query('SELECT 1');
       }),

@@ -16,9 +16,10 @@ import type { PgSyncClient } from './pgSync.js';
 export const CHUNK_BYTES = 1 << 20;
 
 /** Store the capture's bytes unless that hash is stored already; call inside the run's transaction. */
-export function putCapture(client: PgSyncClient, bytes: Buffer, storedAt: string): string {
+export function putCapture(client: PgSyncClient, bytes: Buffer, file: string, storedAt: string): string {
   const sha256 = createHash('sha256').update(bytes).digest('hex');
-  const added = client.query('INSERT INTO blobs (sha256, size, file, first_stored_at) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [sha256, bytes.length, `chunks:${sha256}`, storedAt]);
+  // `file` is the name the capture has in a bench's archive (archive.ts), where it is kept once read.
+  const added = client.query('INSERT INTO blobs (sha256, size, file, first_stored_at) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [sha256, bytes.length, file, storedAt]);
   if (added.rowCount === 0) return sha256;
   for (let seq = 0, at = 0; at < bytes.length || seq === 0; seq++, at += CHUNK_BYTES) {
     client.query('INSERT INTO capture_chunks (sha256, seq, bytes) VALUES ($1, $2, $3)', [sha256, seq, bytes.subarray(at, at + CHUNK_BYTES)]);

@@ -3,7 +3,7 @@
  * (readRuns.ts's toStoredRun): every run is re-hashed and compared with its stored digest, a row
  * whose JSON does not parse is returned as damaged, and the other runs stay readable.
  */
-import type { StoredCapture } from '../../types/index.js';
+import type { StoredCapture, StoredRun } from '../../types/index.js';
 import { toStoredRun } from '../readRuns.js';
 import type { RunFilter, RunRow, RunsRead } from '../readRuns.js';
 import type { PgSyncClient } from './pgSync.js';
@@ -51,4 +51,9 @@ function capturesByRun(client: PgSyncClient, ids: readonly number[]): Map<number
     out.set(r.run_id, list);
   }
   return out;
+}
+
+/** The runs that read as runs (a damaged row is named by the audit instead). */
+export function pgRunRows(client: PgSyncClient, filter: RunFilter = {}): StoredRun[] {
+  return pgReadRunRows(client, filter).runs;
 }

@@ -20,31 +20,89 @@ import type { ChainKind } from '../chain.js';
 import type { PgSyncClient } from './pgSync.js';
 import { putCapture } from './pgCaptures.js';
 import { runBase } from '../saveRun.js';
+import { archiveName } from '../archive.js';
+import { BenchError } from '../../types/index.js';
+import { pgReadRunRows } from './pgRuns.js';
 
 /** Fixed number naming the store-wide write lock (pg_advisory_xact_lock); distinct from the schema lock. */
 export const WRITE_LOCK = 2_026_120_521;
 
-export function pgSaveRun(client: PgSyncClient, run: NewRun): StoredRun {
+/** Where a run comes from, when it is not stored by this process directly: the id its bench made, its fingerprint there. */
+export interface RunOrigin {
+  /** The id the bench made for the run; a second save with the same id stores nothing. */
+  readonly uid?: string;
+  /** The run's fingerprint in the bench's own store (outbox), kept beside the shared store's. */
+  readonly digest?: string;
+}
+
+/** A run ready to write: its capture bytes read and checked, outside any transaction. */
+export interface PreparedRun {
+  readonly run: NewRun;
+  readonly bytes: readonly Buffer[];
+  readonly captures: readonly StoredCapture[];
+}
+
+export function prepareRun(run: NewRun): PreparedRun {
   checkRun(run);
   // Read before the transaction: a bench's slow disk does not hold the store-wide lock.
   const bytes = run.captures.map((c) => {
     if (!c.bytes && c.sourcePath === undefined) throw new TypeError(`pgSaveRun: capture ${c.path} has neither bytes nor sourcePath`);
     const b = c.bytes ? Buffer.from(c.bytes) : readFileSync(c.sourcePath as string);
-    if (sha256Hex(b) !== c.sha256) throw new RangeError(`pgSaveRun: capture ${c.path} changed since it was read (SHA-256 differs)`);
+    if (sha256Hex(b) !== c.sha256) throw changedCapture(c.path, sha256Hex(b), c.sha256);
     return b;
   });
-  const captures: StoredCapture[] = run.captures.map((c) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, archivePath: `chunks:${c.sha256}` }));
-  const base = runBase(run, captures);
+  const captures: StoredCapture[] = run.captures.map((c, i) => ({ path: c.path, sha256: c.sha256, size: c.size, layout: c.layout, condition: c.condition, archivePath: archiveName(c.sha256, bytes[i]) }));
+  return { run, bytes, captures };
+}
+
+/** Store one run in its own transaction; with an origin id already stored, the run stored then (nothing added). */
+export function pgSaveRun(client: PgSyncClient, run: NewRun, origin: RunOrigin = {}): StoredRun {
+  const prepared = prepareRun(run);
   return client.transaction((): StoredRun => {
     client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
-    const storedAt = new Date().toISOString();
-    const numbered = numberRuns(pgRunHeads(client, run.unit));
-    const placed = { ...placeRunWith((unit) => pgCalibratedAt(client, unit), run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
-    const digest = runDigest({ ...base, ...placed });
-    bytes.forEach((b) => putCapture(client, b, storedAt));
-    const id = insertRunRows(client, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed);
-    pgAppendLink(client, 'run', id, digest);
-    return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
+    return writeRun(client, prepared, origin);
+  });
+}
+
+/** The run with this origin id, if the store holds it. */
+export function pgRunByOrigin(client: PgSyncClient, uid: string): number | undefined {
+  return client.query<{ id: number }>('SELECT id FROM runs WHERE origin_uid = $1', [uid]).rows[0]?.id;
+}
+
+/** Write a prepared run; the caller is inside a transaction and holds WRITE_LOCK. */
+export function writeRun(client: PgSyncClient, prepared: PreparedRun, origin: RunOrigin = {}): StoredRun {
+  const { run, bytes, captures } = prepared;
+  const base = runBase(run, captures);
+  if (origin.uid !== undefined) {
+    const existing = pgRunByOrigin(client, origin.uid);
+    if (existing !== undefined) return storedRunById(client, existing);
+  }
+  const storedAt = new Date().toISOString();
+  const numbered = numberRuns(pgRunHeads(client, run.unit));
+  const placed = { ...placeRunWith((unit) => pgCalibratedAt(client, unit), run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
+  const digest = runDigest({ ...base, ...placed });
+  bytes.forEach((b, i) => putCapture(client, b, captures[i].archivePath, storedAt));
+  const id = insertRunRows(client, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed, origin);
+  pgAppendLink(client, 'run', id, digest);
+  return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
+}
+
+/** A stored run read back (numbered within its unit), for a save that found its origin id stored. */
+function storedRunById(client: PgSyncClient, id: number): StoredRun {
+  const unit = client.query<{ unit: string }>('SELECT unit FROM runs WHERE id = $1', [id]).rows[0].unit;
+  const runs = numberRuns(pgReadRunRows(client, { unit }).runs);
+  const found = runs.find((r) => r.id === id);
+  if (!found) throw new RangeError(`pgSaveRun: run #${id} of ${unit} is stored but does not read back as a run`);
+  return found;
+}
+
+function changedCapture(path: string, now: string, was: string): BenchError {
+  return new BenchError({
+    code: 'records.capture-changed',
+    file: path,
+    problem: `the capture's bytes now hash to ${now.slice(0, 12)}…, not ${was.slice(0, 12)}… as when it was measured; nothing was stored`,
+    expected: 'a capture file that stays unchanged while benchproof checks it',
+    fix: 'wait until the scope or copy tool has finished writing the file, then run the check again',
   });
 }
 
@@ -62,7 +120,7 @@ export function pgRunHeads(client: PgSyncClient, unit: string): StoredRun[] {
   return rows.map(runHead);
 }
 
-function pgCalibratedAt(client: PgSyncClient, unit: string): string | null {
+export function pgCalibratedAt(client: PgSyncClient, unit: string): string | null {
   return client.query<{ at: string | null }>('SELECT MAX(i.stored_at) AS at FROM calibration_iterations i JOIN calibration_runs c ON c.id = i.calibration_id WHERE c.unit = $1', [unit]).rows[0].at;
 }
 
@@ -77,18 +135,18 @@ export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: numbe
   return link;
 }
 
-function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }): number {
+function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, origin: RunOrigin): number {
   const { spec, verdict } = run;
   const text = spec.text === undefined ? null : Buffer.from(spec.text);
   client.query('INSERT INTO specs (sha256, name, revision, text) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [spec.sha256, spec.name, spec.revision, text]);
   if (text) client.query('UPDATE specs SET text = $1 WHERE sha256 = $2 AND text IS NULL', [text, spec.sha256]);
   const runId = client.query<{ id: number }>(
     `INSERT INTO runs (unit, kind, started_at, stored_at, operator, station, spec_name, spec_revision, spec_sha256,
-       tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18) RETURNING id`,
+       tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note, origin_uid, origin_digest)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18, $19, $20) RETURNING id`,
     [run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
       run.toolVersion, verdict.decisionRule, verdict.statement, canonicalJson(verdict), canonicalJson(run.diagnosis), digest,
-      placed.attempt, placed.attemptReason ?? null, placed.note ?? null],
+      placed.attempt, placed.attemptReason ?? null, placed.note ?? null, origin.uid ?? null, origin.digest ?? null],
   ).rows[0].id;
   const checks: unknown[][] = [];
   for (const c of verdict.conditions) {
@@ -105,7 +163,7 @@ function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, stored
 }
 
 /** Up to 500 rows per INSERT: one round trip to the server instead of one per row. */
-function insertRows(client: PgSyncClient, into: string, rows: readonly (readonly unknown[])[]): void {
+export function insertRows(client: PgSyncClient, into: string, rows: readonly (readonly unknown[])[]): void {
   for (let at = 0; at < rows.length; at += 500) {
     const part = rows.slice(at, at + 500);
     const params: unknown[] = [];

@@ -110,8 +110,24 @@ ALTER TABLE runs ADD COLUMN note text;
 CREATE INDEX runs_by_unit_attempt ON runs (unit, attempt);
 `;
 
+const STEP_6 = `
+ALTER TABLE runs ADD COLUMN origin_uid text;
+ALTER TABLE runs ADD COLUMN origin_digest text;
+CREATE UNIQUE INDEX runs_by_origin ON runs (origin_uid) WHERE origin_uid IS NOT NULL;
+ALTER TABLE calibration_iterations ADD COLUMN origin_uid text;
+ALTER TABLE calibration_iterations ADD COLUMN origin_digest text;
+CREATE UNIQUE INDEX calibration_iterations_by_origin ON calibration_iterations (origin_uid) WHERE origin_uid IS NOT NULL;
+CREATE TABLE outbox (
+  kind text NOT NULL CHECK (kind IN ('run', 'calibration')), row_id integer NOT NULL, uid text NOT NULL UNIQUE,
+  queued_at text NOT NULL, PRIMARY KEY (kind, row_id));
+CREATE TABLE outbox_sent (
+  kind text NOT NULL, row_id integer NOT NULL, sent_at text NOT NULL, server_row integer NOT NULL,
+  PRIMARY KEY (kind, row_id), FOREIGN KEY (kind, row_id) REFERENCES outbox (kind, row_id));
+${['outbox', 'outbox_sent'].map(appendOnly).join('')}
+`;
+
 /** The PostgreSQL form of each numbered step, in the order of MIGRATIONS. */
-export const PG_STEPS: readonly string[] = [STEP_1, STEP_2, STEP_3, STEP_4, STEP_5];
+export const PG_STEPS: readonly string[] = [STEP_1, STEP_2, STEP_3, STEP_4, STEP_5, STEP_6];
 
 /** The schema version of the shared store: 0 when it has no benchproof tables yet. */
 export function pgSchemaVersion(client: PgSyncClient): number {

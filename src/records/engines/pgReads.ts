@@ -1,0 +1,168 @@
+/**
+ * What the shared store reads besides whole runs (pgRuns.ts): the unit listing, the rows that
+ * verifying the store needs (fingerprints, calibration iterations, the chain), and small lookups.
+ * Each read is one query (or one per table), never one per unit, so a listing of 10 000 units costs a
+ * few round trips; the judging is the embedded store's own code (readRuns.ts, calibrationRead.ts,
+ * auditStore.ts, attempts.ts), so both engines decide the same way on the same rows.
+ */
+import type { StoredCapture, UnitSummary } from '../../types/index.js';
+import { attemptFacts, numberRuns, runHead, summarizeAttempts } from '../attempts.js';
+import type { HeadRow } from '../attempts.js';
+import { assembleCalibrations } from '../calibrationRead.js';
+import type { CalibrationCaptureRow, CalibrationRunRow, IterationRow } from '../calibrationRead.js';
+import type { ChainEntry } from '../chain.js';
+import { judgeDigestRows, toStoredRun } from '../readRuns.js';
+import type { DamagedRow, DigestRow, RunDigestRow, RunFilter, RunRow } from '../readRuns.js';
+import { compareSerials } from '../unitSummaries.js';
+import type { StoredCalibrationRun } from '../../types/index.js';
+import { PgCallError } from './pgSync.js';
+import type { PgSyncClient } from './pgSync.js';
+
+const conditionsOf = (key: string): string =>
+  `COALESCE((SELECT jsonb_agg(e.value -> 'condition' ORDER BY e.ord) FROM jsonb_array_elements(v.j -> '${key}') WITH ORDINALITY AS e(value, ord)), '[]'::jsonb)::text`;
+
+/** Every unit (of one spec name, or all) with the state of its attempts, as listUnits gives it on SQLite. */
+export function pgListUnits(client: PgSyncClient, spec?: string): UnitSummary[] {
+  const scope = spec === undefined ? '' : 'WHERE unit IN (SELECT unit FROM runs WHERE spec_name = $1)';
+  const rows = client.query<HeadRow>(
+    `SELECT id, unit, spec_name, spec_revision, spec_sha256, started_at, stored_at, statement, attempt, attempt_reason, note,
+       NULLIF(v.j -> 'waitingFor', 'null'::jsonb)::text AS waiting_json,
+       ${conditionsOf('captures')} AS captured_json, ${conditionsOf('conditions')} AS conditions_json
+     FROM runs CROSS JOIN LATERAL (SELECT verdict_json::jsonb AS j) v ${scope} ORDER BY unit, started_at, id`,
+    spec === undefined ? [] : [spec],
+  ).rows;
+  const byUnit = new Map<string, HeadRow[]>();
+  for (const r of rows) {
+    const list = byUnit.get(r.unit);
+    if (list) list.push(r);
+    else byUnit.set(r.unit, [r]);
+  }
+  const out: UnitSummary[] = [];
+  for (const [unit, heads] of byUnit) {
+    // The first and latest run among this spec's runs (as SQLite's summary query), attempts over all.
+    const scoped = spec === undefined ? heads : heads.filter((h) => h.spec_name === spec);
+    const first = scoped[0];
+    const last = scoped[scoped.length - 1];
+    out.push({
+      unit,
+      spec: { name: last.spec_name, revision: last.spec_revision, sha256: last.spec_sha256 },
+      status: last.statement as UnitSummary['status'],
+      firstStatement: first.statement as UnitSummary['status'],
+      firstTestedAt: first.started_at,
+      lastTestedAt: last.started_at,
+      runs: scoped.length,
+      ...attemptFacts(summarizeAttempts(numberRuns(heads.map(runHead)))),
+    });
+  }
+  return out.sort((a, b) => compareSerials(a.unit, b.unit));
+}
+
+/** Every run's fingerprint checked as readRunDigests does on SQLite (the verdict's fields taken out by jsonb). */
+export function pgReadRunDigests(client: PgSyncClient, filter: RunFilter = {}): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
+  const where = filter.unit !== undefined ? 'WHERE unit = $1' : '';
+  const args = filter.unit !== undefined ? [filter.unit] : [];
+  let rows: DigestRow[];
+  try {
+    rows = client.query<DigestRow>(
+      `SELECT *, verdict_json::jsonb ->> 'statement' AS verdict_statement, verdict_json::jsonb ->> 'unit' AS verdict_unit
+       FROM runs ${where} ORDER BY started_at, id`,
+      args,
+    ).rows;
+  } catch (err) {
+    // 22P02: a verdict that is not JSON at all stops the cast; judge every row the slow way.
+    if (!(err instanceof PgCallError) || err.code !== '22P02') throw err;
+    const all = client.query<RunRow>(`SELECT * FROM runs ${where} ORDER BY started_at, id`, args).rows;
+    const captures = pgCapturesByRun(client, all.map((r) => r.id));
+    const damaged: DamagedRow[] = [];
+    const out: RunDigestRow[] = [];
+    for (const row of all) {
+      const run = toStoredRun(row, captures.get(row.id) ?? []);
+      if ('problem' in run) damaged.push(run);
+      else out.push({ id: run.id, unit: run.unit, digest: run.digest, intact: run.intact, captures: run.captures });
+    }
+    return { rows: out, damaged };
+  }
+  return judgeDigestRows(rows, pgCapturesByRun(client, filter.unit !== undefined ? rows.map((r) => r.id) : undefined));
+}
+
+/** The captures of these runs (all runs when `ids` is undefined), by run, in their order. */
+export function pgCapturesByRun(client: PgSyncClient, ids?: readonly number[]): Map<number, StoredCapture[]> {
+  const out = new Map<number, StoredCapture[]>();
+  if (ids !== undefined && ids.length === 0) return out;
+  const rows = client.query<{ run_id: number; sha256: string; original_path: string; size: string; layout: string; condition: string; file: string }>(
+    `SELECT rc.run_id, rc.sha256, rc.original_path, rc.size, rc.layout, rc.condition, b.file
+     FROM run_captures rc JOIN blobs b ON b.sha256 = rc.sha256
+     ${ids === undefined ? '' : 'WHERE rc.run_id = ANY($1::integer[])'} ORDER BY rc.run_id, rc.seq`,
+    ids === undefined ? [] : [ids],
+  ).rows;
+  for (const r of rows) {
+    const list = out.get(r.run_id) ?? [];
+    list.push({ path: r.original_path, sha256: r.sha256, size: Number(r.size), layout: r.layout, condition: r.condition, archivePath: r.file });
+    out.set(r.run_id, list);
+  }
+  return out;
+}
+
+/** Calibration runs (of one unit, or all) with their iterations, each re-hashed. */
+export function pgReadCalibrationRows(client: PgSyncClient, unit?: string): { runs: StoredCalibrationRun[]; damaged: DamagedRow[] } {
+  const runs = client.query<CalibrationRunRow>(`SELECT * FROM calibration_runs ${unit === undefined ? '' : 'WHERE unit = $1'} ORDER BY id`, unit === undefined ? [] : [unit]).rows;
+  if (runs.length === 0) return { runs: [], damaged: [] };
+  const ids = runs.map((r) => r.id);
+  const iterations = client.query<IterationRow>('SELECT * FROM calibration_iterations WHERE calibration_id = ANY($1::integer[]) ORDER BY calibration_id, number', [ids]).rows;
+  const captures = client.query<CalibrationCaptureRow>(
+    `SELECT cc.iteration_id, cc.sha256, cc.original_path, cc.size, cc.layout, cc.step, b.file
+     FROM calibration_captures cc JOIN blobs b ON b.sha256 = cc.sha256
+     WHERE cc.iteration_id = ANY($1::integer[]) ORDER BY cc.iteration_id, cc.seq`,
+    [iterations.map((i) => i.id)],
+  ).rows;
+  return assembleCalibrations(runs, iterations, captures);
+}
+
+export function pgChainEntries(client: PgSyncClient): ChainEntry[] {
+  return client.query<ChainEntry>('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq').rows;
+}
+
+/**
+ * The SHA-256 of each stored capture's bytes as the chunks hold them now, computed by the server
+ * (pg_catalog.sha256 over the chunks in order), so verifying does not move the archive over the
+ * network. A capture whose chunks are gone or out of sequence hashes to null.
+ */
+export function pgCaptureHashes(client: PgSyncClient, sha256s?: readonly string[]): Map<string, string | null> {
+  const rows = client.query<{ sha256: string; actual: string | null; size: string; parts: number; last: number | null }>(
+    `SELECT b.sha256, b.size, COUNT(c.seq)::integer AS parts, MAX(c.seq) AS last,
+       encode(pg_catalog.sha256(COALESCE(string_agg(c.bytes, ''::bytea ORDER BY c.seq), ''::bytea)), 'hex') AS actual
+     FROM blobs b LEFT JOIN capture_chunks c ON c.sha256 = b.sha256
+     ${sha256s === undefined ? '' : 'WHERE b.sha256 = ANY($1::text[])'} GROUP BY b.sha256, b.size`,
+    sha256s === undefined ? [] : [sha256s],
+  ).rows;
+  const out = new Map<string, string | null>();
+  for (const r of rows) out.set(r.sha256, r.parts === 0 || r.last !== r.parts - 1 ? null : r.actual);
+  return out;
+}
+
+export function pgDistinct(client: PgSyncClient, column: 'unit' | 'spec_name'): string[] {
+  return client.query<{ v: string }>(`SELECT DISTINCT ${column} AS v FROM runs ORDER BY v`).rows.map((r) => r.v);
+}
+
+export function pgCalibratedSerials(client: PgSyncClient): string[] {
+  return client.query<{ unit: string }>('SELECT DISTINCT unit FROM calibration_runs ORDER BY unit').rows.map((r) => r.unit);
+}
+
+export function pgSpecText(client: PgSyncClient, sha256: string): string | undefined {
+  const row = client.query<{ text: Buffer | null }>('SELECT text FROM specs WHERE sha256 = $1', [sha256]).rows[0];
+  return row?.text ? Buffer.from(row.text).toString('utf8') : undefined;
+}
+
+/** The first run that recorded these bytes for this unit and condition (captureSeen.ts's rule). */
+export function pgCaptureRecorded(client: PgSyncClient, key: { unit: string; condition: string; sha256: string; kind?: string }): number | undefined {
+  return client.query<{ id: number }>(
+    `SELECT rc.run_id AS id FROM run_captures rc JOIN runs r ON r.id = rc.run_id
+     WHERE rc.sha256 = $1 AND rc.condition = $2 AND r.unit = $3 AND r.kind = $4 ORDER BY rc.run_id LIMIT 1`,
+    [key.sha256, key.condition, key.unit, key.kind ?? 'check'],
+  ).rows[0]?.id;
+}
+
+/** The captures of one run, in their order. */
+export function pgRunCaptures(client: PgSyncClient, runId: number): StoredCapture[] {
+  return pgCapturesByRun(client, [runId]).get(runId) ?? [];
+}

@@ -1,0 +1,162 @@
+/**
+ * The record store on PostgreSQL: the same RecordStore as the embedded one (openStore.ts), with the
+ * same rules. Opening applies pending migrations (pgSchema.ts) and refuses a newer schema; every
+ * read is verified first (fingerprints and the hash chain, and a unit's captures when its runs are
+ * read) and refused or marked by the same rule (verifiedReads.ts); every write is one transaction
+ * under the store-wide lock (pgSaveRun.ts).
+ *
+ * Captures live in the database as chunks (pgCaptures.ts). A bench that reads a unit's captures
+ * (its record, its open attempt, a plot on the bench page) keeps a verified copy in its own data
+ * folder's archive under the same name (`captures/ab/<sha256>.csv`), so every caller reads the
+ * archived file as on the embedded store; a local copy that no longer hashes right is fetched again.
+ * Verifying the whole store has the server hash each capture's chunks (pgReads.ts), so the archive
+ * does not travel over the network for a listing.
+ */
+import { existsSync, mkdirSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+import type { RecordStore } from '../openStore.js';
+import { archiveCapture } from '../archive.js';
+import { hashFile, judgeCaptures, judgeStore } from '../auditStore.js';
+import type { CaptureHasher } from '../auditStore.js';
+import { numberRuns, openAttemptWith } from '../attempts.js';
+import { withCalibrations } from '../calibrationRead.js';
+import { buildUnitRecord } from '../unitSummaries.js';
+import { verifiedReads, withUnverified } from '../verifiedReads.js';
+import { isBenchError } from '../../types/index.js';
+import type { StoredCapture } from '../../types/index.js';
+import { applyPgMigrations } from './pgSchema.js';
+import { pgStoreError } from './pgErrors.js';
+import { readCapture } from './pgCaptures.js';
+import { pgCalibratedAt, pgChainHead, pgRunHeads, prepareRun, writeRun, WRITE_LOCK } from './pgSaveRun.js';
+import { pgSaveCalibration } from './pgCalibration.js';
+import { pgRunRows } from './pgRuns.js';
+import {
+  pgCalibratedSerials,
+  pgCaptureHashes,
+  pgCaptureRecorded,
+  pgChainEntries,
+  pgDistinct,
+  pgListUnits,
+  pgReadCalibrationRows,
+  pgReadRunDigests,
+  pgRunCaptures,
+  pgSpecText,
+} from './pgReads.js';
+import { shownStore } from './pgLocation.js';
+import { PgSyncClient } from './pgSync.js';
+import type { PgSyncOptions } from './pgSync.js';
+
+export interface PgStoreOptions extends PgSyncOptions {
+  /** The bench's data folder: captures read from the shared store are kept in its archive. */
+  readonly cacheDir: string;
+  /** As openStore's: 'refuse' a store that fails verification (default) or read it 'mark'ed. */
+  readonly unverified?: 'refuse' | 'mark';
+}
+
+export function openPgStore(url: string, options: PgStoreOptions): RecordStore {
+  const { cacheDir, unverified = 'refuse', ...connect } = options;
+  const shown = shownStore(url);
+  let client: PgSyncClient;
+  let version: number;
+  try {
+    client = new PgSyncClient(url, connect);
+  } catch (err) {
+    throw pgStoreError(err, shown);
+  }
+  try {
+    version = applyPgMigrations(client, shown);
+  } catch (err) {
+    client.close();
+    throw pgStoreError(err, shown);
+  }
+  return wrapPg(client, shown, cacheDir, version, unverified);
+}
+
+function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: number, unverified: 'refuse' | 'mark'): RecordStore {
+  const keep = (c: StoredCapture): string => keepLocal(client, shown, cacheDir, c);
+  // A unit's captures are fetched into the local archive, each verified on the way.
+  const fetched: CaptureHasher = (c) => {
+    try {
+      keep(c as StoredCapture);
+      return c.sha256;
+    } catch (err) {
+      if (isBenchError(err) && err.code === 'records.capture-missing') return null;
+      if (isBenchError(err) && err.code === 'records.capture-changed') return 'changed';
+      throw err;
+    }
+  };
+  const reads = verifiedReads(shown, unverified, {
+    rows: () => judgeStore({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client) }),
+    full: () => {
+      const hashes = pgCaptureHashes(client);
+      return judgeStore({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client) }, (c) => hashes.get(c.sha256) ?? null);
+    },
+    unitCaptures: (unit) => judgeCaptures(pgReadRunDigests(client, { unit }).rows, pgReadCalibrationRows(client, unit).runs, fetched),
+    wrapError: (err) => pgStoreError(err, shown),
+  });
+  const { verified, mark, markCalibrations, rowAudit, guarded } = reads;
+  const origin = (hooks?: { uid?: string; originDigest?: string }) => ({ ...(hooks?.uid !== undefined ? { uid: hooks.uid } : {}), ...(hooks?.originDigest !== undefined ? { digest: hooks.originDigest } : {}) });
+  return {
+    engine: 'shared',
+    dir: cacheDir,
+    dbFile: shown,
+    location: shown,
+    schemaVersion: version,
+    saveRun: (run, hooks) => {
+      const prepared = prepareRun(run);
+      return guarded(() => client.transaction(() => {
+        client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
+        return writeRun(client, prepared, origin(hooks));
+      }));
+    },
+    listUnits: (filter = {}) => verified(() => withUnverified(pgListUnits(client, filter.spec), rowAudit())),
+    unitRecord: (serial) =>
+      verified(() => withCalibrations(buildUnitRecord(serial, mark(pgRunRows(client, { unit: serial }))), serial, markCalibrations(pgReadCalibrationRows(client, serial).runs)), serial),
+    runs: (filter) => verified(() => mark(pgRunRows(client, filter)), filter?.unit),
+    unitSerials: () => verified(() => [...new Set([...pgDistinct(client, 'unit'), ...pgCalibratedSerials(client)])].sort()),
+    specNames: () => verified(() => pgDistinct(client, 'spec_name')),
+    specText: (sha256) => guarded(() => pgSpecText(client, sha256)),
+    // PostgreSQL keeps its own pages consistent; what can disagree is the schema, checked on opening.
+    integrityCheck: () => guarded(() => (applyPgMigrations(client, shown) === version ? ['ok'] : [`schema changed from ${version} while open`])),
+    close: () => client.close(),
+    captureRecorded: (key) => verified(() => pgCaptureRecorded(client, key)),
+    saveRunOnce: (run, hooks) => {
+      if (run.captures.length === 0) throw new RangeError(`saveRunOnce: run of ${run.unit} has no captures to decide on`);
+      const prepared = prepareRun(run);
+      return guarded(() => client.transaction(() => {
+        client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
+        const earlier = run.captures.map((c) => pgCaptureRecorded(client, { unit: run.unit, condition: c.condition, sha256: c.sha256, kind: run.kind }));
+        if (earlier.every((id) => id !== undefined)) return { stored: false as const, runId: Math.min(...(earlier as number[])) };
+        return { stored: true as const, run: writeRun(client, prepared, origin(hooks)) };
+      }));
+    },
+    saveCalibration: (iteration, hooks) => guarded(() => pgSaveCalibration(client, iteration, origin(hooks))),
+    calibrations: (serial) => verified(() => markCalibrations(pgReadCalibrationRows(client, serial).runs), serial),
+    openAttempt: (serial, specName) =>
+      guarded(() => {
+        const open = openAttemptWith((unit) => pgCalibratedAt(client, unit), numberRuns(pgRunHeads(client, serial)), specName, (id) => pgRunCaptures(client, id));
+        // The check re-reads them from the data folder's archive, as on the embedded store.
+        open?.captures.forEach(keep);
+        return open;
+      }),
+    audit: reads.audit,
+    chainHead: () => guarded(() => pgChainHead(client)),
+    unsent: () => [],
+  };
+}
+
+/**
+ * The capture's bytes in the bench's archive, verified: a local copy that hashes right is used, any
+ * other is replaced by the shared store's bytes (which readCapture verifies). Returns the local path.
+ */
+function keepLocal(client: PgSyncClient, shown: string, cacheDir: string, c: StoredCapture): string {
+  const file = join(cacheDir, ...c.archivePath.split('/'));
+  if (existsSync(file)) {
+    if (hashFile(cacheDir, c.archivePath) === c.sha256) return file;
+    rmSync(file, { force: true });
+  }
+  const bytes = readCapture(client, c.sha256, shown);
+  mkdirSync(cacheDir, { recursive: true });
+  archiveCapture(cacheDir, { path: c.path, sha256: c.sha256, size: bytes.length, layout: c.layout, condition: c.condition, bytes });
+  return file;
+}
