@@ -6,6 +6,7 @@
  */
 import type { DecimalMark, Delimiter } from '../types/index.js';
 import { lineTooLong, MAX_LINE_BYTES } from './lines.js';
+import { blankRunError, MAX_BLANK_RUN } from './readerLimits.js';
 import type { RowSink } from './rowSink.js';
 import { EMPTY, fastDecimal, MARKER, NUMBER, NumberScanner, TEXT } from './scanNumber.js';
 
@@ -44,6 +45,8 @@ export class ByteScanner {
   private plain: boolean;
   private plainMisses = 0;
   private readonly mark: number;
+  /** Blank or comment lines since the last row, bounded by MAX_BLANK_RUN. */
+  private blankRun = 0;
 
   constructor(
     private readonly layout: ScannerLayout,
@@ -169,8 +172,8 @@ export class ByteScanner {
     const { vals, kinds, exps, num, delim, spaces, maxFields, term } = this;
     let pos = s;
     while (pos < limit && this.isBlank(b[pos])) pos++;
-    if (pos >= limit || b[pos] === term) return pos;
-    if (b[pos] === HASH) return this.lineEnd(b, pos, limit);
+    if (pos >= limit || b[pos] === term) return this.blankLine(pos);
+    if (b[pos] === HASH) return this.blankLine(this.lineEnd(b, pos, limit));
     let n = 0;
     for (;;) {
       while (pos < limit && this.isBlank(b[pos])) pos++;
@@ -200,7 +203,13 @@ export class ByteScanner {
     }
   }
 
+  private blankLine(end: number): number {
+    if (++this.blankRun > MAX_BLANK_RUN) throw blankRunError(this.layout.file, this.line - MAX_BLANK_RUN);
+    return end;
+  }
+
   private pushRow(b: Buffer, s: number, e: number, n: number): number {
+    this.blankRun = 0;
     if (!this.sink.push(this.vals, this.kinds, this.exps, n, this.line)) this.holdText(b, s, e);
     return e;
   }

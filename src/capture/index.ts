@@ -26,7 +26,9 @@
  *   capture.time-repeated         the time column repeats a value
  *   capture.too-few-rows          fewer than two data rows
  *   capture.resample-too-large    time steps so uneven that the median-step grid would explode
- *   capture.too-large             more than 2^28 samples (2 GiB) over the kept channels
+ *   capture.too-large             more than 2^28 samples (2 GiB), or than half the machine's memory, over the kept channels
+ *   capture.unpack-limit          a .gz that unpacks past 100× its size (at least 256 MiB), or past --unpack-limit
+ *   capture.blank-run             more than 100 000 blank or comment lines in a row
  *
  * Capture warning codes: invalid-samples, resampled, footer, option-ignored,
  * interval-mismatch, record-length-mismatch, time-rebuilt, dropouts, clock-times, segments, spliced,

@@ -8,6 +8,7 @@ import { StringDecoder } from 'node:string_decoder';
 import Papa from 'papaparse';
 import type { CaptureLayout, DecimalMark, Delimiter } from '../types/index.js';
 import type { RowSink } from './rowSink.js';
+import { blankRunError, MAX_BLANK_RUN } from './readerLimits.js';
 import { parseNumberText } from './scanNumber.js';
 
 export interface PapaLayout {
@@ -18,13 +19,14 @@ export interface PapaLayout {
   readonly columnCount: number;
 }
 
-export function readWithPapa(first: Buffer, rest: AsyncIterable<Buffer>, layout: PapaLayout, sink: RowSink): Promise<void> {
+export function readWithPapa(first: Buffer, rest: AsyncIterable<Buffer>, layout: PapaLayout, sink: RowSink, file: string): Promise<void> {
   const input = Readable.from(decodeText(first, rest));
   const width = layout.columnCount + 2;
   const vals = new Float64Array(width);
   const kinds = new Uint8Array(width);
   const exps = new Int32Array(width);
   let line = layout.firstLine;
+  let blankRun = 0;
   return new Promise((resolve, reject) => {
     let failure: unknown = null;
     Papa.parse<string[]>(input as unknown as File, {
@@ -36,7 +38,10 @@ export function readWithPapa(first: Buffer, rest: AsyncIterable<Buffer>, layout:
           for (const row of results.data) {
             const fields = layout.delimiter === ' ' ? row.filter((f) => f.trim() !== '') : row;
             const blank = fields.length === 0 || (fields.length === 1 && fields[0].trim() === '');
-            if (!blank && !fields[0].trim().startsWith('#')) {
+            if (blank || fields[0].trim().startsWith('#')) {
+              if (++blankRun > MAX_BLANK_RUN) throw blankRunError(file, line - MAX_BLANK_RUN);
+            } else {
+              blankRun = 0;
               const n = Math.min(fields.length, width);
               for (let i = 0; i < n; i++) {
                 const p = parseNumberText(fields[i], layout.decimalMark);

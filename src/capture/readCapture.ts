@@ -13,7 +13,7 @@ import type { SampleLines } from './lines.js';
 import { readMetadata } from './metadata.js';
 import type { ColumnRoles } from './roles.js';
 import { columnRoles } from './roles.js';
-import { RowSink, SKIP, X_COLUMN } from './rowSink.js';
+import { RowSink, sampleLimit, SKIP, X_COLUMN } from './rowSink.js';
 import { sniffLayout } from './sniff.js';
 import type { Sniffed } from './sniff.js';
 import { openSource } from './source.js';
@@ -27,7 +27,7 @@ export async function readCapture(path: string, options: ReadCaptureOptions = {}
 /** The capture and the opening lines it was sniffed from (for `inspect`). */
 export async function readCaptureLines(path: string, options: ReadCaptureOptions = {}): Promise<{ capture: Capture; lines: SampleLines; sniffed: Sniffed }> {
   checkOptions(options);
-  const source = await openSource(path, options.onProgress);
+  const source = await openSource(path, { onProgress: options.onProgress, unpackLimitMB: options.unpackLimitMB });
   const chunks = source.chunks[Symbol.asyncIterator]();
   try {
     const gathered = await gatherSample(chunks);
@@ -50,6 +50,7 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
     const kept = selectChannels(roles, options.channel, path);
     const x = roles.timeColumn ?? roles.indexColumn;
     if (x === null && givenInterval(options, meta) === null) throw noTimeBase(path, sniffed.firstDataLine);
+    if (!source.compressed) refuseBeyondMemory(lines, sniffed, source.size, kept.length, path);
     const axis = x === null ? null : new TimeAxis(path, x === roles.timeColumn ? 'time' : 'sample-index', x === roles.timeColumn);
     const sink = new RowSink({
       file: path,
@@ -66,7 +67,7 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
     if (sniffed.quotes === 'complex') {
       // papaparse loads only for the quoted layouts that need it, not at every start.
       const { readWithPapa } = await import('./papaRows.js');
-      await readWithPapa(data, rest, { ...sniffed, lineEnding: lines.lineEnding, firstLine: sniffed.firstDataLine }, sink);
+      await readWithPapa(data, rest, { ...sniffed, lineEnding: lines.lineEnding, firstLine: sniffed.firstDataLine }, sink, path);
     } else {
       const scanner = new ByteScanner({ ...sniffed, terminator: lines.terminator, firstLine: sniffed.firstDataLine, file: path }, sink);
       scanner.feed(data);
@@ -132,6 +133,28 @@ function estimateRows(lines: SampleLines, s: Sniffed, size: number): number {
     if (bytes < shortest) shortest = bytes;
   }
   return Math.ceil((size - s.dataOffset) / Math.max(2, shortest)) + 16;
+}
+
+/**
+ * Refuses, before any column is allocated, a file whose rows cannot fit: the rows are counted low,
+ * as the data bytes over twice the longest sniffed row, so that a file whose later rows are longer
+ * than its first ones is not refused wrongly; a file between that count and the limit still stops
+ * with the same error once its rows pass the limit (RowSink), before more memory is taken.
+ */
+function refuseBeyondMemory(lines: SampleLines, s: Sniffed, size: number, channels: number, file: string): void {
+  const data = lines.lines.filter((l) => l.line >= s.firstDataLine);
+  let longest = 0;
+  for (let i = 0; i + 1 < data.length; i++) longest = Math.max(longest, data[i + 1].start - data[i].start);
+  if (longest === 0 || lines.wholeFile) return;
+  const rows = Math.floor((size - s.dataOffset) / (2 * longest));
+  const limit = sampleLimit();
+  if (rows * Math.max(1, channels) <= limit) return;
+  throw captureError('too-large', file, {
+    line: s.firstDataLine,
+    problem: `the file is ${(size / 1e9).toFixed(1)} GB: at most ${longest} bytes per row in its first rows, it holds at least ${rows} rows of ${channels} channel(s), over the ${limit} samples benchproof can keep in memory on this machine`,
+    expected: 'a record of at most a few hundred million samples over the channels measured',
+    fix: channels > 1 ? 'measure one channel at a time with --channel, or export a shorter record' : 'export a shorter record, or one at a lower sample rate',
+  });
 }
 
 /** File columns of the channels to keep: all, or the one named by --channel (name or 1-based number). */

@@ -6,6 +6,7 @@
  * it is a footer, reported as a warning.
  */
 import { captureError } from './errors.js';
+import { sampleMemoryBudget } from './readerLimits.js';
 import { EMPTY, NUMBER, TEXT } from './scanNumber.js';
 import type { TimeAxis } from './timeAxis.js';
 import { SAME_SEGMENT } from './timeAxis.js';
@@ -40,6 +41,11 @@ export interface SinkConfig {
  * instead of exhausting the machine's memory.
  */
 export const MAX_SAMPLES = 2 ** 28;
+
+/** Samples one capture may hold here: MAX_SAMPLES, or fewer on a machine with less memory to give. */
+export function sampleLimit(maxSamples?: number): number {
+  return maxSamples ?? Math.min(MAX_SAMPLES, Math.floor(sampleMemoryBudget() / Float64Array.BYTES_PER_ELEMENT));
+}
 
 export const X_COLUMN = -2;
 export const SKIP = -1;
@@ -76,6 +82,7 @@ export class RowSink {
   /** True while the rows belong to another acquisition than the one kept. */
   private skipping: boolean;
   private lastX = 0;
+  private readonly maxSamples: number;
 
   constructor(private readonly cfg: SinkConfig) {
     const kept = [...cfg.targets.keys()].filter((c) => cfg.targets[c] >= 0).sort((a, b) => cfg.targets[a] - cfg.targets[b]);
@@ -87,7 +94,8 @@ export class RowSink {
     this.skipping = this.wanted !== 1;
     this.columnCount = cfg.columnCount;
     this.trailingDelimiter = cfg.trailingDelimiter;
-    this.maxRows = Math.floor((cfg.maxSamples ?? MAX_SAMPLES) / Math.max(1, kept.length));
+    this.maxSamples = sampleLimit(cfg.maxSamples);
+    this.maxRows = Math.floor(this.maxSamples / Math.max(1, kept.length));
     this.capacity = Math.min(this.maxRows, Math.max(16, cfg.capacity));
     this.columns = kept.map(() => new Float64Array(this.capacity));
     this.invalid = new Array<number>(kept.length).fill(0);
@@ -196,7 +204,7 @@ export class RowSink {
     const n = this.columns.length;
     return captureError('too-large', this.cfg.file, {
       line: this.lastLine + 1,
-      problem: `the capture holds more than ${this.maxRows} rows of ${n} channel(s), over the ${this.cfg.maxSamples ?? MAX_SAMPLES} samples benchproof keeps in memory`,
+      problem: `the capture holds more than ${this.maxRows} rows of ${n} channel(s), over the ${this.maxSamples} samples benchproof keeps in memory on this machine`,
       expected: 'a record of at most a few hundred million samples over the channels measured',
       fix: n > 1 ? 'measure one channel at a time with --channel, or export a shorter record' : 'export a shorter record, or one at a lower sample rate',
     });

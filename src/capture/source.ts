@@ -8,7 +8,9 @@ import { readSync } from 'node:fs';
 import { open, stat } from 'node:fs/promises';
 import type { FileHandle } from 'node:fs/promises';
 import type { Readable } from 'node:stream';
+import { isBenchError } from '../types/index.js';
 import { captureError } from './errors.js';
+import { unpackLimitBytes, unpackLimitError } from './readerLimits.js';
 
 export const CHUNK_BYTES = 1 << 20;
 
@@ -21,10 +23,14 @@ export interface CaptureSource {
   digest(): string;
 }
 
-export async function openSource(
-  path: string,
-  onProgress?: (bytesRead: number, totalBytes: number) => void,
-): Promise<CaptureSource> {
+export interface SourceOptions {
+  readonly onProgress?: (bytesRead: number, totalBytes: number) => void;
+  /** Most unpacked megabytes (10^6 bytes) a .gz may give; by default UNPACK_RATIO × stored, with a floor. */
+  readonly unpackLimitMB?: number;
+}
+
+export async function openSource(path: string, options: SourceOptions = {}): Promise<CaptureSource> {
+  const { onProgress, unpackLimitMB } = options;
   const size = await fileSize(path);
   const handle = await open(path, 'r').catch((e: NodeJS.ErrnoException) => {
     throw unreadable(path, e);
@@ -49,7 +55,7 @@ export async function openSource(
   return {
     size,
     compressed,
-    chunks: compressed ? gunzipped(handle, path, tap, finish) : plain(handle, path, tap, finish),
+    chunks: compressed ? gunzipped(handle, path, tap, finish, { stored: size, limit: unpackLimitBytes(size, unpackLimitMB), fromOption: unpackLimitMB !== undefined }) : plain(handle, path, tap, finish),
     digest: () => {
       if (hex === null) throw new Error('capture digest asked for before the file was read to the end');
       return hex;
@@ -84,8 +90,17 @@ async function* plain(handle: FileHandle, path: string, tap: (c: Buffer) => void
   }
 }
 
-/** zlib works on its input asynchronously, so the compressed bytes come from a stream of fresh buffers. */
-async function* gunzipped(handle: FileHandle, path: string, tap: (c: Buffer) => void, finish: () => void): AsyncGenerator<Buffer> {
+interface UnpackBound {
+  readonly stored: number;
+  readonly limit: number;
+  readonly fromOption: boolean;
+}
+
+/**
+ * zlib works on its input asynchronously, so the compressed bytes come from a stream of fresh buffers.
+ * Reading stops once the unpacked text passes its bound (a gzip bomb unpacks about 1000× its size).
+ */
+async function* gunzipped(handle: FileHandle, path: string, tap: (c: Buffer) => void, finish: () => void, bound: UnpackBound): AsyncGenerator<Buffer> {
   // Loaded here, for compressed captures only: plain files, the common case, start faster without.
   const [{ Transform, pipeline }, { createGunzip }] = await Promise.all([import('node:stream'), import('node:zlib')]);
   const raw = handle.createReadStream({ start: 0, highWaterMark: CHUNK_BYTES, autoClose: true });
@@ -103,8 +118,14 @@ async function* gunzipped(handle: FileHandle, path: string, tap: (c: Buffer) => 
   // Errors reach the last stage, where the loop below sees them; the callback only silences the rest.
   const text: Readable = pipeline(raw, hashing, gunzip, () => {});
   try {
-    for await (const chunk of text) yield chunk as Buffer;
+    let unpacked = 0;
+    for await (const chunk of text) {
+      unpacked += (chunk as Buffer).length;
+      if (unpacked > bound.limit) throw unpackLimitError(path, bound.limit, bound.stored, bound.fromOption);
+      yield chunk as Buffer;
+    }
   } catch (e) {
+    if (isBenchError(e)) throw e;
     const err = e as NodeJS.ErrnoException;
     if (err.code?.startsWith('Z_') || err.code === 'ERR_STREAM_PREMATURE_CLOSE') {
       throw captureError('corrupt-gzip', path, {

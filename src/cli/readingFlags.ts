@@ -23,6 +23,7 @@ export interface ReadingFlags {
   segment?: string;
   sampleRate?: string;
   interval?: string;
+  unpackLimit?: string;
 }
 
 export function addReadingOptions(cmd: Command): Command {
@@ -37,7 +38,8 @@ export function addReadingOptions(cmd: Command): Command {
     .option('--time-column <n|name>', 'the time (or index) column, by 1-based number or name; none for no time column')
     .option('--channel-unit <unit|NAME=unit,…>', 'unit of channels that state none (e.g. V, mV, counts)')
     .option('--scale <k|NAME=k,…>', 'factor from the numbers in the file to the unit (e.g. volts per converter count)')
-    .option('--segment <n>', 'which acquisition to read when the file holds several (default 1)');
+    .option('--segment <n>', 'which acquisition to read when the file holds several (default 1)')
+    .option('--unpack-limit <MB>', 'most megabytes a .csv.gz may unpack to (default 100× its size, at least 256 MiB)');
 }
 
 /** The flags (and the profile they name) as reader options. */
@@ -70,6 +72,7 @@ export async function readingOptionsFrom(ctx: CommandContext, flags: ReadingFlag
     scale: perChannel(flags.scale, (v, k) => parsePositive(`--scale${k ? ` ${k}=` : ''}`, v)),
     sampleRate: parsePositive('--sample-rate', flags.sampleRate),
     interval: parsePositive('--interval', flags.interval),
+    unpackLimitMB: parsePositive('--unpack-limit', flags.unpackLimit),
   };
   const merged = capture.mergeSettings(profile ?? {}, given);
   // The settings are checked once, whatever their source, with the reader's own rules.

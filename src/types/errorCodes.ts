@@ -16,6 +16,8 @@ export const ERROR_CODES = [
   'capture.line-too-long',
   'capture.too-many-columns',
   'capture.too-large',
+  'capture.unpack-limit',
+  'capture.blank-run',
   'capture.header-only',
   'capture.no-numeric-data',
   'capture.ambiguous-layout',
