@@ -1,8 +1,8 @@
 // The bench page's speed and memory (issue 19), against the built server in dist/:
-//   board     GET /api/board with 2 000 units in the records          target < 300 ms (median of 7)
+//   board     GET /api/board with 2 000 units in the records          target < 300 ms, the first answer after a run lands and a repeat
 //   zoom      one zoom step on a 10 M-sample capture (plot columns)   target < 100 ms (median of 8 steps)
 //   memory    the server's heap after 500 dropped captures            target: flat (growth from drop 100 to 500 < 16 MiB)
-// Usage: node bench/serve.js [--only board|zoom|memory] [--rows N]   (npm run bench runs it last)
+// Usage: node bench/serve.js [--only board|zoom|memory] [--units N] [--rows N] [--drops N]   (npm run bench runs it last)
 // Run node with --expose-gc for the memory line (bench/run.js does); without it the heap is read as is.
 /* global fetch, URLSearchParams, FormData, Blob -- Node 20 has them built in */
 import process from 'node:process';
@@ -56,16 +56,29 @@ export async function boardLine(units = 2000) {
     const { server, base } = await startServer(dataDir);
     let count = 0;
     const ask = () => timed(async () => (count = (await (await fetch(`${base}/api/board`)).json()).units.length));
-    // The first answer after the records changed lists (and verifies) them; later ones reuse that
-    // listing until the next change. The target is judged on the first: a page sees it at each change.
-    const first = await ask();
+    // The server's first answer verifies every row once (its start-up pass). After that a change is
+    // a run landing from another writer (here a second store handle, as `check` in another terminal):
+    // the next answer verifies only what was added since the chain head it verified last.
+    const start = await ask();
+    const firsts = [];
     const again = [];
-    for (let i = 0; i < 7; i++) again.push(await ask());
+    for (let i = 0; i < 5; i++) {
+      const writer = openStore(dataDir, { mode: 'write' });
+      const serial = `FK-${String(2000 + units + i).padStart(4, '0')}`;
+      const run = runOf(ctx, { verdict: { ...unit.verdict, unit: serial }, diagnosis: unit.diagnosis }, { operator: 'bench', station: 'bench' }, new Date().toISOString(), text);
+      writer.saveRun({ ...run, unit: serial });
+      writer.close();
+      firsts.push(await ask());
+      if (process.env.BENCH_SERVE_TRACE) log(`after run ${i + 1}: ${firsts.at(-1).toFixed(0)} ms`);
+      for (let k = 0; k < 3; k++) again.push(await ask());
+    }
     await server.close();
+    const after = median(firsts);
+    const repeat = median(again);
     return {
-      target: `board with ${count} units answers < 300 ms`,
-      measured: `${first.toFixed(0)} ms the first time after a change (store verification and units listing), ${median(again).toFixed(0)} ms again (median of ${again.length})`,
-      status: count === units && first < 300 ? 'PASS' : 'FAIL',
+      target: `board with ${units} units answers < 300 ms (first answer after a run lands, and a repeat)`,
+      measured: `${after.toFixed(0)} ms the first time after a run landed (median of ${firsts.length}, slowest ${Math.max(...firsts).toFixed(0)} ms), ${repeat.toFixed(0)} ms again (median of ${again.length}); the server's start-up pass over all ${units} units took ${(start / 1000).toFixed(1)} s`,
+      status: count === units + firsts.length && Math.max(...firsts) < 300 && repeat < 300 ? 'PASS' : 'FAIL',
     };
   } finally {
     rmSync(dataDir, { recursive: true, force: true });
@@ -140,13 +153,13 @@ export async function memoryLine(drops = 500) {
   }
 }
 
-export async function serveLines(only) {
+export async function serveLines(only, sizes = {}) {
   const lines = [];
-  for (const [name, fn] of [['board', boardLine], ['zoom', zoomLine], ['memory', memoryLine]]) {
+  for (const [name, fn, size] of [['board', boardLine, sizes.units], ['zoom', zoomLine, sizes.rows], ['memory', memoryLine, sizes.drops]]) {
     if (only && only !== name) continue;
     log(`measuring ${name}`);
     try {
-      lines.push(await fn());
+      lines.push(await fn(size));
     } catch (err) {
       lines.push({ target: name, measured: `did not complete: ${err.message}`, status: 'FAIL' });
     }
@@ -161,6 +174,7 @@ export function renderServeLines(lines) {
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   const args = process.argv.slice(2);
   const only = args.includes('--only') ? args[args.indexOf('--only') + 1] : undefined;
-  const lines = await serveLines(only);
+  const size = (flag) => (args.includes(flag) ? Number(args[args.indexOf(flag) + 1]) : undefined);
+  const lines = await serveLines(only, { units: size('--units'), rows: size('--rows'), drops: size('--drops') });
   process.stdout.write(`${renderServeLines(lines)}\n`);
 }

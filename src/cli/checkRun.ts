@@ -1,21 +1,27 @@
 /**
- * The check pipeline shared by `check` and `watch`: read the spec, then for each planned capture
- * read → measure → bind, decide each unit and rank its likely causes; and the run a checked unit is
- * stored as. Commands import this module lazily inside their action, so the stages (zod, fft.js,
- * the CSV reader) load only when a check actually runs.
+ * The check pipeline shared by `check`, `watch` and the bench page: read the spec, then for each
+ * planned capture read → measure → bind, decide each unit and rank its likely causes; and the run a
+ * checked unit is stored as. `checkAndStore` is the whole of `benchproof check FILES --spec SPEC`
+ * up to its output, used as it is by the command and by the page's drop zone, so what the page
+ * stores is what the command stores. Commands import this module lazily inside their action, so the
+ * stages (zod, fft.js, the CSV reader) load only when a check actually runs.
  */
 import { readCapture } from '../capture/index.js';
 import { measureCapture } from '../analysis/index.js';
 import { SPEC_MAX_BYTES, bindCapture, decideUnits, parseSpec, planCapture } from '../design/index.js';
 import type { CapturePlan, PlanOverrides, Spec } from '../design/index.js';
 import { diagnoseUnit } from '../diagnose/index.js';
+import { describeDiagnosis } from '../report/index.js';
 import { BenchError } from '../types/index.js';
 import type { CheckedCapture, ReadCaptureOptions } from '../types/index.js';
 import type { CommandContext } from './context.js';
 import { resolvePath } from './context.js';
 import type { Progress } from './progress.js';
-import type { CheckedUnit } from './store.js';
+import type { CheckedUnit, StoreFlags } from './store.js';
+import { storeCheckedUnits } from './store.js';
 import { readSpecFile } from './specFile.js';
+import { checkNote, companionsFromStore, describeCompanions } from './attemptCompanions.js';
+import type { StoredRun } from '../types/index.js';
 
 export { planCapture, worstStatement } from '../design/index.js';
 
@@ -91,9 +97,58 @@ export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonl
   } finally {
     progress.stop();
   }
-  return decideUnits(spec, checked).map((verdict) => ({ verdict, diagnosis: diagnoseUnit(spec, verdict) }));
+  return decideUnits(spec, checked).map((verdict) => ({ verdict, diagnosis: describeDiagnosis(diagnoseUnit(spec, verdict)) }));
 }
 
 /** Who stored a run and from where. */
 export { runOf } from './store.js';
 export type { RunAuthor } from './store.js';
+
+/** What one `check` is asked to do: the files and the flags that shape the check and the stored run. */
+export interface CheckJob {
+  /** The spec file, as given to --spec. */
+  readonly specFile: string;
+  /** Capture files, relative to the context's working directory or absolute. */
+  readonly files: readonly string[];
+  readonly unit?: string;
+  readonly condition?: string;
+  readonly forceUnit?: boolean;
+  /** What was done to the unit before these captures (--note): opens a new attempt. Checked here. */
+  readonly note?: string;
+  readonly newAttempt?: boolean;
+  readonly timing: TimingOptions;
+  /** When the check started (ISO time), stored with each run. */
+  readonly startedAt: string;
+}
+
+export interface CheckOutcome {
+  readonly spec: Spec;
+  readonly units: CheckedUnit[];
+  /** The runs as stored, one per unit; empty with --no-store. */
+  readonly stored: StoredRun[];
+}
+
+export interface CheckHooks {
+  readonly progress?: Progress;
+  /** How the spec is read; loadSpec by default (the page keeps the last parse while the text is unchanged). */
+  readonly loadSpec?: (ctx: CommandContext, file: string) => LoadedSpec;
+}
+
+/**
+ * `benchproof check`: plan every file name first (a misnamed file fails before any capture is read),
+ * let each unit's open attempt lend the captures the new files do not cover (unless --note,
+ * --new-attempt or --no-store), read, measure, decide and diagnose, then store every checked unit
+ * (one transaction each) with one notice line on stderr.
+ */
+export async function checkAndStore(ctx: CommandContext, flags: StoreFlags, job: CheckJob, hooks: CheckHooks = {}): Promise<CheckOutcome> {
+  const { progress = quiet, loadSpec: load = loadSpec } = hooks;
+  const note = checkNote(job.note);
+  const { spec, text } = load(ctx, job.specFile);
+  const plans = planFiles(spec, job.files, { unit: job.unit, condition: job.condition }, Boolean(job.forceUnit));
+  const fresh = flags.store === false || job.newAttempt === true || note !== undefined;
+  const companions = fresh ? undefined : companionsFromStore(ctx, flags, spec, plans);
+  ctx.io.stderr(describeCompanions(companions));
+  const units = await checkPlans(ctx, spec, [...plans, ...(companions?.plans ?? [])], job.timing, progress);
+  const stored = storeCheckedUnits(ctx, flags, units, job.startedAt, text, { note, newAttempt: job.newAttempt, sources: companions?.sources, specFile: job.specFile });
+  return { spec, units, stored };
+}

@@ -10,6 +10,9 @@ import type { CliIo } from '../cli/io.js';
 import { openDataStore } from '../cli/store.js';
 import type { DataLocation, StoreFlags } from '../cli/store.js';
 import type { RecordStore } from '../records/index.js';
+import { SPEC_MAX_BYTES, parseSpec } from '../design/index.js';
+import type { LoadedSpec } from '../cli/checkRun.js';
+import { readSpecFile } from '../cli/specFile.js';
 import type { EventHub } from './eventHub.js';
 
 export interface UploadLimits {
@@ -34,6 +37,11 @@ export interface BenchSetup {
   readonly hub: EventHub;
   /** Open the records again after they changed, so the next read verifies what was added. */
   refresh(): void;
+  /**
+   * The spec as `check` loads it, read again on each call; parsed again only when its text changed
+   * (the same text always parses the same way), so the board answers without re-parsing.
+   */
+  loadSpec(ctx: CommandContext, file: string): LoadedSpec;
   close(): void;
 }
 
@@ -44,7 +52,21 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
   let store = first.store;
   // Later calls resolve the data folder from other working directories (a drop's temporary folder).
   const absolute: StoreFlags = { ...flags, data: location.dir };
+  let parsed: { file: string; text: string; result: { spec: LoadedSpec['spec'] } | { error: unknown } } | undefined;
+  const loadSpec = (ctx: CommandContext, file: string): LoadedSpec => {
+    const text = readSpecFile(ctx, file, SPEC_MAX_BYTES, '--spec samples/fh210-spec.yaml');
+    if (parsed?.file !== file || parsed.text !== text) {
+      try {
+        parsed = { file, text, result: { spec: parseSpec(text, file) } };
+      } catch (error) {
+        parsed = { file, text, result: { error } };
+      }
+    }
+    if ('error' in parsed.result) throw parsed.result.error;
+    return { spec: parsed.result.spec, text };
+  };
   return {
+    loadSpec,
     ctx,
     flags: absolute,
     location,
@@ -70,7 +92,9 @@ export function workContext(setup: BenchSetup, cwd: string): { ctx: CommandConte
   const notes: string[] = [];
   const io: CliIo = {
     stdout: () => {},
-    stderr: (s) => void notes.push(s.trimEnd()),
+    stderr: (s) => {
+      if (s.trim()) notes.push(s.trimEnd());
+    },
     stdoutIsTTY: false,
     stderrIsTTY: false,
     env: setup.ctx.io.env,

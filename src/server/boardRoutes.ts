@@ -8,7 +8,6 @@ import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { UnitSummary } from '../types/index.js';
 import { unverifiedError } from '../records/index.js';
 import type { StoreFollower } from '../records/index.js';
-import { loadSpec } from '../cli/checkRun.js';
 import type { Spec } from '../design/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { errorBody } from './errorBody.js';
@@ -52,7 +51,7 @@ type Current = { ok: true; spec: Spec; text: string } | { ok: false; error: Retu
 function currentSpec(setup: BenchSetup): Current {
   if (setup.specFile === undefined) return { ok: false, error: null };
   try {
-    const { spec, text } = loadSpec(setup.ctx, setup.specFile);
+    const { spec, text } = setup.loadSpec(setup.ctx, setup.specFile);
     return { ok: true, spec, text };
   } catch (err) {
     return { ok: false, error: errorBody(err).error };

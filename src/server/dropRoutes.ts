@@ -1,8 +1,8 @@
 /**
  * The drop zone: captures sent from the page are written to a fresh temporary folder under the
- * names they had (a base name only, checked), then read, checked and stored exactly as
- * `benchproof check FILES --spec SPEC` does, through the same pipeline (src/cli/checkRun.ts) and the
- * same store call. Limits on size and count come from the command's options; the temporary folder
+ * names they had (a base name only, checked), then read, checked and stored by the very function
+ * `benchproof check FILES --spec SPEC [--note …] [--new-attempt]` runs (checkAndStore in
+ * src/cli/checkRun.ts), so what the page stores is what the command stores. Limits on size and count come from the command's options; the temporary folder
  * is removed afterwards whatever happened. Drops are handled one at a time.
  */
 import { createWriteStream } from 'node:fs';
@@ -14,9 +14,7 @@ import type { FastifyInstance } from 'fastify';
 import { BenchError, INCOMPLETE_WORD, STATEMENT_WORDS, isBenchError, waitingConditions } from '../types/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { workContext } from './benchSetup.js';
-import { loadSpec, checkPlans, planFiles } from '../cli/checkRun.js';
-import { checkNote, companionsFromStore, describeCompanions } from '../cli/attemptCompanions.js';
-import { storeCheckedUnits } from '../cli/store.js';
+import { checkAndStore } from '../cli/checkRun.js';
 import type { Progress } from '../cli/progress.js';
 import { errorBody } from './errorBody.js';
 
@@ -73,25 +71,13 @@ interface DropFields {
   newAttempt?: boolean;
 }
 
-/**
- * The steps of `benchproof check FILES --spec SPEC [--note …] [--new-attempt]`, in its order, with
- * the same helpers: plan every name first, let the unit's open attempt lend the conditions the drop
- * does not cover, check, store. (A shared function for this sequence in src/cli would keep the two
- * callers from drifting; check.ts holds it inline today.)
- */
+/** `benchproof check NAMES --spec SPEC [--note …] [--new-attempt]` run in the drop's folder. */
 async function checkDrop(setup: BenchSetup, dir: string, names: readonly string[], fields: DropFields, dropId: string) {
   if (setup.specFile === undefined) throw noSpec();
-  const { spec, text } = loadSpec(setup.ctx, setup.specFile);
   const { ctx, notes } = workContext(setup, dir);
-  const startedAt = new Date().toISOString();
-  const note = checkNote(fields.note);
-  const plans = planFiles(spec, names, {});
-  const fresh = fields.newAttempt === true || note !== undefined;
-  const companions = fresh ? undefined : companionsFromStore(ctx, setup.flags, spec, plans);
-  const told = describeCompanions(companions).trim();
-  if (told) notes.push(told);
-  const units = await checkPlans(ctx, spec, [...plans, ...(companions?.plans ?? [])], {}, dropProgress(setup, dropId));
-  const stored = storeCheckedUnits(ctx, setup.flags, units, startedAt, text, { note, newAttempt: fields.newAttempt, sources: companions?.sources, specFile: setup.specFile });
+  const job = { specFile: setup.specFile, files: names, note: fields.note, newAttempt: fields.newAttempt, timing: {}, startedAt: new Date().toISOString() };
+  // The spec's path is the command's, not the drop folder's: it is read through the server's own context.
+  const { stored } = await checkAndStore(ctx, setup.flags, job, { progress: dropProgress(setup, dropId), loadSpec: (_ctx, file) => setup.loadSpec(setup.ctx, file) });
   return {
     units: stored.map((r) => {
       const waiting = waitingConditions(r.verdict);

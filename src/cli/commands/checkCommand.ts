@@ -67,25 +67,14 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       const readOptions = await readingOptionsFrom(ctx, opts);
       const startedAt = new Date().toISOString();
       // The stages load here, not at start-up: `benchproof --help` should not wait for them.
-      const [{ checkPlans, loadSpec, planFiles }, { createProgress }, { checkDocument, renderCheckBrief, renderCheckSummary, renderCheckText }, { storeCheckedUnits }, companionsModule] = await Promise.all([
+      const [{ checkAndStore }, { createProgress }, { checkDocument, renderCheckBrief, renderCheckSummary, renderCheckText }] = await Promise.all([
         import('../checkRun.js'),
         import('../progress.js'),
         import('../../report/index.js'),
-        import('../store.js'),
-        import('../attemptCompanions.js'),
       ]);
-      const note = companionsModule.checkNote(opts.note);
-      const { spec, text: specText } = loadSpec(ctx, opts.spec);
-      // Every file name is mapped before any capture is read, so a misnamed file fails at once.
-      const plans = planFiles(spec, files, { unit: opts.unit, condition: opts.condition }, Boolean(opts.forceUnit));
-      // A unit's open attempt lends the captures the new files do not cover; a note or --new-attempt starts afresh.
-      const fresh = opts.store === false || opts.newAttempt === true || note !== undefined;
-      const companions = fresh ? undefined : companionsModule.companionsFromStore(ctx, opts, spec, plans);
-      ctx.io.stderr(companionsModule.describeCompanions(companions));
-      const units: UnitCheck[] = await checkPlans(ctx, spec, [...plans, ...(companions?.plans ?? [])], readOptions, createProgress(ctx, json));
-
-      // Every checked unit is stored by default, one transaction each; --no-store skips it.
-      storeCheckedUnits(ctx, opts, units, startedAt, specText, { note, newAttempt: opts.newAttempt, sources: companions?.sources, specFile: opts.spec });
+      // The same function stores what the bench page's drop zone stores (src/server/dropRoutes.ts).
+      const job = { specFile: opts.spec, files, unit: opts.unit, condition: opts.condition, forceUnit: Boolean(opts.forceUnit), note: opts.note, newAttempt: opts.newAttempt, timing: readOptions, startedAt };
+      const { spec, units } = await checkAndStore(ctx, opts, job, { progress: createProgress(ctx, json) });
 
       // The default view fits the terminal (per unit a status line, what did not pass, the top causes).
       const width = terminalWidth(ctx.io);
