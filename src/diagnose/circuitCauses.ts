@@ -8,9 +8,10 @@
  * A step is reported when the part's deviation is clear of its uncertainty (|θ| > 3·u(θ)), at least
  * 1 % (common practice, no source), and either outside its tolerance or, on a unit that did not pass,
  * in the outer half of it. These causes refine the pattern rules (frequencyRules, shapeRules,
- * edgeRules): a refined rule's evidence moves under the part that explains it.
+ * edgeRules): a refined rule's facts move under the part that explains it, marked with the rule they came from.
  */
 import type { Cause, CauseFact } from '../types/index.js';
+import { derivedFact, quantity } from './causeFacts.js';
 import type { Observation, PartFit, PartId } from './circuitFit.js';
 import { attributeParts, observations } from './circuitFit.js';
 import type { PartContext, PartReading } from './circuitParts.js';
@@ -19,7 +20,7 @@ import type { CoreReading } from './coreReadings.js';
 import { scoreFrom } from './rule.js';
 import type { UnitFacts } from './unitFacts.js';
 
-/** Pattern-rule causes that each part's cause takes over, keeping their evidence. */
+/** Pattern-rule causes that each part's cause takes over, keeping their facts. */
 export const REFINES: Readonly<Record<PartId, readonly string[]>> = {
   'timing-capacitor': ['timing-scale'],
   'reference-current': ['timing-scale'],
@@ -48,36 +49,36 @@ export const ACCOUNTS_FOR: Readonly<Record<PartId, readonly string[]>> = {
   'logic-loading': [],
 };
 
-const pm = (x: number): string => `${x >= -0.0005 ? '+' : '−'}${Math.abs(x * 100).toFixed(1)} %`;
-
-/** What was seen against the design, averaged over conditions, in one line. */
-function seen(obs: readonly Observation[]): string {
+/** What was seen against the design, averaged over conditions, as relative deviations. */
+function seen(obs: readonly Observation[]): CauseFact[] {
+  const n = new Set(obs.map((o) => o.condition)).size;
   const mean = (kind: Observation['kind']): number | null => {
     const ys = obs.filter((o) => o.kind === kind).map((o) => o.y);
     return ys.length ? ys.reduce((s, y) => s + y, 0) / ys.length : null;
   };
-  const parts: string[] = [];
+  const fact = (part: string, percent: number): CauseFact => derivedFact(part, quantity(percent, '%'), { averagedOver: n });
+  const out: CauseFact[] = [];
   const [rise, fall, top, bottom, swing, logic] = (['rise', 'fall', 'top', 'bottom', 'swing', 'logicHigh'] as const).map(mean);
-  if (rise !== null && fall !== null) parts.push(`ramp slopes against I/C ${pm(Math.expm1(rise))} rising, ${pm(Math.expm1(fall))} falling`);
-  if (top !== null && bottom !== null) parts.push(`turns ${pm(top)} / ${pm(bottom)} of the swing off the thresholds`);
-  if (swing !== null) parts.push(`swing ${pm(Math.expm1(swing))}`);
-  if (logic !== null) parts.push(`logic high ${pm(Math.expm1(logic))}`);
-  return `seen against the design (mean over ${new Set(obs.map((o) => o.condition)).size} condition(s)): ${parts.join('; ')}`;
+  // Slopes, swing and logic high are observed as log ratios (circuitFit.ts): e^y − 1 is the relative change.
+  if (rise !== null && fall !== null) out.push(fact('rising ramp slope against I/C', Math.expm1(rise) * 100), fact('falling ramp slope against I/C', Math.expm1(fall) * 100));
+  if (top !== null && bottom !== null) out.push(fact('upper turn off its threshold, share of the swing', top * 100), fact('lower turn off its threshold, share of the swing', bottom * 100));
+  if (swing !== null) out.push(fact('swing against design', Math.expm1(swing) * 100));
+  if (logic !== null) out.push(fact('logic high against design', Math.expm1(logic) * 100));
+  return out;
 }
 
-/** Charge and discharge currents compared through the slope ratio alone (C cancels). */
-function balance(readings: readonly CoreReading[]): string | null {
+/** Charge and discharge currents compared through the slope ratio alone (C cancels): the largest difference. */
+function balance(readings: readonly CoreReading[]): CauseFact | null {
   const ratios = readings.filter((r) => r.rise && r.fall).map((r) => r.fall!.value / r.rise!.value - 1);
   if (ratios.length === 0) return null;
-  const worst = Math.max(...ratios.map(Math.abs));
-  return worst < 0.01 ? `both currents within ${Math.max(0.1, worst * 100).toFixed(1)} % of each other (slope ratio; C cancels)` : `the currents differ by up to ${(worst * 100).toFixed(1)} % (slope ratio; C cancels)`;
+  const worst = ratios.reduce((a, b) => (Math.abs(b) > Math.abs(a) ? b : a));
+  return derivedFact('discharge against charge current, largest over the conditions', quantity(worst * 100, '%'), { averagedOver: ratios.length });
 }
 
 interface Ranked {
   readonly fit: PartFit;
-  readonly figure: string;
+  readonly reading: PartReading;
   readonly multiple: number;
-  readonly observed?: PartReading['observed'];
 }
 
 /** Groups of causes, best step first; within a group, the parts the data cannot tell apart. */
@@ -88,54 +89,44 @@ export function circuitCauses(facts: UnitFacts, readings: readonly CoreReading[]
   for (const step of attributeParts(obs)) {
     const ranked: Ranked[] = step.group
       .map((fit) => {
-        const r = PARTS[fit.part].read(fit.theta, fit.uTheta, ctx);
-        return { fit, figure: r.figure, multiple: r.toleranceMultiple ?? 1, observed: r.observed };
+        const reading = PARTS[fit.part].read(fit.theta, fit.uTheta, ctx);
+        return { fit, reading, multiple: reading.toleranceMultiple ?? 1 };
       })
       .sort((a, b) => a.multiple - b.multiple);
     const lead = ranked[0];
     const clear = Math.abs(lead.fit.theta) > 3 * lead.fit.uTheta && Math.abs(lead.fit.theta) >= 0.01;
     if (!clear || !(lead.multiple > 1 || (facts.statement !== 'pass' && lead.multiple >= 0.5))) continue;
     const score = Math.round(step.share * scoreFrom(lead.fit.theta, 0.01, 0.05) * 100) / 100;
-    const common = (m: Ranked): string[] => [seen(obs), `${PARTS[m.fit.part].short} explains ${Math.round(step.share * 100)} % of that deviation (χ² of the captures against the design)`];
-    groups.push(ranked.map((m, i) => causeFor(m, ranked, common(m), readings, Math.max(0.01, score - 0.01 * i), step.share)));
+    groups.push(ranked.map((m, i) => causeFor(m, ranked, seen(obs), readings, Math.max(0.01, score - 0.01 * i), step.share)));
   }
   return groups;
 }
 
-function causeFor(m: Ranked, group: readonly Ranked[], common: readonly string[], readings: readonly CoreReading[], score: number, share: number): Cause {
+function causeFor(m: Ranked, group: readonly Ranked[], common: readonly CauseFact[], readings: readonly CoreReading[], score: number, share: number): Cause {
   const part = PARTS[m.fit.part];
   const others = group.filter((o) => o !== m);
-  const evidence = [m.figure, ...common];
+  const [lead, ...more] = m.reading.facts;
+  const facts: CauseFact[] = [{ ...lead, shareExplained: share, confirm: part.measure }, ...more, ...common];
   const bal = m.fit.part === 'timing-capacitor' || m.fit.part === 'reference-current' ? balance(readings) : null;
-  if (bal) evidence.push(bal);
-  for (const o of others) {
-    evidence.push(`the captures cannot tell this from ${PARTS[o.fit.part].short} (${o.figure}): both fit what was measured equally well; to separate them, ${part.measure}, or ${PARTS[o.fit.part].measure}`);
-  }
+  if (bal) facts.push(bal);
+  // What the parts the data cannot tell from this one would have to be, and how to separate them.
+  for (const o of others) facts.push({ ...o.reading.facts[0], alternative: true, shareExplained: share, confirm: PARTS[o.fit.part].measure });
   return {
     id: m.fit.part,
     title: part.title,
     score,
-    evidence,
+    evidence: [],
     confirm: part.measure,
     where: part.where,
     ...(others.length ? { indistinguishableFrom: others.map((o) => o.fit.part) } : {}),
-    ...(m.observed ? { facts: [factOf(part.short.replace(/^the /, ''), m.observed, share, part.measure)] } : {}),
-  };
-}
-
-function factOf(partName: string, o: NonNullable<PartReading['observed']>, share: number, confirm: string): CauseFact {
-  return {
-    part: partName,
-    observed: { value: o.value, unit: o.unit },
-    ...(o.design ? { design: { ...o.design, unit: o.unit } } : {}),
-    shareExplained: share,
-    confirm,
+    facts,
+    remarks: ['attribution', ...(bal ? (['slope-ratio-cancels-c'] as const) : [])],
   };
 }
 
 /**
- * The final ranking: each circuit group takes over the pattern-rule causes it refines (their evidence
- * is kept under the group's first cause, and their score if higher), then all are sorted by score.
+ * The final ranking: each circuit group takes over the pattern-rule causes it refines (their facts
+ * and remarks are kept under the group's first cause, and their score if higher), then all are sorted by score.
  */
 export function mergeCauses(pattern: readonly Cause[], groups: readonly Cause[][]): Cause[] {
   const taken = new Set<string>();
@@ -147,11 +138,14 @@ export function mergeCauses(pattern: readonly Cause[], groups: readonly Cause[][
     accounted.forEach((p) => taken.add(p.id));
     if (refined.length + accounted.length === 0) return group;
     const top = Math.max(group[0].score, ...refined.map((p) => p.score));
-    const extra = [
-      ...refined.flatMap((p) => p.evidence.map((e) => `${e} (pattern: ${p.title})`)),
-      ...accounted.map((p) => `this also accounts for the pattern "${p.title}": ${p.evidence[0]}`),
-    ];
-    return group.map((c, i) => ({ ...c, score: Math.max(0.01, Math.round((top - 0.01 * i) * 100) / 100), ...(i === 0 ? { evidence: [...c.evidence, ...extra] } : {}) }));
+    // The pattern's own part estimates are superseded by the attribution's; its measurements stay.
+    const from = (p: Cause): CauseFact[] => (p.facts ?? []).filter((x) => x.kind !== 'part').map((x) => ({ ...x, pattern: { id: p.id, title: p.title } }));
+    const extraFacts = [...refined.flatMap(from), ...accounted.flatMap(from)];
+    const extraRemarks = [...refined, ...accounted].flatMap((p) => p.remarks ?? []);
+    return group.map((c, i) => {
+      const merged = i === 0 ? { facts: [...(c.facts ?? []), ...extraFacts], remarks: [...new Set([...(c.remarks ?? []), ...extraRemarks])] } : {};
+      return { ...c, score: Math.max(0.01, Math.round((top - 0.01 * i) * 100) / 100), ...merged };
+    });
   });
   const rest = pattern.filter((p) => !taken.has(p.id));
   return [...merged.flat(), ...rest].sort((a, b) => b.score - a.score);

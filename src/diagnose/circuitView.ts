@@ -8,7 +8,6 @@
  */
 import type { CircuitFigure, CircuitView } from '../types/index.js';
 import type { DesignSection, DesignValue } from '../design/index.js';
-import { formatQuantity } from '../design/index.js';
 import type { Estimate } from './circuitFormulas.js';
 import { capacitanceFromRamps, coreFrequency, currentFromSlope, designEstimate } from './circuitFormulas.js';
 import type { CoreReading } from './coreReadings.js';
@@ -43,17 +42,13 @@ export function designSwing(design: DesignSection): DesignValue | undefined {
   return { nominal: up.nominal - dn.nominal, unit: 'V', lower: up.lower - dn.upper, upper: up.upper - dn.lower };
 }
 
-const q = (v: number, unit: string, digits = 4): string => formatQuantity(v, unit, digits);
-const pctText = (x: number): string => `${x >= -0.0005 ? '+' : '−'}${Math.abs(x * 100).toFixed(1)} %`;
-
-function currentFigures(r: CoreReading, design: DesignSection): { figures: CircuitFigure[]; summary: string[] } {
+function currentFigures(r: CoreReading, design: DesignSection): CircuitFigure[] {
   const figures: CircuitFigure[] = [];
-  const summary: string[] = [];
   const c = design.timingCapacitance;
   const kc = r.charge && design.chargeCurrent ? r.charge.value / design.chargeCurrent.nominal : 1;
   const dd = design.dischargeCurrent ?? design.chargeCurrent;
   const kd = r.discharge && dd ? r.discharge.value / dd.nominal : 1;
-  const taking = c ? `taking C = ${q(c.nominal, 'F', 3)} from the design; its ± ${tolText(c)} tolerance dominates U` : '';
+  const taking = 'taking C from the design; its tolerance dominates U';
   const ich = c && r.rise ? currentFromSlope(r.rise, designEstimate(c)) : null;
   const idis = c && r.fall ? currentFromSlope(r.fall, designEstimate(c)) : null;
   if (ich) figures.push(figure('chargeCurrent', 'charge current, C·dV/dt of the rising ramp', ich, 'A', r.charge ? bandOf(design.chargeCurrent, kc) : undefined, taking));
@@ -65,63 +60,53 @@ function currentFigures(r: CoreReading, design: DesignSection): { figures: Circu
     const tol = design.chargeCurrent && dd ? Math.hypot(halfRel(design.chargeCurrent), halfRel(dd)) : undefined;
     const band = designed !== undefined && tol !== undefined ? { nominal: designed * 100, lower: (designed - tol) * 100, upper: (designed + tol) * 100 } : undefined;
     figures.push(figure('sinkVsSource', 'discharge vs charge current (slope ratio; C cancels)', { value: (ratio - 1) * 100, u: u * 100 }, '%', band));
-    const mismatch = ratio - 1;
-    const how = Math.abs(mismatch) < 0.01 ? `matched within ${Math.max(0.1, Math.abs(mismatch * 100)).toFixed(1)} %` : `the sink runs ${Math.abs(mismatch * 100).toFixed(1)} % ${mismatch > 0 ? 'hot' : 'cold'}`;
-    if (ich && idis && c) summary.push(`charging at ${q(ich.value, 'A')}, discharging at ${q(idis.value, 'A')} (taking C = ${q(c.nominal, 'F', 3)}): ${how}`);
   }
   if (r.rise && r.fall && r.charge && r.discharge && c) {
     const ceff = capacitanceFromRamps(r.charge, r.discharge, r.rise, r.fall);
     figures.push(figure('timingCapacitance', 'timing capacitance, I/(dV/dt) from both ramps', ceff, 'F', bandOf(c), 'taking the design currents at this condition'));
-    summary.push(`capacitance ${q(ceff.value, 'F')} effective vs ${q(c.nominal, 'F', 3)} ± ${tolText(c)} (taking the design currents)`);
   }
-  return { figures, summary };
+  return figures;
 }
 
 const halfRel = (d: DesignValue): number => (d.upper - d.lower) / 2 / Math.abs(d.nominal);
-const tolText = (d: DesignValue): string => `${Number((halfRel(d) * 100).toPrecision(3))} %`;
 
-function levelFigures(r: CoreReading, design: DesignSection): { figures: CircuitFigure[]; summary: string[] } {
+function levelFigures(r: CoreReading, design: DesignSection): CircuitFigure[] {
   const figures: CircuitFigure[] = [];
-  const summary: string[] = [];
   const swing = designSwing(design);
   if (r.top) figures.push(figure('upperThreshold', 'upper threshold, where the triangle turns down', r.top, 'V', bandOf(design.upperThreshold)));
   if (r.bottom) figures.push(figure('lowerThreshold', 'lower threshold, where the triangle turns up', r.bottom, 'V', bandOf(design.lowerThreshold)));
   if (r.swing) figures.push(figure('swing', 'triangle swing between the turns', r.swing, 'V', bandOf(swing)));
-  if (r.top && r.bottom && design.upperThreshold && design.lowerThreshold) {
-    summary.push(`turns at ${q(r.top.value, 'V')} / ${q(r.bottom.value, 'V')} vs thresholds ${q(design.upperThreshold.nominal, 'V', 3)} / ${q(design.lowerThreshold.nominal, 'V', 3)}`);
-  }
   const rail = design.positiveRail;
   if (r.logicHigh) {
-    const note = rail ? `${q(rail.nominal - r.logicHigh.value, 'V', 3)} below the ${q(rail.nominal, 'V', 3)} rail` : undefined;
-    figures.push(figure('logicHigh', 'output logic high', r.logicHigh, 'V', bandOf(design.logicHigh), note));
-    if (design.logicHigh) summary.push(`logic high ${q(r.logicHigh.value, 'V')} vs ${q(design.logicHigh.nominal, 'V', 3)} design${note ? `, ${note}` : ''}`);
+    figures.push(figure('logicHigh', 'output logic high', r.logicHigh, 'V', bandOf(design.logicHigh)));
+    // Headroom below the rail: U of the level alone (the rail's nominal is taken as exact).
+    if (rail) figures.push(figure('railHeadroom', 'logic high below the positive rail', { value: rail.nominal - r.logicHigh.value, u: r.logicHigh.u }, 'V'));
   }
   if (r.logicLow) figures.push(figure('logicLow', 'output logic low', r.logicLow, 'V', bandOf(design.logicLow)));
-  return { figures, summary };
+  return figures;
 }
 
-function frequencyFigures(r: CoreReading, design: DesignSection): { figures: CircuitFigure[]; summary: string[] } {
+function frequencyFigures(r: CoreReading, design: DesignSection): CircuitFigure[] {
   const c = design.timingCapacitance;
   const swing = designSwing(design);
-  if (!c || !swing || !r.charge || !r.discharge) return { figures: [], summary: [] };
+  if (!c || !swing || !r.charge || !r.discharge) return [];
   const fx = coreFrequency(designEstimate(c), designEstimate(swing), r.charge, r.discharge);
   const matched = Math.abs(r.charge.value / r.discharge.value - 1) < 1e-9;
   const how = matched ? 'f = I/(2·C·Vpp)' : '1/f = C·Vpp·(1/I_charge + 1/I_discharge)';
   const figures = [figure('designFrequency', `frequency from the design values, ${how}`, fx, 'Hz', undefined, 'U from the design tolerances')];
-  const summary: string[] = [];
   if (r.frequency) {
     const f = figure('frequency', 'measured frequency vs the design values', r.frequency, 'Hz');
     figures.push({ ...f, design: fx.value, deviation: (r.frequency.value / fx.value - 1) * 100 });
-    summary.push(`frequency ${q(r.frequency.value, 'Hz', 5)} measured vs ${q(fx.value, 'Hz', 5)} from the design values (${pctText(r.frequency.value / fx.value - 1)})`);
   }
-  return { figures, summary };
+  return figures;
 }
 
 export function circuitView(readings: readonly CoreReading[], design: DesignSection): CircuitView[] {
   return readings
     .map((r) => {
-      const parts = [currentFigures(r, design), frequencyFigures(r, design), levelFigures(r, design)];
-      return { condition: r.condition, figures: parts.flatMap((p) => p.figures), summary: [...parts.flatMap((p) => p.summary), ...r.notes] };
+      const figures = [...currentFigures(r, design), ...frequencyFigures(r, design), ...levelFigures(r, design)];
+      // Words for `summary` are written by report from the figures and gaps.
+      return { condition: r.condition, figures, summary: [], ...(r.gaps.length ? { gaps: r.gaps } : {}) };
     })
     .filter((v) => v.figures.length > 0);
 }

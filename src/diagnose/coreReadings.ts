@@ -5,7 +5,7 @@
  * falling ramp the discharge current (the sink). A side of the triangle that sits flat (the output
  * saturating) gives no turn: its peak is left out, so no threshold is judged from it.
  */
-import type { ChannelReport, MeasurementId } from '../types/index.js';
+import type { ChannelReport, CircuitGap, MeasurementId } from '../types/index.js';
 import type { DesignValue } from '../design/index.js';
 import type { Estimate } from './circuitFormulas.js';
 import { designEstimate, scaleToCondition } from './circuitFormulas.js';
@@ -30,7 +30,7 @@ export interface CoreReading {
   readonly charge: Estimate | null;
   readonly discharge: Estimate | null;
   /** Why a design current could not be placed at this condition. */
-  readonly notes: readonly string[];
+  readonly gaps: readonly CircuitGap[];
 }
 
 function estimate(channel: ChannelReport | undefined, ...ids: MeasurementId[]): Estimate | null {
@@ -45,19 +45,19 @@ function estimate(channel: ChannelReport | undefined, ...ids: MeasurementId[]): 
  * A design current at a condition. With `at`, it scales by the ratio of nominal frequencies (1 V/octave);
  * without, it holds as given only when every condition has the same nominal frequency.
  */
-export function designCurrentAt(design: DesignValue | undefined, key: string, condition: string, nominal: Readonly<Record<string, number>>): { current: Estimate | null; note?: string } {
+export function designCurrentAt(design: DesignValue | undefined, key: string, condition: string, nominal: Readonly<Record<string, number>>): { current: Estimate | null; gap?: CircuitGap } {
   if (!design) return { current: null };
   const f = nominal[condition];
   if (design.at !== undefined) {
     const fAt = nominal[design.at];
     if (fAt === undefined || f === undefined) {
-      return { current: null, note: `design.${key} holds at "${design.at}"; carrying it to "${condition}" needs a nominal frequency at both conditions` };
+      return { current: null, gap: { code: 'current-not-carried', key, at: design.at } };
     }
     return { current: scaleToCondition(designEstimate(design), fAt, f) };
   }
   const distinct = new Set(Object.values(nominal));
   if (distinct.size > 1) {
-    return { current: null, note: `design.${key} names no condition (\`at:\`), and the conditions run at different frequencies; add \`at:\` to say where it holds` };
+    return { current: null, gap: { code: 'current-no-condition', key } };
   }
   return { current: designEstimate(design) };
 }
@@ -87,7 +87,7 @@ export function coreReadings(facts: UnitFacts): CoreReading[] {
       logicLow: estimate(p, 'lowLevel'),
       charge: charge.current,
       discharge: discharge.current,
-      notes: [...new Set([charge.note, discharge.note].filter((n): n is string => n !== undefined))],
+      gaps: [charge.gap, discharge.gap].filter((g, i, all): g is CircuitGap => g !== undefined && all.findIndex((x) => x?.code === g.code && x?.key === g.key) === i),
     };
   });
 }

@@ -9,10 +9,10 @@
  * Thresholds (common practice, no source): 5 % aberration, −50 dBc hum, jitter 0.5 % of the period,
  * logic high below its design tolerance; each also beyond the expanded uncertainty.
  */
-import { formatQuantity } from '../design/index.js';
 import type { CauseRule } from './rule.js';
 import { scoreFrom } from './rule.js';
-import { checkOf, expandedOf, num, outputsShaped, valueOf } from './unitFacts.js';
+import { checkOf, expandedOf, outputsShaped, valueOf } from './unitFacts.js';
+import { derivedFact, expected, measuredFact, present, quantity } from './causeFacts.js';
 
 export const edgeRinging: CauseRule = (f) => {
   const hits = outputsShaped(f, ['pulse', 'square'])
@@ -24,9 +24,10 @@ export const edgeRinging: CauseRule = (f) => {
     id: 'edge-ringing',
     title: 'overshoot or ringing at each flip: comparator filtering/hysteresis, or a long probe ground lead',
     score: scoreFrom(worst, 5, 25),
-    evidence: hits.map((x) => `${x.id} ${num(x.v!, 3)} % on ${x.o.output} at ${x.o.condition}`),
+    evidence: [],
     confirm: 're-probe at the output jack with the short ground spring; if the ringing stays, look at the comparator hysteresis and the local decoupling',
     where: 'comparator feedback (hysteresis), supply decoupling at the comparator, probe grounding',
+    facts: hits.map((x) => measuredFact(x.o, x.id)).filter(present),
   };
 };
 
@@ -43,9 +44,10 @@ export const mainsHum: CauseRule = (f) => {
     title: 'mains hum: ground loop or probe grounding',
     // Levels are negative dBc: score by how far the hum stands above −50 dBc (full weight at −26 dBc).
     score: scoreFrom(worst + 50, 0, 24),
-    evidence: hits.map((x) => `hum at ${formatQuantity(x.at!, 'Hz', 3)}, ${num(x.level!, 3)} dBc on ${x.o.output} at ${x.o.condition}`),
+    evidence: [],
     confirm: 'capture again with the probe ground at the module’s ground point and the scope and module on one outlet; if the hum drops, it was a ground loop, else look at the supply filtering',
     where: 'ground return of the module and the scope probe; supply filtering',
+    facts: hits.flatMap((x) => [measuredFact(x.o, 'humFrequency'), measuredFact(x.o, 'humLevel')]).filter(present),
   };
 };
 
@@ -59,9 +61,14 @@ export const periodJitter: CauseRule = (f) => {
     id: 'period-jitter',
     title: 'high jitter: noisy supply or noisy threshold',
     score: scoreFrom(worst, 0.005, 0.03),
-    evidence: hits.map((x) => `jitter ${formatQuantity(x.j!, 's', 3)} on ${x.o.output} at ${x.o.condition} (${num(x.j! * x.fr! * 100, 2)} % of the period)`),
+    evidence: [],
     confirm: 'look at the supply rails and the comparator reference with AC coupling at a high gain; jitter that follows ripple or noise there is the cause',
     where: 'supply decoupling and regulators; comparator reference divider',
+    facts: hits.flatMap((x) => [
+      measuredFact(x.o, 'jitter'),
+      // Jitter over the period, j·f; its U from the jitter's alone (the frequency's is far smaller).
+      derivedFact('jitter, share of the period', quantity(x.j! * x.fr! * 100, '%', x.U * x.fr! * 100), { output: x.o.output, condition: x.o.condition }),
+    ]).filter(present),
   };
 };
 
@@ -78,8 +85,10 @@ export const weakLogicHigh: CauseRule = (f) => {
     id: 'weak-logic-high',
     title: 'low logic high: loading of the pull-up or output divider',
     score: scoreFrom(worst / nominal - 1, 0.02, 0.15),
-    evidence: hits.map((x) => `pulse high ${formatQuantity(x.v!, 'V', 4)} on ${x.o.output} at ${x.o.condition} against ${formatQuantity(nominal, 'V', 3)} design, with no flat clipping`),
+    evidence: [],
     confirm: 'measure the high level with the output jack unplugged; if it recovers, the load or the pull-up divider is at fault',
     where: 'pull-up resistor and output divider of the pulse stage, and what the jack drives',
+    facts: hits.map((x) => measuredFact(x.o, 'highLevel', expected(nominal, 'V', design ? 'design' : 'nominal'))).filter(present),
+    remarks: ['no-flat-clipping'],
   };
 };

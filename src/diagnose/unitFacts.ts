@@ -20,6 +20,8 @@ export interface OutputAt {
 
 export interface FrequencyPoint {
   readonly condition: string;
+  /** The output whose frequency check this is. */
+  readonly output?: string;
   readonly nominal: number;
   readonly measured: number;
   /** Expanded uncertainty of the measured value (0 when none was given). */
@@ -80,7 +82,7 @@ function frequencyChecks(verdict: UnitVerdict): CheckVerdict[] {
 function frequencyPoints(verdict: UnitVerdict): FrequencyPoint[] {
   return frequencyChecks(verdict)
     .filter((k) => k.value !== null && k.nominal !== null && k.nominal > 0)
-    .map((k) => ({ condition: k.condition, nominal: k.nominal!, measured: k.value!, U: k.expandedUncertainty ?? 0, error: k.value! / k.nominal! - 1 }))
+    .map((k) => ({ condition: k.condition, output: k.output, nominal: k.nominal!, measured: k.value!, U: k.expandedUncertainty ?? 0, error: k.value! / k.nominal! - 1 }))
     .sort((a, b) => a.nominal - b.nominal);
 }
 
@@ -109,6 +111,3 @@ export function outputsShaped(facts: UnitFacts, shapes: readonly Shape[]): Outpu
 export function checkOf(o: OutputAt, id: MeasurementId): CheckVerdict | undefined {
   return o.checks.find((k) => k.measurement === id);
 }
-
-export const pct = (x: number, digits = 2): string => `${x >= 0 ? '+' : '−'}${Math.abs(x * 100).toFixed(digits)} %`;
-export const num = (x: number, digits = 4): string => String(Number(x.toPrecision(digits))).replace('-', '−');

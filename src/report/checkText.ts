@@ -5,13 +5,14 @@
  * with evidence and the next measurement, and one overall line per unit.
  */
 import { INCOMPLETE_WORD, STATEMENT_WORDS, waitingConditions } from '../types/index.js';
-import { formatInPrefix } from '../types/index.js';
-import type { CauseFact, CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
+import type { CheckVerdict, Diagnosis, Statement, UnitVerdict } from '../types/index.js';
 import type { TextStyle } from './style.js';
-import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, prefixExponent, valueExponent } from './reportNumbers.js';
+import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './reportNumbers.js';
 import { renderCircuitView } from './circuitText.js';
+import { causeEvidence } from './causeWords.js';
 import { totalsLine } from './checkBrief.js';
-import { wrap } from './wrapText.js';
+import { fitLines, glued, wrap } from './wrapText.js';
+import { fitTable } from './fitTable.js';
 import { INCOMPLETE_MARK, STATEMENT_MARKS } from './statementMarks.js';
 
 /** One checked unit: its verdict and the likely causes. This is what `check` prints, stores and reports. */
@@ -26,12 +27,12 @@ const RULE_WORDS: Readonly<Record<UnitVerdict['decisionRule'], string>> = {
   simple: 'simple acceptance, no guard band, ILAC-G8:09/2019 §4.2.1',
 };
 
-export function renderCheckText(units: readonly UnitCheck[], style: TextStyle): string {
-  const text = units.map((u) => renderUnit(u, style)).join('\n');
+export function renderCheckText(units: readonly UnitCheck[], style: TextStyle, width = Number.POSITIVE_INFINITY): string {
+  const text = units.map((u) => renderUnit(u, style, width)).join('\n');
   return units.length > 1 ? `${text}\n${totalsLine(units)}\n` : text;
 }
 
-function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string {
+function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle, width: number): string {
   const lines = [style.bold(`${verdict.unit} · ${verdict.spec.name} rev ${verdict.spec.revision}`), style.dim(RULE_WORDS[verdict.decisionRule]), ''];
   for (const cond of verdict.conditions) {
     if (cond.waiting) {
@@ -48,20 +49,20 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle): string
       const channel = capture?.outputs.find((o) => o.output === output)?.channel;
       const source = capture ? `${capture.path}, channel "${channel}"` : 'no capture';
       lines.push(`${style.bold(`${cond.condition} · ${output}`)}  ${style.dim(source)}`);
-      lines.push(...table(cond.checks.filter((c) => c.output === output), style), '');
+      lines.push(...table(cond.checks.filter((c) => c.output === output), style, width), '');
     }
   }
-  lines.push(...renderCircuitView(diagnosis.circuit, style));
+  lines.push(...renderCircuitView(diagnosis.circuit, style, width));
   const waiting = waitingConditions(verdict);
-  const causes = renderCauses(diagnosis, verdict.statement, style);
+  const causes = renderCauses(diagnosis, verdict.statement, style, width);
   // Causes named from part of the conditions may change once the rest lands.
   if (waiting.length && causes.length) causes[0] = `${causes[0]} ${style.dim(`(preliminary: waiting for ${waiting.join(', ')})`)}`;
   lines.push(...causes);
   lines.push(overallLine(verdict, style), '');
-  return lines.join('\n');
+  return fitLines(lines, width).join('\n');
 }
 
-function table(checks: readonly CheckVerdict[], style: TextStyle): string[] {
+function table(checks: readonly CheckVerdict[], style: TextStyle, width: number): string[] {
   const rows = checks.map((c) => {
     const e = valueExponent(c.value ?? c.bound?.value, c.expandedUncertainty, c.unit);
     return [
@@ -71,42 +72,30 @@ function table(checks: readonly CheckVerdict[], style: TextStyle): string[] {
       formatMargin(c.margin, c.unit, e),
     ];
   });
-  const head = ['check', 'measured ± U (k = 2)', 'limits', 'margin'];
-  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-  const pad = (cells: readonly string[]): string => cells.map((s, i) => s.padEnd(widths[i])).join('  ');
-  const out = [`  ${style.dim(`${pad(head)}  statement`)}`];
-  rows.forEach((r, i) => out.push(`  ${pad(r)}  ${STATEMENT_MARKS[checks[i].statement]} ${style.statement(checks[i].statement)}`));
+  const trailers = checks.map((c) => `${STATEMENT_MARKS[c.statement]} ${style.statement(c.statement)}`);
+  const out = fitTable({ head: ['check', 'measured ± U (k = 2)', 'limits', 'margin'], rows, trailers, trailerHead: 'statement' }, width, '  ', style.dim);
   // One line per distinct note (a clipped trace withholds several checks for the same reason).
   const notes = new Map<string, string[]>();
-  for (const c of checks) if (c.note) notes.set(c.note, [...(notes.get(c.note) ?? []), c.measurement]);
-  for (const [note, ids] of notes) out.push(`  ${style.dim(`note (${ids.join(', ')}): ${note}`)}`);
-  for (const c of checks) if (c.hint && c.statement !== 'pass') out.push(`  hint (${c.measurement}): ${c.hint}`);
+  for (const c of checks) if (c.note) notes.set(c.note, [...(notes.get(c.note) ?? []), measurementLabel(c.measurement)]);
+  for (const [note, ids] of notes) out.push(...wrap(`note (${ids.join(', ')}): ${note}`, width, '  ', '    ').map(style.dim));
+  for (const c of checks) if (c.hint && c.statement !== 'pass') out.push(...wrap(`hint (${measurementLabel(c.measurement)}): ${c.hint}`, width, '  ', '    '));
   return out;
 }
 
-function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextStyle): string[] {
+function renderCauses(diagnosis: Diagnosis, statement: Statement, style: TextStyle, width: number): string[] {
   if (diagnosis.causes.length === 0) {
     return statement === 'pass' ? [] : [style.dim('Likely causes: no known pattern matched; see the failed checks and their hints.'), ''];
   }
   const out = [style.bold('Likely causes')];
   diagnosis.causes.forEach((c, i) => {
     out.push(`  ${i + 1}. ${c.title}  ${style.dim(`(weight ${c.score.toFixed(2)})`)}`);
-    for (const e of c.evidence) out.push(`     evidence: ${e}`);
-    for (const f of c.facts ?? []) out.push(`     part:     ${factText(f)}`);
-    if (c.indistinguishableFrom?.length) out.push(`     the captures cannot tell it from: ${c.indistinguishableFrom.map((id) => diagnosis.causes.find((x) => x.id === id)?.title ?? id).join('; ')}`);
-    out.push(`     confirm:  ${c.confirm}`);
-    if (c.where) out.push(`     look at:  ${c.where}`);
+    for (const e of causeEvidence(c, glued)) out.push(...wrap(e, width, '     · ', '       '));
+    if (c.indistinguishableFrom?.length) out.push(...wrap(`the captures cannot tell it from: ${c.indistinguishableFrom.map((id) => diagnosis.causes.find((x) => x.id === id)?.title ?? id).join('; ')}`, width, '     ', '       '));
+    out.push(...wrap(c.confirm, width, '     confirm: ', '              '));
+    if (c.where) out.push(...wrap(c.where, width, '     look at: ', '              '));
   });
   out.push('');
   return out;
-}
-
-/** 'timing capacitor ≈ 4.98 nF against 4.7 nF (4.47 nF … 4.94 nF), would explain 100 % of the error; confirm: …'. */
-export function factText(f: CauseFact): string {
-  const e = prefixExponent(f.design?.nominal ?? f.observed.value, f.observed.unit);
-  const design = f.design ? ` against ${formatInPrefix(f.design.nominal, f.design.unit, e, 3)} (${formatInPrefix(f.design.lower, f.design.unit, e, 3)} … ${formatInPrefix(f.design.upper, f.design.unit, e, 3)})` : '';
-  const share = f.shareExplained === undefined ? '' : `, would explain ${Math.round(f.shareExplained * 100)} % of the error`;
-  return `${f.part} ≈ ${formatInPrefix(f.observed.value, f.observed.unit, e, 3)}${design}${share}; confirm: ${f.confirm}`;
 }
 
 function overallLine(verdict: UnitVerdict, style: TextStyle): string {

@@ -1,11 +1,15 @@
 /**
  * The "circuit view" block of `benchproof check`: per condition, the core's figures back-computed from
  * the captures (effective currents, capacitance, thresholds, frequency from the design values, logic
- * levels) beside the spec's design values, then the summary sentences. Shown only when the spec has
+ * levels) beside the spec's design values, then the summary (written from the figures). Fitted to the
+ * terminal's width (fitTable.ts). Shown only when the spec has
  * a design section. Uncertainties are expanded (k = 2), as everywhere in check output.
  */
 import type { CircuitFigure, CircuitView } from '../types/index.js';
 import type { TextStyle } from './style.js';
+import { circuitSummary } from './causeWords.js';
+import { fitTable } from './fitTable.js';
+import { glued, wrap } from './wrapText.js';
 import { formatInPrefix } from '../types/index.js';
 import { formatMeasured, formatQuantity, prefixExponent } from './reportNumbers.js';
 
@@ -23,17 +27,14 @@ function deviationCell(f: CircuitFigure): string {
   return [dev, out].filter((s) => s).join(' ') || '—';
 }
 
-export function renderCircuitView(views: readonly CircuitView[] | undefined, style: TextStyle): string[] {
+export function renderCircuitView(views: readonly CircuitView[] | undefined, style: TextStyle, width = Number.POSITIVE_INFINITY): string[] {
   if (!views || views.length === 0) return [];
-  const out = [style.bold('Circuit view'), style.dim('  back-computed from the captures with the spec’s design values; ± is U (k = 2)')];
+  const out = [style.bold('Circuit view'), ...wrap('back-computed from the captures with the spec’s design values; ± is U (k = 2)', width, '  ', '  ').map(style.dim)];
   for (const v of views) {
-    const rows = v.figures.map((f) => [f.label, formatMeasured(f.value, f.uncertainty, f.unit), designCell(f), deviationCell(f)]);
-    const head = ['figure', 'from the captures', 'design', 'deviation'];
-    const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-    const pad = (cells: readonly string[]): string => cells.map((s, i) => s.padEnd(widths[i])).join('  ').trimEnd();
-    out.push(`  ${style.bold(v.condition)}`, `    ${style.dim(pad(head))}`);
-    rows.forEach((r, i) => out.push(`    ${pad(r)}${v.figures[i].note ? style.dim(`  (${v.figures[i].note})`) : ''}`));
-    for (const s of v.summary) out.push(`    · ${s}`);
+    const rows = v.figures.map((f) => [f.label, formatMeasured(f.value, f.uncertainty, f.unit), designCell(f), deviationCell(f), f.note ?? '']);
+    out.push(`  ${style.bold(v.condition)}`);
+    out.push(...fitTable({ head: ['figure', 'from the captures', 'design', 'deviation', 'note'], rows }, width, '    ', style.dim));
+    for (const s of circuitSummary(v, glued)) out.push(...wrap(s, width, '    · ', '      '));
   }
   out.push('');
   return out;

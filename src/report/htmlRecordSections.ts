@@ -9,6 +9,7 @@ import { renderCalibrationSection } from './calibrationHtml.js';
 import { quantityParts } from '../types/index.js';
 import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './reportNumbers.js';
 import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
+import { causeEvidence } from './causeWords.js';
 
 export interface RecordHtmlSection {
   readonly id: string;
@@ -68,7 +69,7 @@ function causes(rec: UnitRecord): string {
   const { diagnosis } = latestRun(rec);
   const list = diagnosis.causes.length
     ? `<ol>${diagnosis.causes
-        .map((c) => `<li><strong>${esc(c.title)}</strong> <span class="note">(weight ${c.score.toFixed(2)})</span><ul>${c.evidence.map((e) => `<li>${esc(e)}</li>`).join('')}<li>to confirm: ${esc(c.confirm)}</li>${c.where ? `<li>where to look: ${esc(c.where)}</li>` : ''}</ul></li>`)
+        .map((c) => `<li><strong>${esc(c.title)}</strong> <span class="note">(weight ${c.score.toFixed(2)})</span><ul>${causeEvidence(c).map((e) => `<li>${esc(e)}</li>`).join('')}<li>to confirm: ${esc(c.confirm)}</li>${c.where ? `<li>where to look: ${esc(c.where)}</li>` : ''}</ul></li>`)
         .join('')}</ol>`
     : '<p class="note">No likely cause: nothing in the latest run points at a fault.</p>';
   const circuit = (diagnosis.circuit ?? []).map((v) => {

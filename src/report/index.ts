@@ -24,3 +24,4 @@ export { calibrationDocument } from './calibrationJson.js';
 export type { CalibrationDocument } from './calibrationJson.js';
 export { renderTrackingSvg } from './svgTracking.js';
 export { renderInspectFailure, renderInspectText } from './inspectText.js';
+export { causeEvidence, circuitSummary, describeDiagnosis, factText, remarkText } from './causeWords.js';

@@ -6,6 +6,7 @@ import type { CheckVerdict, DocumentSource, StoredRun, UnitRecord } from '../typ
 import { STATEMENT_WORDS } from '../types/index.js';
 import { formatBytes, formatLimits, formatMargin, formatMeasured, formatQuantity, formatTime, measurementLabel, valueExponent } from './reportNumbers.js';
 import { renderCalibrationMarkdown } from './calibrationMarkdown.js';
+import { causeEvidence } from './causeWords.js';
 import { mdText } from './escapeText.js';
 import { ATTEMPT_HEAD, attemptRows, calibratedSinceText, runLabel, stateWords } from './attemptWords.js';
 
@@ -67,7 +68,7 @@ function causes(rec: UnitRecord): string {
   const list = latest(rec).diagnosis.causes;
   if (list.length === 0) return `## Likely causes\n\nNone: nothing in the latest run points at a fault.${circuitFigures(rec)}`;
   const items = list.map((c, i) => {
-    const lines = [`${i + 1}. **${md(c.title)}** (weight ${c.score.toFixed(2)})`, ...c.evidence.map((e) => `   - ${md(e)}`), `   - to confirm: ${md(c.confirm)}`];
+    const lines = [`${i + 1}. **${md(c.title)}** (weight ${c.score.toFixed(2)})`, ...causeEvidence(c).map((e) => `   - ${md(e)}`), `   - to confirm: ${md(c.confirm)}`];
     if (c.where) lines.push(`   - where to look: ${md(c.where)}`);
     return lines.join('\n');
   });

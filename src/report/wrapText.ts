@@ -56,3 +56,12 @@ export function wrap(text: string, width: number, first = '', rest = first.repla
   lines.push(line);
   return lines.map(unglued);
 }
+
+/** Lines wider than `width` wrapped, each continuation indented two columns past the line's own indent. */
+export function fitLines(lines: readonly string[], width: number): string[] {
+  return lines.flatMap((l) => {
+    if (visibleWidth(l) <= width) return [unglued(l)];
+    const indent = /^ */.exec(l.replace(ANSI, ''))![0];
+    return wrap(l.slice(l.indexOf(l.trimStart())), width, indent, `${indent}  `);
+  });
+}

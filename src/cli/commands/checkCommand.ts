@@ -79,7 +79,9 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       // The default view fits the terminal (per unit a status line, what did not pass, the top causes).
       const width = terminalWidth(ctx.io);
       const style = ctx.styleFor(cmd);
-      const text = (): string => (opts.summary ? renderCheckSummary(units, style, width) : opts.detail ? renderCheckText(units, style) : renderCheckBrief(units, style, width));
+      // --detail is fitted only to a width that is known (COLUMNS or a terminal): piped to a file it keeps its full tables.
+      const knownWidth = Number(ctx.io.env.COLUMNS) > 0 || (ctx.io.stdoutIsTTY && ctx.io.stdoutColumns) ? width : Number.POSITIVE_INFINITY;
+      const text = (): string => (opts.summary ? renderCheckSummary(units, style, width) : opts.detail ? renderCheckText(units, style, knownWidth) : renderCheckBrief(units, style, width));
       ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : text());
       ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));
       flagConditional(ctx, spec, units, Boolean(opts.strict));
