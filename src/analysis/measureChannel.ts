@@ -17,6 +17,7 @@ import { classifyShape } from './classifyShape.js';
 import { flatTops } from './levels/flatTops.js';
 import { frequency } from './timing/frequency.js';
 import { jitter } from './timing/jitter.js';
+import { cycleToCycleJitter } from './timing/cycleToCycleJitter.js';
 import { withheld } from './measureResult.js';
 import type { Crossings } from './timing/midCrossings.js';
 import { midCrossings } from './timing/midCrossings.js';
@@ -118,7 +119,7 @@ function timingResults(x: Float64Array, dt: number, fit: PeriodFit | null, c: Cr
   const input = { fit, sine, length: x.length, dt };
   const f = frequency(input);
   return {
-    results: { frequency: f, period: period(input), jitter: jitter(fit, c, noise, span, dt) },
+    results: { frequency: f, period: period(input), jitter: jitter(fit, c, noise, span, dt), cycleToCycleJitter: cycleToCycleJitter(fit, c, noise, span, dt) },
     fundamental: f.ok ? f.value : null,
   };
 }
@@ -128,7 +129,7 @@ function noSignal(x: Float64Array, range: { min: number; max: number }, noise: n
   const why = withheld('no-signal', `no waveform above the noise (peak-to-peak ${(range.max - range.min).toPrecision(3)} ${unit || 'V'}); check the probe connection and the channel's vertical range`);
   const levels = levelResults(range, null, noise, unit);
   const whole = wholeRecord(momentResults(x, [0, x.length], noise, range.max - range.min, unit));
-  const results: Results = { frequency: why, period: why, jitter: why, ...levels, highLevel: why, lowLevel: why, amplitude: why, ...whole };
+  const results: Results = { frequency: why, period: why, jitter: why, cycleToCycleJitter: why, ...levels, highLevel: why, lowLevel: why, amplitude: why, ...whole };
   const c: Crossings = { rising: [], falling: [], risingSteps: [], fallingSteps: [] };
   return { shape: 'unknown', results, warnings: [], fundamental: null, flatTops: [], marks: { levels: null, mid: (range.max + range.min) / 2, crossings: c, ramps: [] } };
 }

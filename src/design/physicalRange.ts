@@ -32,6 +32,7 @@ export const PHYSICAL_RANGES: Readonly<Record<string, PhysicalRange>> = {
   riseTime: NOT_NEGATIVE,
   fallTime: NOT_NEGATIVE,
   jitter: NOT_NEGATIVE,
+  cycleToCycleJitter: NOT_NEGATIVE,
   overshoot: NOT_NEGATIVE,
   undershoot: NOT_NEGATIVE,
   thd: NOT_NEGATIVE,

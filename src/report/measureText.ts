@@ -10,7 +10,7 @@ import { formatQuantity, group, quantityParts } from './format.js';
 import type { TextStyle } from './style.js';
 
 const GROUPS: readonly (readonly [string, readonly MeasurementId[]])[] = [
-  ['timing', ['frequency', 'period', 'jitter']],
+  ['timing', ['frequency', 'period', 'jitter', 'cycleToCycleJitter']],
   ['levels', ['highLevel', 'lowLevel', 'amplitude', 'maximum', 'minimum', 'peakToPeak', 'dcOffset', 'rms', 'acRms']],
   ['ramps', ['riseSlope', 'fallSlope', 'slopeRatio', 'symmetry', 'linearity']],
   ['edges', ['dutyCycle', 'riseTime', 'fallTime', 'overshoot', 'undershoot']],

@@ -33,6 +33,7 @@ export const MEASUREMENT_IDS = [
   'humLevel',
   'shapeError',
   'evenOddRatio',
+  'cycleToCycleJitter',
 ] as const;
 
 export type MeasurementId = (typeof MEASUREMENT_IDS)[number];
@@ -70,6 +71,7 @@ export const MEASUREMENT_UNITS: Readonly<Record<MeasurementId, string>> = {
   humLevel: 'dBc',
   shapeError: '%',
   evenOddRatio: 'dB',
+  cycleToCycleJitter: 's',
 };
 
 export function isMeasurementId(x: string): x is MeasurementId {

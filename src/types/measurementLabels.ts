@@ -11,6 +11,7 @@ export const MEASUREMENT_LABELS: Readonly<Record<MeasurementId, string>> = {
   frequency: 'frequency',
   period: 'period',
   jitter: 'period jitter',
+  cycleToCycleJitter: 'cycle-to-cycle jitter',
   highLevel: 'high state level',
   lowLevel: 'low state level',
   amplitude: 'amplitude',

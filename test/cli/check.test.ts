@@ -127,7 +127,7 @@ describe('benchproof check input errors', () => {
         expected: a value in Hz, e.g. "261.63 Hz"
         fix: write outputs.tri.checks[0].nominal as e.g. "261.63 Hz"
       bad.yaml:10: outputs.tri.checks[1].measure: "dutycycle" is not a measurement benchproof makes
-        expected: one of frequency, period, peakToPeak, maximum, minimum, highLevel, lowLevel, amplitude, dcOffset, rms, acRms, riseSlope, fallSlope, slopeRatio, symmetry, linearity, dutyCycle, riseTime, fallTime, jitter, overshoot, undershoot, thd, snr, sinad, sfdr, enob, humFrequency, humLevel, shapeError, evenOddRatio
+        expected: one of frequency, period, peakToPeak, maximum, minimum, highLevel, lowLevel, amplitude, dcOffset, rms, acRms, riseSlope, fallSlope, slopeRatio, symmetry, linearity, dutyCycle, riseTime, fallTime, jitter, overshoot, undershoot, thd, snr, sinad, sfdr, enob, humFrequency, humLevel, shapeError, evenOddRatio, cycleToCycleJitter
         fix: did you mean "dutyCycle"?
       "
     `);

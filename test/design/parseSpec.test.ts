@@ -158,7 +158,7 @@ describe('parseSpec problems', () => {
         expected: a channel name as in the CSV header, or its 1-based number
         fix: write outputs.tri.channel as a channel name as in the CSV header, or its 1-based number
       bench.yaml:8: outputs.tri.checks[0].measure: "frequncy" is not a measurement benchproof makes
-        expected: one of frequency, period, peakToPeak, maximum, minimum, highLevel, lowLevel, amplitude, dcOffset, rms, acRms, riseSlope, fallSlope, slopeRatio, symmetry, linearity, dutyCycle, riseTime, fallTime, jitter, overshoot, undershoot, thd, snr, sinad, sfdr, enob, humFrequency, humLevel, shapeError, evenOddRatio
+        expected: one of frequency, period, peakToPeak, maximum, minimum, highLevel, lowLevel, amplitude, dcOffset, rms, acRms, riseSlope, fallSlope, slopeRatio, symmetry, linearity, dutyCycle, riseTime, fallTime, jitter, overshoot, undershoot, thd, snr, sinad, sfdr, enob, humFrequency, humLevel, shapeError, evenOddRatio, cycleToCycleJitter
         fix: did you mean "frequency"?
       bench.yaml:11: outputs.tri.checks[1].nominal: "6 Hz" is in Hz, but peakToPeak is in V
         expected: a value in V, e.g. "6 V"
