@@ -30,6 +30,19 @@ export interface FolderWatchOptions {
   readonly reconcileMs?: number;
   /** Where change notices come from; chokidar by default (tests pass a controlled one). */
   readonly source?: FolderEventSource;
+  /** How the folder is listed and its files looked at; the file system by default (tests pass a folder in memory). */
+  readonly files?: FolderFiles;
+}
+
+/**
+ * The two questions the watch asks the file system. Timing comes from the global timers
+ * (setTimeout), so tests run the settle and listing rules on fake timers over a folder in memory.
+ */
+export interface FolderFiles {
+  /** Names directly in the folder; none when it cannot be listed. */
+  list(dir: string): Promise<string[]>;
+  /** Size and modification time of a regular file; undefined for anything else or when it cannot be read. */
+  version(path: string): Promise<Version | undefined>;
 }
 
 /** Change notices for the files directly in one folder. */
@@ -55,17 +68,26 @@ const POLL_INTERVAL_MS = 500;
 /** Four poll intervals: cheap (one listing), and a missed file waits at most this long. */
 const RECONCILE_MS = 4 * POLL_INTERVAL_MS;
 
-interface Version {
+export interface Version {
   readonly size: number;
   readonly mtimeMs: number;
 }
+
+/** The real folder, through node:fs. */
+export const diskFiles: FolderFiles = {
+  list: (dir) => readdir(dir).catch(() => [] as string[]),
+  version: async (path) => {
+    const now = await stat(path).catch(() => undefined);
+    return now?.isFile() ? { size: now.size, mtimeMs: now.mtimeMs } : undefined;
+  },
+};
 
 interface Seen extends Version {
   readonly timer: NodeJS.Timeout;
 }
 
 export function watchFolder(dir: string, options: FolderWatchOptions): FolderWatch {
-  const { settleMs, includeExisting, ignore, onSettled, onError, poll = false, reconcileMs = RECONCILE_MS, source = chokidarSource } = options;
+  const { settleMs, includeExisting, ignore, onSettled, onError, poll = false, reconcileMs = RECONCILE_MS, source = chokidarSource, files = diskFiles } = options;
   const seen = new Map<string, Seen>();
   /** The version of each file last reported (or, without includeExisting, found there at start). */
   const reported = new Map<string, Version>();
@@ -84,15 +106,15 @@ export function watchFolder(dir: string, options: FolderWatchOptions): FolderWat
   // Each look (re)starts the clock with the file's size and time as they are now; when the clock
   // runs out and both are unchanged, the file has settled. Otherwise the clock starts again.
   const look = async (path: string): Promise<void> => {
-    const now = await stat(path).catch(() => undefined);
+    const now = await files.version(path);
     forget(path);
-    if (closed || !now?.isFile() || sameVersion(reported.get(path), now)) return;
+    if (closed || !now || sameVersion(reported.get(path), now)) return;
     wait(path, now);
   };
   const confirm = async (path: string, expected: Version): Promise<void> => {
-    const now = await stat(path).catch(() => undefined);
+    const now = await files.version(path);
     if (closed || !sameVersion(seen.get(path), expected)) return; // a newer look took over
-    if (!now?.isFile()) return forget(path);
+    if (!now) return forget(path);
     if (!sameVersion(now, expected)) return wait(path, now);
     seen.delete(path);
     if (sameVersion(reported.get(path), now)) return; // found twice: by a notice and by a listing
@@ -101,12 +123,11 @@ export function watchFolder(dir: string, options: FolderWatchOptions): FolderWat
   };
   const list = async (): Promise<Map<string, Version>> => {
     const found = new Map<string, Version>();
-    const names = await readdir(dir).catch(() => [] as string[]);
-    for (const name of names) {
+    for (const name of await files.list(dir)) {
       if (ignore(name)) continue;
       const path = join(dir, name);
-      const now = await stat(path).catch(() => undefined);
-      if (now?.isFile()) found.set(path, { size: now.size, mtimeMs: now.mtimeMs });
+      const now = await files.version(path);
+      if (now) found.set(path, now);
     }
     return found;
   };
@@ -133,7 +154,10 @@ export function watchFolder(dir: string, options: FolderWatchOptions): FolderWat
   const events = baseline.then((found) => {
     if (!includeExisting) for (const [path, version] of found) reported.set(path, version);
     const started = source(dir, { poll, ignore });
-    const onEvent = (path: string): void => void look(resolve(dir, path)).catch(fail);
+    // The source is told what to ignore; the rule is applied here too, whatever the source does.
+    const onEvent = (path: string): void => {
+      if (!ignore(baseName(path))) void look(resolve(dir, path)).catch(fail);
+    };
     started.on('add', onEvent);
     started.on('change', onEvent);
     started.on('unlink', (path) => forget(resolve(dir, path)));

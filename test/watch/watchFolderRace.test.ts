@@ -1,77 +1,89 @@
 /**
  * The watch cannot miss a file, whatever its event source does. The event source is replaced by a
- * controlled one, so the race that used to lose a capture (a file written between the source's
- * first listing and its baseline, which no notice ever announces) happens on every run instead of
- * now and then on a loaded machine. Rule: each version of a file is reported exactly once (common
- * practice for drop-folder watchers, no source). No timing assertions: waits only bound the test.
+ * controlled one over a folder in memory, on fake timers, so the race that used to lose a capture
+ * (a file written between the watch's first listing and the source's start, which no notice ever
+ * announces) happens on every run instead of now and then on a loaded machine. Rule: each version
+ * of a file is reported exactly once (common practice for drop-folder watchers, no source).
  */
 import { describe, expect, it } from 'vitest';
-import { writeFileSync } from 'node:fs';
-import { join } from 'node:path';
-import type { FolderEventSource, FolderEvents } from '../../src/cli/watchFolder.js';
-import { useFolderWatch } from './helpers/folderWatch.js';
-import { waitFor } from './helpers/session.js';
+import { useMemoryWatch } from './helpers/memoryFolder.js';
 
-const folder = useFolderWatch();
+const w = useMemoryWatch();
 const FAST = { settleMs: 40, reconcileMs: 60 } as const;
-const pause = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
-/** A source that runs `atStart` when it is created, announces only what `announce` lists, and never anything else. */
-function controlledSource(atStart: () => void, announce: readonly string[] = []): FolderEventSource {
-  return (dir) => {
-    const adds: ((path: string) => void)[] = [];
-    atStart();
-    const events: FolderEvents = {
-      on: (event: string, listener: (arg: never) => void) => {
-        if (event === 'add') adds.push(listener as (path: string) => void);
-      },
-      ready: pause(20).then(() => {
-        for (const name of announce) for (const add of adds) add(join(dir, name));
-      }),
-      close: async () => undefined,
-    };
-    return events;
-  };
-}
-
-describe('watchFolder reconciliation', { timeout: 60_000 }, () => {
+describe('watchFolder reconciliation', () => {
   it('watchFolder reports a file written while the event source starts, which no notice announces', async () => {
-    const write = (): void => writeFileSync(join(folder.dir(), 'FK-0102_low.csv'), 'landed at start');
-    const { settled, errors } = await folder.start({ ...FAST, includeExisting: false, source: controlledSource(write) });
-    await waitFor(() => settled.length >= 1, 'the file the source never announced');
-    await pause(5 * FAST.reconcileMs);
+    const write = (): void => w.folder().write('FK-0102_low.csv', 15, { silent: true });
+    const { settled, errors } = await w.start({ ...FAST, includeExisting: false, source: { atStart: write } });
+    // Found by the listing made once the source is ready, then settled.
+    await w.advance(FAST.settleMs);
+    expect(settled).toEqual([{ name: 'FK-0102_low.csv', size: 15 }]);
+    await w.advance(50 * FAST.reconcileMs);
     expect(settled).toEqual([{ name: 'FK-0102_low.csv', size: 15 }]);
     expect(errors).toEqual([]);
   });
 
   it('watchFolder reports a file once when both a notice and its own listing find it', async () => {
-    const write = (): void => writeFileSync(join(folder.dir(), 'FK-0101_mid.csv'), 'twice found');
-    const { settled } = await folder.start({ ...FAST, source: controlledSource(write, ['FK-0101_mid.csv']) });
-    await waitFor(() => settled.length >= 1, 'the file');
-    await pause(5 * FAST.reconcileMs);
+    const write = (): void => w.folder().write('FK-0101_mid.csv', 11, { silent: true });
+    const { settled } = await w.start({ ...FAST, source: { atStart: write, announce: ['FK-0101_mid.csv'] } });
+    await w.advance(50 * FAST.reconcileMs);
     expect(settled.map((f) => f.name)).toEqual(['FK-0101_mid.csv']);
   });
 
+  it('watchFolder finds a file within a listing interval and a settle time when no notice ever comes', async () => {
+    const { settled } = await w.start({ ...FAST, source: { silent: true } });
+    w.folder().write('FK-0105_mid.csv', 7);
+    await w.advance(FAST.reconcileMs + FAST.settleMs);
+    expect(settled).toEqual([{ name: 'FK-0105_mid.csv', size: 7 }]);
+  });
+
   it('watchFolder without existing files skips what was there before it started and reports a later rewrite', async () => {
-    writeFileSync(join(folder.dir(), 'old.csv'), 'old');
-    const { settled } = await folder.start({ ...FAST, includeExisting: false, source: controlledSource(() => undefined) });
-    await pause(5 * FAST.reconcileMs);
+    w.folder().write('old.csv', 3);
+    const { settled } = await w.start({ ...FAST, includeExisting: false });
+    await w.advance(50 * FAST.reconcileMs);
     expect(settled).toEqual([]);
-    await pause(20); // a new modification time, even on file systems with coarse time stamps
-    writeFileSync(join(folder.dir(), 'old.csv'), 'rewritten');
-    await waitFor(() => settled.length >= 1, 'the rewritten file');
+    w.folder().write('old.csv', 9);
+    await w.advance(50 * FAST.reconcileMs);
     expect(settled).toEqual([{ name: 'old.csv', size: 9 }]);
   });
 
   it('watchFolder reports a file removed and written again at the same size once more', async () => {
-    const { settled } = await folder.start({ ...FAST, source: controlledSource(() => undefined) });
-    writeFileSync(join(folder.dir(), 'FK-0103_high.csv'), 'abc');
-    await waitFor(() => settled.length >= 1, 'the first copy');
-    const { rmSync } = await import('node:fs');
-    rmSync(join(folder.dir(), 'FK-0103_high.csv'));
-    await pause(5 * FAST.reconcileMs);
-    writeFileSync(join(folder.dir(), 'FK-0103_high.csv'), 'xyz');
-    await waitFor(() => settled.length >= 2, 'the second copy');
+    const { settled } = await w.start(FAST);
+    w.folder().write('FK-0103_high.csv', 3);
+    await w.advance(5 * FAST.reconcileMs);
+    expect(settled).toHaveLength(1);
+    w.folder().remove('FK-0103_high.csv');
+    await w.advance(5 * FAST.reconcileMs);
+    w.folder().write('FK-0103_high.csv', 3);
+    await w.advance(5 * FAST.reconcileMs);
     expect(settled.map((f) => f.name)).toEqual(['FK-0103_high.csv', 'FK-0103_high.csv']);
+  });
+
+  it('watchFolder reports a file removed and written again between two listings, unseen by notices, once more', async () => {
+    const { settled } = await w.start({ ...FAST, source: { silent: true } });
+    w.folder().write('FK-0106_low.csv', 3);
+    await w.advance(5 * FAST.reconcileMs);
+    expect(settled).toHaveLength(1);
+    await w.advance(1);
+    // Same name and size, a later modification time: a new version of the file.
+    w.folder().write('FK-0106_low.csv', 3);
+    await w.advance(5 * FAST.reconcileMs);
+    expect(settled).toHaveLength(2);
+  });
+
+  it('watchFolder reports a file once when change notices with nothing changed arrive while it is being confirmed', async () => {
+    // Every offset of the notice against the slow look that confirms the file, 1 ms apart.
+    for (let offset = 0; offset <= 25; offset++) {
+      const name = `FK-${6000 + offset}_mid.csv`;
+      const { settled } = await w.start({ ...FAST, source: {} });
+      w.folder().slowLooks(10);
+      w.folder().write(name, 5);
+      await w.advance(10 + FAST.settleMs - 5 + offset);
+      w.folder().notice(name);
+      await w.advance(50 * FAST.reconcileMs);
+      expect(settled.map((f) => f.name), `notice ${offset} ms into the confirmation`).toEqual([name]);
+      w.folder().slowLooks(0);
+      w.folder().remove(name, { silent: true });
+    }
   });
 });
