@@ -12,7 +12,11 @@
  * The checks: a clean unit passes an upper hum limit and a humming one fails it with hum its top
  * cause; the saturating buffer fails with saturation its top cause at the simulator's resolution and
  * re-quantised to 80 mV steps; the clean triangle clipped by an 8-bit converter at ±2.5 V is not
- * measured, with the fix to the vertical setting. Skipped, with a note, where ngspice is missing.
+ * measured, with the fix to the vertical setting. Written out as a scope export in volts (1 µV steps)
+ * whose preamble states the vertical setting (0.5 V/div × 10 divisions, ±2.5 V; 1 V/div, ±5 V;
+ * full scale = ± V/div × divisions / 2, the screen's geometry), the clean triangle clipped at ±2.5 V is
+ * the scope's (NOT MEASURED), the buffer flat at 2.7 V inside ±5 V the circuit's (FAIL, saturation).
+ * Skipped, with a note, where ngspice is missing.
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
@@ -82,6 +86,15 @@ function requantised(c: Capture, q: number, low = -Infinity, high = Infinity): C
   return { ...c, channels: c.channels.map((ch) => ({ ...ch, samples: ch.samples.map((v) => Math.min(high, Math.max(low, Math.round(v / q) * q))) })) };
 }
 
+/** One channel written as a scope export in volts with the stated vertical setting, clamped to [low, high], read back. */
+async function exported(c: Capture, channel: number, preamble: string, low = -Infinity, high = Infinity): Promise<Capture> {
+  const x = c.channels[channel - 1].samples;
+  const rows = Array.from(x, (v, i) => `${(i * c.sampleInterval).toFixed(9)},${Math.min(high, Math.max(low, v)).toFixed(6)}`);
+  const file = join(mkdtempSync(join(tmpdir(), 'benchproof-export-')), 'export.csv');
+  writeFileSync(file, `${preamble}Time (s),CH1 (V)\n${rows.join('\n')}\n`);
+  return readCapture(file);
+}
+
 function judge(capture: Capture, channel: number): { verdict: UnitVerdict; diagnosis: Diagnosis } {
   const s = spec(channel);
   const report = measureCapture(capture);
@@ -148,5 +161,19 @@ describe.skipIf(!hasNgspice)('verdicts at the edges against ngspice', () => {
     expect(pp?.note).toMatch(/volts per division/);
     expect(statementOf(verdict, 'frequency')).toBe('pass');
     expect(diagnosis.causes[0].id).toBe('scope-range');
+  });
+
+  it('a scope export clipped at the full scale its preamble states is not measured; the saturating buffer inside the stated range fails with saturation its top cause', async () => {
+    const clipped = await exported(capture, 1, 'Vertical scale,0.5 V/div\nVertical divisions,10\n', -2.5, 2.5);
+    expect(clipped.channels[0]).toMatchObject({ fullScale: { low: -2.5, high: 2.5 }, fullScaleFrom: 'preamble' });
+    const scope = judge(clipped, 1);
+    expect(statementOf(scope.verdict, 'peakToPeak')).toBe('not-measured');
+    expect(scope.verdict.conditions[0].checks.find((k) => k.measurement === 'peakToPeak')?.note).toMatch(/volts per division/);
+    expect(statementOf(scope.verdict, 'frequency')).toBe('pass');
+    expect(scope.diagnosis.causes[0].id).toBe('scope-range');
+    const sat = judge(await exported(capture, 2, 'Vertical scale,1 V/div\nVertical divisions,10\n'), 1);
+    expect(sat.verdict.statement).toBe('fail');
+    expect(statementOf(sat.verdict, 'peakToPeak')).toBe('fail');
+    expect(sat.diagnosis.causes[0].id).toBe('saturation');
   });
 });
