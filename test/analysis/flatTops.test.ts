@@ -63,6 +63,19 @@ describe('flatTops', () => {
     expect(stated.every((t) => t.cause === 'scope-range' && t.fullScaleFrom === 'preamble')).toBe(true);
   });
 
+  it('flatTops takes a level at, past or within 0.5 % of the span inside a stated edge for the scope, and one further inside for the circuit', () => {
+    const stated = { low: -2.5, high: 2.5 };
+    const causeAt = (high: number, fullScale = stated): string[] => {
+      const y = synthesize({ ...base, clip: { low: -99, high } }).values;
+      return flatTops(y, { noise: noiseLevel(y), span: 3 + high, fullScale }).map((t) => `${t.side} ${t.cause}`);
+    };
+    // 0.5 % of the 5 V span is 25 mV (the tolerance the rule states).
+    expect(causeAt(2.5)).toEqual(['high scope-range']);
+    expect(causeAt(2.48)).toEqual(['high scope-range']);
+    expect(causeAt(2.56, { low: -2.5, high: 2.5 })).toEqual(['high scope-range']);
+    expect(causeAt(2.4)).toEqual(['high circuit']);
+  });
+
   it('flatTops does not flag quantised, unclipped triangles and sines whose peaks repeat a code', () => {
     fc.assert(
       fc.property(fc.constantFrom<'sine' | 'triangle'>('sine', 'triangle'), fc.integer({ min: 50, max: 4000 }), fc.double({ min: 0, max: 0.05, noNaN: true }), fc.integer({ min: 6, max: 16 }), fc.integer({ min: 1, max: 99 }), (shape, perPeriod, noise, bits, seed) => {

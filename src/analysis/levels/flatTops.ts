@@ -27,7 +27,7 @@
  * within 0.5 % of the span inside it, see statedEdge); otherwise a level that sits on a
  * converter end code (|level/q| = 2^(b−1) or 2^(b−1) − 1 for b = 8, 10, 12, 14 or 16 bits, with every
  * code of the record inside ±2^(b−1), q the step between the level and the next value), or a record
- * whose codes fill 2^b − 1 steps or more from end to end. A scope
+ * whose codes fill 2^b − 1 steps or more from end to end (also where the capture states a full scale). A scope
  * whose vertical offset moves its codes off zero is only recognised from the full scale it states.
  */
 import type { FlatTop } from '../../types/index.js';
@@ -70,7 +70,8 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
     // level is the highest (lowest) one held for MIN_RUN samples in a row.
     const level = (dir > 0 ? held.high : held.low) ?? extreme;
     const q = stepAt(samples, level, -dir, equal);
-    const from = fullScale ? statedEdge(side, level, fullScale) : fullScaleOf(extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min);
+    // A converter end code is the scope's edge whatever the preamble states (it may be misread).
+    const from = (fullScale ? statedEdge(side, level, fullScale) : null) ?? fullScaleOf(extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min);
     const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
     const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
     // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
