@@ -3,7 +3,7 @@
  * `spec validate` prints them and drops are refused with the same message. Project rule (no source).
  */
 import { spawn } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -36,6 +36,35 @@ describe('benchproof serve', () => {
     expect(await exited).toBe(0);
     expect(stderr).toContain('the bench page has stopped');
   });
+
+  it('refuses --watch on a folder that does not exist before it starts the page (exit 2)', async () => {
+    const data = fresh();
+    const r = await runCli(['serve', '--spec', 'samples/fh210-spec.yaml', '--data', data, '--watch', join(data, 'no-such-stick')]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('no such folder');
+    expect(r.stderr).toContain('expected: the folder the scope or copy tool saves captures into');
+    expect(r.stderr).not.toContain('bench page is at');
+  });
+
+  it('stops and exits 2, saying so, when the watched folder is removed while it serves', async () => {
+    const data = fresh();
+    const stick = join(fresh(), 'stick');
+    mkdirSync(stick);
+    const child = spawn(process.execPath, ['bin/benchproof.js', 'serve', '--spec', 'samples/fh210-spec.yaml', '--data', data, '--watch', stick], { stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    child.stderr.on('data', (b: Buffer) => (stderr += b.toString()));
+    const exited = new Promise<number | null>((done) => child.on('exit', (code) => done(code)));
+    const deadline = Date.now() + 30_000;
+    while (!/watching .*stick/.test(stderr) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
+    expect(stderr).toMatch(/bench page is at http:\/\/127\.0\.0\.1:\d+\//);
+    rmSync(stick, { recursive: true });
+    const code = await Promise.race([exited, new Promise((r) => setTimeout(() => r('still running'), 20_000))]);
+    if (code === 'still running') child.kill('SIGKILL');
+    expect(code, stderr).toBe(2);
+    expect(stderr).toContain('the watched folder is gone');
+    expect(stderr).toContain('fix: ');
+    expect(stderr).toContain('the bench page has stopped');
+  }, 60_000);
 
   it('refuses a port that is not a number with a usage error', async () => {
     const r = await runCli(['serve', '--port', 'eighty']);

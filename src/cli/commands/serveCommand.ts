@@ -40,14 +40,19 @@ Examples:
 
 Open the printed address in a browser on this computer. With --host the address carries an access
 token (kept in the data folder); requests without it are refused. Ctrl-C stops the server after
-the capture in hand.`,
+the capture in hand. With --watch, a folder that is missing or unreadable is refused at the start,
+and one removed or made unreadable while serving stops the server too (exit status 2, saying so).`,
     )
     .action(async (opts: ServeOptions) => {
       const port = parsePort(opts.port);
       const maxMb = parsePositive('--max-upload-mb', opts.maxUploadMb) ?? 512;
       const maxFiles = parsePositive('--max-files', opts.maxFiles) ?? 24;
       const settleMs = parsePositive('--settle', opts.settle) ?? 1000;
-      const { startBenchServer } = await import('../../server/benchServer.js');
+      if (opts.watch !== undefined && opts.spec === undefined) throw needsSpec();
+      const [{ startBenchServer }, inside] = await Promise.all([import('../../server/benchServer.js'), import('../../server/watchInside.js')]);
+      // A folder that cannot be watched is refused before the page starts (as `watch` refuses it).
+      const folderProblem = opts.watch === undefined ? undefined : inside.watchFolderProblem(ctx, opts.watch);
+      if (folderProblem) throw folderProblem;
       const server = await startBenchServer(ctx, {
         host: opts.host ?? '127.0.0.1',
         port,
@@ -56,19 +61,18 @@ the capture in hand.`,
         requireToken: Boolean(opts.requireToken),
         limits: { maxFileBytes: Math.round(maxMb * 1024 * 1024), maxFiles: Math.max(1, Math.floor(maxFiles)) },
       });
-      let watch: { stop(): Promise<void> } | undefined;
-      if (opts.watch !== undefined) {
-        if (opts.spec === undefined) {
-          await server.close();
-          throw needsSpec();
-        }
-        const { startInsideWatch } = await import('../../server/watchInside.js');
-        watch = startInsideWatch(ctx, opts.watch, opts.spec, server.setup.flags, server.setup.hub, settleMs);
-      }
+      const watch = opts.watch === undefined || opts.spec === undefined ? undefined : inside.startInsideWatch(ctx, opts.watch, opts.spec, server.setup.flags, server.setup.hub, settleMs);
       ctx.io.stderr(`benchproof: the bench page is at ${server.url}${server.needsToken ? ' (the address carries the access token; keep it to yourself)' : ''}; records in ${server.setup.location.shown}; Ctrl-C stops\n`);
-      await untilSignal();
+      // Ctrl-C, or the watched folder failing: then serve stops too and exits 2 with what happened.
+      const signal = untilSignal();
+      const ended = await Promise.race([signal.then(() => undefined), watch?.failed ?? new Promise<never>(() => {})]);
+      signal.cancel();
       await watch?.stop();
       await server.close();
+      if (ended) {
+        ctx.io.stderr('benchproof: the bench page has stopped: the folder watch cannot go on\n');
+        throw ended;
+      }
       ctx.io.stderr('benchproof: the bench page has stopped\n');
       ctx.exitCode = 0;
     });
@@ -86,17 +90,24 @@ function needsSpec(): BenchError {
 }
 
 /** Ctrl-C or SIGTERM; a second one ends the process at once (each stored run is its own transaction). */
-function untilSignal(): Promise<void> {
-  return new Promise((done) => {
-    const onSignal = (name: NodeJS.Signals): void => {
+function untilSignal(): Promise<void> & { cancel(): void } {
+  let onSignal: () => void = () => {};
+  const waiting = new Promise<void>((done) => {
+    onSignal = (): void => {
       process.off('SIGINT', onSignal);
       process.off('SIGTERM', onSignal);
       process.once('SIGINT', () => process.exit(130));
       process.once('SIGTERM', () => process.exit(143));
-      void name;
       done();
     };
     process.on('SIGINT', onSignal);
     process.on('SIGTERM', onSignal);
+  });
+  return Object.assign(waiting, {
+    // Stopped for another reason: Ctrl-C is no longer ours to catch.
+    cancel: () => {
+      process.off('SIGINT', onSignal);
+      process.off('SIGTERM', onSignal);
+    },
   });
 }
