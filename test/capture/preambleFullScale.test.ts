@@ -91,6 +91,14 @@ describe('readCapture fills the full scale the preamble states', () => {
     expect(lines.channels.map((ch) => ch.fullScale)).toEqual([{ low: -4, high: 4 }, { low: -2, high: 12 }]);
   });
 
+  it('reads the setting in a semicolon file with decimal commas', async () => {
+    const text = writeCsv([{ name: 'CH1', unit: 'V', signal: synthesize(TRIANGLE) }], { delimiter: ';', decimalMark: ',', preamble: [['Volts/div', '0,5 V'], ['Divisions', '10'], ['Offset', '0,25']], format: 'fixed', precision: 6 });
+    const c = await readCapture(write('comma.csv', text));
+    // ±2.5 V about +0.25 V or −0.25 V; the ±3 V trace fits both (within 15 % of the span), so the nearer edges: −2.25 … 2.25 V.
+    expectWithin(c.channels[0].fullScale?.low, -2.25, { abs: 1e-12 }, 'closed form −2.5 V + 0.25 V');
+    expectWithin(c.channels[0].fullScale?.high, 2.25, { abs: 1e-12 }, 'closed form 2.5 V − 0.25 V');
+  });
+
   it('keeps a probe factor’s window and the window as stated, and uses the one the trace fits', async () => {
     // 0.5 V/div × 8 at the scope's input, ×10 at the tip: ±2 V or ±20 V; a ±3 V trace fits only ±20 V.
     const c = await readCapture(write('probe.csv', csv(TRIANGLE, [['Volts/div', '0.5'], ['Divisions', '8'], ['Probe', '10X']])));
