@@ -16,7 +16,7 @@ function measure(spec: SynthSpec) {
 function frequencyOf(spec: SynthSpec): { value: number; uncertainty: number } | null {
   const s = synthesize(spec);
   const f = measureChannel(s.values, s.dt, { unit: 'V' }).results.frequency;
-  return f?.ok ? { value: f.value, uncertainty: f.uncertainty } : null;
+  return f?.ok && f.uncertainty !== null ? { value: f.value, uncertainty: f.uncertainty } : null;
 }
 
 // 261.63 Hz at 100 kS/s: 382.2 samples per period, not a whole number, so crossings fall anywhere
