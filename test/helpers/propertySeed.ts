@@ -3,7 +3,7 @@
  * it through `configureGlobal`, so a property without a seed of its own draws the same inputs on
  * every run and every machine; a test that needs other inputs passes its own `seed`.
  *
- * BENCHPROOF_PROPERTY_SEED=<integer> moves every such property to fresh inputs. When a test fails,
+ * BENCHPROOF_PROPERTY_SEED=<integer> moves every such property to fresh inputs. When a property fails,
  * the seed in force is printed with the command that replays it; fast-check's own failure message
  * adds the `path` of the shrunk counterexample.
  */
@@ -28,6 +28,9 @@ fc.configureGlobal({ ...fc.readConfigureGlobal(), seed: PROPERTY_SEED });
 
 beforeEach((context) => {
   context.onTestFailed(() => {
+    // Only a property's failure depends on the seed; fast-check's message starts "Property failed".
+    const errors = context.task.result?.errors ?? [];
+    if (!errors.some((e) => /Property failed/.test(String(e.message)))) return;
     const file = context.task.file.name;
     process.stderr.write(
       `property seed in force: ${PROPERTY_SEED} (replay: BENCHPROOF_PROPERTY_SEED=${PROPERTY_SEED} npx vitest run ${file} -t ${JSON.stringify(context.task.name)})\n`,
