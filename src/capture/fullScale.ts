@@ -148,7 +148,8 @@ function candidateWindows(s: Settings): Window[] {
     for (const h of halves) for (const c of centres) out.push({ low: f * (c - h), high: f * (c + h) });
     for (const w of explicit) out.push({ low: f * w.low, high: f * w.high });
   }
-  return out;
+  // A setting written past the range of doubles (`1e308 V/div` × 10) states no usable window.
+  return out.filter((w) => Number.isFinite(w.low) && Number.isFinite(w.high) && w.high > w.low);
 }
 
 function finiteRange(x: Float64Array): { min: number; max: number } {

@@ -109,6 +109,8 @@ describe('readCapture fills the full scale the preamble states', () => {
     const none = await readCapture(write('none.csv', csv(TRIANGLE, [['Volts/div', '1']])));
     expect(none.channels[0].fullScale).toBeUndefined();
     expect(none.warnings.map((w) => w.code)).not.toContain('full-scale-mismatch');
+    const huge = await readCapture(write('huge.csv', csv(TRIANGLE, [['Volts/div', '1e308'], ['Divisions', '10']])));
+    expect(huge.channels[0].fullScale).toBeUndefined();
     const small = await readCapture(write('small.csv', csv(TRIANGLE, [['Volts/div', '0.1'], ['Divisions', '8']])));
     expect(small.channels[0].fullScale).toBeUndefined();
     expect(small.warnings.find((w) => w.code === 'full-scale-mismatch')?.message).toMatch(/-0\.4 V to 0\.4 V.*spans -3 V to 3 V/);
