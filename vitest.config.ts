@@ -5,7 +5,8 @@ export default defineConfig({
     include: ['test/**/*.test.ts'],
     reporters: ['default', './test/helpers/summaryReporter.ts'],
     // One seed for every property-based run, printed with a failure (BENCHPROOF_PROPERTY_SEED overrides it).
-    setupFiles: ['./test/helpers/propertySeed.ts'],
+    // Temporary folders made by the shared helpers are removed when each file ends (tempFolders.ts).
+    setupFiles: ['./test/helpers/propertySeed.ts', './test/helpers/tempFolders.ts'],
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',

@@ -1,7 +1,5 @@
 /** Runs the command line in-process with captured stdout/stderr, as the CLI tests need. */
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { tempFolder } from './tempFolders.js';
 import { run } from '../../src/cli/main.js';
 import type { CliIo } from '../../src/cli/io.js';
 
@@ -28,7 +26,7 @@ export async function runCli(
     stderrIsTTY: options.tty ?? false,
     // A test that runs in the checkout stores records in a fresh temporary folder, never in the
     // checkout itself; a test that gives its own working directory manages its own data folder.
-    env: options.cwd === undefined ? { BENCHPROOF_DATA: mkdtempSync(join(tmpdir(), 'benchproof-test-')), ...options.env } : { ...options.env },
+    env: options.cwd === undefined ? { BENCHPROOF_DATA: tempFolder('benchproof-test-'), ...options.env } : { ...options.env },
     cwd: options.cwd ?? process.cwd(),
   };
   const code = await run(argv, io);
