@@ -112,7 +112,7 @@ export function startInsideWatch(ctx: CommandContext, dir: string, specFile: str
       }
     },
   );
-  void failed.then((err) => hub.publish('watch', { status: 'stopped', error: { ...err.toJSON(), message: renderBenchError(err) } }));
+  void failed.then((err) => hub.publish('watch', { status: 'stopped', file: dir, error: { ...err.toJSON(), message: renderBenchError(err) } }));
   return {
     failed,
     async stop() {

@@ -5,6 +5,7 @@ import { getJson } from './api.js';
 import { clear, h, localTime, stateBadge } from './dom.js';
 import { live } from './live.js';
 import { dropZone } from './drop.js';
+import { countText } from './quantities.js';
 
 const STATES: readonly [string, string][] = [
   ['', 'every state'],
@@ -37,12 +38,12 @@ export function showBoard(main: HTMLElement): () => void {
         h('tr', { 'data-unit': r.unit, 'data-statement': r.status },
           h('td', {}, h('a', { href: `#/unit/${encodeURIComponent(r.unit)}` }, r.unit)),
           h('td', {}, stateBadge(r.status, r.word), r.waitingFor.length ? h('span', { class: 'waiting' }, ` waits for ${r.waitingFor.join(', ')}`) : null, r.unverified ? h('span', { class: 'warning' }, ` ${r.unverified} run(s) unverified`) : null),
-          h('td', { class: 'num' }, r.runs),
+          h('td', { class: 'num' }, countText(r.runs)),
           h('td', {}, h('time', { datetime: r.lastTestedAt }, localTime(r.lastTestedAt)))),
       );
     }
     if (shown.length === 0) body.append(h('tr', {}, h('td', { colspan: '4', class: 'empty' }, rows.length ? 'No unit matches the filter.' : 'No units recorded yet: drop captures above.')));
-    count.textContent = `${shown.length} of ${rows.length} units`;
+    count.textContent = `${countText(shown.length)} of ${countText(rows.length)} units`;
   };
   let pending: AbortController | undefined;
   const load = async (): Promise<void> => {

@@ -7,14 +7,18 @@ import uPlot from 'uplot';
 import type { ChannelView, PlotData } from './api.js';
 import { getJson } from './api.js';
 import { h } from './dom.js';
+import { axisTicks, countText, measurementLabel } from './quantities.js';
 
 export interface PlotSpec {
   readonly kind: 'wave' | 'spectrum';
   /** unit, run, sha and channel of the capture. */
   readonly query: Record<string, string>;
   readonly title: string;
+  /** What each axis shows, and its SI unit: the ticks carry the unit with one prefix per axis. */
   readonly xLabel: string;
+  readonly xUnit: string;
   readonly yLabel: string;
+  readonly yUnit: string;
   readonly channel: ChannelView;
 }
 
@@ -74,7 +78,7 @@ export function interactivePlot(spec: PlotSpec): { element: HTMLElement; dispose
     fig.dataset.columns = String(view.t.length);
     fig.dataset.step = String(view.step);
     delete fig.dataset.loading;
-    info.textContent = view.step > 1 ? `${view.step} points per column (min and max shown)` : 'every point shown';
+    info.textContent = view.step > 1 ? `${countText(view.step)} points per column (min and max shown)` : 'every point shown';
   };
   const zoom = (factor: number): void => {
     if (!view) return;
@@ -93,7 +97,10 @@ export function interactivePlot(spec: PlotSpec): { element: HTMLElement; dispose
     height: 240,
     legend: { show: false },
     scales: { x: { time: false } },
-    axes: [{ label: spec.xLabel }, { label: spec.yLabel, size: 60 }],
+    axes: [
+      { label: spec.xLabel, values: (_u, splits, _i, _space, incr) => axisTicks(splits, spec.xUnit, incr) },
+      { label: spec.yLabel, size: 84, values: (_u, splits, _i, _space, incr) => axisTicks(splits, spec.yUnit, incr) },
+    ],
     series: [{}, { stroke: TRACE, width: 1 }, { stroke: TRACE, width: 1 }],
     bands: [{ series: [2, 1], fill: BAND }],
     cursor: { drag: { x: true, y: false, setScale: false }, points: { show: false } },
@@ -138,7 +145,7 @@ function drawMarks(u: uPlot, spec: PlotSpec): void {
   if (spec.kind === 'wave') {
     const m = spec.channel.marks;
     c.setLineDash([6 * devicePixelRatio, 4 * devicePixelRatio]);
-    for (const [level, name] of [[m.highLevel, 'high'], [m.lowLevel, 'low'], [m.midReference, 'mid']] as const) {
+    for (const [level, name] of [[m.highLevel, measurementLabel('highLevel')], [m.lowLevel, measurementLabel('lowLevel')], [m.midReference, 'mid reference']] as const) {
       if (level === null) continue;
       const py = y(level);
       if (py < top || py > top + height) continue;

@@ -6,6 +6,7 @@ import { ApiError, getJson } from './api.js';
 import { h, localTime, stateBadge } from './dom.js';
 import { live } from './live.js';
 import { interactivePlot } from './plot.js';
+import { countText } from './quantities.js';
 
 export function showUnit(main: HTMLElement, serial: string): () => void {
   const disposers: (() => void)[] = [];
@@ -23,7 +24,7 @@ export function showUnit(main: HTMLElement, serial: string): () => void {
     plots.replaceChildren(h('h2', {}, `Plots of run #${run.id}`, ' ', stateBadge(run.statement, run.word)));
     run.captures.forEach((cap, i) => {
       const body = h('div', { class: 'capture-plots' });
-      const details = h('details', { class: 'capture', open: i === 0 }, h('summary', {}, `${cap.path} (${cap.condition}, ${cap.samples ?? '?'} samples)`), body);
+      const details = h('details', { class: 'capture', open: i === 0 }, h('summary', {}, `${cap.path} (${cap.condition}, ${cap.samples === null ? 'samples not known' : `${countText(cap.samples)} samples`})`), body);
       let built = false;
       const build = (): void => {
         if (built || !details.open) return;
@@ -32,11 +33,11 @@ export function showUnit(main: HTMLElement, serial: string): () => void {
           const query = { unit: unit.unit, run: String(run.id), sha: cap.sha256, channel: ch.name };
           const output = cap.outputs.find((o) => o.channel === ch.name)?.output;
           const name = `${output ? `${output} (${ch.name})` : ch.name}, ${cap.condition}`;
-          const wave = interactivePlot({ kind: 'wave', query, title: `Waveform: ${name}`, xLabel: 'time (s)', yLabel: ch.unit || 'value', channel: ch });
+          const wave = interactivePlot({ kind: 'wave', query, title: `Waveform: ${name}`, xLabel: 'time', xUnit: 's', yLabel: 'level', yUnit: ch.unit, channel: ch });
           body.append(wave.element);
           disposers.push(wave.dispose);
           if (ch.spectrum) {
-            const spec = interactivePlot({ kind: 'spectrum', query, title: `Spectrum: ${name}`, xLabel: 'frequency (Hz)', yLabel: `dB (0 dB = ${ch.spectrum.reference})`, channel: ch });
+            const spec = interactivePlot({ kind: 'spectrum', query, title: `Spectrum: ${name}`, xLabel: 'frequency', xUnit: 'Hz', yLabel: `level (0 dB = ${ch.spectrum.reference})`, yUnit: 'dB', channel: ch });
             body.append(spec.element);
             disposers.push(spec.dispose);
           }
