@@ -14,22 +14,36 @@ export const DEFAULT_DATA_FOLDER = 'benchproof-data';
 export interface StoreFlags {
   data?: string;
   operator?: string;
-  /** false with --no-store. */
-  store?: boolean;
+  /** false with --no-store; the shared store's address with --store URL. */
+  store?: boolean | string;
   /** --allow-unverified: read the records even when some fail verification, those marked. */
   allowUnverified?: boolean;
 }
 
 export interface DataLocation {
+  /** The bench's data folder (with a shared store: its outbox and the captures it has read). */
   readonly dir: string;
-  /** How the user would write it: relative to the working directory when inside it. */
+  /** How the user would write it: relative to the working directory when inside it; the shared store's address without its password. */
   readonly shown: string;
-  readonly source: '--data' | 'BENCHPROOF_DATA' | 'default';
+  readonly source: '--data' | 'BENCHPROOF_DATA' | 'default' | '--store' | 'BENCHPROOF_STORE';
+  /** The shared store, when one is set (--store URL or BENCHPROOF_STORE). */
+  readonly shared?: SharedLocation;
+  /** The data folder as shown, also when a shared store is set. */
+  readonly folder: string;
+}
+
+export interface SharedLocation {
+  /** As given, password included: only ever handed to the driver. */
+  readonly url: string;
+  /** Without the password (and any password parameter): how every message names it. */
+  readonly shown: string;
+  readonly source: '--store' | 'BENCHPROOF_STORE';
 }
 
 export function addDataOption(cmd: Command): Command {
   return cmd
     .option('--data <dir>', `data folder of the records (default: BENCHPROOF_DATA, else ./${DEFAULT_DATA_FOLDER})`)
+    .option('--store <url>', 'the shared store several benches write to, postgres://USER@HOST/DATABASE (default: BENCHPROOF_STORE; the password from PGPASSWORD or ~/.pgpass)')
     .option('--allow-unverified', 'read the records even when some runs fail verification (changed, damaged or deleted); those runs are named and marked');
 }
 
@@ -45,8 +59,37 @@ export function resolveDataDir(ctx: CommandContext, flags: StoreFlags): DataLoca
   const [raw, source] = flags.data ? [flags.data, '--data' as const] : env ? [env, 'BENCHPROOF_DATA' as const] : [DEFAULT_DATA_FOLDER, 'default' as const];
   const dir = resolve(ctx.io.cwd, raw);
   const rel = relative(ctx.io.cwd, dir);
-  const shown = rel === '' ? '.' : !rel.startsWith('..') && !isAbsolute(rel) ? `./${rel}` : dir;
-  return { dir, shown, source };
+  const folder = rel === '' ? '.' : !rel.startsWith('..') && !isAbsolute(rel) ? `./${rel}` : dir;
+  const shared = resolveSharedStore(ctx, flags);
+  if (shared) return { dir, shown: shared.shown, source: shared.source, shared, folder };
+  return { dir, shown: folder, source, folder };
+}
+
+/** The shared store from --store URL, else BENCHPROOF_STORE (empty means none); undefined for the embedded store. */
+export function resolveSharedStore(ctx: CommandContext, flags: StoreFlags): SharedLocation | undefined {
+  const env = ctx.io.env.BENCHPROOF_STORE?.trim();
+  const [url, source] = typeof flags.store === 'string' ? [flags.store, '--store' as const] : env ? [env, 'BENCHPROOF_STORE' as const] : [undefined, undefined];
+  if (url === undefined || source === undefined) return undefined;
+  return { url, shown: maskStoreUrl(url), source };
+}
+
+const SECRET_PARAMS = new Set(['password', 'sslpassword', 'sslkey']);
+
+/**
+ * The store's address as it may be printed: the password and password-like parameters replaced.
+ * The same rule as the records stage's shownStore (pgLocation.ts; a test holds them equal), kept
+ * here so that registering options loads no records code.
+ */
+export function maskStoreUrl(url: string): string {
+  let u: URL;
+  try {
+    u = new URL(url);
+  } catch {
+    return 'the shared store (its address could not be read)';
+  }
+  u.password = '';
+  for (const key of [...u.searchParams.keys()]) if (SECRET_PARAMS.has(key.toLowerCase())) u.searchParams.set(key, '***');
+  return decodeURIComponent(u.toString());
 }
 
 export function resolveOperator(ctx: CommandContext, flags: StoreFlags): string {

@@ -7,8 +7,12 @@
  */
 import { resolve } from 'node:path';
 import type { CommandContext } from './context.js';
-import { describeProblems, nearestNames, openStore, sha256Hex, unverifiedError } from '../records/index.js';
+import { describeProblems, isStoreFolder, nearestNames, openStore, sha256Hex, unverifiedError } from '../records/index.js';
 import type { RecordStore, StoreAudit } from '../records/index.js';
+import { randomUUID } from 'node:crypto';
+import { checkStoreUrl, openPgStore, pushOutbox } from '../records/index.js';
+import type { OutboxEntry, SaveHooks } from '../records/index.js';
+import { isBenchError } from '../types/index.js';
 import type { Diagnosis, NewRun, StoredRun, UnitVerdict } from '../types/index.js';
 import { BenchError } from '../types/index.js';
 import { TOOL_VERSION } from './version.js';
@@ -22,9 +26,22 @@ import type { DataLocation, StoreFlags } from './dataOptions.js';
 export { DEFAULT_DATA_FOLDER, addDataOption, addRecordingOptions, notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
 export type { DataLocation, StoreFlags } from './dataOptions.js';
 
+/**
+ * The records: the embedded store in the data folder, or the shared store when one is set
+ * (sharedStore.ts: pushing this bench's outbox first, and writing to the outbox while the shared
+ * store cannot be reached).
+ */
 export function openDataStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write'): { store: RecordStore; location: DataLocation } {
   const location = resolveDataDir(ctx, flags);
-  return { store: openStore(location.dir, { mode, label: location.shown, unverified: flags.allowUnverified ? 'mark' : 'refuse' }), location };
+  const unverified = flags.allowUnverified ? 'mark' : 'refuse';
+  if (location.shared) return { store: openSharedStore(ctx, location, mode, unverified), location };
+  return { store: openStore(location.dir, { mode, label: location.shown, unverified }), location };
+}
+
+/** Whether there are records to read a unit's open attempt from: a shared store is set, or the data folder has a store. */
+export function hasRecords(ctx: CommandContext, flags: StoreFlags): boolean {
+  const location = resolveDataDir(ctx, flags);
+  return location.shared !== undefined || isStoreFolder(location.dir);
 }
 
 /**
@@ -46,6 +63,115 @@ export function openVerifiedStore(ctx: CommandContext, flags: StoreFlags, mode: 
     store.close();
     throw err;
   }
+}
+
+/**
+ * The shared store, with this bench's outbox around it. Opening pushes the runs waiting on this
+ * bench first (each once: the shared store keeps the bench's id for each). When the shared store
+ * cannot be reached, a command that writes stores into the embedded store in the data folder, each
+ * run listed in its outbox; so does a save that finds the server gone part way through a command.
+ * A command that only reads needs the shared store and says so (`store.unreachable`).
+ */
+function openSharedStore(ctx: CommandContext, location: DataLocation, mode: 'read' | 'write', unverified: 'refuse' | 'mark'): RecordStore {
+  const shared = location.shared as NonNullable<DataLocation['shared']>;
+  checkStoreUrl(shared.url, shared.source);
+  const openLocal = (): RecordStore => openStore(location.dir, { mode: 'write', label: location.folder, unverified });
+  let store: RecordStore;
+  try {
+    store = openPgStore(shared.url, { cacheDir: location.dir, unverified });
+  } catch (err) {
+    if (mode === 'read' || !isUnreachableError(err)) throw err;
+    ctx.io.stderr(`benchproof: the shared store ${shared.shown} did not answer; runs are kept on this bench in ${location.folder} and sent at the next command or with benchproof sync\n`);
+    return asOutbox(openLocal());
+  }
+  sendWaiting(ctx, location, store);
+  let local: RecordStore | undefined;
+  const fallback = <T>(save: (s: RecordStore, hooks: SaveHooks) => T, hooks: SaveHooks = {}): T => {
+    const uid = hooks.uid ?? randomUUID();
+    try {
+      return save(store, { ...hooks, uid });
+    } catch (err) {
+      if (!isUnreachableError(err)) throw err;
+      ctx.io.stderr(`benchproof: the shared store ${shared.shown} stopped answering; this run is kept on this bench in ${location.folder} and sent at the next command or with benchproof sync\n`);
+      local ??= openLocal();
+      return save(local, { ...hooks, uid, outbox: true });
+    }
+  };
+  return {
+    ...store,
+    saveRun: (run, hooks) => fallback((s, h) => s.saveRun(run, h), hooks),
+    saveRunOnce: (run, hooks) => fallback((s, h) => s.saveRunOnce(run, h), hooks),
+    saveCalibration: (it, hooks) => fallback((s, h) => s.saveCalibration(it, h), hooks),
+    close: () => {
+      store.close();
+      local?.close();
+    },
+  };
+}
+
+/** The embedded store as the outbox: every save listed as waiting for the shared store. */
+function asOutbox(local: RecordStore): RecordStore {
+  const queued = (hooks: SaveHooks = {}): SaveHooks => ({ ...hooks, uid: hooks.uid ?? randomUUID(), outbox: true });
+  return {
+    ...local,
+    saveRun: (run, hooks) => local.saveRun(run, queued(hooks)),
+    saveRunOnce: (run, hooks) => local.saveRunOnce(run, queued(hooks)),
+    saveCalibration: (it, hooks) => local.saveCalibration(it, queued(hooks)),
+  };
+}
+
+function isUnreachableError(err: unknown): boolean {
+  return isBenchError(err) && err.code === 'store.unreachable';
+}
+
+/** The runs waiting on this bench for the shared store (none without a shared store or a local store). */
+export function waitingRuns(ctx: CommandContext, flags: StoreFlags): OutboxEntry[] {
+  const location = resolveDataDir(ctx, flags);
+  if (!location.shared || !isStoreFolder(location.dir)) return [];
+  const local = openStore(location.dir, { mode: 'write', label: location.folder });
+  try {
+    return local.unsent();
+  } finally {
+    local.close();
+  }
+}
+
+/** Open with `open`; a shared store out of reach is named with the runs still waiting on this bench. */
+export function describeWaiting<T>(ctx: CommandContext, flags: StoreFlags, open: () => T): T {
+  try {
+    return open();
+  } catch (err) {
+    if (!isUnreachableError(err)) throw err;
+    const waiting = waitingRuns(ctx, flags);
+    if (waiting.length === 0) throw err;
+    const e = err as BenchError;
+    throw new BenchError({ ...e.toJSON(), problem: `${e.problem}; ${waiting.length} run(s) wait on this bench to be sent: ${waiting.map((u) => `${u.unit} (${u.kind} #${u.rowId})`).join(', ')}` });
+  }
+}
+
+/**
+ * Push the runs waiting on this bench (automatically when a command opens the shared store, and by
+ * `benchproof sync`). Returns how many were sent; a failure is thrown when `strict`, else a warning.
+ */
+export function sendWaiting(ctx: CommandContext, location: DataLocation, shared: RecordStore, strict = false): { sent: number; waiting: number } {
+  const waiting = waitingRuns(ctx, { data: location.dir, store: location.shared?.url });
+  if (waiting.length === 0) return { sent: 0, waiting: 0 };
+  const tty = ctx.io.stderrIsTTY && !ctx.json;
+  let sent = 0;
+  try {
+    sent = pushOutbox(location.dir, location.folder, shared, (done, total) => {
+      sent = done;
+      if (tty) ctx.io.stderr(`\rbenchproof: sending waiting runs ${done}/${total}`);
+    }).pushed.length;
+  } catch (err) {
+    if (tty) ctx.io.stderr('\n');
+    if (strict || !isBenchError(err)) throw err;
+    ctx.io.stderr(`benchproof: warning: ${waiting.length - sent} run(s) waiting on this bench were not sent (${err.problem}); benchproof sync tries again\n`);
+    return { sent, waiting: waiting.length - sent };
+  }
+  if (tty) ctx.io.stderr('\n');
+  ctx.io.stderr(`benchproof: sent ${sent} run(s) waiting on this bench (${location.folder}) to the shared store ${shared.location}\n`);
+  return { sent, waiting: 0 };
 }
 
 export interface CheckedUnit {
@@ -71,7 +197,10 @@ export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units:
   } finally {
     store.close();
   }
-  const where = `${location.shown}${location.source === 'default' ? ' (BENCHPROOF_DATA or --data chooses another folder)' : ` (from ${location.source})`}`;
+  const where =
+    store.engine === 'embedded' && location.shared
+      ? `${location.folder}, waiting to be sent to ${location.shown} (benchproof sync sends it)`
+      : `${location.shown}${location.source === 'default' ? ' (BENCHPROOF_DATA or --data chooses another folder)' : ` (from ${location.source})`}`;
   if (stored.length === 1) {
     const r = stored[0];
     notice(ctx, `stored ${describeStoredRun(r)} in ${where}`, nextStep(r, units[0].diagnosis, request.specFile));

@@ -1,4 +1,4 @@
-export { openStore, DATABASE_FILE } from './openStore.js';
+export { openStore, isStoreFolder, DATABASE_FILE } from './openStore.js';
 export type { OpenStoreOptions, RecordStore } from './openStore.js';
 export type { SaveHooks } from './saveRun.js';
 export type { RunFilter } from './readRuns.js';
@@ -14,7 +14,7 @@ export { compareSerials } from './unitSummaries.js';
 export { describeProblems, storeError, unverifiedError } from './storeErrors.js';
 export type { AuditProblem, AuditProblemKind, StoreAudit } from './auditStore.js';
 export { CHAIN_START, chainLink } from './chain.js';
-export { nearestNames } from './nearestNames.js';
+export { nearestNames } from '../types/index.js';
 export { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
 export type { AttemptFacts, OpenAttempt } from './attempts.js';
 export { compareAttempts } from './compareAttempts.js';
