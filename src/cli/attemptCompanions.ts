@@ -4,14 +4,12 @@
  * file names), so the run holds the whole attempt so far and the unit completes once the last
  * condition lands. Used by `check` and `watch`; `--new-attempt` or `--note` start afresh instead.
  */
-import { existsSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import type { CapturePlan, Spec } from '../design/index.js';
 import type { RecordStore } from '../records/index.js';
-import { DATABASE_FILE } from '../records/index.js';
 import { BenchError } from '../types/index.js';
 import type { CommandContext } from './context.js';
-import { openDataStore, resolveDataDir } from './store.js';
+import { hasRecords, openDataStore, resolveDataDir } from './store.js';
 import type { StoreFlags } from './store.js';
 import { planCapture } from './checkRun.js';
 import type { SourcedPlan } from './checkRun.js';
@@ -58,8 +56,9 @@ export function attemptCompanions(store: RecordStore, dataDir: string, spec: Spe
 /** The open attempts' captures from the data folder, when it holds records; undefined otherwise. */
 export function companionsFromStore(ctx: CommandContext, flags: StoreFlags, spec: Spec, plans: readonly CapturePlan[]): Companions | undefined {
   const location = resolveDataDir(ctx, flags);
-  if (!existsSync(join(location.dir, DATABASE_FILE))) return undefined;
-  const { store } = openDataStore(ctx, flags, 'read');
+  if (!hasRecords(ctx, flags)) return undefined;
+  // 'write': on a shared store out of reach, the bench's own outbox answers (store.ts).
+  const { store } = openDataStore(ctx, flags, 'write');
   try {
     return attemptCompanions(store, location.dir, spec, plans);
   } finally {

@@ -12,6 +12,8 @@ import { registerBatch } from './batchCommand.js';
 import { registerWatch } from './watchCommand.js';
 import { registerCalibrate } from './calibrateCommand.js';
 import { registerServe } from './serveCommand.js';
+import { registerSync } from './syncCommand.js';
+import { registerStore } from './storeCommand.js';
 
 export type RegisterCommand = (program: Command, ctx: CommandContext) => Command;
 
@@ -27,4 +29,6 @@ export const COMMANDS: readonly RegisterCommand[] = [
   registerWatch,
   registerCalibrate,
   registerServe,
+  registerSync,
+  registerStore,
 ];

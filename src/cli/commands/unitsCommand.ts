@@ -45,8 +45,9 @@ Examples:
       const json = Boolean(opts.json);
       ctx.json = json;
       // The records stage (SQLite) and the report load here, not at start-up.
-      const [{ openVerifiedStore, unknownSpec }, { renderUnitsText }] = await Promise.all([import('../store.js'), import('../../report/index.js')]);
-      const { store, location } = openVerifiedStore(ctx, opts, 'read');
+      const [{ openVerifiedStore, unknownSpec, waitingRuns, describeWaiting }, { renderUnitsText }] = await Promise.all([import('../store.js'), import('../../report/index.js')]);
+      const { store, location } = describeWaiting(ctx, opts, () => openVerifiedStore(ctx, opts, 'read'));
+      const unsent = waitingRuns(ctx, opts);
       let units;
       try {
         if (opts.spec !== undefined && !store.specNames().includes(opts.spec)) throw unknownSpec(opts.spec, store.specNames(), location);
@@ -55,9 +56,10 @@ Examples:
         store.close();
       }
       if (json) {
-        ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, dataDir: location.shown, units }, null, 2)}\n`);
+        ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, dataDir: location.shown, units, ...(location.shared ? { unsent } : {}) }, null, 2)}\n`);
         return;
       }
+      if (unsent.length) ctx.io.stderr(`benchproof: ${unsent.length} run(s) still waiting on this bench to be sent: ${unsent.map((u) => `${u.unit} (${u.kind} #${u.rowId})`).join(', ')}; benchproof sync sends them\n`);
       if (units.length === 0) {
         const filtered = opts.waiting || opts.failed || opts.passed;
         ctx.io.stderr(
