@@ -8,7 +8,7 @@ import type { CalibrationLaw, CalibrationLawKind, ErrorCode, TrimAdjustment } fr
 import { controlLabel, parseCents, parseControl, parseLinearScale, parseOctaveScale } from './calibrationValues.js';
 import type { CalibrationSection, CalibrationStep } from './calibrationTypes.js';
 import { DEFAULT_CALIBRATION_PATTERN } from './calibrationTypes.js';
-import { nearest } from './nearest.js';
+import { nearestName as nearest } from '../types/index.js';
 import { parseQuantity } from './quantity.js';
 import { formatPath } from './specIssues.js';
 import type { SpecIssue, SpecPath } from './specIssues.js';

@@ -11,7 +11,7 @@ import type { HarmonicSet } from '../analysis/index.js';
 import { parseQuantity, valueIn } from './quantity.js';
 import { fieldsAt, hasLimit, mergeFields, resolveLimit } from './limits.js';
 import type { FieldSet } from './limits.js';
-import { nearest } from './nearest.js';
+import { nearestName as nearest } from '../types/index.js';
 import { formatPath } from './specIssues.js';
 import type { SpecIssue, SpecPath } from './specIssues.js';
 import { DEFAULT_CONDITION, DEFAULT_PATTERN } from './specTypes.js';

@@ -9,7 +9,7 @@ import { BenchError } from '../types/index.js';
 import type { BenchErrorFields, ErrorCode } from '../types/index.js';
 import { FIELD_EXPECTS } from './specSchema.js';
 import { DESIGN_KEYS } from './specTypes.js';
-import { nearest } from './nearest.js';
+import { nearestName as nearest } from '../types/index.js';
 
 export type SpecPath = readonly PropertyKey[];
 

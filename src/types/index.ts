@@ -2,6 +2,7 @@ export { BenchError, renderBenchError, isBenchError } from './benchError.js';
 export type { BenchErrorFields } from './benchError.js';
 export { ERROR_CODES } from './errorCodes.js';
 export type { CaptureErrorName, ErrorCode } from './errorCodes.js';
+export { nearestName, nearestNames, suggestionReach } from './nearestNames.js';
 export type {
   Capture,
   CaptureChannel,

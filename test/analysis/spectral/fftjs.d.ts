@@ -1,7 +1,7 @@
 /**
- * Typed declaration for fft.js 4.0.4 (its bundled declaration types every argument as `any`).
- * No source file imports it any more (spectrum.ts runs our own kernel, realFft.ts); the tests use it
- * as an independent reference FFT (test/analysis/spectral/spectrum.test.ts).
+ * Typed declaration for fft.js 4.0.4 (its bundled declaration types every argument as `any`), a
+ * development dependency: the product runs its own kernel (src/analysis/spectrum/realFft.ts) and
+ * spectrum.test.ts beside this file uses fft.js as an independent reference FFT.
  * Contract taken from the library's source: the size must be a power of two greater than 1,
  * `realTransform` writes bins 0…size/2 of an interleaved [re, im, re, im, …] buffer of length
  * 2·size and refuses to work in place.
