@@ -30,7 +30,8 @@ export function fitTable(t: TableText, width: number, indent = '  ', dimHead: (s
     return [head, ...t.rows.map((r, i) => `${indent}${pad(r)}${t.trailers ? `  ${t.trailers[i]}` : ''}`.trimEnd())];
   }
   const lead = t.leading ?? 2;
-  const out: string[] = [];
+  // The head of the first line stays, so what a ± stands for is still said.
+  const out: string[] = wrap([...t.head.slice(0, lead), t.trailerHead ?? ''].filter((h) => h).join('  '), width, indent).map(dimHead);
   t.rows.forEach((r, i) => {
     const first = [...r.slice(0, lead).filter((c) => c && c !== '—').map((c, j) => (j === 0 ? c : keepWhole(c))), t.trailers?.[i] ?? ''].filter((c) => c).join('  ');
     out.push(...wrap(first, width, indent, `${indent}    `));

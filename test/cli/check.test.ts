@@ -34,7 +34,7 @@ describe('benchproof check on the demo captures', () => {
     expect(r.code).toBe(1);
     expect(r.stdout).toMatch(/frequency +61\.70\d+ Hz ± [\d.]+ Hz +64\.42\d+ Hz … 66\.39\d+ Hz +−2\.7\d Hz +✗ FAIL/);
     expect(r.stdout).toMatch(/Likely causes\n {2}1\. timing capacitor off its value/);
-    expect(r.stdout).toMatch(/evidence: capacitance 4\.98\d* nF effective vs 4\.7 nF ± 5 % — consistent with a capacitor above its tolerance/);
+    expect(r.stdout).toMatch(/· timing capacitor, effective: 4\.98\d+ nF ± 0\.\d+ nF \(U, k = 2\) against 4\.7 nF design \(4\.465 nF … 4\.935 nF\) \(\+[56]\.\d\d %\), above its tolerance/);
     expect(r.stdout).toContain('the captures cannot tell it from: reference current off (both currents by the same ratio)');
     expect(r.stdout).toContain('FK-0104: ✗ FAIL');
   });
@@ -42,10 +42,10 @@ describe('benchproof check on the demo captures', () => {
   it('shows the circuit view block with the back-computed figures when the spec has a design section', async () => {
     const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC, '--detail']);
     const block = r.stdout.slice(r.stdout.indexOf('Circuit view'), r.stdout.indexOf('Likely causes'));
-    expect(block).toMatch(/ {2}mid\n {4}figure +from the captures +design +deviation\n/);
+    expect(block).toMatch(/ {2}mid\n {4}figure +from the captures +design +deviation +note\n/);
     expect(block).toMatch(/timing capacitance, I\/\(dV\/dt\) from both ramps +4\.98\d nF ± 0\.0\d+ nF +4\.7 nF ± 0\.24 nF \(5 %\) +\+[56]\.\d\d % outside/);
-    expect(block).toMatch(/· charging at 13\.9\d µA, discharging at 13\.9\d µA \(taking C = 4\.7 nF\): matched within 0\.\d %/);
-    expect(block).toMatch(/· frequency 246\.7\d Hz measured vs 261\.7 Hz from the design values \(−5\.7 %\)/);
+    expect(block).toMatch(/· charging at 13\.9\d µA ± 0\.81 µA \(U, k = 2\), discharging at 13\.9\d µA ± 0\.81 µA \(U, k = 2\) \(taking C from the design\): matched within 0\.\d %/);
+    expect(block).toMatch(/· frequency 246\.724 Hz ± 0\.012 Hz \(U, k = 2\) measured against 261\.7\d* Hz from the design values \(−5\.7 %\)/);
   });
 
   it('checks several units in one run, grouped by unit, and prints one JSON document with --json', async () => {

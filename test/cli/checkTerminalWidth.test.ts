@@ -46,11 +46,21 @@ describe('check sized for a bench terminal', () => {
     expect(r.stdout).toContain('\n6 units: 2 ✓ PASS, 4 ✗ FAIL\n');
   });
 
-  it('--detail shows the full tables and the circuit view', async () => {
+  it('--detail shows the full tables and the circuit view, fitted to 80 columns with each ± still named', async () => {
     const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC, '--detail'], { env: { COLUMNS: '80' } });
     expect(r.stdout).toContain('Circuit view');
     expect(r.stdout).toContain('measured ± U (k = 2)');
     expect(r.stdout).toMatch(/FK-0104: ✗ FAIL/);
+    expect(widest(r.stdout)).toBeLessThanOrEqual(80);
+    // A row too wide for the terminal stacks: its limits and margin on the line below, quantities whole.
+    expect(r.stdout).toMatch(/^ {2}frequency {2}61\.7006 Hz ± 0\.0031 Hz {2}✗ FAIL\n {6}limits 64\.4288 Hz … 66\.3911 Hz; margin −2\.73 Hz$/m);
+    expect(r.stdout).toMatch(/· timing capacitor, effective: 4\.98\d+ nF ± 0\.0034 nF \(U, k = 2\) against/);
+  });
+
+  it('--detail piped with no known width keeps its tables whole, one row per check', async () => {
+    const r = await runCli(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC, '--detail']);
+    expect(r.stdout).toMatch(/^ {2}check +measured ± U \(k = 2\) +limits +margin +statement$/m);
+    expect(widest(r.stdout)).toBeGreaterThan(80);
   });
 
   it('--summary counts a conditional pass apart, not as "not passed" (ILAC-G8:09/2019 §4.2.3)', async () => {
@@ -71,23 +81,46 @@ describe('check sized for a bench terminal', () => {
   });
 
   it('check through a real terminal of 80 columns (tmux) prints nothing wider than the terminal', () => {
-    const tmux = spawnSync('tmux', ['-V']);
-    if (tmux.status !== 0) return expect.fail('tmux is needed for this test (Debian package tmux)');
-    const bin = resolve('bin/benchproof.js');
-    if (!existsSync(resolve('dist/cli/main.js'))) return expect.fail('run npm run build first: the terminal test runs the built CLI');
-    const sock = `bp-width-${process.pid}`;
-    const out = join(mkdtempSync(join(tmpdir(), 'benchproof-tty-')), 'screen.txt');
-    const cmd = `env -u COLUMNS node ${bin} check --no-store ${unitFiles('FK-0104').map((f) => resolve(f)).join(' ')} --spec ${resolve(SPEC)}; tmux -L ${sock} wait-for -S done; sleep 60`;
-    try {
-      execFileSync('tmux', ['-L', sock, 'new-session', '-d', '-x', '80', '-y', '60', cmd]);
-      execFileSync('tmux', ['-L', sock, 'wait-for', 'done'], { timeout: 60_000 });
-      const screen = execFileSync('tmux', ['-L', sock, 'capture-pane', '-p', '-J', '-S', '-60']).toString();
-      // -J joins lines the terminal itself wrapped, so a line wider than 80 columns would show here.
-      expect(screen).toContain('✗ FAIL  FK-0104');
-      expect(widest(screen.trimEnd())).toBeLessThanOrEqual(80);
-    } finally {
-      spawnSync('tmux', ['-L', sock, 'kill-server']);
-      rmSync(out, { force: true });
-    }
+    const screen = inTerminal(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC]);
+    expect(screen).toContain('✗ FAIL  FK-0104');
+    expect(screen).toContain('Likely causes');
+    expect(widest(screen)).toBeLessThanOrEqual(80);
+  }, 90_000);
+
+  it('check of a good unit through a real 80-column terminal fits one screen (at most 30 lines)', () => {
+    const screen = inTerminal(['check', '--no-store', ...unitFiles('FK-0101'), '--spec', SPEC]);
+    expect(screen).toContain('✓ PASS  FK-0101');
+    expect(screen.split('\n').length).toBeLessThanOrEqual(30);
+    expect(widest(screen)).toBeLessThanOrEqual(80);
+  }, 90_000);
+
+  it('check --detail through a real 80-column terminal (width from the terminal, no COLUMNS) wraps its tables and causes', () => {
+    const screen = inTerminal(['check', '--no-store', ...unitFiles('FK-0104'), '--spec', SPEC, '--detail']);
+    expect(screen).toContain('Circuit view');
+    expect(screen).toContain('FK-0104: ✗ FAIL');
+    expect(widest(screen)).toBeLessThanOrEqual(80);
   }, 90_000);
 });
+
+/**
+ * The built CLI run in a detached tmux session of 80 × 60 cells with COLUMNS unset, so the width comes
+ * from the terminal itself; the whole scrollback is captured with -J, which joins lines the terminal
+ * wrapped, so a line wider than 80 columns would show as one.
+ */
+function inTerminal(args: readonly string[]): string {
+  if (spawnSync('tmux', ['-V']).status !== 0) return expect.fail('tmux is needed for this test (Debian package tmux)');
+  const bin = resolve('bin/benchproof.js');
+  if (!existsSync(resolve('dist/cli/main.js'))) return expect.fail('run npm run build first: the terminal test runs the built CLI');
+  const sock = `bp-width-${process.pid}-${(specs += 1)}`;
+  const dir = mkdtempSync(join(tmpdir(), 'benchproof-tty-'));
+  const quoted = args.map((a) => (a.endsWith('.csv') || a.endsWith('.yaml') ? resolve(a) : a)).join(' ');
+  const cmd = `cd ${dir} && env -u COLUMNS NO_COLOR=1 node ${bin} ${quoted}; tmux -L ${sock} wait-for -S done; sleep 60`;
+  try {
+    execFileSync('tmux', ['-L', sock, 'new-session', '-d', '-x', '80', '-y', '60', cmd]);
+    execFileSync('tmux', ['-L', sock, 'wait-for', 'done'], { timeout: 60_000 });
+    return execFileSync('tmux', ['-L', sock, 'capture-pane', '-p', '-J', '-S', '-5000']).toString().trimEnd();
+  } finally {
+    spawnSync('tmux', ['-L', sock, 'kill-server']);
+    rmSync(dir, { recursive: true, force: true });
+  }
+}

@@ -5,7 +5,7 @@ import type { Spec } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
 import { KESTREL_CONDITIONS } from '../../src/syntheticCaptures/index.js';
 import type { UnitTraits } from '../../src/syntheticCaptures/index.js';
-import type { Cause, CircuitView, Diagnosis } from '../../src/types/index.js';
+import type { Cause, CauseFact, CircuitView, Diagnosis } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { checkedKestrel, kestrelTraits } from './kestrelUnit.js';
 
@@ -21,7 +21,8 @@ function diagnose(traits: UnitTraits, conditions = KESTREL_CONDITIONS): Diagnosi
 }
 
 const ids = (cs: readonly Cause[]): string[] => cs.map((c) => c.id);
-const numberIn = (text: string, re: RegExp): number => Number(re.exec(text)?.[1]);
+/** The cause's fact about a part (by its name), or a measurement id. */
+const factOf = (c: Cause, part: string): CauseFact | undefined => c.facts?.find((f) => f.part === part || f.measurement === part);
 const figure = (views: readonly CircuitView[] | undefined, condition: string, id: string) => views?.find((v) => v.condition === condition)?.figures.find((f) => f.id === id);
 
 describe('part attribution with a design section', () => {
@@ -32,12 +33,18 @@ describe('part attribution with a design section', () => {
     expect(first.indistinguishableFrom).toEqual(['reference-current']);
     expect(second.id).toBe('reference-current');
     expect(second.indistinguishableFrom).toEqual(['timing-capacitor']);
-    expect(first.evidence[0]).toMatch(/^capacitance [\d.]+ nF effective vs 4\.7 nF ± 5 % — consistent with a capacitor above its tolerance$/);
-    expectWithin(numberIn(first.evidence[0], /capacitance ([\d.]+) nF/), 4.7 * 1.06, { rel: 0.005 }, 'planted C = 4.7 nF × 1.06 (scenario FK-0104)');
-    const text = first.evidence.join(' ');
-    expect(text).toContain('both currents within');
-    expect(text).toContain('the captures cannot tell this from the reference current');
-    expect(text).toContain('capacitance meter');
+    const c = first.facts![0];
+    expect(c).toMatchObject({ kind: 'part', part: 'timing capacitor, effective', observed: { unit: 'F' }, design: { nominal: 4.7e-9, unit: 'F' } });
+    expectWithin(c.observed.value, 4.7e-9 * 1.06, { rel: 0.005 }, 'planted C = 4.7 nF × 1.06 (scenario FK-0104)');
+    expect(c.observed.value).toBeGreaterThan(c.design!.upper);
+    expect(c.observed.expandedUncertainty).toBeGreaterThan(0);
+    expect(c.shareExplained).toBeGreaterThan(0.9);
+    expect(c.confirm).toContain('capacitance meter');
+    // The currents compared by the slope ratio alone (C cancels): the scenario plants matched currents.
+    expectWithin(factOf(first, 'discharge against charge current, largest over the conditions')!.observed.value, 0, { abs: 0.5 }, 'planted matched currents; slope ratio within 0.5 %');
+    const other = first.facts!.find((f) => f.alternative)!;
+    expect(other.part).toBe('charge current, with the discharge current by the same ratio');
+    expect(other.confirm).toContain('charge current');
     expect(ids(d.causes)).not.toContain('timing-scale');
   });
 
@@ -48,15 +55,23 @@ describe('part attribution with a design section', () => {
     const r = 1 / (1 + 1.0833);
     expectWithin(figure(d.circuit, 'mid', 'chargeCurrent')?.value, 4.7e-9 * 6 * 261.63 / r, { rel: 0.005 }, 'planted rise share, capacitor law');
     expectWithin(figure(d.circuit, 'mid', 'dischargeCurrent')?.value, 4.7e-9 * 6 * 261.63 / (1 - r), { rel: 0.005 }, 'planted rise share, capacitor law');
-    expect(d.causes[0].evidence[0]).toMatch(/^charging at 15\.\d+ µA, discharging at 14\.\d+ µA at mid \(taking C = 4\.7 nF\): the sink runs 7\.[6-8] % cold against the source/);
-    expect(d.circuit?.find((v) => v.condition === 'mid')?.summary[0]).toMatch(/^charging at 15\.\d+ µA, discharging at 14\.\d+ µA \(taking C = 4\.7 nF\): the sink runs 7\.\d % cold$/);
+    // The sink against the source: (1 − r)/r − 1 with the rise share r above, i.e. 1/1.0833 − 1 = −7.7 %.
+    const mismatch = factOf(d.causes[0], 'discharge current against the charge current')!;
+    expect(mismatch.observed.unit).toBe('%');
+    expectWithin(mismatch.observed.value, (1 / 1.0833 - 1) * 100, { abs: 0.15 }, 'planted current ratio 1.0833');
+    expectWithin(factOf(d.causes[0], 'charge current, C·dV/dt with the design C')!.observed.value, 4.7e-9 * 6 * 261.63 / r, { rel: 0.005 }, 'planted rise share, capacitor law');
+    expect(factOf(d.causes[0], 'charge current, C·dV/dt with the design C')!.condition).toBe('mid');
   });
 
   it('names the discharge sink when the falling ramp alone is 6 % slow, and folds the frequency pattern into it', () => {
     // Sink at 0.94·I: fall time grows by 1/0.94, so f scales by 2/(1 + 1/0.94) and the rise share is 1/(1 + 1/0.94).
     const d = diagnose(variant({ frequencyScale: 2 / (1 + 1 / 0.94), riseFraction: 1 / (1 + 1 / 0.94) }));
     expect(d.causes[0].id).toBe('discharge-sink');
-    expectWithin(numberIn(d.causes[0].evidence[0], /discharge current ([\d.]+) µA at mid/), 0.94 * 14.76, { rel: 0.005 }, 'planted sink at 94 % of 14.76 µA');
+    const sink = factOf(d.causes[0], 'discharge current')!;
+    expect(sink).toMatchObject({ condition: 'mid', observed: { unit: 'A' } });
+    expectWithin(sink.observed.value, 0.94 * 14.76e-6, { rel: 0.005 }, 'planted sink at 94 % of 14.76 µA');
+    // The frequency pattern is folded in, its measurements marked with the rule they came from.
+    expect(d.causes[0].facts!.some((f) => f.pattern?.id === 'timing-scale' && f.measurement === 'frequency')).toBe(true);
     expect(ids(d.causes)).not.toContain('timing-scale');
     expect(ids(d.causes)).not.toContain('timing-capacitor');
   });
@@ -64,8 +79,9 @@ describe('part attribution with a design section', () => {
   it('names the threshold divider when the swing is 10 % wide and the ramps are on design', () => {
     const d = diagnose(variant({ swing: 3.3, frequencyScale: 3.0 / 3.3 }));
     expect(d.causes[0].id).toBe('threshold-divider');
-    expect(d.causes[0].evidence[0]).toContain('with the ramp slopes on design');
-    expectWithin(numberIn(d.causes[0].evidence[0], /swing ([\d.]+) V effective/), 6.6, { rel: 0.02 }, 'planted swing 2 × 3.3 V; one 78 mV step of the 8-bit capture');
+    const swing = factOf(d.causes[0], 'swing set by the thresholds, with the ramp slopes on design')!;
+    expect(swing.observed.unit).toBe('V');
+    expectWithin(swing.observed.value, 6.6, { rel: 0.02 }, 'planted swing 2 × 3.3 V; one 78 mV step of the 8-bit capture');
     expect(ids(d.causes)).not.toContain('timing-capacitor');
   });
 
@@ -74,13 +90,16 @@ describe('part attribution with a design section', () => {
     const lead = d.causes[0];
     expect(['threshold-divider', 'switching-delay']).toContain(lead.id);
     expect(lead.indistinguishableFrom).toEqual([lead.id === 'threshold-divider' ? 'switching-delay' : 'threshold-divider']);
-    expect(lead.evidence.join(' ')).toContain('a capture at another condition also tells');
+    const ways = [lead.confirm, ...lead.facts!.filter((f) => f.alternative).map((f) => f.confirm)];
+    expect(ways.some((w) => w?.includes('a capture at another condition also tells'))).toBe(true);
   });
 
   it('names loading of the output stage for a logic high of 8.6 V that is not clipped', () => {
     const d = diagnose(variant({ pulseHigh: 8.6 }));
     expect(d.causes[0].id).toBe('logic-loading');
-    expectWithin(numberIn(d.causes[0].evidence[0], /logic high ([\d.]+) V/), 8.6, { abs: 0.08 }, 'planted level; half the 8-bit step of the 40 V scenario range');
+    expectWithin(factOf(d.causes[0], 'logic high')!.observed.value, 8.6, { abs: 0.08 }, 'planted level; half the 8-bit step of the 40 V scenario range');
+    // Design rail +12 V (samples/fh210-spec.yaml): 12 − 8.6 = 3.4 V of headroom.
+    expectWithin(factOf(d.causes[0], 'logic high below the positive rail')!.observed.value, 3.4, { abs: 0.08 }, 'design rail 12 V minus the planted level');
     expect(d.causes[0].confirm).toContain('jack unplugged');
   });
 
@@ -93,10 +112,12 @@ describe('part attribution with a design section', () => {
     }
   });
 
-  it('keeps a pattern rule’s evidence under the part that refines it, ranks by score, and survives a JSON round trip', () => {
+  it('keeps a pattern rule’s facts under the part that refines it, ranks by score, and survives a JSON round trip', () => {
     const d = diagnose(kestrelTraits('FK-0106'));
     expect(d.causes[0].id).toBe('switching-delay');
-    expect(d.causes[0].evidence.join(' ')).toMatch(/each period is longer by 4·t_d: .*7\.\d µs at high/);
+    // The scenario plants t_d = 7.6 µs; T = 1/f0 + 4·t_d (closed form).
+    const td = d.causes[0].facts!.find((f) => f.pattern?.id === 'switching-delay' && f.part === 'switching delay per flip' && f.condition === 'high')!;
+    expectWithin(td.observed.value, 7.6e-6, { rel: 0.03 }, 'planted delay, closed form T = 1/f0 + 4·t_d');
     for (let i = 1; i < d.causes.length; i++) expect(d.causes[i - 1].score).toBeGreaterThanOrEqual(d.causes[i].score);
     expect(JSON.parse(JSON.stringify(d))).toEqual(d);
   });
