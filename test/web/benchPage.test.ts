@@ -154,6 +154,8 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(await page.locator('header.top').isVisible()).toBe(false);
     expect(await page.locator('.plot-controls').first().isVisible()).toBe(false);
     expect(await page.locator('iframe.record').isVisible()).toBe(true);
+    // The record carries the unit's state and attempts itself: the page's own header is not printed twice.
+    expect(await page.locator('.unit-head h1').isVisible()).toBe(false);
     const frame = page.frameLocator('iframe.record');
     expect(await frame.locator('h1').first().textContent()).toContain('FK-0101');
     await page.screenshot({ path: join(SHOTS, 'unit-print.png'), fullPage: true });

@@ -153,7 +153,7 @@ function drawMarks(u: uPlot, spec: PlotSpec): void {
       c.moveTo(left, py);
       c.lineTo(left + width, py);
       c.stroke();
-      c.fillText(name, left + width - c.measureText(name).width - 4, py + 13 * devicePixelRatio > top + height ? py - 4 * devicePixelRatio : py + 13 * devicePixelRatio);
+      label(c, name, left + width - c.measureText(name).width - 4, py + 13 * devicePixelRatio > top + height ? py - 4 * devicePixelRatio : py + 13 * devicePixelRatio);
     }
     c.setLineDash([]);
     for (const t of m.crossings) {
@@ -180,8 +180,20 @@ function drawMarks(u: uPlot, spec: PlotSpec): void {
       c.moveTo(px, top);
       c.lineTo(px, top + height);
       c.stroke();
-      c.fillText(`H${hm.n}`, px + 3, top + 12 * devicePixelRatio);
+      label(c, `H${hm.n}`, px + 3, top + 12 * devicePixelRatio);
     }
   }
   c.restore();
+}
+
+/** A marker's name on a pale ground, so it stays legible where it crosses the trace. */
+function label(c: CanvasRenderingContext2D, text: string, x: number, y: number): void {
+  const w = c.measureText(text).width;
+  const hgt = 11 * devicePixelRatio;
+  c.save();
+  c.setLineDash([]);
+  c.fillStyle = 'rgba(255, 255, 255, 0.85)';
+  c.fillRect(x - 2, y - hgt, w + 4, hgt + 3 * devicePixelRatio);
+  c.restore();
+  c.fillText(text, x, y);
 }

@@ -37,7 +37,7 @@ export function showUnit(main: HTMLElement, serial: string): () => void {
           body.append(wave.element);
           disposers.push(wave.dispose);
           if (ch.spectrum) {
-            const spec = interactivePlot({ kind: 'spectrum', query, title: `Spectrum: ${name}`, xLabel: 'frequency', xUnit: 'Hz', yLabel: `level (0 dB = ${ch.spectrum.reference})`, yUnit: 'dB', channel: ch });
+            const spec = interactivePlot({ kind: 'spectrum', query, title: `Spectrum: ${name}`, xLabel: 'frequency', xUnit: 'Hz', yLabel: `level re ${ch.spectrum.reference}`, yUnit: 'dB', channel: ch });
             body.append(spec.element);
             disposers.push(spec.dispose);
           }
