@@ -77,19 +77,24 @@ const SECRET_PARAMS = new Set(['password', 'sslpassword', 'sslkey']);
 
 /**
  * The store's address as it may be printed: the password and password-like parameters replaced.
- * The same rule as the records stage's shownStore (pgLocation.ts; a test holds them equal), kept
- * here so that registering options loads no records code.
+ * Read by hand rather than with URL, which refuses libpq's socket form with no host
+ * (`postgres://bench@/benchproof?host=/var/run/postgresql`, PostgreSQL docs 34.1.1.2).
  */
 export function maskStoreUrl(url: string): string {
-  let u: URL;
+  const m = /^([a-z][a-z0-9+.-]*):\/\/(?:([^@/?#]*)@)?([^/?#]*)([^?#]*)(?:\?([^#]*))?/i.exec(url.trim());
+  if (!m) return 'the shared store (its address could not be read)';
+  const [, scheme, userinfo, host, path, query] = m;
+  const user = userinfo === undefined ? '' : `${userinfo.split(':')[0]}@`;
+  const params = query === undefined ? '' : `?${query.split('&').map((pair) => (SECRET_PARAMS.has(safeDecode(pair.split('=')[0]).toLowerCase()) ? `${pair.split('=')[0]}=***` : pair)).join('&')}`;
+  return safeDecode(`${scheme}://${user}${host}${path}${params}`);
+}
+
+function safeDecode(text: string): string {
   try {
-    u = new URL(url);
+    return decodeURIComponent(text);
   } catch {
-    return 'the shared store (its address could not be read)';
+    return text;
   }
-  u.password = '';
-  for (const key of [...u.searchParams.keys()]) if (SECRET_PARAMS.has(key.toLowerCase())) u.searchParams.set(key, '***');
-  return decodeURIComponent(u.toString());
 }
 
 export function resolveOperator(ctx: CommandContext, flags: StoreFlags): string {

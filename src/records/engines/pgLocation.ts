@@ -9,36 +9,42 @@
  */
 import { BenchError } from '../../types/index.js';
 
-const SECRET_PARAMS = new Set(['password', 'sslpassword', 'sslkey']);
-
 /** True for an address of a shared store (a URL), false for a data folder. */
 export function isStoreUrl(text: string): boolean {
   return /^postgres(ql)?:\/\//i.test(text);
 }
 
-/** The store as it may be printed: user, host, port, database and harmless parameters, never a secret. */
+const SECRET_PARAMS = new Set(['password', 'sslpassword', 'sslkey']);
+
+/**
+ * The store's address as it may be printed: the password and password-like parameters replaced.
+ * Read by hand rather than with URL, which refuses libpq's socket form with no host
+ * (`postgres://bench@/benchproof?host=/var/run/postgresql`, PostgreSQL docs 34.1.1.2).
+ */
 export function shownStore(url: string): string {
-  let u: URL;
+  const m = /^([a-z][a-z0-9+.-]*):\/\/(?:([^@/?#]*)@)?([^/?#]*)([^?#]*)(?:\?([^#]*))?/i.exec(url.trim());
+  if (!m) return 'the shared store (its address could not be read)';
+  const [, scheme, userinfo, host, path, query] = m;
+  const user = userinfo === undefined ? '' : `${userinfo.split(':')[0]}@`;
+  const params = query === undefined ? '' : `?${query.split('&').map((pair) => (SECRET_PARAMS.has(safeDecode(pair.split('=')[0]).toLowerCase()) ? `${pair.split('=')[0]}=***` : pair)).join('&')}`;
+  return safeDecode(`${scheme}://${user}${host}${path}${params}`);
+}
+
+function safeDecode(text: string): string {
   try {
-    u = new URL(url);
+    return decodeURIComponent(text);
   } catch {
-    return 'the shared store (its address could not be read)';
+    return text;
   }
-  u.password = '';
-  for (const key of [...u.searchParams.keys()]) if (SECRET_PARAMS.has(key.toLowerCase())) u.searchParams.set(key, '***');
-  return decodeURIComponent(u.toString());
 }
 
 /** Check the address before connecting; a malformed one is the user's input error. */
 export function checkStoreUrl(url: string, source: string): void {
   let problem: string | undefined;
-  try {
-    const u = new URL(url);
-    if (!isStoreUrl(url)) problem = `"${u.protocol}" is not a PostgreSQL address`;
-    else if (u.pathname.replace(/^\//, '') === '') problem = 'the address names no database';
-  } catch {
-    problem = 'the address is not a URL';
-  }
+  const m = /^([a-z][a-z0-9+.-]*):\/\/(?:[^@/?#]*@)?[^/?#]*([^?#]*)/i.exec(url.trim());
+  if (!m) problem = 'the address is not a URL';
+  else if (!isStoreUrl(url)) problem = `"${m[1]}:" is not a PostgreSQL address`;
+  else if (m[2].replace(/^\//, '') === '') problem = 'the address names no database';
   if (problem === undefined) return;
   throw new BenchError({
     code: 'store.bad-address',
