@@ -15,41 +15,34 @@
 import Database from 'better-sqlite3';
 import type { Database as Db } from 'better-sqlite3';
 import { join } from 'node:path';
-import type { StoredRun, UnitSummary } from '../types/index.js';
+import type { StoredCalibrationRun, StoredRun, UnitRecord } from '../types/index.js';
 import { CHAIN_START, chainLink } from './chain.js';
 import type { ChainEntry } from './chain.js';
 import type { AuditProblem, StoreAudit } from './auditStore.js';
-import { readRunDigests } from './readRuns.js';
-import type { DamagedRow } from './readRuns.js';
-import { readCalibrationRows } from './calibrationRead.js';
+import { auditUnitCaptures } from './auditStore.js';
+import { readRunDigests, readRuns } from './readRuns.js';
+import { readCalibrationRows, readCalibrations, withCalibrations } from './calibrationRead.js';
 import { attemptFacts, numberRuns, readRunHeads, summarizeAttempts } from './attempts.js';
 import { DATABASE_FILE } from './openStore.js';
-import { compareSerials } from './unitSummaries.js';
+import { buildUnitRecord } from './unitSummaries.js';
+import { snapshot } from './followListing.js';
+import type { FollowedStore, UnitState } from './followListing.js';
+
+export type { FollowedStore } from './followListing.js';
 
 export interface StoreFollower {
   /** Verify what was added since the last verified head (everything, the first time or when the chain changed). */
   catchUp(): Promise<FollowedStore>;
   /** The database changed in some way (any commit, or an edit): re-verify every row in the background soon. */
   changed(): void;
+  /**
+   * One unit's runs (or its record), read in full and re-hashed as RecordStore reads them, after a
+   * catch-up; `audit` adds the unit's archived captures, re-hashed once per verification of the unit.
+   * Runs the audit names are marked not intact.
+   */
+  unitRuns(serial: string): Promise<{ runs: StoredRun[]; audit: StoreAudit }>;
+  unitRecord(serial: string): Promise<{ record: UnitRecord | undefined; audit: StoreAudit }>;
   close(): void;
-}
-
-export interface FollowedStore {
-  /** As auditStore(…, { archive: false }) would find it now. */
-  readonly audit: StoreAudit;
-  /** As listUnits gives them, with each unit's unverified runs. */
-  units(spec?: string): UnitSummary[];
-  /** How many rows were verified since the follower started, and how many full passes it made (for tests and the bench). */
-  readonly verifiedRows: number;
-  readonly fullPasses: number;
-}
-
-interface UnitState {
-  readonly rows: readonly { kind: 'run' | 'calibration'; id: number; digest: string; intact: boolean }[];
-  readonly damaged: readonly DamagedRow[];
-  readonly heads: readonly StoredRun[];
-  /** The attempts of all the unit's runs, as a listing shows them; worked out once per verification. */
-  readonly facts: ReturnType<typeof attemptFacts> | null;
 }
 
 /**
@@ -183,6 +176,17 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
     return full;
   };
 
+  /** Archived captures re-hashed per unit, kept while the unit's verified state is the same object. */
+  const captureAudits = new WeakMap<UnitState, readonly AuditProblem[]>();
+  const unitAudit = async (serial: string): Promise<StoreAudit> => {
+    const { audit } = await follower.catchUp();
+    const state = units.get(serial);
+    if (!state) return audit;
+    let captures = captureAudits.get(state);
+    if (!captures) captureAudits.set(state, (captures = auditUnitCaptures(db, dir, serial)));
+    return captures.length ? { ...audit, problems: [...audit.problems, ...captures] } : audit;
+  };
+
   function schedule(): void {
     if (closed) return;
     if (full) {
@@ -198,7 +202,7 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
     sweepTimer.unref();
   }
 
-  return {
+  const follower: StoreFollower = {
     async catchUp() {
       if (fullPasses === 0) await runSweep();
       // The head verified last is no longer where it was: the chain changed under us, verify it all.
@@ -215,72 +219,31 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
       return last.snap;
     },
     changed: () => schedule(),
+    async unitRuns(serial) {
+      const audit = await unitAudit(serial);
+      return { runs: marked(readRuns(db, { unit: serial }), audit), audit };
+    },
+    async unitRecord(serial) {
+      const audit = await unitAudit(serial);
+      const runs = marked(readRuns(db, { unit: serial }), audit);
+      return { record: withCalibrations(buildUnitRecord(serial, runs), serial, markedCalibrations(readCalibrations(db, serial), audit)), audit };
+    },
     close() {
       closed = true;
       if (sweepTimer) clearTimeout(sweepTimer);
       db.close();
     },
   };
+  return follower;
 }
 
-/** The audit and listing as they stand: the same problems auditStore names, in the same words. */
-function snapshot(entries: readonly ChainEntry[], linkProblems: readonly AuditProblem[], units: ReadonlyMap<string, UnitState>, head: string, verifiedRows: number, fullPasses: number): FollowedStore {
-  const problems: AuditProblem[] = [...linkProblems];
-  const byRow = new Map(entries.map((e) => [`${e.kind}:${e.row_id}`, e]));
-  const present = new Set<string>();
-  for (const [unit, s] of units) {
-    for (const d of s.damaged) {
-      present.add(`${d.kind}:${d.id}`);
-      problems.push({ kind: d.kind, id: d.id, unit: d.unit, problem: 'damaged', detail: d.problem });
-    }
-    for (const r of s.rows) {
-      present.add(`${r.kind}:${r.id}`);
-      const entry = byRow.get(`${r.kind}:${r.id}`);
-      if (!r.intact) problems.push({ kind: r.kind, id: r.id, unit, problem: 'changed', detail: 'its content no longer matches the fingerprint taken when it was stored' });
-      else if (!entry) problems.push({ kind: r.kind, id: r.id, unit, problem: 'unchained', detail: 'it is not in the hash chain: it was not stored by benchproof' });
-      else if (entry.row_digest !== r.digest) problems.push({ kind: r.kind, id: r.id, unit, problem: 'changed', detail: 'its fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)' });
-    }
-  }
-  for (const e of entries) {
-    if ((e.kind === 'run' || e.kind === 'calibration') && !present.has(`${e.kind}:${e.row_id}`)) {
-      problems.push({ kind: e.kind, id: e.row_id, unit: null, problem: 'missing', detail: 'it is in the hash chain but no longer in the store: it was deleted' });
-    }
-  }
-  const audit: StoreAudit = { head, chained: entries.filter((e) => e.kind !== 'gap').length, archived: 0, problems };
-  const listed = new Map<string | undefined, UnitSummary[]>();
-  const list = (spec?: string): UnitSummary[] => {
-    let found = listed.get(spec);
-    if (!found) listed.set(spec, (found = listFollowed(units, problems, spec)));
-    return [...found];
-  };
-  return { audit, units: list, verifiedRows, fullPasses };
+/** Runs the audit names, marked not intact (as RecordStore marks them). */
+function marked(runs: StoredRun[], audit: StoreAudit): StoredRun[] {
+  const bad = new Set(audit.problems.filter((p) => p.kind === 'run' && p.id !== null).map((p) => p.id));
+  return runs.map((r) => (r.intact && bad.has(r.id) ? { ...r, intact: false } : r));
 }
 
-/** listUnits over the kept heads: first and latest run under the spec, attempts over all the unit's runs. */
-function listFollowed(units: ReadonlyMap<string, UnitState>, problems: readonly AuditProblem[], spec?: string): UnitSummary[] {
-  const unverified = new Map<string, Set<number>>();
-  for (const p of problems) {
-    if (p.kind !== 'run' || p.id === null || p.unit === null) continue;
-    unverified.set(p.unit, (unverified.get(p.unit) ?? new Set()).add(p.id));
-  }
-  const out: UnitSummary[] = [];
-  for (const [unit, s] of units) {
-    const mine = spec === undefined ? s.heads : s.heads.filter((r) => r.spec.name === spec);
-    if (mine.length === 0) continue;
-    const first = mine[0];
-    const last = mine[mine.length - 1];
-    const bad = unverified.get(unit);
-    out.push({
-      unit,
-      spec: last.spec,
-      status: last.statement,
-      firstStatement: first.statement,
-      firstTestedAt: first.startedAt,
-      lastTestedAt: last.startedAt,
-      runs: mine.length,
-      ...s.facts,
-      ...(bad ? { unverifiedRuns: [...bad] } : {}),
-    });
-  }
-  return out.sort((a, b) => compareSerials(a.unit, b.unit));
+function markedCalibrations(list: StoredCalibrationRun[], audit: StoreAudit): StoredCalibrationRun[] {
+  const bad = new Set(audit.problems.filter((p) => p.kind === 'calibration' && p.id !== null).map((p) => p.id));
+  return list.map((c) => ({ ...c, iterations: c.iterations.map((i) => (i.intact && bad.has(i.id) ? { ...i, intact: false } : i)) }));
 }

@@ -26,7 +26,6 @@ import { registerBatchRoutes } from './batchRoutes.js';
 import { createCaptureCache } from './captureCache.js';
 import { accessToken } from './accessToken.js';
 import { errorBody } from './errorBody.js';
-import { followStore } from '../records/index.js';
 
 export interface BenchServerOptions {
   readonly host?: string;
@@ -72,8 +71,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
     if (body.status === 500) ctx.io.stderr(`benchproof serve: internal error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
     return reply.code(body.status).send(body);
   });
-  const follower = followStore(setup.location.dir);
-  registerBoardRoutes(app, setup, follower);
+  registerBoardRoutes(app, setup);
   registerDropRoutes(app, setup);
   registerUnitRoutes(app, setup);
   registerPlotRoutes(app, setup, createCaptureCache(setup.location.dir));
@@ -87,7 +85,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
         // The records stay readable through the handle already open; the next change tries again.
         ctx.io.stderr(`benchproof serve: the records could not be opened again: ${err instanceof Error ? err.message : String(err)}\n`);
       }
-      follower.changed();
+      setup.follower.changed();
       hub.publish('changed', { at: new Date().toISOString() });
     },
     options.markerMs,
@@ -97,7 +95,6 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
   } catch (err) {
     marker.stop();
     hub.close();
-    follower.close();
     setup.close();
     throw listenError(err, host, port);
   }
@@ -116,7 +113,6 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
       marker.stop();
       hub.close();
       await app.close();
-      follower.close();
       setup.close();
     },
   };

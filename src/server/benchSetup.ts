@@ -9,7 +9,8 @@ import { createContext } from '../cli/context.js';
 import type { CliIo } from '../cli/io.js';
 import { openDataStore } from '../cli/store.js';
 import type { DataLocation, StoreFlags } from '../cli/store.js';
-import type { RecordStore } from '../records/index.js';
+import { followStore, unverifiedError } from '../records/index.js';
+import type { RecordStore, StoreAudit, StoreFollower } from '../records/index.js';
 import { SPEC_MAX_BYTES, parseSpec } from '../design/index.js';
 import type { LoadedSpec } from '../cli/checkRun.js';
 import { readSpecFile } from '../cli/specFile.js';
@@ -35,6 +36,13 @@ export interface BenchSetup {
   /** The records as of the last change; reads are verified (hash chain, fingerprints) per handle. */
   readonly store: RecordStore;
   readonly hub: EventHub;
+  /**
+   * The records as verified so far (records/followStore.ts): the board, the unit pages and the plots
+   * read through it, so an answer after a change verifies only what was stored since.
+   */
+  readonly follower: StoreFollower;
+  /** Throws the records error `check` would print when the audit found problems (unless --allow-unverified). */
+  refuseUnverified(audit: StoreAudit): void;
   /** Open the records again after they changed, so the next read verifies what was added. */
   refresh(): void;
   /**
@@ -50,6 +58,7 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
   const first = openDataStore(ctx, flags, 'write');
   const location = first.location;
   let store = first.store;
+  const follower = followStore(location.dir);
   // Later calls resolve the data folder from other working directories (a drop's temporary folder).
   const absolute: StoreFlags = { ...flags, data: location.dir };
   let parsed: { file: string; text: string; result: { spec: LoadedSpec['spec'] } | { error: unknown } } | undefined;
@@ -73,6 +82,10 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
     ...(specFile !== undefined ? { specFile } : {}),
     limits,
     hub,
+    follower,
+    refuseUnverified(audit) {
+      if (audit.problems.length > 0 && !flags.allowUnverified) throw unverifiedError(location.shown, audit);
+    },
     get store() {
       return store;
     },
@@ -83,7 +96,10 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
       store.close();
       store = next;
     },
-    close: () => store.close(),
+    close() {
+      follower.close();
+      store.close();
+    },
   };
 }
 

@@ -6,20 +6,18 @@
 import type { FastifyInstance } from 'fastify';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { UnitSummary } from '../types/index.js';
-import { unverifiedError } from '../records/index.js';
-import type { StoreFollower } from '../records/index.js';
 import type { Spec } from '../design/index.js';
 import type { BenchSetup } from './benchSetup.js';
 import { errorBody } from './errorBody.js';
 
-export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup, follower: StoreFollower): void {
+export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup): void {
   // The follower has verified the records up to the chain head it last saw; each answer verifies only
   // what was stored since (records/followStore.ts), and lists from light per-run heads.
   app.get('/api/board', async () => {
     const current = currentSpec(setup);
     const spec = current.ok ? current.spec : undefined;
-    const followed = await follower.catchUp();
-    if (followed.audit.problems.length > 0 && !setup.flags.allowUnverified) throw unverifiedError(setup.location.shown, followed.audit);
+    const followed = await setup.follower.catchUp();
+    setup.refuseUnverified(followed.audit);
     const units = followed.units(spec?.name);
     return {
       spec: spec ? { name: spec.name, revision: spec.revision, file: setup.specFile } : null,

@@ -25,7 +25,7 @@ const MAX_COLUMNS = 4096;
 
 export function registerPlotRoutes(app: FastifyInstance, setup: BenchSetup, cache: CaptureCache): void {
   app.get<{ Querystring: PlotQuery }>('/api/plot/wave', async (req, reply) => {
-    const found = locate(setup, req.query, reply);
+    const found = await locate(setup, req.query, reply);
     if (!found) return reply;
     const { stored, channel } = found;
     try {
@@ -45,7 +45,7 @@ export function registerPlotRoutes(app: FastifyInstance, setup: BenchSetup, cach
     }
   });
   app.get<{ Querystring: PlotQuery }>('/api/plot/spectrum', async (req, reply) => {
-    const found = locate(setup, req.query, reply);
+    const found = await locate(setup, req.query, reply);
     if (!found) return reply;
     const s = found.channel.plot?.spectrum;
     if (!s) return notFound(reply, 'no spectrum was stored for this channel');
@@ -63,13 +63,15 @@ function columnsJson(c: PlotColumns) {
 
 const nullable = (v: number): number | null => (Number.isFinite(v) ? v : null);
 
-function locate(setup: BenchSetup, q: PlotQuery, reply: FastifyReply): { run: StoredRun; stored: StoredCapture; channel: ChannelReport; interval: number } | undefined {
+async function locate(setup: BenchSetup, q: PlotQuery, reply: FastifyReply): Promise<{ run: StoredRun; stored: StoredCapture; channel: ChannelReport; interval: number } | undefined> {
   const runId = Number(q.run);
   if (!q.unit || !Number.isInteger(runId) || !q.sha || !/^[0-9a-f]{64}$/.test(q.sha) || !q.channel) {
     void badRequest(reply, 'give unit, run, sha (64 hex digits) and channel');
     return undefined;
   }
-  const run = setup.store.runs({ unit: q.unit }).find((r) => r.id === runId);
+  const { runs, audit } = await setup.follower.unitRuns(q.unit);
+  setup.refuseUnverified(audit);
+  const run = runs.find((r) => r.id === runId);
   const stored = run?.captures.find((c) => c.sha256 === q.sha);
   const report = run?.verdict.captures.find((c) => c.sha256 === q.sha)?.report;
   const channel = report?.channels.find((c) => c.name === q.channel);

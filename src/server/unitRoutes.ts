@@ -14,7 +14,7 @@ import { VIEW_CSP } from './security.js';
 
 export function registerUnitRoutes(app: FastifyInstance, setup: BenchSetup): void {
   app.get<{ Params: { serial: string } }>('/api/units/:serial', async (req, reply) => {
-    const rec = findRecord(setup, req.params.serial, reply);
+    const rec = await findRecord(setup, req.params.serial, reply);
     if (!rec) return reply;
     const waiting = rec.state === 'incomplete';
     return {
@@ -29,14 +29,14 @@ export function registerUnitRoutes(app: FastifyInstance, setup: BenchSetup): voi
     };
   });
   app.get<{ Params: { serial: string } }>('/view/units/:serial/record.html', async (req, reply) => {
-    const rec = findRecord(setup, req.params.serial, reply);
+    const rec = await findRecord(setup, req.params.serial, reply);
     if (!rec) return reply;
     const { renderRecordHtml } = await import('../report/index.js');
     return reply.header('Content-Security-Policy', VIEW_CSP).type('text/html; charset=utf-8').send(renderRecordHtml({ ...rec, source: source(setup) }));
   });
   // Two test attempts side by side, as `benchproof compare SERIAL A B --format html` renders them.
   app.get<{ Params: { serial: string }; Querystring: { a?: string; b?: string } }>('/view/units/:serial/compare.html', async (req, reply) => {
-    const rec = findRecord(setup, req.params.serial, reply);
+    const rec = await findRecord(setup, req.params.serial, reply);
     if (!rec) return reply;
     const known = (rec.attempts ?? []).map((x) => x.number);
     const a = Number(req.query.a);
@@ -47,7 +47,7 @@ export function registerUnitRoutes(app: FastifyInstance, setup: BenchSetup): voi
     return reply.header('Content-Security-Policy', VIEW_CSP).type('text/html; charset=utf-8').send(html);
   });
   app.get<{ Params: { serial: string; format: string } }>('/download/units/:serial/record.:format', async (req, reply) => {
-    const rec = findRecord(setup, req.params.serial, reply);
+    const rec = await findRecord(setup, req.params.serial, reply);
     if (!rec) return reply;
     const report = await import('../report/index.js');
     const name = `${rec.unit.replace(/[^\w.-]/g, '_')}-record`;
@@ -67,10 +67,13 @@ export function attach(reply: FastifyReply, name: string, type: string, text: st
   return reply.header('Content-Disposition', `attachment; filename="${name}"`).header('Content-Security-Policy', VIEW_CSP).type(type).send(text);
 }
 
-function findRecord(setup: BenchSetup, serial: string, reply: FastifyReply): UnitRecord | undefined {
-  const rec = setup.store.unitRecord(serial);
-  if (rec) return rec;
-  const near = nearestNames(serial, setup.store.unitSerials());
+/** The unit's record, verified as `record` verifies it (through the follower: only what changed is re-checked). */
+async function findRecord(setup: BenchSetup, serial: string, reply: FastifyReply): Promise<UnitRecord | undefined> {
+  const { record, audit } = await setup.follower.unitRecord(serial);
+  setup.refuseUnverified(audit);
+  if (record) return record;
+  const known = (await setup.follower.catchUp()).units().map((u) => u.unit);
+  const near = nearestNames(serial, known);
   const body = errorBody(
     new BenchError({
       code: 'serve.unknown-unit',

@@ -176,4 +176,33 @@ describe('the board follower', () => {
     expect(seen.audit.problems.map(byRow)).toContain('run:1:missing');
     expect(seen.units().map((u) => u.unit)).not.toContain('FK-0201');
   });
+
+  it('reads a unit record as the store reads it, and marks a run edited in place once the sweep found it', async () => {
+    follower = followStore(dir, { sweepGapMs: 0 });
+    const { record, audit } = await follower.unitRecord('FK-0202');
+    expect(audit.problems).toEqual([]);
+    expect(record).toEqual(store.unitRecord('FK-0202'));
+    expect((await follower.unitRuns('FK-0202')).runs).toEqual(store.runs({ unit: 'FK-0202' }));
+    const [first] = store.runs({ unit: 'FK-0202' });
+    writable('DROP TRIGGER runs_no_update');
+    writable("UPDATE runs SET operator = 'someone else' WHERE id = ?", first.id);
+    follower.changed();
+    let seen = await follower.unitRuns('FK-0202');
+    for (let i = 0; i < 200 && seen.audit.problems.length === 0; i++) {
+      await new Promise((done) => setTimeout(done, 10));
+      seen = await follower.unitRuns('FK-0202');
+    }
+    expect(seen.runs.find((r) => r.id === first.id)?.intact).toBe(false);
+    expect(seen.runs.filter((r) => r.intact)).toHaveLength(1);
+  });
+
+  it('names a unit whose archived capture changed, as the store does for its record', async () => {
+    follower = followStore(dir);
+    const [run] = store.runs({ unit: 'FK-0201' });
+    const { appendFileSync } = await import('node:fs');
+    appendFileSync(join(dir, run.captures[0].archivePath), '\n0,0\n');
+    const { audit } = await follower.unitRecord('FK-0201');
+    expect(audit.problems.map((p) => p.problem)).toContain('capture-changed');
+    expect((await follower.unitRecord('FK-0203')).audit.problems).toEqual([]);
+  });
 });
