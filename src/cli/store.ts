@@ -116,6 +116,10 @@ function asOutbox(local: RecordStore): RecordStore {
     ...local,
     saveRun: (run, hooks) => local.saveRun(run, queued(hooks)),
     saveRunOnce: (run, hooks) => local.saveRunOnce(run, queued(hooks)),
+    // A bulk import is not a bench's check: it needs the shared store itself.
+    saveRuns: () => {
+      throw new RangeError('saveRuns: the shared store is out of reach; a bulk import is not kept in the outbox');
+    },
     saveCalibration: (it, hooks) => local.saveCalibration(it, queued(hooks)),
   };
 }

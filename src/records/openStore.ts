@@ -62,6 +62,8 @@ export interface RecordStore {
   readonly schemaVersion: number;
   /** Store one run (captures archived, all rows in one transaction); returns it as stored. */
   saveRun(run: NewRun, hooks?: SaveHooks): StoredRun;
+  /** Store several runs in the given order in one transaction (a bulk import): each placed, fingerprinted and chained as saveRun does. */
+  saveRuns(runs: readonly NewRun[]): StoredRun[];
   listUnits(filter?: { readonly spec?: string }): UnitSummary[];
   unitRecord(serial: string): UnitRecord | undefined;
   runs(filter?: RunFilter): StoredRun[];
@@ -209,6 +211,8 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     location: label,
     schemaVersion: version,
     saveRun: (run, hooks) => guard(() => saveRun(db, dir, run, hooks)),
+    // Each saveRun's transaction nests as a savepoint inside this one: one commit (one sync) for all.
+    saveRuns: (runs) => guard(() => db.transaction(() => runs.map((run) => saveRun(db, dir, run))).immediate()),
     listUnits: (filter = {}) => verified(() => withUnverified(listUnits(db, filter.spec), rowAudit())),
     unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial))), serial),
     runs: (filter) => verified(() => mark(readRuns(db, filter)), filter?.unit),

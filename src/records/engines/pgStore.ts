@@ -109,6 +109,13 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
         return writeRun(client, prepared, origin(hooks));
       }));
     },
+    saveRuns: (runs) => {
+      const prepared = runs.map(prepareRun);
+      return guarded(() => client.transaction(() => {
+        client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
+        return prepared.map((p) => writeRun(client, p));
+      }));
+    },
     listUnits: (filter = {}) => verified(() => withUnverified(pgListUnits(client, filter.spec), rowAudit())),
     unitRecord: (serial) =>
       verified(() => withCalibrations(buildUnitRecord(serial, mark(pgRunRows(client, { unit: serial }))), serial, markCalibrations(pgReadCalibrationRows(client, serial).runs)), serial),
