@@ -16,6 +16,9 @@ import type { OutputAt } from './unitFacts.js';
 import { checkOf, expandedOf, outputsShaped, valueOf } from './unitFacts.js';
 import { derivedFact, expected, frequencyFact, measuredFact, present, quantity } from './causeFacts.js';
 
+/** The unit levels are in: the channel's level measurements say it (SI, V) where the column named none. */
+const levelUnit = (o: OutputAt): string => o.channel.measurements.maximum?.unit || o.channel.unit;
+
 const failing = (o: OutputAt, id: Parameters<typeof checkOf>[1]): boolean => {
   const k = checkOf(o, id);
   return k !== undefined && k.value !== null && k.statement !== 'pass';
@@ -126,7 +129,7 @@ export const saturation: CauseRule = (f) => {
   for (const o of flat) {
     for (const t of o.saturated) {
       const part = t.side === 'high' ? 'flat top' : 'flat bottom';
-      facts.push(derivedFact(`${part} level`, quantity(t.level, o.channel.unit), { output: o.output, condition: o.condition }));
+      facts.push(derivedFact(`${part} level`, quantity(t.level, levelUnit(o)), { output: o.output, condition: o.condition }));
       facts.push(derivedFact(`${part}, share of each cycle`, quantity(t.share * 100, '%'), { output: o.output, condition: o.condition }));
     }
   }
@@ -163,7 +166,7 @@ export const scopeClipping: CauseRule = (f) => {
   const facts: CauseFact[] = clipped.flatMap((o) =>
     (o.channel.flatTops ?? [])
       .filter((t) => t.cause === 'scope-range')
-      .map((t) => derivedFact(t.fullScaleFrom === 'preamble' ? 'full scale the capture states' : 'full scale from the converter’s end code', quantity(t.level, o.channel.unit), { output: o.output, condition: o.condition })),
+      .map((t) => derivedFact(t.fullScaleFrom === 'preamble' ? 'full scale the capture states' : 'full scale from the converter’s end code', quantity(t.level, levelUnit(o)), { output: o.output, condition: o.condition })),
   );
   // Clipped by a warning alone, no flat level known: the extremes the trace reached say where.
   for (const o of clipped) {

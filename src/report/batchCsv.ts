@@ -3,13 +3,15 @@
  * line ends and quoting as RFC 4180 §2, numbers at full precision ('.' decimal), empty cells for none.
  * Text cells that a spreadsheet would run as a formula (=, +, −, @ first) get a leading apostrophe
  * (OWASP "CSV Injection" guidance), also after leading blanks (escapeText.ts). The last column holds
- * the records' chain head, which pins the store's state the report was made from.
+ * the records' chain head, which pins the store's state the report was made from. `label` is the
+ * measurement's display name from the one label table, as in every other report.
  */
 import type { BatchReport } from '../types/index.js';
+import { measurementLabel } from '../types/index.js';
 import { csvText } from './escapeText.js';
 
 export const BATCH_CSV_COLUMNS = [
-  'spec', 'condition', 'output', 'measurement', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
+  'spec', 'condition', 'output', 'measurement', 'label', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
   'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes', 'records_chain_head',
 ] as const;
 
@@ -25,7 +27,7 @@ export function renderBatchCsv(batch: BatchReport): string {
     for (const m of s.measurements) {
       lines.push(
         [
-          text(s.spec), text(m.condition), text(m.output), text(m.measurement), text(m.unit),
+          text(s.spec), text(m.condition), text(m.output), text(m.measurement), text(measurementLabel(m.measurement)), text(m.unit),
           String(m.count), String(m.withheld), num(m.mean), num(m.sd), num(m.min), num(m.max),
           num(m.lower), num(m.upper), num(m.nominal), num(m.cp), num(m.cpk),
           String(s.units.length), num(s.firstPass.fraction), num(s.final.fraction), text(m.notes.join('; ')),

@@ -1,6 +1,6 @@
 /** Words and numbers shared by the calibration renderers (terminal, Markdown, HTML), so they cannot drift apart. */
 import type { CalibrationIteration, CalibrationLaw, CalibrationLimits, CalibrationStepResult, TrackingFigures } from '../types/index.js';
-import { formatMeasured, formatQuantity } from './reportNumbers.js';
+import { formatMeasured, formatQuantity, measurementLabel } from './reportNumbers.js';
 
 /** "+3.9" / "−15.6": a signed number with a true minus sign. */
 export function signed(x: number, digits = 1): string {
@@ -8,10 +8,15 @@ export function signed(x: number, digits = 1): string {
   return Number(t) === 0 ? t : `${x < 0 ? '−' : '+'}${t}`;
 }
 
-/** "−97.1 ± 0.2 cents" with the expanded uncertainty U = 2u (k = 2). */
+/**
+ * "−97.1 ± 0.3 cents" with the expanded uncertainty U = 2u (k = 2), through the one formatter: U
+ * rounded up to two significant digits and the value to the same place (GUM §7.2.6), signed.
+ */
 export function centsText(v: number | null, u: number | null): string {
   if (v === null) return '—';
-  return u === null ? `${signed(v)} cents` : `${signed(v)} ± ${(2 * u).toFixed(u < 0.05 ? 2 : 1)} cents`;
+  if (u === null || !(u > 0)) return `${signed(v)} cents`;
+  const text = formatMeasured(v, 2 * u, 'cents');
+  return v > 0 && !/^0(\.0*)? /.test(text) ? `+${text}` : text;
 }
 
 const control = (v: number, law: CalibrationLaw): string => `${Number(v.toPrecision(6))}${law.controlUnit ? ` ${law.controlUnit}` : ''}`;
@@ -45,7 +50,7 @@ export function stepCells(s: CalibrationStepResult, law: CalibrationLaw): string
   ];
 }
 
-export const STEP_HEAD = ['step', 'control', 'frequency ± U', 'expected', 'error ± U', 'from fit (cents)', 'symmetry', 'p-p'];
+export const STEP_HEAD = ['step', 'control', `${measurementLabel('frequency')} ± U (k = 2)`, 'expected', 'error ± U (k = 2)', 'from fit (cents)', measurementLabel('symmetry'), measurementLabel('peakToPeak')];
 
 /** The overall figures as label/value pairs, in reading order; uncertainties shown as U (k = 2). */
 export function figurePairs(it: CalibrationIteration): [string, string][] {

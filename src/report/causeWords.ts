@@ -56,7 +56,7 @@ function placeOf(f: CauseFact): string {
 }
 
 /** The fact in one line, e.g. 'frequency on triangle at mid: 246.63 Hz ± 0.022 Hz (U, k = 2) against 261.63 Hz nominal (−5.73 %)'. */
-export function factText(f: CauseFact, cause?: Cause, keep: (quantity: string) => string = (q) => q): string {
+export function factText(f: CauseFact, cause?: Cause, keep: (quantity: string) => string = (q) => q, { brief = false }: { readonly brief?: boolean } = {}): string {
   const subject = f.measurement ? measurementLabel(f.measurement) : f.part;
   const U = f.observed.expandedUncertainty ?? null;
   const e = quantityParts(f.observed.value, f.observed.unit, U).exponent;
@@ -72,6 +72,7 @@ export function factText(f: CauseFact, cause?: Cause, keep: (quantity: string) =
     const ee = f.expected.unit === f.observed.unit ? e : prefixExponent(f.expected.value, f.expected.unit);
     text += ` against ${keep(formatInPrefix(f.expected.value, f.expected.unit, ee, 6))} ${BASIS[f.expected.basis]}${f.expected.unit === f.observed.unit ? deviation(f.observed.value, f.expected.value, f.observed.unit) : ''}`;
   }
+  if (brief) return text;
   if (f.shareExplained !== undefined) text += `; alone it would explain ${Math.round(f.shareExplained * 100)} % of the deviation`;
   if (f.alternative) text = `the captures cannot tell this from the ${text}`;
   if (f.confirm && f.confirm !== cause?.confirm) text += `; ${f.alternative ? 'to separate them' : 'to confirm'}: ${f.confirm}`;

@@ -11,6 +11,7 @@ import type { TextStyle } from './style.js';
 import { INCOMPLETE_MARK, STATEMENT_MARKS } from './statementMarks.js';
 import { formatLimits, formatMargin, formatMeasured, formatQuantity, measurementLabel, valueExponent } from './reportNumbers.js';
 import { glued, wrap } from './wrapText.js';
+import { factText } from './causeWords.js';
 
 /** Causes shown per unit; the rest are one --detail away. */
 const TOP_CAUSES = 3;
@@ -49,6 +50,9 @@ function renderUnit({ verdict, diagnosis }: UnitCheck, style: TextStyle, width: 
     lines.push(`  ${style.bold(waiting.length ? 'Likely causes (preliminary)' : 'Likely causes')}`);
     causes.forEach((c, i) => {
       lines.push(...wrap(`${c.title} ${style.dim(`(weight ${c.score.toFixed(2)})`)}`, width, `  ${i + 1}. `, '     '));
+      // The cause's lead finding (a part against its design, or the first measurement that shows it).
+      const lead = c.facts?.[0];
+      if (lead) lines.push(...wrap(factText(lead, c, glued, { brief: true }), width, '     seen: ', '     '));
       lines.push(...wrap(c.confirm, width, '     confirm: ', '     '));
     });
     if (diagnosis.causes.length > TOP_CAUSES) lines.push(`  … and ${diagnosis.causes.length - TOP_CAUSES} less likely`);

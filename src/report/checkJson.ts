@@ -1,9 +1,9 @@
 /**
  * `benchproof check --json`: one document with every unit's checks (value, U, limits, margin,
- * statement, notes), its captures and measurements, and its ranked causes. schemaVersion 1; fields
- * may be added, never renamed.
+ * statement, notes), its captures and measurements, its ranked causes, and the display name of each
+ * measurement id (`labels`). schemaVersion 1; fields may be added, never renamed.
  */
-import { verdictState, waitingConditions } from '../types/index.js';
+import { measurementLabelsOf, verdictState, waitingConditions } from '../types/index.js';
 import type { Diagnosis, Statement, UnitVerdict, VerdictState } from '../types/index.js';
 import type { Spec } from '../design/index.js';
 import type { UnitCheck } from './checkText.js';
@@ -22,6 +22,8 @@ export interface CheckDocument {
     /** True when the causes were named from part of the conditions only. */
     readonly preliminaryCauses: boolean;
   }[];
+  /** The display name of each measurement id in the document (the label table, src/types/measurementLabels.ts). */
+  readonly labels: Readonly<Record<string, string>>;
 }
 
 export function checkDocument(spec: Spec, units: readonly UnitCheck[]): CheckDocument {
@@ -37,5 +39,6 @@ export function checkDocument(spec: Spec, units: readonly UnitCheck[]): CheckDoc
       diagnosis: u.diagnosis,
       preliminaryCauses: verdictState(u.verdict) === 'incomplete',
     })),
+    labels: measurementLabelsOf(units.flatMap((u) => u.verdict.conditions.flatMap((c) => c.checks.map((k) => k.measurement)))),
   };
 }

@@ -2,18 +2,20 @@
  * A unit's record as CSV for spreadsheets: one row per test attempt × condition × checked measurement,
  * from the run that decides each attempt, with a header row, CRLF line ends and quoting as RFC 4180
  * §2. Values are plain numbers in the SI unit named in the `unit` column (no prefixes), at full
- * precision; U is the expanded uncertainty (k = 2); empty cells for none. With a comma decimal mark
+ * precision; U is the expanded uncertainty (k = 2); empty cells for none. `label` is the measurement's
+ * display name (the label table) and `shown` the value ± U as every other report writes it (the one
+ * formatter, U rounded up to two digits, GUM §7.2.6), with the export's decimal mark. With a comma decimal mark
  * the fields are separated by semicolons, as spreadsheets set to such a locale expect (common
  * practice, no source). Text cells are neutralised against formulas (escapeText.ts). The last column
  * holds the records' chain head, which pins the store's state the export was made from.
  */
-import { waitingConditions } from '../types/index.js';
+import { formatMeasured, measurementLabel, waitingConditions } from '../types/index.js';
 import type { StoredRun, UnitRecord } from '../types/index.js';
 import { csvText } from './escapeText.js';
 
 export const RECORD_CSV_COLUMNS = [
   'unit', 'attempt', 'attempt_state', 'run', 'run_id', 'started_at_utc', 'spec_revision', 'condition', 'output', 'measurement',
-  'value', 'unit_si', 'expanded_uncertainty', 'lower', 'upper', 'statement', 'note', 'attempt_notes', 'records_chain_head',
+  'label', 'value', 'unit_si', 'expanded_uncertainty', 'shown', 'lower', 'upper', 'statement', 'note', 'attempt_notes', 'records_chain_head',
 ] as const;
 
 export type DecimalMark = '.' | ',';
@@ -33,7 +35,8 @@ export function renderRecordCsv(rec: UnitRecord, mark: DecimalMark = '.'): strin
         lines.push(
           [
             cell(rec.unit), String(attempt), state, String(run.number ?? ''), String(run.id), cell(run.startedAt), cell(run.spec.revision),
-            cell(k.condition), cell(k.output), cell(k.measurement), num(k.value), cell(k.unit), num(k.expandedUncertainty),
+            cell(k.condition), cell(k.output), cell(k.measurement), cell(measurementLabel(k.measurement)), num(k.value), cell(k.unit), num(k.expandedUncertainty),
+            cell(shown(k.value, k.expandedUncertainty, k.unit, mark)),
             num(k.lower), num(k.upper), k.statement, cell(k.note ?? ''), cell(notes.join('; ')),
             // The store's chain head when the export was made (README "Records"), on every row.
             rec.source?.chainHead ?? '',
@@ -43,6 +46,13 @@ export function renderRecordCsv(rec: UnitRecord, mark: DecimalMark = '.'): strin
     }
   }
   return `${lines.join('\r\n')}\r\n`;
+}
+
+/** 'value ± U' as the reports show it, with the export's decimal mark; empty when withheld. */
+function shown(value: number | null, U: number | null, unit: string, mark: DecimalMark): string {
+  if (value === null || !Number.isFinite(value)) return '';
+  const text = formatMeasured(value, U, unit);
+  return mark === ',' ? text.replace(/(\d)\.(\d)/g, '$1,$2') : text;
 }
 
 /** The run that decides each attempt (its latest), oldest attempt first; each run alone without attempts. */

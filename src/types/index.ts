@@ -79,7 +79,7 @@ export type {
   TrimAdjustment,
   TrimAdvice,
 } from './calibration.js';
-export { MEASUREMENT_LABELS, measurementLabel } from './measurementLabels.js';
+export { MEASUREMENT_LABELS, measurementLabel, measurementLabelsOf } from './measurementLabels.js';
 export {
   MINUS,
   PREFIXABLE_UNITS,

@@ -46,3 +46,10 @@ export const MEASUREMENT_LABELS: Readonly<Record<MeasurementId, string>> = {
 export function measurementLabel(id: string): string {
   return (MEASUREMENT_LABELS as Readonly<Record<string, string>>)[id] ?? id;
 }
+
+/** The display names of the ids given, as one object for a JSON document's `labels` (ids in first-seen order). */
+export function measurementLabelsOf(ids: Iterable<string>): Readonly<Record<string, string>> {
+  const out: Record<string, string> = {};
+  for (const id of ids) if (!(id in out)) out[id] = measurementLabel(id);
+  return out;
+}

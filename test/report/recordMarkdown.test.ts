@@ -40,9 +40,12 @@ describe('renderRecordMarkdown', () => {
 });
 
 describe('renderRecordJson', () => {
-  it('round-trips the record with a runs array whose captures carry sha256', () => {
-    const doc = JSON.parse(renderRecordJson(rec)) as UnitRecord;
+  it('round-trips the record with a runs array whose captures carry sha256, adding each measurement’s display label', () => {
+    const { labels, ...doc } = JSON.parse(renderRecordJson(rec)) as UnitRecord & { labels: Record<string, string> };
     expect(doc).toEqual(rec);
+    // One display name per measurement id the record holds, from the label table.
+    expect(Object.keys(labels).sort()).toEqual([...new Set(rec.runs.flatMap((r) => r.verdict.conditions.flatMap((c) => c.checks.map((k) => k.measurement))))].sort());
+    expect(labels.frequency).toBe('frequency');
     expect(doc.schemaVersion).toBe(1);
     expect(doc.runs.every((r) => r.captures.length === 3 && r.captures.every((c) => /^[0-9a-f]{64}$/.test(c.sha256)))).toBe(true);
   });

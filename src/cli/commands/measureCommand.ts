@@ -2,6 +2,7 @@ import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
 import type { MeasureReport } from '../../types/index.js';
+import { measurementLabelsOf } from '../../types/index.js';
 import { createProgress } from '../progress.js';
 import type { ReadingFlags } from '../readingFlags.js';
 import { addReadingOptions, readingOptionsFrom } from '../readingFlags.js';
@@ -54,7 +55,9 @@ Examples:
         progress.stop();
       }
       if (json) {
-        const doc = reports.length === 1 ? reports[0] : { schemaVersion: 1, files: reports };
+        // Each measurement id's display name rides along (the label table; no report stage needed for JSON).
+        const labels = measurementLabelsOf(reports.flatMap((r) => r.channels.flatMap((c) => Object.keys(c.measurements))));
+        const doc = reports.length === 1 ? { ...reports[0], labels } : { schemaVersion: 1, files: reports, labels };
         ctx.io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
       } else {
         const { renderMeasureText } = await import('../../report/index.js');
