@@ -74,13 +74,28 @@ export function planFiles(spec: Spec, files: readonly string[], overrides: PlanO
 }
 
 /**
+ * Captures a long-running caller (watch) has checked before under the same spec and reading
+ * settings: `reused` gives the earlier result for a plan whose bytes it knows, `checked` is told of
+ * each new one. The analysis is pure, so the same bytes, plan and settings give the same result.
+ */
+export interface CheckedReuse {
+  reused(plan: SourcedPlan): CheckedCapture | undefined;
+  checked(plan: SourcedPlan, capture: CheckedCapture): void;
+}
+
+/**
  * Read, measure and bind every planned capture in order, then decide each unit and diagnose it.
  * The first capture that cannot be read stops the whole check with its BenchError.
  */
-export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonly SourcedPlan[], timing: TimingOptions, progress: Progress = quiet): Promise<CheckedUnit[]> {
+export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonly SourcedPlan[], timing: TimingOptions, progress: Progress = quiet, reuse?: CheckedReuse): Promise<CheckedUnit[]> {
   const checked: CheckedCapture[] = [];
   try {
     for (const plan of plans) {
+      const earlier = reuse?.reused(plan);
+      if (earlier) {
+        checked.push(earlier);
+        continue;
+      }
       let started = false;
       const capture = await readCapture(plan.readFrom ?? resolvePath(ctx.io.cwd, plan.path), {
         ...(spec.reading ? { ...spec.reading, profile: `${spec.file} captures.reading` } : {}),
@@ -92,7 +107,9 @@ export async function checkPlans(ctx: CommandContext, spec: Spec, plans: readonl
         },
       });
       const named = { ...capture, path: plan.path };
-      checked.push(bindCapture(spec, plan, named, measureCapture(named, { plotData: true, ...(spec.harmonicSet ? { harmonicSet: spec.harmonicSet } : {}) })));
+      const bound = bindCapture(spec, plan, named, measureCapture(named, { plotData: true, ...(spec.harmonicSet ? { harmonicSet: spec.harmonicSet } : {}) }));
+      reuse?.checked(plan, bound);
+      checked.push(bound);
     }
   } finally {
     progress.stop();
