@@ -1,38 +1,37 @@
 /**
- * Small dense linear systems for least-squares normal equations: Gaussian elimination with partial
- * pivoting (Golub & Van Loan, Matrix Computations, §3.4). Sizes here are 2 to 4.
+ * Small dense normal equations (the 3- and 4-parameter sine fits: sizes 2 to 4), solved by the
+ * analysis stage's one solver, the Cholesky factorisation of envelopeCholesky.ts with every row full.
+ * The matrices are symmetric by construction (AᵀA); an asymmetric one is a caller bug.
  */
+import { at, envelopeCholeskyFactor, envelopeCholeskySubstitute, envelopeOf, type Envelope } from './envelopeCholesky.js';
 
-/** Solves m·x = r; null when m is singular (degenerate data, e.g. a flat record). */
-export function solveLinear(m: readonly (readonly number[])[], r: readonly number[]): number[] | null {
-  const n = r.length;
-  const a = m.map((row, i) => [...row, r[i]]);
-  for (let c = 0; c < n; c++) {
-    let p = c;
-    for (let i = c + 1; i < n; i++) if (Math.abs(a[i][c]) > Math.abs(a[p][c])) p = i;
-    if (!(Math.abs(a[p][c]) > 0)) return null;
-    [a[c], a[p]] = [a[p], a[c]];
-    for (let i = c + 1; i < n; i++) {
-      const f = a[i][c] / a[c][c];
-      for (let j = c; j <= n; j++) a[i][j] -= f * a[c][j];
+function denseEnvelope(m: readonly (readonly number[])[]): Envelope {
+  const n = m.length;
+  const e = envelopeOf(new Int32Array(n));
+  for (let i = 0; i < n; i++) {
+    if (m[i].length !== n) throw new RangeError(`linearSystem: row ${i} has ${m[i].length} values for ${n} unknowns`);
+    for (let j = 0; j <= i; j++) {
+      // Tolerance for the rounding of sums accumulated in another order on each side.
+      if (!(Math.abs(m[i][j] - m[j][i]) <= 1e-12 * (Math.abs(m[i][j]) + Math.abs(m[j][i])))) {
+        throw new RangeError(`linearSystem: the matrix is not symmetric at (${i}, ${j}): ${m[i][j]} vs ${m[j][i]}`);
+      }
+      e.values[at(e, i, j)] = m[i][j];
     }
   }
-  const x = new Array<number>(n).fill(0);
-  for (let i = n - 1; i >= 0; i--) {
-    let s = a[i][n];
-    for (let j = i + 1; j < n; j++) s -= a[i][j] * x[j];
-    x[i] = s / a[i][i];
-  }
-  return x;
+  return e;
+}
+
+/** Solves m·x = r for a symmetric m; null when m is singular to working precision (e.g. a flat record). */
+export function solveLinear(m: readonly (readonly number[])[], r: readonly number[]): number[] | null {
+  const e = denseEnvelope(m);
+  const l = envelopeCholeskyFactor(e);
+  return l === null ? null : Array.from(envelopeCholeskySubstitute(e, l, Float64Array.from(r)));
 }
 
 /** Diagonal of m⁻¹ (variances up to σ² for a least-squares covariance); null when m is singular. */
 export function inverseDiagonal(m: readonly (readonly number[])[]): number[] | null {
-  const out: number[] = [];
-  for (let i = 0; i < m.length; i++) {
-    const col = solveLinear(m, m.map((_, j) => (i === j ? 1 : 0)));
-    if (!col) return null;
-    out.push(col[i]);
-  }
-  return out;
+  const e = denseEnvelope(m);
+  const l = envelopeCholeskyFactor(e);
+  if (l === null) return null;
+  return m.map((_, i) => envelopeCholeskySubstitute(e, l, Float64Array.from(m, (_, j) => (i === j ? 1 : 0)))[i]);
 }
