@@ -5,6 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { at, envelopeCholeskySolve, envelopeOf } from '../../src/analysis/fits/envelopeCholesky.js';
+import { inverseDiagonal, solveLinear } from '../../src/analysis/fits/linearSystem.js';
 import { createRandom } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 
@@ -62,5 +63,35 @@ describe('envelopeCholeskySolve', () => {
 
   it('envelopeOf refuses a row that starts after its own diagonal', () => {
     expect(() => envelopeOf(Int32Array.from([0, 2]))).toThrow(RangeError);
+  });
+});
+
+describe('solveLinear and inverseDiagonal (dense, through the same Cholesky)', () => {
+  // The 3×3 matrix [[4, 2, 2], [2, 5, 3], [2, 3, 6]] with x = (1, −2, 3) gives b = (6, 1, 14);
+  // its inverse is adj/det with det = 64 (cofactors worked by hand: 21, 20, 16 on the diagonal).
+  const m = [
+    [4, 2, 2],
+    [2, 5, 3],
+    [2, 3, 6],
+  ];
+
+  it('solveLinear recovers the solution of a small symmetric positive-definite system', () => {
+    const x = solveLinear(m, [6, 1, 14]);
+    expect(x).not.toBeNull();
+    [1, -2, 3].forEach((want, i) => expectWithin(x?.[i], want, { abs: 1e-13 }, 'x chosen, b = m·x by hand'));
+  });
+
+  it('inverseDiagonal gives the diagonal of the inverse, cofactor over determinant', () => {
+    const d = inverseDiagonal(m);
+    [21 / 64, 20 / 64, 16 / 64].forEach((want, i) => expectWithin(d?.[i], want, { rel: 1e-13 }, 'cofactor / determinant, by hand'));
+  });
+
+  it('solveLinear returns null for a singular matrix, as a flat record gives', () => {
+    expect(solveLinear([[1, 1], [1, 1]], [1, 1])).toBeNull();
+    expect(inverseDiagonal([[0, 0], [0, 0]])).toBeNull();
+  });
+
+  it('solveLinear refuses a matrix that is not symmetric, a caller bug', () => {
+    expect(() => solveLinear([[1, 2], [0, 1]], [1, 1])).toThrow(RangeError);
   });
 });
