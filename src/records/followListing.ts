@@ -8,7 +8,6 @@ import type { ChainEntry } from './chain.js';
 import type { AuditProblem, StoreAudit } from './auditStore.js';
 import type { DamagedRow } from './readRuns.js';
 import type { attemptFacts } from './attempts.js';
-import { compareSerials } from './unitSummaries.js';
 
 export interface UnitState {
   readonly rows: readonly { kind: 'run' | 'calibration'; id: number; digest: string; intact: boolean }[];
@@ -22,7 +21,8 @@ export interface FollowedStore {
   /** As auditStore(…, { archive: false }) would find it now. */
   readonly audit: StoreAudit;
   /** As listUnits gives them, with each unit's unverified runs. */
-  units(spec?: string): UnitSummary[];
+  /** The same array for the same snapshot and spec, so a caller may keep what it built from it. */
+  units(spec?: string): readonly UnitSummary[];
   /** How many rows were verified since the follower started, and how many full passes it made (for tests and the bench). */
   readonly verifiedRows: number;
   readonly fullPasses: number;
@@ -56,7 +56,7 @@ export function snapshot(entries: readonly ChainEntry[], linkProblems: readonly 
   const list = (spec?: string): UnitSummary[] => {
     let found = listed.get(spec);
     if (!found) listed.set(spec, (found = listFollowed(units, problems, spec)));
-    return [...found];
+    return found;
   };
   return { audit, units: list, verifiedRows, fullPasses };
 }
@@ -87,5 +87,12 @@ function listFollowed(units: ReadonlyMap<string, UnitState>, problems: readonly 
       ...(bad ? { unverifiedRuns: [...bad] } : {}),
     });
   }
-  return out.sort((a, b) => compareSerials(a.unit, b.unit));
+  return out.sort((a, b) => serialOrder(a.unit, b.unit));
+}
+
+// compareSerials (unitSummaries.ts) with one collator made once: localeCompare with options builds
+// a collator on every call, which dominated a listing of 2 000 units. Same options, same order.
+const SERIALS = new Intl.Collator('en', { numeric: true, sensitivity: 'base' });
+function serialOrder(a: string, b: string): number {
+  return SERIALS.compare(a, b) || (a < b ? -1 : a > b ? 1 : 0);
 }

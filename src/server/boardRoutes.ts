@@ -13,18 +13,21 @@ import { errorBody } from './errorBody.js';
 export function registerBoardRoutes(app: FastifyInstance, setup: BenchSetup): void {
   // The follower has verified the records up to the chain head it last saw; each answer verifies only
   // what was stored since (records/followStore.ts), and lists from light per-run heads.
+  // The rows of the last listing: an unchanged store gives the same listing, so the rows are kept.
+  let kept: { from: readonly UnitSummary[]; rows: ReturnType<typeof boardRow>[] } | undefined;
   app.get('/api/board', async () => {
     const current = currentSpec(setup);
     const spec = current.ok ? current.spec : undefined;
     const followed = await setup.follower.catchUp();
     setup.refuseUnverified(followed.audit);
     const units = followed.units(spec?.name);
+    if (kept?.from !== units) kept = { from: units, rows: [...units].sort(newestFirst).map(boardRow) };
     return {
       spec: spec ? { name: spec.name, revision: spec.revision, file: setup.specFile } : null,
       specProblem: current.ok ? null : current.error,
       data: setup.location.shown,
       canDrop: Boolean(spec),
-      units: units.sort(newestFirst).map(boardRow),
+      units: kept.rows,
     };
   });
   app.get('/api/events', (req, reply) => setup.hub.attach(req, reply));
