@@ -7,7 +7,6 @@
 import type { DecimalMark, Delimiter } from '../types/index.js';
 import { lineTooLong, MAX_LINE_BYTES } from './lines.js';
 import { blankRunError, MAX_BLANK_RUN } from './readerLimits.js';
-import type { RowSink } from './rowSink.js';
 import { EMPTY, fastDecimal, MARKER, NUMBER, NumberScanner, TEXT } from './scanNumber.js';
 
 const SPACE = 32;
@@ -25,6 +24,12 @@ export interface ScannerLayout {
   readonly columnCount: number;
   readonly firstLine: number;
   readonly file: string;
+}
+
+/** Where the scanner puts rows: the RowSink, or a piece reader's own sink (pieceReader.ts). */
+export interface RowTarget {
+  push(vals: Float64Array, kinds: Uint8Array, exps: Int32Array, fieldCount: number, line: number): boolean;
+  readonly pending: { text: string } | null;
 }
 
 export class ByteScanner {
@@ -50,7 +55,7 @@ export class ByteScanner {
 
   constructor(
     private readonly layout: ScannerLayout,
-    private readonly sink: RowSink,
+    private readonly sink: RowTarget,
   ) {
     this.line = layout.firstLine;
     this.num = new NumberScanner(layout.decimalMark.charCodeAt(0));
@@ -67,6 +72,11 @@ export class ByteScanner {
     this.vals = new Float64Array(this.maxFields);
     this.kinds = new Uint8Array(this.maxFields);
     this.exps = new Int32Array(this.maxFields);
+  }
+
+  /** The number of the next line to read (lines read so far = nextLine − firstLine). */
+  get nextLine(): number {
+    return this.line;
   }
 
   feed(chunk: Buffer): void {

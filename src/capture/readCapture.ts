@@ -17,6 +17,8 @@ import { RowSink, sampleLimit, SKIP, X_COLUMN } from './rowSink.js';
 import { sniffLayout } from './sniff.js';
 import type { Sniffed } from './sniff.js';
 import { openSource } from './source.js';
+import { PIECE_BYTES, planPieces, readPlainInPieces, slotRowsOf, startWorkerPool, workersFor } from './parallelRead.js';
+import type { PieceHelpers } from './parallelRead.js';
 import { TimeAxis } from './timeAxis.js';
 import { givenInterval, noTimeBase } from './timing.js';
 
@@ -24,11 +26,27 @@ export async function readCapture(path: string, options: ReadCaptureOptions = {}
   return (await readCaptureLines(path, options)).capture;
 }
 
+/**
+ * How a large plain file is read in pieces: by default worker threads, for files from 12 MiB on;
+ * a runner of null reads in one thread (tests and the benchmark compare the two).
+ */
+export interface PieceOptions {
+  readonly helpers: (() => PieceHelpers) | null;
+  readonly pieceBytes: number;
+}
+
 /** The capture and the opening lines it was sniffed from (for `inspect`). */
-export async function readCaptureLines(path: string, options: ReadCaptureOptions = {}): Promise<{ capture: Capture; lines: SampleLines; sniffed: Sniffed }> {
+export async function readCaptureLines(
+  path: string,
+  options: ReadCaptureOptions = {},
+  pieceOptions?: PieceOptions,
+): Promise<{ capture: Capture; lines: SampleLines; sniffed: Sniffed }> {
   checkOptions(options);
   const source = await openSource(path, { onProgress: options.onProgress, unpackLimitMB: options.unpackLimitMB });
   const chunks = source.chunks[Symbol.asyncIterator]();
+  // The workers start loading now, while this thread sniffs the layout.
+  const workers = pieceOptions || source.compressed || options.segment !== undefined ? 0 : workersFor(source.size);
+  let helpers: PieceHelpers | null = pieceOptions ? (pieceOptions.helpers?.() ?? null) : workers > 0 ? startWorkerPool(workers) : null;
   try {
     const gathered = await gatherSample(chunks);
     const { done } = gathered;
@@ -52,24 +70,39 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
     if (x === null && givenInterval(options, meta) === null) throw noTimeBase(path, sniffed.firstDataLine);
     if (!source.compressed) refuseBeyondMemory(lines, sniffed, source.size, kept.length, path);
     const axis = x === null ? null : new TimeAxis(path, x === roles.timeColumn ? 'time' : 'sample-index', x === roles.timeColumn);
+    const shortest = shortestRowBytes(lines, sniffed);
+    const pieces = helpers && !clock && sniffed.quotes !== 'complex' && Number.isFinite(shortest) ? planPieces(sniffed.dataOffset, source.size, pieceOptions?.pieceBytes ?? PIECE_BYTES, shortest) : null;
+    const inPieces = pieces !== null && slotRowsOf(pieces) * Math.max(1, kept.length) <= sampleLimit();
+    if (!inPieces && helpers) {
+      await helpers.close();
+      helpers = null;
+    }
+    const targets = Int32Array.from(roles.columns, (_, c) => (c === x ? X_COLUMN : kept.includes(c) ? kept.indexOf(c) : SKIP));
+    const scales = Float64Array.from(roles.columns, (c) => c.scale);
     const sink = new RowSink({
       file: path,
       columnCount: sniffed.columnCount,
       trailingDelimiter: sniffed.trailingDelimiter,
-      targets: Int32Array.from(roles.columns, (_, c) => (c === x ? X_COLUMN : kept.includes(c) ? kept.indexOf(c) : SKIP)),
-      scales: Float64Array.from(roles.columns, (c) => c.scale),
+      targets,
+      scales,
       axis,
-      capacity: source.compressed ? 1 << 16 : estimateRows(lines, sniffed, source.size),
+      capacity: inPieces ? slotRowsOf(pieces) : source.compressed ? 1 << 16 : estimateRows(lines, sniffed, source.size),
+      shared: inPieces,
       leadColumn: x ?? kept[0] ?? 0,
       ...(options.segment !== undefined ? { segment: options.segment } : {}),
     });
     const data = sample.subarray(sniffed.dataOffset);
-    if (sniffed.quotes === 'complex') {
+    const layout = { ...sniffed, terminator: lines.terminator, firstLine: sniffed.firstDataLine, file: path };
+    if (inPieces && helpers) {
+      const h = helpers;
+      helpers = null;
+      await readPlainInPieces({ helpers: h, tasks: pieces!, sink, layout, targets, scales, trailingDelimiter: sniffed.trailingDelimiter, dataStart: sniffed.dataOffset, size: source.size, rest });
+    } else if (sniffed.quotes === 'complex') {
       // papaparse loads only for the quoted layouts that need it, not at every start.
       const { readWithPapa } = await import('./papaRows.js');
       await readWithPapa(data, rest, { ...sniffed, lineEnding: lines.lineEnding, firstLine: sniffed.firstDataLine }, sink, path);
     } else {
-      const scanner = new ByteScanner({ ...sniffed, terminator: lines.terminator, firstLine: sniffed.firstDataLine, file: path }, sink);
+      const scanner = new ByteScanner(layout, sink);
       scanner.feed(data);
       for await (const chunk of rest) scanner.feed(chunk);
       scanner.end();
@@ -78,6 +111,7 @@ export async function readCaptureLines(path: string, options: ReadCaptureOptions
     const capture = clock ? { ...assembled, warnings: [clockWarning(sniffed.firstDataLine), ...assembled.warnings] } : assembled;
     return { capture, lines, sniffed };
   } finally {
+    await helpers?.close();
     await chunks.return?.();
   }
 }
@@ -125,14 +159,19 @@ async function gatherSample(chunks: AsyncIterator<Buffer>): Promise<{ sample: Bu
  * a short guess costs a second, larger set of columns and a copy.
  */
 function estimateRows(lines: SampleLines, s: Sniffed, size: number): number {
+  const shortest = shortestRowBytes(lines, s);
+  return Number.isFinite(shortest) ? Math.ceil((size - s.dataOffset) / shortest) + 16 : 1024;
+}
+
+/** The shortest sniffed row less its minus signs (at least 2 bytes), or Infinity with fewer than two rows. */
+function shortestRowBytes(lines: SampleLines, s: Sniffed): number {
   const data = lines.lines.filter((l) => l.line >= s.firstDataLine);
-  if (data.length < 2) return 1024;
   let shortest = Infinity;
   for (let i = 0; i + 1 < data.length; i++) {
     const bytes = data[i + 1].start - data[i].start - (data[i].text.split('-').length - 1);
     if (bytes < shortest) shortest = bytes;
   }
-  return Math.ceil((size - s.dataOffset) / Math.max(2, shortest)) + 16;
+  return Math.max(2, shortest);
 }
 
 /**

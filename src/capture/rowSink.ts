@@ -33,6 +33,8 @@ export interface SinkConfig {
   readonly leadColumn?: number;
   /** Which acquisition to keep when the time restarts (1-based, default 1). */
   readonly segment?: number;
+  /** Columns in SharedArrayBuffers, for reading pieces of the file in worker threads. */
+  readonly shared?: boolean;
 }
 
 /**
@@ -97,7 +99,8 @@ export class RowSink {
     this.maxSamples = sampleLimit(cfg.maxSamples);
     this.maxRows = Math.floor(this.maxSamples / Math.max(1, kept.length));
     this.capacity = Math.min(this.maxRows, Math.max(16, cfg.capacity));
-    this.columns = kept.map(() => new Float64Array(this.capacity));
+    const bytes = this.capacity * Float64Array.BYTES_PER_ELEMENT;
+    this.columns = kept.map(() => new Float64Array(cfg.shared ? new SharedArrayBuffer(bytes) : new ArrayBuffer(bytes)));
     this.invalid = new Array<number>(kept.length).fill(0);
     this.firstInvalid = new Array<number | undefined>(kept.length).fill(undefined);
   }
@@ -133,6 +136,59 @@ export class RowSink {
     this.lastLine = line;
     this.length = row + 1;
     return true;
+  }
+
+  /** The columns as allocated (shared when `shared`), for the piece readers to write into. */
+  get buffers(): readonly Float64Array[] {
+    return this.columns;
+  }
+
+  get rowCapacity(): number {
+    return this.capacity;
+  }
+
+  /**
+   * Takes `rows` rows that a piece reader has already checked (every field a number within the
+   * overflow markers, the count of fields right) and written into the columns from row `from` on,
+   * one per line from `firstLine`; the x values and their print exponents come in `times`/`exps`.
+   * Each row goes through the same time-base and acquisition rules as push(), and kept rows move
+   * down to the end of the rows so far, so the result is the one push() gives row by row.
+   */
+  commitRows(times: Float64Array, exps: Int32Array, rows: number, firstLine: number, from: number): void {
+    const x = this.xColumn;
+    let runSrc = from;
+    let runLen = 0;
+    for (let j = 0; j < rows; j++) {
+      const line = firstLine + j;
+      if (x >= 0) {
+        let keep = true;
+        if (this.segments > this.wanted) {
+          this.afterKept(times[j], line);
+          keep = false;
+        } else if (this.cfg.axis!.push(times, j, exps[j], line) !== SAME_SEGMENT && !this.newSegment(times, j, exps[j], line)) keep = false;
+        else if (this.skipping) keep = false;
+        if (!keep) {
+          this.moveRun(runSrc, runLen);
+          runSrc = from + j + 1;
+          runLen = 0;
+          continue;
+        }
+      }
+      if (this.length + runLen === this.maxRows) {
+        this.moveRun(runSrc, runLen);
+        throw this.tooLarge();
+      }
+      if (this.length + runLen === 0) this.firstLine = line;
+      this.lastLine = line;
+      runLen++;
+    }
+    this.moveRun(runSrc, runLen);
+  }
+
+  private moveRun(src: number, n: number): void {
+    if (n === 0) return;
+    if (src !== this.length) for (const c of this.columns) c.copyWithin(this.length, src, src + n);
+    this.length += n;
   }
 
   /**
