@@ -29,4 +29,5 @@ export { spanOctaves } from './fits/cents.js';
 export { trackingFit } from './fits/trackingFit.js';
 export type { TrackingFit, TrackingFitOptions, TrackingLaw, TrackingPoint } from './fits/trackingFit.js';
 export { plotDecimate, plotDecimateSeries } from './plots/plotDecimate.js';
+export { mean, standardDeviation } from './stats.js';
 export type { PlotColumns } from './plots/plotDecimate.js';

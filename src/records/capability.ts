@@ -5,6 +5,7 @@
  * A one-sided tolerance has only Cpu or Cpl, which is then Cpk; Cp needs both limits.
  */
 import type { Capability } from '../types/index.js';
+import { mean, standardDeviation } from '../analysis/index.js';
 
 export interface CapabilityInput {
   readonly mean: number;
@@ -38,21 +39,15 @@ export interface SampleSummary {
   readonly max: number | null;
 }
 
-/** Mean, sample standard deviation (two-pass, to keep rounding small for values far from zero), range. */
+/** Mean, sample standard deviation (the analysis stage's statistics), range. */
 export function describeSample(values: readonly number[]): SampleSummary {
   const n = values.length;
   if (n === 0) return { count: 0, mean: null, sd: null, min: null, max: null };
-  let sum = 0;
   let min = Infinity;
   let max = -Infinity;
   for (const v of values) {
-    sum += v;
     if (v < min) min = v;
     if (v > max) max = v;
   }
-  const mean = sum / n;
-  if (n < 2) return { count: n, mean, sd: null, min, max };
-  let ss = 0;
-  for (const v of values) ss += (v - mean) ** 2;
-  return { count: n, mean, sd: Math.sqrt(ss / (n - 1)), min, max };
+  return { count: n, mean: mean(values), sd: n < 2 ? null : standardDeviation(values), min, max };
 }

@@ -15,6 +15,7 @@
  * the refinement shift |mode − refined| taken as the half-width of a rectangular distribution (Type B,
  * GUM §4.3.7), which states how much the bin choice alone can move the level.
  */
+import { standardDeviationFromSums } from '../stats.js';
 
 export interface StateLevelsOptions {
   readonly bins?: number;
@@ -100,8 +101,7 @@ function refine(h: Histograms, start: number, bins: number): { level: number; u:
     if (moved < fineWidth * 1e-3) break;
   }
   const n = stats.n;
-  const variance = n > 1 ? Math.max(0, (stats.sumSq - (stats.sum * stats.sum) / n) / (n - 1)) : 0;
-  const typeA = n > 0 ? Math.sqrt(variance / n) : h.width;
+  const typeA = n > 0 ? standardDeviationFromSums(n, stats.sum, stats.sumSq) / Math.sqrt(n) : h.width;
   const typeB = Math.abs(level - start) / Math.sqrt(3);
   return { level, u: Math.hypot(typeA, typeB), n };
 }
