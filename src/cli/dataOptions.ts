@@ -28,9 +28,12 @@ export interface DataLocation {
   readonly source: '--data' | 'BENCHPROOF_DATA' | 'default' | '--store' | 'BENCHPROOF_STORE';
   /** The shared store, when one is set (--store URL or BENCHPROOF_STORE). */
   readonly shared?: SharedLocation;
-  /** The data folder as shown, also when a shared store is set. */
-  readonly folder: string;
+  /** With a shared store: the data folder as shown (`shown` names the store then); see folderOf. */
+  readonly folder?: string;
 }
+
+/** The data folder as shown, whether or not a shared store is set. */
+export const folderOf = (location: DataLocation): string => location.folder ?? location.shown;
 
 export interface SharedLocation {
   /** As given, password included: only ever handed to the driver. */
@@ -62,7 +65,7 @@ export function resolveDataDir(ctx: CommandContext, flags: StoreFlags): DataLoca
   const folder = rel === '' ? '.' : !rel.startsWith('..') && !isAbsolute(rel) ? `./${rel}` : dir;
   const shared = resolveSharedStore(ctx, flags);
   if (shared) return { dir, shown: shared.shown, source: shared.source, shared, folder };
-  return { dir, shown: folder, source, folder };
+  return { dir, shown: folder, source };
 }
 
 /** The shared store from --store URL, else BENCHPROOF_STORE (empty means none); undefined for the embedded store. */

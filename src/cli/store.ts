@@ -19,7 +19,7 @@ import { TOOL_VERSION } from './version.js';
 import { attemptFields, describeStoredRun, nextStep } from './attemptNotice.js';
 import type { AttemptRequest } from './attemptNotice.js';
 import { writeOutputFile } from './outputFile.js';
-import { notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
+import { folderOf, notice, quoteArg, resolveDataDir, resolveOperator, stationName } from './dataOptions.js';
 import type { DataLocation, StoreFlags } from './dataOptions.js';
 
 // The option helpers live in dataOptions.ts, which loads no records code; re-exported for callers.
@@ -75,13 +75,13 @@ export function openVerifiedStore(ctx: CommandContext, flags: StoreFlags, mode: 
 function openSharedStore(ctx: CommandContext, location: DataLocation, mode: 'read' | 'write', unverified: 'refuse' | 'mark'): RecordStore {
   const shared = location.shared as NonNullable<DataLocation['shared']>;
   checkStoreUrl(shared.url, shared.source);
-  const openLocal = (): RecordStore => openStore(location.dir, { mode: 'write', label: location.folder, unverified });
+  const openLocal = (): RecordStore => openStore(location.dir, { mode: 'write', label: folderOf(location), unverified });
   let store: RecordStore;
   try {
     store = openPgStore(shared.url, { cacheDir: location.dir, unverified });
   } catch (err) {
     if (mode === 'read' || !isUnreachableError(err)) throw err;
-    ctx.io.stderr(`benchproof: the shared store ${shared.shown} did not answer; runs are kept on this bench in ${location.folder} and sent at the next command or with benchproof sync\n`);
+    ctx.io.stderr(`benchproof: the shared store ${shared.shown} did not answer; runs are kept on this bench in ${folderOf(location)} and sent at the next command or with benchproof sync\n`);
     return asOutbox(openLocal());
   }
   sendWaiting(ctx, location, store);
@@ -92,7 +92,7 @@ function openSharedStore(ctx: CommandContext, location: DataLocation, mode: 'rea
       return save(store, { ...hooks, uid });
     } catch (err) {
       if (!isUnreachableError(err)) throw err;
-      ctx.io.stderr(`benchproof: the shared store ${shared.shown} stopped answering; this run is kept on this bench in ${location.folder} and sent at the next command or with benchproof sync\n`);
+      ctx.io.stderr(`benchproof: the shared store ${shared.shown} stopped answering; this run is kept on this bench in ${folderOf(location)} and sent at the next command or with benchproof sync\n`);
       local ??= openLocal();
       return save(local, { ...hooks, uid, outbox: true });
     }
@@ -132,7 +132,7 @@ function isUnreachableError(err: unknown): boolean {
 export function waitingRuns(ctx: CommandContext, flags: StoreFlags): OutboxEntry[] {
   const location = resolveDataDir(ctx, flags);
   if (!location.shared || !isStoreFolder(location.dir)) return [];
-  const local = openStore(location.dir, { mode: 'write', label: location.folder });
+  const local = openStore(location.dir, { mode: 'write', label: folderOf(location) });
   try {
     return local.unsent();
   } finally {
@@ -163,7 +163,7 @@ export function sendWaiting(ctx: CommandContext, location: DataLocation, shared:
   const tty = ctx.io.stderrIsTTY && !ctx.json;
   let sent = 0;
   try {
-    sent = pushOutbox(location.dir, location.folder, shared, (done, total) => {
+    sent = pushOutbox(location.dir, folderOf(location), shared, (done, total) => {
       sent = done;
       if (tty) ctx.io.stderr(`\rbenchproof: sending waiting runs ${done}/${total}`);
     }).pushed.length;
@@ -174,7 +174,7 @@ export function sendWaiting(ctx: CommandContext, location: DataLocation, shared:
     return { sent, waiting: waiting.length - sent };
   }
   if (tty) ctx.io.stderr('\n');
-  ctx.io.stderr(`benchproof: sent ${sent} run(s) waiting on this bench (${location.folder}) to the shared store ${shared.location}\n`);
+  ctx.io.stderr(`benchproof: sent ${sent} run(s) waiting on this bench (${folderOf(location)}) to the shared store ${shared.location}\n`);
   return { sent, waiting: 0 };
 }
 
@@ -203,7 +203,7 @@ export function storeCheckedUnits(ctx: CommandContext, flags: StoreFlags, units:
   }
   const where =
     store.engine === 'embedded' && location.shared
-      ? `${location.folder}, waiting to be sent to ${location.shown} (benchproof sync sends it)`
+      ? `${folderOf(location)}, waiting to be sent to ${location.shown} (benchproof sync sends it)`
       : `${location.shown}${location.source === 'default' ? ' (BENCHPROOF_DATA or --data chooses another folder)' : ` (from ${location.source})`}`;
   if (stored.length === 1) {
     const r = stored[0];

@@ -16,7 +16,8 @@ import { isSkipped, startPgCluster } from '../helpers/pgCluster.js';
 import type { PgCluster } from '../helpers/pgCluster.js';
 import { removeTempDir } from './helpers/tempData.js';
 import { maskStoreUrl } from '../../src/cli/dataOptions.js';
-import { shownStore } from '../../src/records/index.js';
+import { openPgStore, openStore, shownStore } from '../../src/records/index.js';
+import { kestrelRun } from './fixtures/kestrelRun.js';
 
 const started = startPgCluster();
 const skip = isSkipped(started) ? started.skip : undefined;
@@ -121,6 +122,26 @@ describe.skipIf(skip !== undefined)('the shared store through the command line',
     const listed = JSON.parse((await runCli(['units', '--json'], { env: { BENCHPROOF_DATA: folder(), BENCHPROOF_STORE: url } })).stdout);
     expect(listed.units.map((u: { unit: string; runs: number }) => [u.unit, u.runs])).toEqual([['FK-0102', 1]]);
     expect(cluster.psql("SELECT COUNT(*), COUNT(origin_uid), COUNT(origin_digest) FROM runs", 'outbox')).toBe('1|1|1\n');
+  });
+
+  it('a push cut off after the server stored a run but before the bench marked it sent stores it once when repeated', async () => {
+    const url = cluster.createDatabase('halfsent');
+    const data = folder();
+    // The bench stored two runs in its outbox (the server out of reach) …
+    const local = openStore(data);
+    local.saveRun(kestrelRun({ unit: 'FK-0201', startedAt: '2026-03-02T09:00:00.000Z' }), { uid: 'bench-x:1', outbox: true });
+    local.saveRun(kestrelRun({ unit: 'FK-0202', startedAt: '2026-03-02T09:10:00.000Z' }), { uid: 'bench-x:2', outbox: true });
+    const waiting = local.unsent();
+    local.close();
+    expect(waiting.map((w) => [w.unit, w.uid])).toEqual([['FK-0201', 'bench-x:1'], ['FK-0202', 'bench-x:2']]);
+    // … and the first push reached the server's commit, then the bench lost power before its mark.
+    const shared = openPgStore(url, { cacheDir: data });
+    shared.saveRun(kestrelRun({ unit: 'FK-0201', startedAt: '2026-03-02T09:00:00.000Z' }), { uid: 'bench-x:1' });
+    shared.close();
+    const sync = await runCli(['sync', '--json'], { env: { BENCHPROOF_DATA: data, BENCHPROOF_STORE: url } });
+    expect(sync.code, sync.stderr).toBe(0);
+    expect(JSON.parse(sync.stdout)).toMatchObject({ sent: 2, waiting: 0 });
+    expect(cluster.psql('SELECT unit, origin_uid FROM runs ORDER BY id', 'halfsent')).toBe('FK-0201|bench-x:1\nFK-0202|bench-x:2\n');
   });
 
   it('never prints the password of the store: not in notices, errors or JSON', async () => {

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { resolveDataDir } from '../dataOptions.js';
+import { folderOf, resolveDataDir } from '../dataOptions.js';
 
 interface CopyOptions {
   from: string;
@@ -31,22 +31,22 @@ Examples:
       const from = resolveDataDir(ctx, { data: opts.from, store: false });
       const to = shownStore(opts.to);
       const tty = ctx.progressAllowed(json);
-      const result = openSharedCopy(from.dir, from.folder, opts.to, (done, total) => {
+      const result = openSharedCopy(from.dir, folderOf(from), opts.to, (done, total) => {
         if (tty) ctx.io.stderr(`\rbenchproof: copying ${done}/${total}`);
       });
       if (tty) ctx.io.stderr('\n');
       if (json) {
         const { audit, ...counts } = result;
-        ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, from: from.folder, to, ...counts, chainHead: audit.head, verified: { chained: audit.chained, captures: audit.archived } }, null, 2)}\n`);
+        ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, from: folderOf(from), to, ...counts, chainHead: audit.head, verified: { chained: audit.chained, captures: audit.archived } }, null, 2)}\n`);
         return;
       }
       const { runs, iterations, captures, audit } = result;
       ctx.io.stdout(
-        `copied ${runs.copied} run(s) and ${iterations.copied} calibration iteration(s) from ${from.folder} to ${to}` +
+        `copied ${runs.copied} run(s) and ${iterations.copied} calibration iteration(s) from ${folderOf(from)} to ${to}` +
           ` (${runs.present + iterations.present} already there); ${captures} capture(s)\n` +
           `verified ${audit.chained} fingerprint(s) in the chain and ${audit.archived} capture(s); chain head ${audit.head}\n`,
       );
-      ctx.io.stderr(`benchproof: the records of ${from.folder} are in ${to}; next: benchproof units --store ${to.includes(' ') ? `"${to}"` : to}\n`);
+      ctx.io.stderr(`benchproof: the records of ${folderOf(from)} are in ${to}; next: benchproof units --store ${to.includes(' ') ? `"${to}"` : to}\n`);
     });
   return store;
 }

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
-import { addDataOption } from '../dataOptions.js';
+import { addDataOption, folderOf } from '../dataOptions.js';
 import type { StoreFlags } from '../dataOptions.js';
 import { BenchError } from '../../types/index.js';
 
@@ -49,9 +49,9 @@ Examples:
       const after = waitingRuns(ctx, opts).length;
       const sent = before - after;
       if (json) {
-        ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, store: location.shown, dataDir: location.folder, sent, waiting: after }, null, 2)}\n`);
+        ctx.io.stdout(`${JSON.stringify({ schemaVersion: 1, store: location.shown, dataDir: folderOf(location), sent, waiting: after }, null, 2)}\n`);
         return;
       }
-      ctx.io.stdout(sent === 0 ? `nothing waiting on this bench (${location.folder}) for ${location.shown}\n` : `sent ${sent} run(s) from ${location.folder} to ${location.shown}; nothing waiting\n`);
+      ctx.io.stdout(sent === 0 ? `nothing waiting on this bench (${folderOf(location)}) for ${location.shown}\n` : `sent ${sent} run(s) from ${folderOf(location)} to ${location.shown}; nothing waiting\n`);
     });
 }
