@@ -129,8 +129,8 @@ describe('the board follower', () => {
     writable("UPDATE runs SET operator = 'someone else' WHERE unit = 'FK-0201'");
     follower.changed();
     let seen = await follower.catchUp();
-    for (let i = 0; i < 200 && seen.fullPasses === first.fullPasses; i++) {
-      await new Promise((done) => setTimeout(done, 10));
+    for (const end = Date.now() + 30_000; Date.now() < end && seen.fullPasses === first.fullPasses; ) {
+      await new Promise((done) => setTimeout(done, 20));
       seen = await follower.catchUp();
     }
     expect(seen.fullPasses).toBe(2);
@@ -168,8 +168,8 @@ describe('the board follower', () => {
     db.close();
     follower.changed();
     let seen = await follower.catchUp();
-    for (let i = 0; i < 200 && seen.fullPasses < 2; i++) {
-      await new Promise((done) => setTimeout(done, 10));
+    for (const end = Date.now() + 30_000; Date.now() < end && seen.fullPasses < 2; ) {
+      await new Promise((done) => setTimeout(done, 20));
       seen = await follower.catchUp();
     }
     expect(seen.audit.problems.map(byRow)).toEqual(fullAudit().problems.map(byRow));
@@ -188,8 +188,8 @@ describe('the board follower', () => {
     writable("UPDATE runs SET operator = 'someone else' WHERE id = ?", first.id);
     follower.changed();
     let seen = await follower.unitRuns('FK-0202');
-    for (let i = 0; i < 200 && seen.audit.problems.length === 0; i++) {
-      await new Promise((done) => setTimeout(done, 10));
+    for (const end = Date.now() + 30_000; Date.now() < end && seen.audit.problems.length === 0; ) {
+      await new Promise((done) => setTimeout(done, 20));
       seen = await follower.unitRuns('FK-0202');
     }
     expect(seen.runs.find((r) => r.id === first.id)?.intact).toBe(false);
