@@ -151,7 +151,8 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
       .all()
       .map((r) => String((r as { unit: string }).unit));
     const top = db.prepare('SELECT (SELECT COALESCE(MAX(id), 0) FROM runs) AS run, (SELECT COALESCE(MAX(id), 0) FROM calibration_iterations) AS iteration').get() as { run: number; iteration: number };
-    for (const unit of [...units.keys()]) if (!all.includes(unit)) units.delete(unit);
+    const present = new Set(all);
+    for (const unit of [...units.keys()]) if (!present.has(unit)) units.delete(unit);
     for (const unit of all) {
       if (closed) return;
       verifyUnit(unit);
