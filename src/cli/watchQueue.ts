@@ -10,14 +10,21 @@ export interface SerialQueue {
   finish(): Promise<void>;
 }
 
+/** Told when a file is taken in hand, and when nothing is in hand or waiting any more. */
+export interface QueueActivity {
+  busy?(): void;
+  idle?(): void;
+}
+
 /** A handler that throws (it should not) still gives an error line, never a stopped watcher. */
-export function serialQueue(handle: CaptureHandler, print: (o: CaptureOutcome) => void): SerialQueue {
+export function serialQueue(handle: CaptureHandler, print: (o: CaptureOutcome) => void, activity: QueueActivity = {}): SerialQueue {
   const waiting: string[] = [];
   let busy: Promise<void> | null = null;
   let stopping = false;
   const drain = async (): Promise<void> => {
     while (!stopping && waiting.length > 0) {
       const file = waiting.shift() as string;
+      activity.busy?.();
       print(await handle(file).catch((error: Error): CaptureOutcome => ({ status: 'error', file, error })));
     }
   };
@@ -25,6 +32,7 @@ export function serialQueue(handle: CaptureHandler, print: (o: CaptureOutcome) =
     if (busy || stopping || waiting.length === 0) return;
     busy = drain().finally(() => {
       busy = null;
+      if (!stopping && waiting.length === 0) activity.idle?.();
       kick(); // a file may have arrived while the loop was ending
     });
   };

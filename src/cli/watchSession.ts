@@ -17,6 +17,7 @@ import type { StoreFlags } from './store.js';
 import { checkEachCapture } from './watchCapture.js';
 import type { CaptureHandlerFactory, CaptureOutcome, WatchEnv } from './watchCapture.js';
 import { serialQueue } from './watchQueue.js';
+import { fullCollection, memoryRelease } from './watchMemory.js';
 import type { AttemptRequest } from './attemptNotice.js';
 import { watchFolder } from './watchFolder.js';
 import { countOutcome, emptyTally, outcomeLines, summaryLine } from './watchLines.js';
@@ -68,7 +69,10 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
       if (lines.stderr) ctx.io.stderr(lines.stderr);
     };
     for (const bad of namesNotUtf8(dir)) print({ status: 'error', file: join(settings.dir, bad.shown), error: badNameError(bad.shown) });
-    const queue = serialQueue((settings.onCapture ?? checkEachCapture)(env), print);
+    // Memory taken by a large capture is given back once the queue has gone quiet (watchMemory.ts).
+    const collect = fullCollection();
+    const memory = collect ? memoryRelease({ rss: () => process.memoryUsage.rss(), collect }) : undefined;
+    const queue = serialQueue((settings.onCapture ?? checkEachCapture)(env), print, { busy: () => memory?.busy(), idle: () => memory?.idle() });
     const folder = watchFolder(dir, {
       settleMs: settings.settleMs,
       includeExisting: !settings.newOnly,
@@ -82,6 +86,7 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
     if (!stop.aborted) ctx.io.stderr(startLine(settings, spec, location.shown));
     await stopped;
     await queue.finish();
+    memory?.close();
     const waiting = folder.pending() + queue.waiting();
     await folder.close();
     ctx.io.stderr(summaryLine(tally, settings.json, { waiting, data: location.shown }));
