@@ -47,7 +47,7 @@ export function prepareRun(run: NewRun): PreparedRun {
   // Read before the transaction: a bench's slow disk does not hold the store-wide lock.
   const bytes = run.captures.map((c) => {
     if (!c.bytes && c.sourcePath === undefined) throw new TypeError(`pgSaveRun: capture ${c.path} has neither bytes nor sourcePath`);
-    const b = c.bytes ? Buffer.from(c.bytes) : readFileSync(c.sourcePath as string);
+    const b = c.bytes ? Buffer.from(c.bytes) : readSource(c.path, c.sourcePath as string);
     if (sha256Hex(b) !== c.sha256) throw changedCapture(c.path, sha256Hex(b), c.sha256);
     return b;
   });
@@ -94,6 +94,21 @@ function storedRunById(client: PgSyncClient, id: number): StoredRun {
   const found = runs.find((r) => r.id === id);
   if (!found) throw new RangeError(`pgSaveRun: run #${id} of ${unit} is stored but does not read back as a run`);
   return found;
+}
+
+/** The capture's bytes from its file; a file gone or unreadable is the user's to put back, not a crash. */
+function readSource(path: string, source: string): Buffer {
+  try {
+    return readFileSync(source);
+  } catch (err) {
+    throw new BenchError({
+      code: 'records.capture-missing',
+      file: path,
+      problem: `the capture could not be read again for the shared store (${(err as { code?: string }).code ?? 'read error'}); nothing was stored`,
+      expected: 'the capture file (or its archived copy in the data folder) still in place until the run is stored',
+      fix: 'put the file back where it was and run the command again',
+    });
+  }
 }
 
 function changedCapture(path: string, now: string, was: string): BenchError {
