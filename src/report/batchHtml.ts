@@ -16,11 +16,11 @@ function specSection(s: SpecBatch): string {
     ['unit', 'runs', 'first pass', 'latest', 'last tested'],
     s.units.map((u) => `<tr><td>${esc(u.unit)}</td>${numCell(u.runs, String(u.runs))}<td>${u.firstComplete ? statusHtml(u.firstComplete) : esc(unitFirst(u))}</td><td>${u.state === 'incomplete' ? esc(unitLatest(u)) : statusHtml(u.latest)}</td><td>${esc(formatTime(u.lastTestedAt))}</td></tr>`),
   );
-  const stats = table(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk'], s.measurements.map((m) => statsRow(s, m)));
+  const stats = table(['condition', 'output', 'measurement', 'n', 'mean', 's', 'min', 'max', 'LSL', 'USL', 'Cp', 'Cpk'], s.measurements.map((m) => statsRow(s, m)), 'stats');
   const hists = s.measurements
     .map((m) => {
       const title = `${m.condition} · ${m.output} · ${measurementLabel(m.measurement)}`;
-      const svg = renderHistogramSvg({ title, unit: m.unit, values: m.values.map((v) => v.value), lower: m.lower, upper: m.upper, mean: m.mean });
+      const svg = renderHistogramSvg({ title, unit: m.unit, values: m.values.map((v) => v.value), lower: m.lower, upper: m.upper, mean: m.mean, axisName: measurementLabel(m.measurement) });
       return svg ? `<figure>${svg}<figcaption>${esc(title)}: ${m.count} units, Cpk ${esc(formatIndex(m.cpk))}</figcaption></figure>` : '';
     })
     .join('');
@@ -31,7 +31,7 @@ function specSection(s: SpecBatch): string {
     ['final yield', esc(describeYield(s.final))],
     ...(s.incomplete?.length ? [['still waiting (in neither yield)', esc(describeWaiting(s))] as const] : []),
     ...s.notes.map((n) => ['note', esc(n)] as const),
-  ])}<h3>Units</h3>${units}<h3>Measurements</h3><p class="note">One value per unit, from its latest complete attempt. Cp and Cpk as in the NIST/SEMATECH e-Handbook §6.1.6.</p>${stats}<h3>Histograms</h3><div class="plots">${hists}</div></section>`;
+  ])}<h3>Units</h3>${units}<h3>Measurements</h3><div class="wide-print"><p class="note">One value per unit, from its latest complete attempt. Cp and Cpk as in the NIST/SEMATECH e-Handbook §6.1.6.</p>${stats}</div><h3>Histograms</h3><div class="plots">${hists}</div></section>`;
 }
 
 export function renderBatchHtml(batch: BatchReport): string {

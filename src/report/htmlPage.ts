@@ -30,6 +30,9 @@ table { border-collapse: collapse; width: 100%; margin: .4rem 0 1rem; font-varia
 th, td { text-align: left; padding: .25rem .5rem; border-bottom: 1px solid #e4e7eb; vertical-align: top; }
 th { background: #f3f5f7; font-weight: 600; }
 td.num { text-align: right; white-space: nowrap; }
+table.stats { font-size: .9em; }
+table.stats th, table.stats td { padding: .25rem .3rem; }
+table.stats tr.stat-notes td { padding-top: 0; }
 code, .hash { font-family: ui-monospace, "SF Mono", Menlo, Consolas, monospace; font-size: .85em; word-break: break-all; }
 .status { display: inline-block; font-weight: 700; letter-spacing: .03em; padding: .05rem .45rem; border: 2px solid currentColor; border-radius: 3px; }
 .status.big { font-size: 1.4rem; padding: .2rem .8rem; }
@@ -47,6 +50,12 @@ footer { margin-top: 2rem; font-size: .85em; color: #52606d; border-top: 1px sol
   h2 { break-after: avoid; page-break-after: avoid; }
   table, tr, figure, section.condition { break-inside: avoid; page-break-inside: avoid; }
   th { background: none; border-bottom: 1.5px solid #1f2933; }
+  /* A wide table of numbers prints on landscape pages of the chosen paper (a named page), the rest upright. */
+  @page wide { size: landscape; }
+  .wide-print { page: wide; }
+  table.stats { font-size: 8.5pt; break-inside: auto; page-break-inside: auto; }
+  table.stats th, table.stats td { padding: .15rem .25rem; }
+  .plots figure { flex: 1 1 45%; }
   .warning { background: none; }
   a { color: inherit; text-decoration: none; }
 }
@@ -79,8 +88,9 @@ export function numCell(value: number | null | undefined, text: string): string 
   return `<td class="num"${data}>${esc(text)}</td>`;
 }
 
-export function table(head: readonly string[], rows: readonly string[]): string {
-  return `<table><thead><tr>${head.map((h) => `<th>${esc(h)}</th>`).join('')}</tr></thead><tbody>${rows.join('')}</tbody></table>`;
+/** A table; `cls` names a layout ('stats': a wide table of numbers, set compact to fit the page). */
+export function table(head: readonly string[], rows: readonly string[], cls?: string): string {
+  return `<table${cls ? ` class="${cls}"` : ''}><thead><tr>${head.map((h) => `<th>${esc(h)}</th>`).join('')}</tr></thead><tbody>${rows.join('')}</tbody></table>`;
 }
 
 export function facts(pairs: readonly (readonly [string, string])[]): string {

@@ -9,6 +9,7 @@ import {
   formatMarginIn,
   formatMeasured as measuredText,
   formatSignificant,
+  group,
   measurementLabel as labelOf,
   prefixExponent as prefixFor,
 } from '../types/index.js';
@@ -92,7 +93,8 @@ export function formatFraction(f: number | null, digits = 1): string {
 
 /** A plain number for a statistic without unit (Cp, Cpk): 3 decimals, `—` for null. */
 export function formatIndex(v: number | null): string {
-  return v === null || !Number.isFinite(v) ? '—' : v.toFixed(3);
+  // The house minus sign and digit groups (one formatter): '−0.082', '35 777.000'.
+  return v === null || !Number.isFinite(v) ? '—' : group(v.toFixed(3));
 }
 
 export function formatBytes(n: number): string {

@@ -1,11 +1,14 @@
 /**
- * Small inline-SVG plotting kit for reports: linear scales, "nice" tick steps of 1, 2 or 5 × 10^k
- * (P. S. Heckbert, "Nice Numbers for Graph Labels", Graphics Gems, 1990 — method from memory), axes
+ * Small inline-SVG plotting kit for reports (the SVG writer is ours): linear scales, "nice" tick steps
+ * of 1, 2 or 5 × 10^k and nice bounds from d3-array (`ticks`, `nice`; the method of P. S. Heckbert,
+ * "Nice Numbers for Graph Labels", Graphics Gems, 1990), axes
  * with SI-prefixed labels, and escaped text. Presentation attributes are written on the elements, so
  * a plot looks the same on screen, in print, and copied out on its own. No xmlns: inline SVG in HTML
  * needs none, and the record must not contain any URL.
  */
+import { nice, ticks } from 'd3-array';
 import { prefixExponent } from './reportNumbers.js';
+import { group, prefixedUnit } from '../types/index.js';
 
 export const INK = '#1f2933';
 export const GRID = '#d9dee3';
@@ -26,36 +29,26 @@ export function linearScale(d0: number, d1: number, r0: number, r1: number): Sca
   return Object.assign(f, { domain: [d0, d1] as const });
 }
 
-/** Tick values covering [min, max] with about `count` steps of 1, 2 or 5 × 10^k, never fewer than two ticks. */
+/**
+ * Tick values covering [min, max] with about `count` steps of 1, 2 or 5 × 10^k (d3-array `ticks`),
+ * never fewer than two ticks for a range that has a width.
+ */
 export function niceTicks(min: number, max: number, count = 5): number[] {
   if (!Number.isFinite(min) || !Number.isFinite(max)) throw new RangeError(`niceTicks: bad range ${min} … ${max}`);
   if (max < min) [min, max] = [max, min];
   if (max === min) return [min];
-  const raw = (max - min) / Math.max(1, count);
-  let k = Math.floor(Math.log10(raw));
-  let m = [1, 2, 5, 10].find((x) => x * 10 ** k >= raw * (1 - 1e-9)) ?? 10;
-  for (;;) {
-    const out = multiples(min, max, m * 10 ** k);
-    if (out.length >= 2) return out;
-    // Too coarse for this span: the next smaller step in the 1-2-5 sequence.
-    if (m === 1) [m, k] = [5, k - 1];
-    else m = m === 10 ? 5 : m === 5 ? 2 : 1;
+  // A narrow range between two steps gives one tick or none: ask for finer steps until two fit.
+  for (let n = Math.max(1, count); ; n *= 2) {
+    const t = ticks(min, max, n);
+    if (t.length >= 2 || n > 1e6) return t.map((v) => (v === 0 ? 0 : v));
   }
 }
 
-/** Whole multiples of the step inside [min, max], computed from the index so rounding does not accumulate. */
-function multiples(min: number, max: number, step: number): number[] {
-  const out: number[] = [];
-  for (let i = Math.ceil(min / step - 1e-9); i * step <= max + step * 1e-9; i++) out.push(i === 0 ? 0 : i * step);
-  return out;
-}
-
-/** Expand a range to whole tick steps, so the data never touches the frame. */
+/** Expand a range to whole tick steps (d3-array `nice`), so the data never touches the frame. */
 export function niceDomain(min: number, max: number, count = 5): [number, number] {
   if (max === min) return [min - (Math.abs(min) || 1) * 0.1, max + (Math.abs(max) || 1) * 0.1];
-  const t = niceTicks(min, max, count);
-  const step = t.length > 1 ? t[1] - t[0] : Math.abs(max - min);
-  return [Math.min(t[0], Math.floor(min / step) * step), Math.max(t[t.length - 1], Math.ceil(max / step) * step)];
+  const [lo, hi] = nice(Math.min(min, max), Math.max(min, max), count);
+  return [lo, hi];
 }
 
 export function esc(s: string): string {
@@ -66,8 +59,8 @@ export function esc(s: string): string {
 export function tickFormat(domain: readonly [number, number], unit: string): { label: (v: number) => string; unit: string } {
   const big = Math.max(Math.abs(domain[0]), Math.abs(domain[1]));
   const exp = prefixExponent(big, unit);
-  const prefix = ({ [-12]: 'p', [-9]: 'n', [-6]: 'µ', [-3]: 'm', 3: 'k', 6: 'M', 9: 'G' } as Record<number, string>)[exp] ?? '';
-  return { label: (v) => String(Number((v / 10 ** exp).toPrecision(6))), unit: `${prefix}${unit}` };
+  // The one prefix table and the house minus sign and digit groups (src/types/quantityText.ts).
+  return { label: (v) => group(String(Number((v / 10 ** exp).toPrecision(6)))), unit: prefixedUnit(exp, unit) };
 }
 
 export interface Frame {
