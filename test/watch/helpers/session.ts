@@ -44,7 +44,7 @@ export function startSession(root: string, overrides: Partial<WatchSettings> = {
     specFile: SPEC,
     overrides: {},
     flags: { data: join(root, 'data') },
-    settleMs: 400,
+    settleMs: 200,
     newOnly: false,
     json: false,
     timing: {},
