@@ -45,6 +45,7 @@ async function main() {
   const page = await runTimed(process.execPath, ['--expose-gc', join(root, 'bench', 'serve.js')], { cwd: root, useTime: false, timeoutMs: 60 * 60_000 });
   process.stdout.write(`\n${page.ok ? page.stdout : `bench page: did not complete (${page.error ?? page.stderr.slice(-300)})\n`}`);
   { const st = await runTimed(process.execPath, [join(root, 'bench', 'store.js')], { cwd: root, useTime: false, timeoutMs: 2 * 60 * 60_000 }); process.stdout.write(`\n${st.ok ? st.stdout : `shared store: did not complete (${st.error ?? st.stderr.slice(-300)})\n`}`); } // issue 20
+  { const w = await runTimed(process.execPath, [join(root, 'bench', 'watch.js')], { cwd: root, useTime: false, timeoutMs: 3 * 60 * 60_000 }); process.stdout.write(`\n${w.stdout || `watch: did not complete (${w.error ?? w.stderr.slice(-300)})\n`}`); } // issue 21: 1 000 captures at once
   if (opts.strict && results.targets.some((t) => t.status === 'FAIL')) process.exitCode = 1;
 }
 
