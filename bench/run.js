@@ -13,6 +13,7 @@ import { parseJson, runTimed } from './lib/proc.js';
 import { renderMarkdown, renderText } from './lib/report.js';
 import { median, ratio } from './lib/stats.js';
 import { evaluateTargets } from './lib/targets.js';
+import { measureFixedCost } from './lib/fixedCost.js';
 
 const root = dirname(dirname(fileURLToPath(import.meta.url)));
 const log = (msg) => process.stderr.write(`bench: ${msg}\n`);
@@ -33,19 +34,25 @@ async function main() {
   if (!peer.ok) notes.push(peer.note);
   const kinds = [...(python.ok ? ['gen'] : []), ...(opts.synth ? ['synth'] : [])];
   if (!python.ok) notes.push('gen_capture.py needs numpy: only the synthesizer captures were timed');
+  const fixed = python.ok ? await measureFixedCost(ctx, log) : { ok: false, error: 'the 2 000-row capture comes from gen_capture.py, which needs numpy' };
   const files = [];
   for (const rows of opts.sizes) for (const kind of kinds) files.push(await benchFile(kind, rows, ctx));
   log('timing the FFT wrapper on a 4M-point channel');
   const fft = await fftProbe(ctx);
-  const results = assemble({ machine, peer, opts, notes, files, fft });
+  const results = assemble({ machine, peer, opts, notes, files, fft, fixed });
   writeOutputs(results, opts);
   process.stdout.write(`${renderText(results)}\n`);
   // The bench page's targets (bench/serve.js, issue 19), in a process of their own with --expose-gc.
+  if (!opts.page) return void finish(results, opts);
   log('timing the bench page: board with 2 000 units, zoom steps on 10 M samples, memory over 500 drops');
   const page = await runTimed(process.execPath, ['--expose-gc', join(root, 'bench', 'serve.js')], { cwd: root, useTime: false, timeoutMs: 60 * 60_000 });
   process.stdout.write(`\n${page.ok ? page.stdout : `bench page: did not complete (${page.error ?? page.stderr.slice(-300)})\n`}`);
   { const st = await runTimed(process.execPath, [join(root, 'bench', 'store.js')], { cwd: root, useTime: false, timeoutMs: 2 * 60 * 60_000 }); process.stdout.write(`\n${st.ok ? st.stdout : `shared store: did not complete (${st.error ?? st.stderr.slice(-300)})\n`}`); } // issue 20
   { const w = await runTimed(process.execPath, [join(root, 'bench', 'watch.js')], { cwd: root, useTime: false, timeoutMs: 3 * 60 * 60_000 }); process.stdout.write(`\n${w.stdout || `watch: did not complete (${w.error ?? w.stderr.slice(-300)})\n`}`); } // issue 21: 1 000 captures at once
+  finish(results, opts);
+}
+
+function finish(results, opts) {
   if (opts.strict && results.targets.some((t) => t.status === 'FAIL')) process.exitCode = 1;
 }
 
@@ -167,7 +174,7 @@ function growthOf(files) {
   return growth;
 }
 
-function assemble({ machine, peer, opts, notes, files, fft }) {
+function assemble({ machine, peer, opts, notes, files, fft, fixed }) {
   const withAcc = files.filter((f) => f.accuracy);
   const accFile = withAcc.find((f) => f.rows === 1e6) ?? withAcc[0];
   const results = {
@@ -179,6 +186,7 @@ function assemble({ machine, peer, opts, notes, files, fft }) {
     files,
     growth: growthOf(files),
     fft,
+    fixed,
     accuracy: accFile ? { label: accFile.label, rows: accFile.accuracy } : null,
   };
   results.targets = evaluateTargets(results);

@@ -7,6 +7,7 @@ export interface BenchOptions {
   runs: number | null;
   peer: boolean;
   synth: boolean;
+  page: boolean;
   regenerate: boolean;
   strict: boolean;
   help: boolean;

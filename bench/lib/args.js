@@ -28,6 +28,7 @@ Times benchproof against the numpy/pandas peer script on generated captures.
   --no-peer        do not run the peer script
   --no-synth       only the gen_capture.py files (skip the synthesizer's captures)
   --regenerate     write the capture files again even when cached in bench/data/
+  --no-page        skip the bench page's timings (bench/serve.js) at the end
   --strict         exit 1 when a target fails
   -h, --help       this text
 
@@ -37,7 +38,7 @@ Examples:
 `;
 
 export function parseArgs(argv) {
-  const opts = { sizes: DEFAULT_SIZES, runs: null, peer: true, synth: true, regenerate: false, strict: false, help: false };
+  const opts = { sizes: DEFAULT_SIZES, runs: null, peer: true, synth: true, page: true, regenerate: false, strict: false, help: false };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     const value = () => {
@@ -54,6 +55,7 @@ export function parseArgs(argv) {
       opts.runs = n;
     } else if (a === '--no-peer') opts.peer = false;
     else if (a === '--no-synth') opts.synth = false;
+    else if (a === '--no-page') opts.page = false;
     else if (a === '--regenerate') opts.regenerate = true;
     else if (a === '--strict') opts.strict = true;
     else if (a === '-h' || a === '--help') opts.help = true;

@@ -54,14 +54,22 @@ const fmtTarget = (t) => {
   if (t.value === null) return '—';
   if (t.id.startsWith('memory')) return `${fmtMiB(t.value)} (limit ${fmtMiB(t.limit)})`;
   if (t.id === 'ingest') return `${t.value.toFixed(0)} MB/s (limit ${t.limit})`;
+  if (t.id === 'fixed-cost') return `${fmtSeconds(t.value)} (limit ${fmtSeconds(t.limit)})`;
   if (t.id === 'fft-4M') return `${fmtSeconds(t.value)} (limit ${fmtSeconds(t.limit)})`;
   if (t.id.startsWith('accuracy') || t.id === 'complete-10M') return `${t.value} of ${t.limit}`;
   return `${fmtRatio(t.value)} (limit ${fmtRatio(t.limit, 1)})`;
 };
 
 function sections(results, table) {
-  const { files, growth, fft, accuracy, targets } = results;
-  const out = [['Whole-process runs (median wall time) and stages', table(FILE_HEADER, fileRows(files))]];
+  const { files, growth, fft, accuracy, targets, fixed } = results;
+  const out = [];
+  if (fixed) {
+    const body = fixed.ok
+      ? `measure --json on ${fixed.rows} rows (${(fixed.bytes / 1e3).toFixed(0)} kB): ${fmtSeconds(fixed.medianWall)} wall, ${fmtSeconds(fixed.medianCpu)} CPU, peak ${fmtMiB(fixed.maxRss)}; node -e 0 alongside: ${fmtSeconds(fixed.nodeWall)} wall, ${fmtSeconds(fixed.nodeCpu)} CPU; medians of ${fixed.runs} alternating runs`
+      : `failed: ${fixed.error}`;
+    out.push(['Fixed cost of a run', body]);
+  }
+  out.push(['Whole-process runs (median wall time) and stages', table(FILE_HEADER, fileRows(files))]);
   const g = growthRows(growth);
   if (g.length) out.push(['Growth of benchproof end-to-end time', table(['capture', 'rows', 'wall', 'vs 1M', 'per row vs 1M'], g)]);
   if (fft) {
