@@ -5,7 +5,9 @@
  */
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { join } from 'node:path';
+import { KESTREL_CONDITIONS, KESTREL_UNITS, synthesize, writeCsv } from '../../src/syntheticCaptures/index.js';
 import { openStore } from '../../src/records/index.js';
 import { makeTempDir, removeTempDir } from '../records/helpers/tempData.js';
 import { copySample, makeDrop, SAMPLES, startSession, waitFor, writeSlowly } from './helpers/session.js';
@@ -81,6 +83,35 @@ describe('watch session', { timeout: 180_000 }, () => {
       const runs = store.runs();
       expect(runs).toHaveLength(1);
       expect(runs[0].captures[0].size).toBe(bytes.length);
+    } finally {
+      store.close();
+    }
+  });
+
+  it('records a capture read in several pieces with the SHA-256 of the whole file (FIPS 180-4), as check does', async () => {
+    // 52 000 rows, about 2.3 MB: more than two of the 1 MiB pieces the landed file is hashed and
+    // archived in, so the pieces must join exactly (a 2.2 GB capture is the same code, more pieces).
+    const unit = KESTREL_UNITS[0];
+    const f = KESTREL_CONDITIONS[1].nominal * unit.frequencyScale;
+    const common = { frequency: f, sampleRate: f * 1500, samples: 52_000, bits: 8, phase: 0.137 };
+    const text = writeCsv([
+      { name: 'CH1', unit: 'V', signal: synthesize({ ...common, shape: 'triangle', amplitude: 3, offset: 0.01, noise: 0.006, fullScale: 20, seed: 11 }) },
+      { name: 'CH2', unit: 'V', signal: synthesize({ ...common, shape: 'pulse', amplitude: 5, duty: 0.5, edge: { tau: 1.5e-6 }, noise: 0.012, fullScale: 40, seed: 12 }) },
+    ], { format: 'exponential', precision: 7 });
+    const bytes = Buffer.from(text);
+    expect(bytes.length).toBeGreaterThan(2 * 2 ** 20);
+    const s = startSession(root);
+    await s.ready;
+    writeFileSync(join(drop, 'FK-0101_mid.csv'), bytes);
+    await waitFor(() => s.lines().length >= 1, 'the status line', s.err);
+    await s.stop();
+    expect(s.lines()[0]).toMatch(/^FK-0101_mid\.csv {2}FK-0101 {2}mid {2}PASS/);
+    const store = openStore(join(root, 'data'), { mode: 'read' });
+    try {
+      const [run] = store.runs();
+      expect(run.captures[0].sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
+      expect(run.captures[0].size).toBe(bytes.length);
+      expect(readFileSync(join(root, 'data', run.captures[0].archivePath)).equals(bytes)).toBe(true);
     } finally {
       store.close();
     }
