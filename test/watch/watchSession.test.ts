@@ -89,11 +89,11 @@ describe('watch session', { timeout: 180_000 }, () => {
   });
 
   it('records a capture read in several pieces with the SHA-256 of the whole file (FIPS 180-4), as check does', async () => {
-    // 52 000 rows, about 2.3 MB: more than two of the 1 MiB pieces the landed file is hashed and
+    // 56 000 rows, about 2.2 MB: more than two of the 1 MiB pieces the landed file is hashed and
     // archived in, so the pieces must join exactly (a 2.2 GB capture is the same code, more pieces).
     const unit = KESTREL_UNITS[0];
     const f = KESTREL_CONDITIONS[1].nominal * unit.frequencyScale;
-    const common = { frequency: f, sampleRate: f * 1500, samples: 52_000, bits: 8, phase: 0.137 };
+    const common = { frequency: f, sampleRate: f * 1500, samples: 56_000, bits: 8, phase: 0.137 };
     const text = writeCsv([
       { name: 'CH1', unit: 'V', signal: synthesize({ ...common, shape: 'triangle', amplitude: 3, offset: 0.01, noise: 0.006, fullScale: 20, seed: 11 }) },
       { name: 'CH2', unit: 'V', signal: synthesize({ ...common, shape: 'pulse', amplitude: 5, duty: 0.5, edge: { tau: 1.5e-6 }, noise: 0.012, fullScale: 40, seed: 12 }) },
