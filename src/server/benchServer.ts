@@ -98,6 +98,9 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
     setup.close();
     throw listenError(err, host, port);
   }
+  // The start-up pass over every run begins now, so the board's first answer seldom waits for it;
+  // a problem it finds is shown by the routes that read through it.
+  setup.follower.catchUp().catch(() => undefined);
   const address = app.server.address();
   bound = typeof address === 'object' && address ? address.port : port;
   const needsToken = !isLoopback(host) || options.requireToken === true;
