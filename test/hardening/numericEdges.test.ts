@@ -94,6 +94,15 @@ describe('measureCapture on numeric edge cases', () => {
     }
   });
 
+  it('gives a triangle at 1e-158 V finite values or bounds only (its harmonics’ squares underflow; a fuzzed case of the long run)', () => {
+    const t = synthesize({ shape: 'triangle', frequency: 1 / 28.937150239738497, amplitude: 1e-158, sampleRate: 1, samples: 2151, seed: 5 });
+    const values = Float64Array.from(t.values);
+    values[823334214 % values.length] = NaN;
+    const [ch] = measured([{ ...t, values }]).channels;
+    // measured() has checked every number is finite; the balance is a value or withheld, never a crash.
+    expect(ch.measurements.evenOddRatio).toBeDefined();
+  });
+
   it('measures a sine sampled every 1e-15 s at 1e15/64.25 Hz', () => {
     const [ch] = measured([sine(1, 1e-15)]).channels;
     expectWithin(value(ch, 'frequency'), 1e15 / 64.25, { rel: 1e-6 }, 'closed form: 64.25 samples per period');

@@ -24,20 +24,27 @@ export function evenOddRatio(h: HarmonicAnalysis): MeasureResult {
   let odd = 0;
   let evenCount = 0;
   let oddCount = 0;
+  // Powers relative to the fundamental's (the ratio is free of scale): squares of amplitudes near
+  // 1e-158 V would underflow to zero in double precision and leave 0/0.
+  const ref = fit.amplitude[1] > 0 && Number.isFinite(fit.amplitude[1]) ? fit.amplitude[1] : 1;
   for (let n = 2; n <= reported; n++) {
     if (n % 2 === 0) {
-      even += fit.amplitude[n] ** 2;
+      even += (fit.amplitude[n] / ref) ** 2;
       evenCount++;
     } else {
-      odd += fit.amplitude[n] ** 2;
+      odd += (fit.amplitude[n] / ref) ** 2;
       oddCount++;
     }
   }
-  const bias = 2 * h.amplitudeSigma ** 2;
+  const bias = 2 * (h.amplitudeSigma / ref) ** 2;
   const evenFloor = DETECT * bias * evenCount;
   const oddFloor = DETECT * bias * oddCount;
   if (odd <= oddFloor) {
     return { ok: false, reason: 'below-noise', detail: `odd harmonics 3–${reported} are below the noise; there is no balance to report` };
+  }
+  if (even <= evenFloor && !(evenFloor > 0)) {
+    // No even power and no noise to bound it by: nothing finite can be said.
+    return { ok: false, reason: 'below-noise', detail: `even harmonics 2–${reported} are zero within the fit and the fit states no noise to bound them` };
   }
   if (even <= evenFloor) {
     const bound = 10 * Math.log10(evenFloor / odd);
