@@ -65,8 +65,8 @@ export function workersFor(size: number): number {
 }
 
 /** Starts the workers at once, so that they load while this thread sniffs the layout. */
-export function startWorkerPool(count: number): PieceHelpers {
-  return new WorkerPool(count);
+export function startWorkerPool(count: number, script: URL = WORKER_URL): PieceHelpers {
+  return new WorkerPool(count, script);
 }
 
 /** No helpers: this thread reads every piece. */
@@ -218,9 +218,9 @@ class WorkerPool implements PieceHelpers {
   private idleWaiters: (() => void)[] = [];
   private failed = false;
 
-  constructor(count: number) {
+  constructor(count: number, script: URL) {
     this.workers = Array.from({ length: count }, () => {
-      const w = new Worker(WORKER_URL);
+      const w = new Worker(script);
       w.on('message', (r: PieceResult) => {
         this.answered.add(r);
         this.settle(w, r);

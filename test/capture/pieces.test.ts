@@ -8,7 +8,9 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { readCaptureLines } from '../../src/capture/readCapture.js';
-import { noHelpers, planPieces } from '../../src/capture/parallelRead.js';
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { noHelpers, planPieces, startWorkerPool } from '../../src/capture/parallelRead.js';
 import type { PieceHelpers } from '../../src/capture/parallelRead.js';
 import { PieceReader } from '../../src/capture/pieceReader.js';
 import type { Capture } from '../../src/types/index.js';
@@ -160,6 +162,16 @@ describe('readCapture in pieces', () => {
     const alone = await readCaptureLines(path, {}, { helpers: noHelpers, pieceBytes: 1000 });
     expect(comparable({ capture: alone.capture })).toEqual(comparable(whole));
     expect('capture' in whole && whole.capture.channels[0].samples.length).toBe(5000);
+  });
+
+  // The worker script runs built (tests run from sources): this case needs `npm run build` first.
+  const builtWorker = new URL('../../dist/capture/pieceWorker.js', import.meta.url);
+  it.runIf(existsSync(fileURLToPath(builtWorker)))('gives the same capture with two real worker threads reading pieces', async () => {
+    const s: Shape = { rows: 20_000, delimiter: ';', crlf: true, trailing: false, decimals: 5, jitter: true, disturb: { kind: 'comment', at: 0.9 }, seed: 11 };
+    const path = write('workers.csv', csvOf(s));
+    const whole = await outcome(path);
+    const threaded = await readCaptureLines(path, {}, { helpers: () => startWorkerPool(2, builtWorker), pieceBytes: 16_384 });
+    expect(comparable({ capture: threaded.capture })).toEqual(comparable(whole));
   });
 
   it('plans slots that hold the most rows a piece can have at the shortest row length', () => {
