@@ -13,6 +13,7 @@ import type { CalibrationPlanEntry, Spec, StepReading } from '../design/index.js
 import { guideTrim } from '../diagnose/index.js';
 import { sha256Hex } from '../records/index.js';
 import type { IterationPlace } from '../report/index.js';
+import { describeIteration } from '../report/index.js';
 import { BenchError } from '../types/index.js';
 import type { CalibrationIteration, CalibrationStepResult, NewCapture } from '../types/index.js';
 import type { TimingOptions } from './checkRun.js';
@@ -107,7 +108,7 @@ export async function calibrateCapture(ctx: CommandContext, session: Calibration
 /** Decide a complete capture set (in step order), add the trim guidance, and store it unless --no-store. */
 export function finishIteration(ctx: CommandContext, session: CalibrationSession, steps: readonly MeasuredStep[], startedAt: string): { iteration: CalibrationIteration; place?: IterationPlace } {
   const decision = decideCalibration(session.spec, session.unit, steps.map((s) => s.reading), session.label ? { label: session.label } : {});
-  const iteration = { ...guideTrim(session.spec, decision), ...(session.note !== undefined ? { note: session.note } : {}) };
+  const iteration = { ...describeIteration(guideTrim(session.spec, decision)), ...(session.note !== undefined ? { note: session.note } : {}) };
   if (session.flags.store === false) return { iteration };
   return { iteration, place: storeIteration(ctx, session, iteration, steps, startedAt) };
 }

@@ -1,5 +1,5 @@
 /**
- * Trim guidance for one calibration iteration, in general words: which adjustment moves which figure,
+ * Trim guidance for one calibration iteration, as data (report words it): which adjustment moves which figure,
  * which way and by how much. The adjustments of a control law, and the order a technician trims them:
  * - scale changes the octaves per volt (exponential) or Hz per volt (linear); it pivots about 0 V
  *   control, so the frequency at 0 V stays where it is;
@@ -17,9 +17,9 @@
 import { centsUncertainty, trackingFit } from '../analysis/index.js';
 import type { TrackingFit } from '../analysis/index.js';
 import type { CalibrationDecision, Spec } from '../design/index.js';
-import type { CalibrationIteration, CalibrationStepResult, TrimAdvice } from '../types/index.js';
-import { driftNotes } from './trimNotes.js';
-import { leave, offsetAdvice, scaleAdvice, signed } from './trimWords.js';
+import type { CalibrationIteration, CalibrationStepResult, TrimAdvice, TrimBasis, TrimRemark } from '../types/index.js';
+import { driftRemarks } from './trimNotes.js';
+import { leave, offsetAdvice, scaleAdvice } from './trimWords.js';
 
 type Measured = CalibrationStepResult & { frequency: number; control: number };
 
@@ -27,12 +27,13 @@ export function guideTrim(spec: Spec, decision: CalibrationDecision): Calibratio
   const trims = spec.calibration?.trims ?? [];
   const all = decision.law.kind === 'exponential' ? exponentialAdvice(decision) : decision.law.kind === 'linear' ? linearAdvice(decision) : rangeAdvice(decision);
   const guidance = all.advice.filter((a) => trims.includes(a.adjustment));
-  return { ...decision, guidance, notes: [...decision.notes, ...all.notes, ...driftNotes(decision.tracking)] };
+  // Words for `text` and the remarks' `notes` are written by report (describeIteration).
+  return { ...decision, guidance, remarks: [...all.remarks, ...driftRemarks(decision.tracking)] };
 }
 
 interface Advice {
   readonly advice: TrimAdvice[];
-  readonly notes: string[];
+  readonly remarks: TrimRemark[];
 }
 
 const measuredSteps = (d: CalibrationDecision): Measured[] => d.steps.filter((s): s is Measured => s.frequency !== null && s.control !== null);
@@ -42,7 +43,7 @@ const significant = (effect: number, u: number | null, floor: number): boolean =
 
 function exponentialAdvice(d: CalibrationDecision): Advice {
   const steps = measuredSteps(d);
-  if (new Set(steps.map((s) => s.control)).size < 2) return { advice: [], notes: ['no guidance: fewer than two steps were measured'] };
+  if (new Set(steps.map((s) => s.control)).size < 2) return { advice: [], remarks: [{ code: 'too-few-steps' }] };
   const k = d.law.scale as number;
   const floor = d.limits.errorCents / 2;
   const sorted = [...steps].sort((a, b) => a.control - b.control);
@@ -53,35 +54,30 @@ function exponentialAdvice(d: CalibrationDecision): Advice {
   const hfFlag = lower !== null && significant(topDev, uTop, d.limits.linearityCents ?? d.limits.errorCents / 2);
   const basis = hfFlag && lower ? lower : fitOf(steps, 'exponential');
   const width = (hfFlag ? sorted[sorted.length - 2].control : top.control) - sorted[0].control;
-  const where = hfFlag ? `, read from the steps below ${stepName(top, d)}` : '';
+  const below = hfFlag ? { below: stepName(top, d) } : {};
   const scaleCents = 1200 * (basis.slope - k) * width;
+  const scaleBasis: TrimBasis = {
+    figures: [
+      { name: 'fitted-scale', value: basis.slope, unit: `octave/${d.law.controlUnit || 'unit'}` },
+      { name: 'scale-error', value: (1200 * (basis.slope - k)) / k, unit: 'cents per octave' },
+    ],
+    ...below,
+  };
   const advice: TrimAdvice[] = [
-    significant(scaleCents, basis.slopeUncertainty === null ? null : 1200 * basis.slopeUncertainty * width, floor)
-      ? scaleAdvice(100 * (k / basis.slope - 1), `the fitted scale is ${basis.slope.toFixed(4)} octave/${d.law.controlUnit || 'unit'}, ${signed((1200 * (basis.slope - k)) / k, 1)} cents per octave${where}`)
-      : leave('scale', `${signed((1200 * (basis.slope - k)) / k, 1)} cents per octave${where}`),
+    significant(scaleCents, basis.slopeUncertainty === null ? null : 1200 * basis.slopeUncertainty * width, floor) ? scaleAdvice(100 * (k / basis.slope - 1), scaleBasis) : leave('scale', scaleBasis),
   ];
   const e0 = 1200 * (basis.intercept - (Math.log2(d.law.referenceFrequency as number) - k * (d.law.referenceControl ?? 0)));
   const u0 = basis.interceptUncertainty === null ? null : 1200 * basis.interceptUncertainty;
-  advice.push(significant(e0, u0, floor) ? offsetAdvice(-e0, 'cents', `at 0${unitOf(d)}, after the scale trim`) : leave('offset', `${signed(e0, 1)} cents at 0${unitOf(d)}`));
-  advice.push(hfFlag ? hfAdvice(stepName(top, d), topDev) : leave('high-frequency', lower ? `the top step lies ${signed(topDev, 1)} cents from the line through the others` : 'fewer than four steps: cannot be told from scale'));
-  return { advice, notes: ['the scale trim is taken to pivot about 0 V control (common practice); re-capture every step after each trim'] };
-}
-
-function hfAdvice(top: string, topDev: number): TrimAdvice {
-  const action = topDev < 0 ? 'raise' : 'lower';
-  const amount = Math.abs(topDev);
-  return {
-    adjustment: 'high-frequency',
-    action,
-    amount,
-    unit: 'cents',
-    text: `high-frequency compensation: ${action} until the ${top} step moves ${topDev < 0 ? 'up' : 'down'} by ${amount.toFixed(1)} cents (it lies ${amount.toFixed(1)} cents ${topDev < 0 ? 'below' : 'above'} the line through the lower steps); set it last`,
-  };
+  const offsetBasis: TrimBasis = { figures: [{ name: 'offset', value: e0, unit: 'cents' }], at: { control: 0, controlUnit: d.law.controlUnit }, afterScale: true };
+  advice.push(significant(e0, u0, floor) ? offsetAdvice(-e0, 'cents', offsetBasis) : leave('offset', offsetBasis));
+  const hfBasis: TrimBasis = lower ? { figures: [{ name: 'top-step-deviation', value: topDev, unit: 'cents' }], topStep: stepName(top, d) } : { figures: [], undecided: 'too-few-steps' };
+  advice.push(hfFlag ? { adjustment: 'high-frequency', action: topDev < 0 ? 'raise' : 'lower', amount: Math.abs(topDev), unit: 'cents', text: '', basis: hfBasis } : leave('high-frequency', hfBasis));
+  return { advice, remarks: [{ code: 'pivot-at-zero' }] };
 }
 
 function linearAdvice(d: CalibrationDecision): Advice {
   const steps = measuredSteps(d);
-  if (new Set(steps.map((s) => s.control)).size < 2) return { advice: [], notes: ['no guidance: fewer than two steps were measured'] };
+  if (new Set(steps.map((s) => s.control)).size < 2) return { advice: [], remarks: [{ code: 'too-few-steps' }] };
   const h = d.law.scale as number;
   const fit = fitOf(steps, 'linear');
   const sorted = [...steps].sort((a, b) => a.control - b.control);
@@ -93,12 +89,16 @@ function linearAdvice(d: CalibrationDecision): Advice {
   const scaleOk = !significant(toCents((fit.slope - h) * width), fit.slopeUncertainty === null ? null : toCents(fit.slopeUncertainty * width), floor);
   const e0 = fit.intercept - (d.law.referenceFrequency as number) + h * (d.law.referenceControl ?? 0);
   const offsetOk = !significant(toCents(e0), fit.interceptUncertainty === null ? null : toCents(fit.interceptUncertainty), floor);
-  return {
-    advice: [
-      scaleOk ? leave('scale', `${signed(100 * (fit.slope / h - 1), 2)} %`) : scaleAdvice(100 * (h / fit.slope - 1), `the fitted scale is ${fit.slope.toPrecision(5)} Hz/${d.law.controlUnit || 'unit'}`),
-      offsetOk ? leave('offset', `${signed(e0, 2)} Hz at 0${unitOf(d)}`) : offsetAdvice(-e0, 'Hz', `at 0${unitOf(d)}, after the scale trim`),
+  const scaleBasis: TrimBasis = {
+    figures: [
+      { name: 'fitted-scale', value: fit.slope, unit: `Hz/${d.law.controlUnit || 'unit'}` },
+      { name: 'scale-error', value: 100 * (fit.slope / h - 1), unit: '%' },
     ],
-    notes: ['the scale trim is taken to pivot about 0 V control (common practice); re-capture every step after each trim'],
+  };
+  const offsetBasis: TrimBasis = { figures: [{ name: 'offset', value: e0, unit: 'Hz' }], at: { control: 0, controlUnit: d.law.controlUnit }, afterScale: true };
+  return {
+    advice: [scaleOk ? leave('scale', scaleBasis) : scaleAdvice(100 * (h / fit.slope - 1), scaleBasis), offsetOk ? { ...leave('offset', offsetBasis), unit: 'Hz' } : offsetAdvice(-e0, 'Hz', offsetBasis)],
+    remarks: [{ code: 'pivot-at-zero' }],
   };
 }
 
@@ -108,15 +108,21 @@ function rangeAdvice(d: CalibrationDecision): Advice {
   const advice: TrimAdvice[] = [];
   if (span && expectedSpan) {
     const endCents = 1200 * (expectedSpan - span.value);
-    advice.push(
-      significant(endCents, span.uncertainty === null ? null : 1200 * span.uncertainty, floor)
-        ? scaleAdvice(100 * (expectedSpan / span.value - 1), `the span is ${span.value.toFixed(3)} octaves; ${expectedSpan.toFixed(3)} wanted`)
-        : leave('scale', `span ${span.value.toFixed(3)} octaves`),
-    );
+    const spanBasis: TrimBasis = {
+      figures: [
+        { name: 'span', value: span.value, unit: 'octaves' },
+        { name: 'expected-span', value: expectedSpan, unit: 'octaves' },
+      ],
+    };
+    advice.push(significant(endCents, span.uncertainty === null ? null : 1200 * span.uncertainty, floor) ? scaleAdvice(100 * (expectedSpan / span.value - 1), spanBasis) : leave('scale', spanBasis));
   }
-  if (offset) advice.push(significant(offset.value, offset.uncertainty, floor) ? offsetAdvice(-offset.value, 'cents', 'at the low end, after the scale trim') : leave('offset', `${signed(offset.value, 1)} cents at the low end`));
-  return { advice, notes: advice.length ? [] : ['no guidance: the ends of the range were not both measured'] };
+  if (offset) {
+    const offsetBasis: TrimBasis = { figures: [{ name: 'offset', value: offset.value, unit: 'cents' }], at: 'low-end', afterScale: true };
+    advice.push(significant(offset.value, offset.uncertainty, floor) ? offsetAdvice(-offset.value, 'cents', offsetBasis) : leave('offset', offsetBasis));
+  }
+  return { advice, remarks: advice.length ? [] : [{ code: 'range-ends-missing' }] };
 }
 
 const unitOf = (d: CalibrationDecision): string => (d.law.controlUnit ? ` ${d.law.controlUnit}` : '');
+/** The step's label as the file names use it: its control value and unit ('2 V'). */
 const stepName = (s: Measured, d: CalibrationDecision): string => `${Number(s.control.toPrecision(6))}${unitOf(d)}`;

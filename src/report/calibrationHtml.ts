@@ -5,6 +5,7 @@
  * sections have nothing to show.
  */
 import type { StoredCalibrationIteration, StoredCalibrationRun, UnitRecord } from '../types/index.js';
+import { iterationNotes, trimText } from './trimText.js';
 import { STEP_HEAD, figurePairs, lawText, limitsText, outcomeText, stepCells } from './calibrationFormat.js';
 import { esc, facts, statusHtml, table } from './htmlPage.js';
 import { renderTrackingSvg } from './svgTracking.js';
@@ -34,7 +35,7 @@ function runHtml(run: StoredCalibrationRun): string {
 function iterationHtml(s: StoredCalibrationIteration): string {
   const it = s.result;
   const rows = it.steps.map((st) => `<tr data-step="${esc(st.label)}">${stepCells(st, it.law).map((c, i) => `<td${i >= 2 ? ' class="num"' : ''}>${esc(c)}</td>`).join('')}<td>${st.statement ? statusHtml(st.statement) : '<span class="note">no limit</span>'}</td></tr>`);
-  const guidance = it.guidance.length ? `<ul>${it.guidance.map((g) => `<li${g.action === 'leave' ? ' class="note"' : ''}>${esc(g.text)}</li>`).join('')}</ul>` : '';
-  const notes = it.notes.map((n) => `<p class="note">${esc(n)}</p>`).join('');
+  const guidance = it.guidance.length ? `<ul>${it.guidance.map((g) => `<li${g.action === 'leave' ? ' class="note"' : ''}>${esc(trimText(g))}</li>`).join('')}</ul>` : '';
+  const notes = iterationNotes(it).map((n) => `<p class="note">${esc(n)}</p>`).join('');
   return `<section class="calibration-iteration" data-iteration="${s.id}"><h4>Iteration ${s.number}${it.label ? ` “${esc(it.label)}”` : ''} — ${statusHtml(it.statement)} <span class="note">${esc(formatTime(s.startedAt))}, ${esc(s.operator)}, ${esc(s.station)}</span></h4><p>${esc(outcomeText(it))}</p>${it.note !== undefined ? `<p class="attempt-note">What was done before it: ${esc(it.note)}</p>` : ''}${facts(figurePairs(it).map(([k, v]) => [esc(k), esc(v)] as const))}${guidance}${notes}${table([...STEP_HEAD, 'statement'], rows)}</section>`;
 }

@@ -1,5 +1,6 @@
 /** The calibration section of the Markdown unit record: per run and iteration, figures, guidance and steps. */
 import type { StoredCalibrationIteration, StoredCalibrationRun, UnitRecord } from '../types/index.js';
+import { iterationNotes, trimText } from './trimText.js';
 import { STATEMENT_WORDS } from '../types/index.js';
 import { STEP_HEAD, figurePairs, lawText, limitsText, outcomeText, stepCells } from './calibrationFormat.js';
 import { md, mdTable } from './recordMarkdown.js';
@@ -27,7 +28,7 @@ function iterationMarkdown(s: StoredCalibrationIteration): string {
   const it = s.result;
   const title = `#### Iteration ${s.number}${it.label ? ` “${md(it.label)}”` : ''} — **${STATEMENT_WORDS[it.statement]}**${s.intact ? '' : ' (**CHANGED** since stored)'}`;
   const figures = figurePairs(it).map(([k, v]) => `- ${k}: ${md(v)}`);
-  const guidance = it.guidance.map((g) => `- ${md(g.text)}`);
+  const guidance = it.guidance.map((g) => `- ${md(trimText(g))}`);
   const rows = it.steps.map((st) => [...stepCells(st, it.law).map(md), st.statement ? STATEMENT_WORDS[st.statement] : 'no limit']);
   return [
     title,
@@ -35,7 +36,7 @@ function iterationMarkdown(s: StoredCalibrationIteration): string {
     it.note !== undefined ? `What was done before it: ${md(it.note)}` : '',
     figures.join('\n'),
     guidance.length ? `Trim guidance:\n\n${guidance.join('\n')}` : '',
-    ...it.notes.map((n) => `_${md(n)}_`),
+    ...iterationNotes(it).map((n) => `_${md(n)}_`),
     mdTable([...STEP_HEAD, 'statement'], rows),
   ]
     .filter((x) => x !== '')

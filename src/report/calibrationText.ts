@@ -4,6 +4,7 @@
  * overall figures, the trim guidance, notes, and one closing line saying whether the run meets its limits.
  */
 import type { CalibrationIteration } from '../types/index.js';
+import { iterationNotes, trimText } from './trimText.js';
 import { STEP_HEAD, figurePairs, lawText, limitsText, outcomeText, stepCells } from './calibrationFormat.js';
 import type { TextStyle } from './style.js';
 
@@ -29,8 +30,8 @@ export function renderCalibrationText(it: CalibrationIteration, style: TextStyle
   if (it.tracking.linearityStatement) lines.push(`  ${''.padEnd(width)}  linearity: ${style.statement(it.tracking.linearityStatement)}`);
   lines.push('', style.bold('Trim guidance'));
   if (it.guidance.length === 0) lines.push('  none');
-  for (const g of it.guidance) lines.push(`  ${g.action === 'leave' ? style.dim(g.text) : g.text}`);
-  for (const n of it.notes) lines.push(style.dim(`  note: ${n}`));
+  for (const g of it.guidance) lines.push(`  ${g.action === 'leave' ? style.dim(trimText(g)) : trimText(g)}`);
+  for (const n of iterationNotes(it)) lines.push(style.dim(`  note: ${n}`));
   lines.push('', `${style.bold(it.unit)}: ${style.statement(it.statement)}  ${it.meetsLimits ? outcomeText(it) : `${outcomeText(it)}; trim, re-capture every step and run calibrate again`}`, '');
   return lines.join('\n');
 }

@@ -25,3 +25,4 @@ export type { CalibrationDocument } from './calibrationJson.js';
 export { renderTrackingSvg } from './svgTracking.js';
 export { renderInspectFailure, renderInspectText } from './inspectText.js';
 export { causeEvidence, circuitSummary, describeDiagnosis, factText, remarkText } from './causeWords.js';
+export { describeIteration, iterationNotes, trimRemarkText, trimText } from './trimText.js';

@@ -94,7 +94,11 @@ export interface TrackingFigures {
 
 export type TrimAdjustment = 'scale' | 'offset' | 'high-frequency';
 
-/** One trim suggestion: which adjustment, which way, by how much; `text` says it in words. */
+/**
+ * One trim suggestion: which adjustment, which way, by how much, and what it reads (`basis`, data).
+ * `text` says it in words, written by src/report from the rest (src/diagnose leaves it empty); advice
+ * stored before `basis` existed has only its text.
+ */
 export interface TrimAdvice {
   readonly adjustment: TrimAdjustment;
   readonly action: 'raise' | 'lower' | 'leave';
@@ -102,7 +106,32 @@ export interface TrimAdvice {
   readonly amount: number | null;
   readonly unit: '%' | 'cents' | 'Hz';
   readonly text: string;
+  readonly basis?: TrimBasis;
 }
+
+/** What a trim suggestion reads, as data. */
+export interface TrimBasis {
+  /** The figures it reads: 'fitted-scale' (octave or Hz per control unit), 'scale-error' (cents per octave or %), 'span' and 'expected-span' (octaves), 'offset' (cents or Hz), 'top-step-deviation' (cents). */
+  readonly figures: readonly { readonly name: 'fitted-scale' | 'scale-error' | 'span' | 'expected-span' | 'offset' | 'top-step-deviation'; readonly value: number; readonly unit: string }[];
+  /** Where an offset holds: at this control value, or at the low end of a range. */
+  readonly at?: { readonly control: number; readonly controlUnit: string } | 'low-end';
+  /** Scale and offset read from the steps below this one (its label), which is left to the high-frequency compensation. */
+  readonly below?: string;
+  /** The top step (its label), for the high-frequency compensation. */
+  readonly topStep?: string;
+  /** To be set after the scale trim. */
+  readonly afterScale?: boolean;
+  /** Why it cannot be told: too few steps to separate it from the scale. */
+  readonly undecided?: 'too-few-steps';
+}
+
+/** Remarks on an iteration as data (report words them into `notes`). */
+export type TrimRemark =
+  | { readonly code: 'too-few-steps' }
+  | { readonly code: 'range-ends-missing' }
+  | { readonly code: 'pivot-at-zero' }
+  | { readonly code: 'amplitude-drift'; readonly first: number; readonly last: number; readonly unit: string }
+  | { readonly code: 'symmetry-drift'; readonly first: number; readonly last: number; readonly spread: number };
 
 /** The outcome of one capture set: decided against the spec's calibration limits, with trim guidance. */
 export interface CalibrationIteration {
@@ -121,8 +150,10 @@ export interface CalibrationIteration {
   readonly steps: readonly CalibrationStepResult[];
   readonly tracking: TrackingFigures;
   readonly guidance: readonly TrimAdvice[];
-  /** Further remarks (drift of symmetry or amplitude, steps left out of a fit). */
+  /** Further remarks in words (steps left out of a fit; and, written by report, the `remarks`). */
   readonly notes: readonly string[];
+  /** Remarks of the trim guidance as data: drift of symmetry or amplitude, too few steps, the scale's pivot. */
+  readonly remarks?: readonly TrimRemark[];
   readonly statement: Statement;
   /** True when the statement accepts the unit (pass, or conditional pass). */
   readonly meetsLimits: boolean;

@@ -78,6 +78,8 @@ export type {
   TrackingFigures,
   TrimAdjustment,
   TrimAdvice,
+  TrimBasis,
+  TrimRemark,
 } from './calibration.js';
 export { MEASUREMENT_LABELS, measurementLabel, measurementLabelsOf } from './measurementLabels.js';
 export {

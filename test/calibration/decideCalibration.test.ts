@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { decideCalibration, expectedFrequency } from '../../src/design/index.js';
 import { guideTrim } from '../../src/diagnose/index.js';
+import { trimText } from '../../src/report/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { givenReading, kestrelSpec, measuredReading, specWith, unitFrequency } from './kestrelCalibration.js';
 
@@ -82,7 +83,9 @@ describe('guideTrim', () => {
     const g = advice(guide(0.987, 0), 'scale');
     expect(g?.action).toBe('raise');
     expectWithin(g?.amount, 100 * (1 / 0.987 - 1), { abs: 1e-6 }, 'closed form: 1/0.987 − 1 = 1.317 %');
-    expect(g?.text).toMatch(/^scale: raise by 1\.3 %/);
+    // The words are report's (src/report/trimText.ts); diagnose gives the fitted scale as data.
+    expectWithin(g?.basis?.figures.find((f) => f.name === 'fitted-scale')?.value, 0.987, { abs: 0.001 }, 'given readings at scale 0.987');
+    expect(trimText(g!)).toMatch(/^scale: raise by 1\.3 %/);
   });
 
   it('guideTrim says lower the scale when the scale is too high', () => {
@@ -104,6 +107,7 @@ describe('guideTrim', () => {
     const it = guide(1, 0, 2e-6); // a 2 µs switching delay: 1200·log2(1 + 4·2 µs·2093 Hz) = 28.7 cents flat at 5 V (closed form)
     const hf = advice(it, 'high-frequency');
     expect(hf?.action).toBe('raise');
-    expect(hf?.text).toMatch(/the 5 V step moves up/);
+    expect(hf?.basis?.topStep).toBe('5 V');
+    expect(trimText(hf!)).toMatch(/the 5 V step moves up/);
   });
 });
