@@ -8,6 +8,7 @@ import fc from 'fast-check';
 import { plotDecimate, plotDecimateSeries } from '../../src/analysis/index.js';
 import { createRandom } from '../../src/syntheticCaptures/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
+import { expectAllWithin } from '../helpers/expectAllWithin.js';
 
 function noisy(n: number, seed: number): Float64Array {
   const rnd = createRandom(seed);
@@ -82,7 +83,7 @@ describe('plotDecimate', () => {
         const b = plotDecimate(s.map((v) => v + shift), 0, 1, 0, n - 1, width);
         expect(b.t.length).toBe(a.t.length);
         expect(a.t.length).toBeLessThanOrEqual(width);
-        for (let c = 0; c < a.t.length; c++) expectWithin(b.max[c], a.max[c] + shift, { abs: 1e-12 }, 'max(x + d) = max(x) + d');
+        expectAllWithin(b.max, Float64Array.from(a.max, (v) => v + shift), { abs: 1e-12 }, 'max(x + d) = max(x) + d');
       }),
       { numRuns: 50, seed: 19 },
     );
