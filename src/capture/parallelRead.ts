@@ -230,6 +230,11 @@ class WorkerPool implements PieceHelpers {
         this.failed = true;
         this.settle(w, null);
       });
+      // A worker gone without an answer (out of memory, stopped) leaves its piece to the main thread too.
+      w.on('exit', () => {
+        this.failed = true;
+        if (this.running.has(w)) this.settle(w, null);
+      });
       return w;
     });
   }
@@ -265,6 +270,7 @@ class WorkerPool implements PieceHelpers {
   }
 
   private feed(w: Worker): void {
+    if (this.failed) return;
     const task = this.take();
     if (!task) return;
     this.running.set(w, task.index);

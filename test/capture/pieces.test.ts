@@ -142,7 +142,7 @@ describe('readCapture in pieces', () => {
         const pieces = await outcome(path, pieceBytes);
         expect(comparable(pieces)).toEqual(comparable(whole));
       }),
-      { seed: 2112, numRuns: 25 },
+      { seed: 2112, numRuns: 20 },
     );
     // Most pieces were plain, and some were not (the disturbed rows): both paths ran.
     expect(seen.plain).toBeGreaterThan(seen.read / 2);
@@ -172,6 +172,15 @@ describe('readCapture in pieces', () => {
     const whole = await outcome(path);
     const threaded = await readCaptureLines(path, {}, { helpers: () => startWorkerPool(2, builtWorker), pieceBytes: 16_384 });
     expect(comparable({ capture: threaded.capture })).toEqual(comparable(whole));
+  });
+
+  it('gives the same capture when a worker thread fails: its pieces are read by the main thread', async () => {
+    const broken = new URL(`file://${write('broken-worker.mjs', "throw new Error('worker failed to start');\n")}`);
+    const s: Shape = { rows: 4000, delimiter: ',', crlf: false, trailing: true, decimals: 3, jitter: false, disturb: null, seed: 5 };
+    const path = write('broken.csv', csvOf(s));
+    const whole = await outcome(path);
+    const read = await readCaptureLines(path, {}, { helpers: () => startWorkerPool(2, broken), pieceBytes: 4096 });
+    expect(comparable({ capture: read.capture })).toEqual(comparable(whole));
   });
 
   it('plans slots that hold the most rows a piece can have at the shortest row length', () => {
