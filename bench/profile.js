@@ -5,7 +5,7 @@ import process from 'node:process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, relative } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { runTimed } from './lib/proc.js';
 
 const root = dirname(dirname(fileURLToPath(import.meta.url)));
@@ -102,9 +102,16 @@ async function main() {
     process.exit(2);
   }
   const dir = mkdtempSync(join(tmpdir(), 'benchproof-prof-'));
-  const r = await runTimed(process.execPath, ['--cpu-prof', '--cpu-prof-dir', dir, join(root, 'bin', 'benchproof.js'), 'measure', file, '--json'], { cwd: root, useTime: false });
+  // The module tree (dist/cli/main.js), not the bundle bin/benchproof.js takes, so that each
+  // function is named by its own source file.
+  const entry = `import { run } from ${JSON.stringify(pathToFileURL(join(root, 'dist', 'cli', 'main.js')).href)}; process.exitCode = await run(process.argv.slice(1));`;
+  const r = await runTimed(process.execPath, ['--cpu-prof', '--cpu-prof-dir', dir, '--input-type=module', '-e', entry, 'measure', file, '--json'], { cwd: root, useTime: false });
   if (!r.ok) process.stderr.write(`note: the run failed (${r.error}); profiling what ran\n`);
-  const name = readdirSync(dir).find((f) => f.endsWith('.cpuprofile'));
+  // One profile per thread (CPU.<date>.<time>.<pid>.<thread>.<n>.cpuprofile): the main thread's is 0;
+  // the capture reader's worker threads, on large files, write their own.
+  const profiles = readdirSync(dir).filter((f) => f.endsWith('.cpuprofile'));
+  const name = profiles.find((f) => f.split('.')[4] === '0') ?? profiles[0];
+  if (profiles.length > 1) process.stderr.write(`note: ${profiles.length - 1} worker thread profile(s) not shown (--keep keeps them in ${dir})\n`);
   if (!name) throw new Error(`no profile written in ${dir}`);
   const { totalMs, rows, startupMs } = summarizeProfile(JSON.parse(readFileSync(join(dir, name), 'utf8')));
   const pct = (ms) => `${((100 * ms) / totalMs).toFixed(1).padStart(5)} %`;
