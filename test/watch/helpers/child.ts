@@ -1,4 +1,4 @@
-/** `benchproof watch` as a real separate process (Node with the TypeScript hooks of test/records). */
+/** `benchproof watch` as a real separate process (Node with TypeScript hooks that keep what they transpile, cachedTsHooks.mjs). */
 import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
@@ -17,7 +17,7 @@ export interface WatchChild {
 }
 
 export function spawnWatch(args: readonly string[], env: Record<string, string> = {}): WatchChild {
-  const child = spawn(process.execPath, ['--import', here('../../records/helpers/registerTs.mjs'), here('./cliEntry.ts'), 'watch', ...args], {
+  const child = spawn(process.execPath, ['--import', here('./registerCachedTs.mjs'), here('./cliEntry.ts'), 'watch', ...args], {
     stdio: ['ignore', 'pipe', 'pipe'],
     env: { ...process.env, BENCHPROOF_OPERATOR: 'T. Ashgrove', ...env },
   });
