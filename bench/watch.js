@@ -44,6 +44,20 @@ function parseArgs(argv) {
   return opts;
 }
 
+/**
+ * The command as users run it: bin/benchproof.js for the build in dist/ (it takes the bundle when
+ * current); for another build folder, an entry that does the same there.
+ */
+function entryFor(dist, work) {
+  if (resolve(dist) === join(root, 'dist')) return join(root, 'bin', 'benchproof.js');
+  const bundle = join(dist, 'bundle', 'main.js');
+  const modules = join(dist, 'cli', 'main.js');
+  const target = existsSync(bundle) && statSync(bundle).mtimeMs >= statSync(modules).mtimeMs ? bundle : modules;
+  const entry = join(work, 'benchproof.mjs');
+  writeFileSync(entry, `import { run } from ${JSON.stringify(pathToFileURL(target).href)};\nrun(process.argv.slice(2)).then((c) => { process.exitCode = c; });\n`);
+  return entry;
+}
+
 /** Capture i: unit FK-(5000 + i/3), conditions low, mid, high in turn; every file's bytes its own (seed). */
 async function writeCaptures(dir, count, rows, dist) {
   const { synthesize, writeCsvChunks, KESTREL_UNITS, KESTREL_CONDITIONS } = await import(pathToFileURL(join(dist, 'syntheticCaptures', 'index.js')).href);
@@ -201,8 +215,7 @@ export async function watchLine(opts) {
     const drop = join(work, 'drop');
     mkdirSync(stage);
     mkdirSync(drop);
-    const entry = join(work, 'benchproof.mjs');
-    writeFileSync(entry, `import { run } from ${JSON.stringify(pathToFileURL(join(opts.dist, 'cli', 'main.js')).href)};\nrun(process.argv.slice(2)).then((c) => { process.exitCode = c; });\n`);
+    const entry = entryFor(opts.dist, work);
     log(`writing ${opts.captures} captures of ${opts.rows} rows`);
     const names = await writeCaptures(stage, opts.captures, opts.rows, opts.dist);
     const sample = names.slice(0, Math.min(names.length, Math.max(3, Math.round(opts.checkRuns / 3) * 3)));
@@ -240,8 +253,7 @@ export async function largeCaptureLine(opts) {
     const drop = join(work, 'drop');
     mkdirSync(stage);
     mkdirSync(drop);
-    const entry = join(work, 'benchproof.mjs');
-    writeFileSync(entry, `import { run } from ${JSON.stringify(pathToFileURL(join(opts.dist, 'cli', 'main.js')).href)};\nrun(process.argv.slice(2)).then((c) => { process.exitCode = c; });\n`);
+    const entry = entryFor(opts.dist, work);
     const name = 'FK-0901_mid.csv';
     log(`writing a capture of ${opts.largeRows} rows`);
     const made = await runChild(join(root, 'bench', 'makeSynth.js'), [String(opts.largeRows), join(stage, name)]);
