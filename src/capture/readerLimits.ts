@@ -31,9 +31,9 @@ export function unpackLimitBytes(storedBytes: number, optionMB: number | undefin
 }
 
 export function unpackLimitError(file: string, limit: number, stored: number, fromOption: boolean) {
-  const mb = (limit / 1e6).toFixed(0);
+  const mb = String(+(limit / 1e6).toPrecision(3));
   return captureError('unpack-limit', file, {
-    problem: `the compressed capture unpacks to more than ${mb} MB (from ${(stored / 1e6).toFixed(stored < 1e6 ? 3 : 1)} MB stored); reading stopped there`,
+    problem: `the compressed capture unpacks to more than ${mb} MB (from ${+(stored / 1e6).toPrecision(3)} MB stored); reading stopped there`,
     expected: fromOption
       ? `at most the ${mb} MB given with --unpack-limit`
       : `at most ${UNPACK_RATIO}× its stored size or ${UNPACK_FLOOR / 2 ** 20} MiB, whichever is larger: text captures compress far less`,

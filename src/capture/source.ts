@@ -145,10 +145,12 @@ async function fileSize(path: string): Promise<number> {
     throw unreadable(path, e);
   });
   if (!s.isFile()) {
+    // Refused from its type alone: a device or a pipe is never opened (a pipe would wait for a writer).
+    const what = s.isDirectory() ? 'a folder' : s.isFIFO() ? 'a named pipe' : s.isSocket() ? 'a socket' : 'a device';
     throw captureError('unreadable', path, {
-      problem: 'this is a folder or a device, not a capture file',
+      problem: `this is ${what}, not a capture file`,
       expected: 'the path of one CSV file (.csv or .csv.gz)',
-      fix: 'name a file inside the folder, e.g. with a wildcard: folder/*.csv',
+      fix: s.isDirectory() ? 'name a file inside the folder, e.g. with a wildcard: folder/*.csv' : 'save the capture as a file first, then name that file',
     });
   }
   return s.size;

@@ -32,6 +32,7 @@ describe('readCapture refuses what is not a regular file', () => {
   it('gives capture.unreadable for a device without reading from it', async () => {
     const r = await refusal('/dev/zero');
     expect(r.code).toBe('capture.unreadable');
+    expect(r.message).toContain('this is a device, not a capture file');
   });
 
   it.runIf(process.platform !== 'win32')('gives capture.unreadable for a named pipe without waiting for a writer', async () => {
@@ -39,6 +40,7 @@ describe('readCapture refuses what is not a regular file', () => {
     execFileSync('mkfifo', [fifo]);
     const r = await refusal(fifo);
     expect(r.code).toBe('capture.unreadable');
+    expect(r.message).toContain('this is a named pipe, not a capture file');
   });
 });
 
@@ -54,6 +56,7 @@ describe('readCapture bounds .csv.gz decompression', () => {
     const path = write('long.csv.gz', gzipSync(text));
     const r = await refusal(path, { unpackLimitMB: 1 });
     expect(r.code).toBe('capture.unpack-limit');
+    expect(r.message).toContain('more than 1 MB');
     expect(r.message).toContain('--unpack-limit');
     // The same file reads whole under a limit above its size.
     const capture = await readCapture(path, { unpackLimitMB: 10 });
