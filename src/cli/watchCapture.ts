@@ -47,6 +47,8 @@ export interface WatchEnv {
   readonly started?: Set<string>;
   /** --force-unit: record a file naming another unit than --unit under --unit. */
   readonly forceUnit?: boolean;
+  /** Results of captures checked earlier in the session, for their attempt's next files (watchReuse.ts). */
+  readonly earlierChecks?: CheckedCache;
 }
 
 export type CaptureOutcome =
@@ -103,7 +105,7 @@ export type CaptureHandler = (file: string) => Promise<CaptureOutcome>;
 export type CaptureHandlerFactory = (env: WatchEnv) => CaptureHandler;
 
 export const checkEachCapture: CaptureHandlerFactory = (env) => {
-  const earlierChecks = checkedCache();
+  const earlierChecks = env.earlierChecks ?? checkedCache();
   return (file) => checkOneCapture(env, earlierChecks, file);
 };
 

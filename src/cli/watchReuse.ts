@@ -24,6 +24,8 @@ export interface CheckedCache {
   forCheck(sources: ReadonlyMap<string, string> | undefined): CheckedReuse;
   /** Results kept now. */
   size(): number;
+  /** Forget every result (the watch is idle and gives its memory back). */
+  clear(): void;
 }
 
 export function checkedCache(options: CheckedCacheOptions = {}): CheckedCache {
@@ -32,6 +34,7 @@ export function checkedCache(options: CheckedCacheOptions = {}): CheckedCache {
   const kept = new Map<string, CheckedCapture>();
   return {
     size: () => kept.size,
+    clear: () => kept.clear(),
     forCheck(sources) {
       const shaByPath = new Map<string, string>();
       for (const [sha, path] of sources ?? []) shaByPath.set(path, sha);

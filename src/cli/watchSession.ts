@@ -18,6 +18,7 @@ import { checkEachCapture } from './watchCapture.js';
 import type { CaptureHandlerFactory, CaptureOutcome, WatchEnv } from './watchCapture.js';
 import { serialQueue } from './watchQueue.js';
 import { fullCollection, memoryRelease } from './watchMemory.js';
+import { checkedCache } from './watchReuse.js';
 import type { AttemptRequest } from './attemptNotice.js';
 import { watchFolder } from './watchFolder.js';
 import { countOutcome, emptyTally, outcomeLines, summaryLine } from './watchLines.js';
@@ -60,6 +61,7 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
       ...(settings.attempt ? { attempt: settings.attempt } : {}),
       started: new Set<string>(),
       forceUnit: Boolean(settings.forceUnit),
+      earlierChecks: checkedCache(),
     };
     const tally = emptyTally();
     const print = (o: CaptureOutcome): void => {
@@ -71,7 +73,12 @@ export async function runWatchSession(ctx: CommandContext, settings: WatchSettin
     for (const bad of namesNotUtf8(dir)) print({ status: 'error', file: join(settings.dir, bad.shown), error: badNameError(bad.shown) });
     // Memory taken by a large capture is given back once the queue has gone quiet (watchMemory.ts).
     const collect = fullCollection();
-    const memory = collect ? memoryRelease({ rss: () => process.memoryUsage.rss(), collect }) : undefined;
+    // The results kept for the next files of open attempts go too: they only save reading them again.
+    const release = (): void => {
+      env.earlierChecks?.clear();
+      collect?.();
+    };
+    const memory = collect ? memoryRelease({ rss: () => process.memoryUsage.rss(), collect: release }) : undefined;
     const queue = serialQueue((settings.onCapture ?? checkEachCapture)(env), print, { busy: () => memory?.busy(), idle: () => memory?.idle() });
     const folder = watchFolder(dir, {
       settleMs: settings.settleMs,

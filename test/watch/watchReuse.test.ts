@@ -56,13 +56,16 @@ describe('checkedCache', () => {
     expect(hooks.reused(plan({ readFrom: `/archive/${shas[2]}` }))).toBeDefined();
   });
 
-  it('checkedCache keeps nothing of a capture larger than its byte bound', () => {
+  it('checkedCache keeps nothing of a capture larger than its byte bound, and nothing once cleared', () => {
     const cache = checkedCache({ maxBytes: 1000 });
     const hooks = cache.forCheck(new Map([[SHA_A, ARCHIVE_A]]));
     hooks.checked(plan(), capture(SHA_A, 1001));
     expect(cache.size()).toBe(0);
     hooks.checked(plan(), capture(SHA_A, 1000));
     expect(cache.size()).toBe(1);
+    cache.clear();
+    expect(cache.size()).toBe(0);
+    expect(hooks.reused(plan({ readFrom: ARCHIVE_A }))).toBeUndefined();
   });
 
   it('checkedCache gives the same unit decision as reading every capture afresh', async () => {
