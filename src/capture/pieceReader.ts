@@ -131,13 +131,20 @@ export class PieceReader {
 class PieceSink implements RowTarget {
   rows = 0;
   readonly pending = null;
+  // The setup's fields held here, so that the row loop reads no nested property.
   private readonly x: number;
   private readonly kept: Int32Array;
   private readonly keptScale: Float64Array;
+  private readonly columns: readonly Float64Array[];
+  private readonly targets: Int32Array;
+  private readonly columnCount: number;
+  private readonly trailing: boolean;
+  private readonly slotStart: number;
+  private readonly slotRows: number;
 
   constructor(
-    private readonly setup: PieceSetup,
-    private readonly task: PieceTask,
+    setup: PieceSetup,
+    task: PieceTask,
     private readonly times: Float64Array,
     private readonly exps: Int32Array,
   ) {
@@ -146,22 +153,34 @@ class PieceSink implements RowTarget {
     this.kept = Int32Array.from(kept);
     this.keptScale = Float64Array.from(kept, (c) => setup.scales[c]);
     this.x = t.indexOf(X_COLUMN);
+    this.columns = setup.columns;
+    this.targets = t;
+    this.columnCount = setup.layout.columnCount;
+    this.trailing = setup.trailingDelimiter;
+    this.slotStart = task.slotStart;
+    this.slotRows = task.slotRows;
   }
 
   push(vals: Float64Array, kinds: Uint8Array, exps: Int32Array, fieldCount: number): boolean {
-    const C = this.setup.layout.columnCount;
+    const C = this.columnCount;
+    const targets = this.targets;
     let n = fieldCount;
-    if (this.setup.trailingDelimiter && n === C + 1 && kinds[C] === EMPTY) n = C;
-    if (n !== C || this.rows === this.task.slotRows) throw NOT_PLAIN;
-    for (let c = 0; c < C; c++) if (kinds[c] !== NUMBER || (this.setup.targets[c] !== SKIP && !(vals[c] < OVERFLOW_MARKER && vals[c] > -OVERFLOW_MARKER))) throw NOT_PLAIN;
-    const r = this.rows;
-    if (this.x >= 0) {
-      this.times[r] = vals[this.x];
-      this.exps[r] = exps[this.x];
+    if (this.trailing && n === C + 1 && kinds[C] === EMPTY) n = C;
+    if (n !== C || this.rows === this.slotRows) throw NOT_PLAIN;
+    for (let c = 0; c < C; c++) {
+      if (kinds[c] !== NUMBER) throw NOT_PLAIN;
+      const v = vals[c];
+      if (targets[c] !== SKIP && !(v < OVERFLOW_MARKER && v > -OVERFLOW_MARKER)) throw NOT_PLAIN;
     }
-    const { kept, keptScale } = this;
-    const at = this.task.slotStart + r;
-    for (let k = 0; k < kept.length; k++) this.setup.columns[k][at] = vals[kept[k]] * keptScale[k];
+    const r = this.rows;
+    const x = this.x;
+    if (x >= 0) {
+      this.times[r] = vals[x];
+      this.exps[r] = exps[x];
+    }
+    const { kept, keptScale, columns } = this;
+    const at = this.slotStart + r;
+    for (let k = 0; k < kept.length; k++) columns[k][at] = vals[kept[k]] * keptScale[k];
     this.rows = r + 1;
     return true;
   }
