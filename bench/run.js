@@ -131,13 +131,18 @@ const STAGE_RUNS = 3;
 
 async function stageTimes(file, ctx) {
   const runs = [];
+  const oneThread = [];
   for (let i = 0; i < STAGE_RUNS; i++) {
     const r = await runTimed(process.execPath, [join(ctx.root, 'bench', 'stages.js'), file], { cwd: ctx.root, useTime: false });
     const s = r.ok ? parseJson(r.stdout) : null;
     if (!s) return { error: r.error ?? 'no JSON from bench/stages.js' };
     runs.push(s);
+    // The reader in one thread, alternating with the default (pieces on worker threads for large files).
+    const o = await runTimed(process.execPath, [join(ctx.root, 'bench', 'stages.js'), '--read-one-thread', file], { cwd: ctx.root, useTime: false });
+    const one = o.ok ? parseJson(o.stdout) : null;
+    if (one) oneThread.push(one.readOneThread);
   }
-  return { ...medianOf(runs), file: relative(ctx.root, runs[0].file), runs: runs.length };
+  return { ...medianOf(runs), readOneThread: median(oneThread), file: relative(ctx.root, runs[0].file), runs: runs.length };
 }
 
 async function fftProbe(ctx) {

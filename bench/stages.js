@@ -1,6 +1,7 @@
 // Child process: time benchproof's stages from inside, with performance.now().
 //   node bench/stages.js FILE      read+parse, time-domain analysis and spectrum of every channel
 //   node bench/stages.js --fft N   the FFT wrapper on one N-point channel (padded to a power of two)
+//   node bench/stages.js --read-one-thread FILE   read+parse only, in one thread (no worker threads)
 // Prints one JSON object on stdout. Stages are called in the order and with the options that
 // src/analysis/measureCapture.ts uses (kept in step by hand: check it when that file changes).
 import process from 'node:process';
@@ -96,9 +97,18 @@ async function fftProbe(points) {
   return { points, size, cold, warm, cpu: { cold: coldCpu, warm: warmCpu }, wrapper: 'realSpectrum (src/analysis/spectrum/spectrum.ts)' };
 }
 
+/** The reader in one thread, for comparison with the default (worker threads on large files). */
+async function readOneThread(file) {
+  const { readCaptureLines } = await import('../dist/capture/readCapture.js');
+  const t = performance.now();
+  const c = process.cpuUsage();
+  await readCaptureLines(file, {}, { helpers: null, pieceBytes: 0 });
+  return { file, bytes: statSync(file).size, readOneThread: seconds(t), cpu: { readOneThread: cpuSeconds(c) } };
+}
+
 async function main() {
   const args = process.argv.slice(2);
-  const result = args[0] === '--fft' ? await fftProbe(Number(args[1])) : await stages(args[0]);
+  const result = args[0] === '--fft' ? await fftProbe(Number(args[1])) : args[0] === '--read-one-thread' ? await readOneThread(args[1]) : await stages(args[0]);
   process.stdout.write(`${JSON.stringify(result)}\n`);
 }
 

@@ -20,6 +20,7 @@ function fileRows(files) {
       bp.ok ? fmtSampleRate(samples / bp.medianWall) : '—',
       fmtMiB(bp.maxRss), f.peer ? fmtMiB(f.peer.maxRss) : '—',
       Number.isFinite(s.read) ? `${fmtSeconds(s.read)} (${fmtRate(f.bytes / s.read)})` : s.error ? 'failed' : '—',
+      Number.isFinite(s.readOneThread) ? `${fmtSeconds(s.readOneThread)} (${fmtRate(f.bytes / s.readOneThread)})` : '—',
       fmtSeconds(s.timeDomain), fmtSeconds(s.spectrum),
     ];
   });
@@ -32,7 +33,7 @@ function cpuRatio(f) {
   return Number.isFinite(a) && Number.isFinite(b) && b > 0 ? a / b : null;
 }
 
-const FILE_HEADER = ['capture', 'rows', 'size', 'benchproof', 'peer', 'ratio', 'bp CPU', 'peer CPU', 'CPU ratio', 'MB/s', 'samples/s', 'bp peak RSS', 'peer peak RSS', 'read+parse', 'time domain', 'spectrum'];
+const FILE_HEADER = ['capture', 'rows', 'size', 'benchproof', 'peer', 'ratio', 'bp CPU', 'peer CPU', 'CPU ratio', 'MB/s', 'samples/s', 'bp peak RSS', 'peer peak RSS', 'read+parse', 'in one thread', 'time domain', 'spectrum'];
 
 function growthRows(growth) {
   return Object.entries(growth).flatMap(([kind, g]) => g.map((x) => [KIND[kind], x.label, fmtSeconds(x.wall), fmtRatio(x.vs1M), fmtRatio(x.perRowVs1M)]));

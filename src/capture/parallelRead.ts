@@ -16,8 +16,12 @@ import { identityOf, PieceReader } from './pieceReader.js';
 import type { PieceResult, PieceSetup, PieceTask } from './pieceReader.js';
 import type { RowSink } from './rowSink.js';
 
-/** Files below this size are read in one thread: starting the workers would cost more than it saves. */
-export const PARALLEL_MIN_BYTES = 12 << 20;
+/**
+ * Files below this size are read in one thread. A worker costs about 0.1–0.2 s of CPU before its
+ * first row (its own Node start-up and a cold scanner), which a 43 MB file (1 M rows, read in about
+ * 0.4 s by one thread) does not win back: measured on a shared 2-core machine, bench/README.md.
+ */
+export const PARALLEL_MIN_BYTES = 64 << 20;
 export const PIECE_BYTES = 4 << 20;
 
 /**
