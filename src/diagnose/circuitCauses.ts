@@ -72,7 +72,7 @@ function balance(readings: readonly CoreReading[]): CauseFact | null {
   const ratios = readings.filter((r) => r.rise && r.fall).map((r) => r.fall!.value / r.rise!.value - 1);
   if (ratios.length === 0) return null;
   const worst = ratios.reduce((a, b) => (Math.abs(b) > Math.abs(a) ? b : a));
-  return derivedFact('discharge against charge current, largest over the conditions', quantity(worst * 100, '%'), { averagedOver: ratios.length });
+  return derivedFact('discharge against charge current, the largest difference over the conditions', quantity(worst * 100, '%'));
 }
 
 interface Ranked {

@@ -11,8 +11,8 @@ import { measurementLabel } from '../types/index.js';
 import { csvText } from './escapeText.js';
 
 export const BATCH_CSV_COLUMNS = [
-  'spec', 'condition', 'output', 'measurement', 'label', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
-  'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes', 'records_chain_head',
+  'spec', 'condition', 'output', 'measurement', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
+  'lower', 'upper', 'nominal', 'cp', 'cpk', 'units', 'first_pass_yield', 'final_yield', 'notes', 'label', 'records_chain_head',
 ] as const;
 
 const text = csvText;
@@ -27,10 +27,12 @@ export function renderBatchCsv(batch: BatchReport): string {
     for (const m of s.measurements) {
       lines.push(
         [
-          text(s.spec), text(m.condition), text(m.output), text(m.measurement), text(measurementLabel(m.measurement)), text(m.unit),
+          text(s.spec), text(m.condition), text(m.output), text(m.measurement), text(m.unit),
           String(m.count), String(m.withheld), num(m.mean), num(m.sd), num(m.min), num(m.max),
           num(m.lower), num(m.upper), num(m.nominal), num(m.cp), num(m.cpk),
           String(s.units.length), num(s.firstPass.fraction), num(s.final.fraction), text(m.notes.join('; ')),
+          // Added columns go last but one, so readers of the earlier layout keep their positions.
+          text(measurementLabel(m.measurement)),
           // The store's chain head when the report was made (README "Records"), on every row.
           batch.source?.chainHead ?? '',
         ].join(','),

@@ -15,7 +15,7 @@ import { csvText } from './escapeText.js';
 
 export const RECORD_CSV_COLUMNS = [
   'unit', 'attempt', 'attempt_state', 'run', 'run_id', 'started_at_utc', 'spec_revision', 'condition', 'output', 'measurement',
-  'label', 'value', 'unit_si', 'expanded_uncertainty', 'shown', 'lower', 'upper', 'statement', 'note', 'attempt_notes', 'records_chain_head',
+  'value', 'unit_si', 'expanded_uncertainty', 'lower', 'upper', 'statement', 'note', 'attempt_notes', 'label', 'shown', 'records_chain_head',
 ] as const;
 
 export type DecimalMark = '.' | ',';
@@ -35,9 +35,10 @@ export function renderRecordCsv(rec: UnitRecord, mark: DecimalMark = '.'): strin
         lines.push(
           [
             cell(rec.unit), String(attempt), state, String(run.number ?? ''), String(run.id), cell(run.startedAt), cell(run.spec.revision),
-            cell(k.condition), cell(k.output), cell(k.measurement), cell(measurementLabel(k.measurement)), num(k.value), cell(k.unit), num(k.expandedUncertainty),
-            cell(shown(k.value, k.expandedUncertainty, k.unit, mark)),
+            cell(k.condition), cell(k.output), cell(k.measurement), num(k.value), cell(k.unit), num(k.expandedUncertainty),
             num(k.lower), num(k.upper), k.statement, cell(k.note ?? ''), cell(notes.join('; ')),
+            // Added columns go last but one, so readers of the earlier layout keep their positions.
+            cell(measurementLabel(k.measurement)), cell(shown(k.value, k.expandedUncertainty, k.unit, mark)),
             // The store's chain head when the export was made (README "Records"), on every row.
             rec.source?.chainHead ?? '',
           ].join(sep),

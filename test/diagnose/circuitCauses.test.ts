@@ -41,7 +41,7 @@ describe('part attribution with a design section', () => {
     expect(c.shareExplained).toBeGreaterThan(0.9);
     expect(c.confirm).toContain('capacitance meter');
     // The currents compared by the slope ratio alone (C cancels): the scenario plants matched currents.
-    expectWithin(factOf(first, 'discharge against charge current, largest over the conditions')!.observed.value, 0, { abs: 0.5 }, 'planted matched currents; slope ratio within 0.5 %');
+    expectWithin(factOf(first, 'discharge against charge current, the largest difference over the conditions')!.observed.value, 0, { abs: 0.5 }, 'planted matched currents; slope ratio within 0.5 %');
     const other = first.facts!.find((f) => f.alternative)!;
     expect(other.part).toBe('charge current, with the discharge current by the same ratio');
     expect(other.confirm).toContain('charge current');
