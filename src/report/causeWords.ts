@@ -70,7 +70,8 @@ export function factText(f: CauseFact, cause?: Cause, keep: (quantity: string) =
     else if (f.observed.value < f.design.lower) text += ', below its tolerance';
   } else if (f.expected) {
     const ee = f.expected.unit === f.observed.unit ? e : prefixExponent(f.expected.value, f.expected.unit);
-    text += ` against ${keep(formatInPrefix(f.expected.value, f.expected.unit, ee, 6))} ${BASIS[f.expected.basis]}${f.expected.unit === f.observed.unit ? deviation(f.observed.value, f.expected.value, f.observed.unit) : ''}`;
+    // A spec's nominal is written as given (up to six digits); a prediction is rough: four.
+    text += ` against ${keep(formatInPrefix(f.expected.value, f.expected.unit, ee, f.expected.basis === 'predicted' ? 4 : 6))} ${BASIS[f.expected.basis]}${f.expected.unit === f.observed.unit ? deviation(f.observed.value, f.expected.value, f.observed.unit) : ''}`;
   }
   if (brief) return text;
   if (f.shareExplained !== undefined) text += `; alone it would explain ${Math.round(f.shareExplained * 100)} % of the deviation`;
