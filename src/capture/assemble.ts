@@ -92,14 +92,17 @@ export function assembleCapture(a: AssembleInput): Capture {
 /** One kept channel with its invalid-sample count and clipping check; their warnings go to `warnings`. */
 function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Array, warnings: CaptureWarning[]): CaptureChannel {
   const layout = a.roles.columns[col];
-  const invalidCount = a.sink.invalid[k];
+  const invalidInFile = a.sink.invalid[k];
   const firstInvalidLine = a.sink.firstInvalid[k];
-  if (invalidCount > 0) {
+  // The file's count describes its rows; the channel's count must describe `samples`, which a
+  // resampled time base or a cut at a splice makes differ from the rows (a gap can widen or fall away).
+  const invalidCount = invalidInFile > 0 ? countNotFinite(samples) : 0;
+  if (invalidInFile > 0) {
     warnings.push({
       code: 'invalid-samples',
       channel: layout.name,
       line: firstInvalidLine,
-      message: `${invalidCount} invalid sample(s) in ${layout.name} (empty, NaN, infinite or overflow markers) are kept as gaps, first on line ${firstInvalidLine}`,
+      message: `${invalidInFile} invalid sample(s) in ${layout.name} (empty, NaN, infinite or overflow markers) are kept as gaps, first on line ${firstInvalidLine}`,
     });
   }
   return {
@@ -111,6 +114,12 @@ function channelOf(a: AssembleInput, col: number, k: number, samples: Float64Arr
     ...(firstInvalidLine !== undefined ? { firstInvalidLine } : {}),
     ...channelFullScale(a.meta, a.roles, col, samples, warnings),
   };
+}
+
+function countNotFinite(x: Float64Array): number {
+  let n = 0;
+  for (let i = 0; i < x.length; i++) if (!Number.isFinite(x[i])) n++;
+  return n;
 }
 
 /** Converter codes with an origin: v = code·step + (origin − reference·step); the step was applied while reading. */

@@ -46,6 +46,19 @@ describe('readCapture time base', () => {
     expectWithin(c.channels[0].samples[120], triangleAt(120e-5), { abs: 1e-9 }, 'closed-form triangle at the missing row');
   });
 
+  it('counts the invalid samples of the resampled record, not of the rows, when a gap sits among uneven steps', async () => {
+    // Rows 200–204 are blank; the stamps are uneven, so the record is resampled and an interpolated
+    // point touching a blank is itself a gap (a gap can widen): the count must be that of the samples.
+    const rnd = createRandom(5);
+    const times = Array.from({ length: 600 }, (_, i) => i * 1e-5 + (rnd.uniform() - 0.5) * 4e-6);
+    const text = `Time (s),CH1 (V)\n${times.map((t, i) => `${t.toExponential(12)},${i >= 200 && i < 205 ? '' : triangleAt(t).toExponential(12)}`).join('\n')}\n`;
+    const c = await readCapture(write('gap-uneven.csv', text));
+    expect(c.layout.resampled).toBe(true);
+    const nan = c.channels[0].samples.filter((v) => !Number.isFinite(v)).length;
+    expect(nan).toBeGreaterThan(0);
+    expect(c.channels[0].invalidCount).toBe(nan);
+  });
+
   it('uses --interval as the grid step for uneven times and ignores a disagreeing flag for a uniform time column', async () => {
     const times = [0, 1e-5, 3e-5, 4e-5, 6e-5, 7e-5, 9e-5, 1e-4];
     const c = await readCapture(write('uneven.csv', csvWithTimes(times, triangleAt)), { interval: 5e-6 });

@@ -23,7 +23,7 @@ afterAll(() => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-async function codeOf(name: string, bytes: Buffer | string, options: { sampleRate?: number } = {}): Promise<{ code: string; line?: number; message: string }> {
+async function codeOf(name: string, bytes: Buffer | string, options: { sampleRate?: number; unpackLimitMB?: number } = {}): Promise<{ code: string; line?: number; message: string }> {
   const path = join(dir, name);
   writeFileSync(path, bytes);
   tally.inputs++;
@@ -83,9 +83,11 @@ describe('capture reader limits', () => {
     expect(MAX_SAMPLES).toBe(2 ** 28);
   });
 
-  it.runIf(LONG)('stops a small .gz that unpacks to more rows than the limit with capture.too-large', { timeout: 20 * 60_000 }, async () => {
+  it.runIf(LONG)('stops a small .gz that unpacks to more rows than the limit with capture.too-large, once the unpack limit is raised past it', { timeout: 20 * 60_000 }, async () => {
     const bomb = gzipSync(Buffer.alloc((MAX_SAMPLES + 1024) * 2, '0\n'), { level: 1 });
-    const r = await codeOf('bomb.csv.gz', bomb, { sampleRate: 1e6 });
+    // At the default unpack limit the same file stops earlier, with capture.unpack-limit.
+    expect((await codeOf('bomb.csv.gz', bomb, { sampleRate: 1e6 })).code).toBe('capture.unpack-limit');
+    const r = await codeOf('bomb.csv.gz', bomb, { sampleRate: 1e6, unpackLimitMB: 4096 });
     expect(r.code).toBe('capture.too-large');
   });
 });
