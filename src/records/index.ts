@@ -22,6 +22,8 @@ export type { CaptureKey, SaveOnceResult } from './captureSeen.js';
 export type { SavedIteration } from './calibrationSave.js';
 export { followStore, SWEEP_GAP_MS } from './followStore.js';
 export type { FollowedStore, StoreFollower } from './followStore.js';
+export { followRecordStore, RECHECK_MS } from './followRecordStore.js';
+export type { RecordStoreFollower } from './followRecordStore.js';
 export { openPgStore } from './engines/pgStore.js';
 export { isStoreUrl, shownStore, checkStoreUrl } from './engines/pgLocation.js';
 export { isUnreachable } from './engines/pgErrors.js';

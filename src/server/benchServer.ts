@@ -77,7 +77,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
   registerPlotRoutes(app, setup, createCaptureCache(setup.location.dir));
   registerBatchRoutes(app, setup);
   const marker = watchStoreMarker(
-    setup.location.dir,
+    setup.changeMarker,
     () => {
       try {
         setup.refresh();

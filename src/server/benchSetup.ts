@@ -4,17 +4,20 @@
  * is read again on each use, so an edited spec shows on the page (and its problems) without a
  * restart.
  */
+import { mkdirSync } from 'node:fs';
 import type { CommandContext } from '../cli/context.js';
 import { createContext } from '../cli/context.js';
 import type { CliIo } from '../cli/io.js';
 import { openDataStore } from '../cli/store.js';
 import type { DataLocation, StoreFlags } from '../cli/store.js';
-import { followStore, unverifiedError } from '../records/index.js';
+import { followRecordStore, followStore, openPgStore, unverifiedError } from '../records/index.js';
 import type { RecordStore, StoreAudit, StoreFollower } from '../records/index.js';
 import { SPEC_MAX_BYTES, parseSpec } from '../design/index.js';
 import type { LoadedSpec } from '../cli/checkRun.js';
 import { readSpecFile } from '../cli/specFile.js';
 import type { EventHub } from './eventHub.js';
+import { SHARED_MARKER_INTERVAL_MS } from './storeMarker.js';
+import type { MarkerSource } from './storeMarker.js';
 
 export interface UploadLimits {
   /** Largest single capture accepted, in bytes. */
@@ -41,6 +44,8 @@ export interface BenchSetup {
    * read through it, so an answer after a change verifies only what was stored since.
    */
   readonly follower: StoreFollower;
+  /** What tells the server the records changed: the data folder's database files, or the shared store's chain head. */
+  readonly changeMarker: MarkerSource;
   /** Throws the records error `check` would print when the audit found problems (unless --allow-unverified). */
   refuseUnverified(audit: StoreAudit): void;
   /** Open the records again after they changed, so the next read verifies what was added. */
@@ -58,7 +63,7 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
   const first = openDataStore(ctx, flags, 'write');
   const location = first.location;
   let store = first.store;
-  const follower = followStore(location.dir);
+  const { follower, changeMarker } = chooseFollower(location);
   // Later calls resolve the data folder from other working directories (a drop's temporary folder).
   const absolute: StoreFlags = { ...flags, data: location.dir };
   let parsed: { file: string; text: string; result: { spec: LoadedSpec['spec'] } | { error: unknown } } | undefined;
@@ -83,6 +88,7 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
     limits,
     hub,
     follower,
+    changeMarker,
     refuseUnverified(audit) {
       if (audit.problems.length > 0 && !flags.allowUnverified) throw unverifiedError(location.shown, audit);
     },
@@ -101,6 +107,24 @@ export function openBench(ctx: CommandContext, flags: StoreFlags, hub: EventHub,
       store.close();
     },
   };
+}
+
+/**
+ * The embedded store is followed through its SQLite file (followStore.ts: incremental, and watched
+ * by the files' size and time); a shared store through its public interface (followRecordStore.ts),
+ * opened in 'mark' mode so the routes refuse by the same rule as the CLI (refuseUnverified), and
+ * watched by its chain head together with what the follower's background re-checks found (through
+ * the follower's own handle: the server's writing handle may be this bench's outbox while the shared
+ * store is out of reach).
+ */
+function chooseFollower(location: DataLocation): { follower: StoreFollower; changeMarker: MarkerSource } {
+  const shared = location.shared;
+  if (!shared) return { follower: followStore(location.dir), changeMarker: location.dir };
+  // The data folder keeps the page's access token and the captures read back; the shared store does
+  // not make it (it makes it, with its parents, only when it first keeps a capture: engines/pgStore.ts).
+  mkdirSync(location.dir, { recursive: true });
+  const follower = followRecordStore(() => openPgStore(shared.url, { cacheDir: location.dir, unverified: 'mark' }));
+  return { follower, changeMarker: { look: () => follower.marker(), intervalMs: SHARED_MARKER_INTERVAL_MS } };
 }
 
 /** A context for one piece of work: its own working directory, its notices collected. */
