@@ -38,6 +38,6 @@ export function renderBatchHtml(batch: BatchReport): string {
   const intro = `<header><h1>Batch report</h1><p>Scope: ${esc(batchFilterText(batch))}${batch.filter.spec ? `, spec ${esc(batch.filter.spec)}` : ''}. Accepted = ${esc(STATEMENT_WORDS.pass)} or ${esc(STATEMENT_WORDS['conditional-pass'])}.</p></header>`;
   const body = batch.specs.length ? batch.specs.map(specSection).join('') : '<p>No units match.</p>';
   const src = batch.source;
-  const footer = src ? `<footer>Generated ${esc(formatTime(src.generatedAt))} by benchproof ${esc(src.toolVersion)} from the data folder <code>${esc(src.dataDir)}</code>${src.chainHead ? `; records chain head <code>${esc(src.chainHead.slice(0, 16))}</code>` : ''}.</footer>` : '';
+  const footer = src ? `<footer>Generated ${esc(formatTime(src.generatedAt))} by benchproof ${esc(src.toolVersion)} from the records in <code>${esc(src.dataDir)}</code>${src.chainHead ? `; records chain head <code>${esc(src.chainHead.slice(0, 16))}</code>` : ''}.</footer>` : '';
   return htmlPage('Batch report', `${intro}${body}${footer}`);
 }

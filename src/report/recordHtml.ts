@@ -10,6 +10,6 @@ export function renderRecordHtml(rec: UnitRecord): string {
   const sections = rec.runs.length === 0 ? RECORD_HTML_SECTIONS.filter((s) => s.id === 'calibration') : RECORD_HTML_SECTIONS;
   const body = sections.map((s) => s.render(rec)).join('\n');
   const src = rec.source;
-  const footer = `<footer>benchproof test record of ${esc(rec.unit)}${src ? `, generated ${esc(formatTime(src.generatedAt))} by benchproof ${esc(src.toolVersion)} from the data folder <code>${esc(src.dataDir)}</code>${src.chainHead ? `; records chain head <code>${esc(src.chainHead.slice(0, 16))}</code>` : ''}` : ''}.</footer>`;
+  const footer = `<footer>benchproof test record of ${esc(rec.unit)}${src ? `, generated ${esc(formatTime(src.generatedAt))} by benchproof ${esc(src.toolVersion)} from the records in <code>${esc(src.dataDir)}</code>${src.chainHead ? `; records chain head <code>${esc(src.chainHead.slice(0, 16))}</code>` : ''}` : ''}.</footer>`;
   return htmlPage(`Test record ${rec.unit} — ${rec.spec.name}`, `${body}\n${footer}`);
 }

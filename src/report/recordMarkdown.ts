@@ -112,10 +112,10 @@ function captures(rec: UnitRecord): string {
 
 export const RECORD_MARKDOWN_SECTIONS: readonly ((rec: UnitRecord) => string)[] = [header, status, conditions, causes, attempts, history, captures, renderCalibrationMarkdown];
 
-/** Who made the document, from which data folder, and the store's chain head at that moment. */
+/** Who made the document, from which store (a data folder or a shared store address), and the store's chain head at that moment. */
 export function sourceLine(src: DocumentSource): string {
   const head = src.chainHead ? ` Records chain head ${md(src.chainHead.slice(0, 16))} (the store as it was when this was made).` : '';
-  return `_Generated ${formatTime(src.generatedAt)} by benchproof ${md(src.toolVersion)} from the data folder ${md(src.dataDir)}._${head}`;
+  return `_Generated ${formatTime(src.generatedAt)} by benchproof ${md(src.toolVersion)} from the records in ${md(src.dataDir)}._${head}`;
 }
 
 export function renderRecordMarkdown(rec: UnitRecord): string {
