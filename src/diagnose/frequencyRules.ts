@@ -3,9 +3,11 @@
  * timing capacitance C, swing Vpp; textbook relaxation-oscillator result, e.g. Sedra & Smith,
  * "Microelectronic Circuits", on triangle/square generators — from memory). Hence:
  * - a wrong C or reference current scales f by the same ratio at every condition;
- * - a fixed comparator/switching delay t_d adds 4·t_d to every period (each of the two ramps runs on
- *   for t_d past its threshold and must come back), so the error −4·t_d·f grows
- *   with frequency (closed form: f = f0/(1 + 2·t_d·f0));
+ * - a fixed comparator/switching delay t_d lengthens every period: each ramp runs on for t_d past its
+ *   threshold at its own slope and must come back at the other's, so the period grows by
+ *   t_d·(2 + s_r/s_f + s_f/s_r) with s_r, s_f the ramp slopes' magnitudes — 4·t_d for matched ramps
+ *   (closed form: f = f0/(1 + 4·t_d·f0)); the error grows with frequency. The unequal-slope form is
+ *   checked against an ngspice triangle core with a delay line (test/ngspice/delayedComparator.test.ts);
  * - a fixed leakage or bias current matters most where the charge current is smallest: the low end.
  * A deviation counts when it passes a third of the frequency tolerance (0.5 % without one) and the
  * expanded uncertainty; both are common practice (no source).
@@ -71,10 +73,14 @@ export const switchingDelay: CauseRule = (f) => {
   const hi = ps[ps.length - 1];
   if (!(hi.error < 0 && significant(hi, thr) && Math.abs(hi.error) > 2 * Math.abs(lo.error) + thr / 2)) return null;
   if (!ps.every((p, i) => i === 0 || p.error <= ps[i - 1].error + thr / 2)) return null;
-  // T = 1/f0 + 4·t_d, so t_d = (1/f − 1/f0)/4 and u(t_d) = u(f)/(4·f²) (first-order propagation, GUM §5.1.2).
+  // T = 1/f0 + k·t_d with k = 2 + r + 1/r (r the slope ratio there, k = 4 when the ramps match), so
+  // t_d = (1/f − 1/f0)/k and u(t_d) = u(f)/(k·f²) (first-order propagation, GUM §5.1.2).
   const delays = ps
     .filter((p) => p.error < 0)
-    .map((p) => derivedFact('switching delay per flip', quantity((1 / p.measured - 1 / p.nominal) / 4, 's', p.U / (4 * p.measured * p.measured)), { condition: p.condition }));
+    .map((p) => {
+      const k = delayFactor(f, p.condition);
+      return derivedFact('switching delay per flip', quantity((1 / p.measured - 1 / p.nominal) / k, 's', p.U / (k * p.measured * p.measured)), { condition: p.condition });
+    });
   const growth = swingGrowth(f);
   const remarks: CauseRemark[] = ['error-grows-with-frequency', 'period-longer-by-4td', ...(growth.length ? (['swing-grows-with-frequency'] as const) : [])];
   return {
@@ -88,6 +94,17 @@ export const switchingDelay: CauseRule = (f) => {
     remarks,
   };
 };
+
+/**
+ * How many delays one period gains: 2 + r + 1/r for a triangle whose rising and falling slopes stand
+ * in the ratio r at that condition (each overrun at one slope is undone at the other), 4 when no
+ * triangle's slope ratio was measured there (matched ramps).
+ */
+function delayFactor(f: UnitFacts, condition: string): number {
+  const tri = outputsShaped(f, ['triangle']).find((o) => o.condition === condition);
+  const r = tri?.channel.measurements.slopeRatio?.value;
+  return typeof r === 'number' && Number.isFinite(r) && r > 0 ? 2 + r + 1 / r : 4;
+}
 
 /** The triangle overshooting its thresholds more at high frequency: ramps run on for t_d after each crossing. */
 function swingGrowth(f: UnitFacts): CauseFact[] {

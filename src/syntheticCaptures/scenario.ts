@@ -68,7 +68,10 @@ const CYCLES = 30;
 
 export function kestrelCapture(unit: UnitTraits, condition: ScenarioCondition): ScenarioCapture {
   // A delay t_d lets each ramp run on past its threshold by slope·t_d and come back: each of the two
-  // ramps lasts 2·t_d longer, so the period grows by 4·t_d while the slopes stay I/C.
+  // ramps lasts 2·t_d longer, so the period grows by 4·t_d while the slopes stay I/C. That holds for
+  // matched ramps (the delayed unit FK-0106); with unequal slopes the period grows by t_d·(2 + r + 1/r)
+  // (checked in ngspice, test/ngspice/delayedComparator.test.ts), which for FK-0103's r = 1.083 and the
+  // good units' 0.4 µs differs from 4·t_d by 2.6 ns a period, a few ppm: the scenario keeps 4·t_d.
   const ideal = condition.nominal * unit.frequencyScale;
   const frequency = 1 / (1 / ideal + 4 * unit.comparatorDelay);
   const slope = 2 * unit.swing * 2 * ideal; // V/s on a symmetric ramp at the ideal frequency

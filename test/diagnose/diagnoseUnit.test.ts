@@ -78,6 +78,30 @@ describe('diagnoseUnit frequency patterns (f = I/(2·C·Vpp))', () => {
     expect(ids(causes)).not.toContain('threshold-levels');
   });
 
+  it('estimates the delay with the unequal-slope period law when the ramps are mismatched', () => {
+    // Ramps in the ratio r = s_rise/s_fall = 1.5 (rising share 0.4) and t_d = 7.6 µs. Each overrun at one
+    // slope is undone at the other, so T = 1/f0 + t_d·(2 + r + 1/r) (closed form, checked against an
+    // ngspice core with a delay line in test/ngspice/delayedComparator.test.ts); 4·t_d would read 4 % high.
+    const td = 7.6e-6;
+    const rise = 0.4;
+    const r = (1 - rise) / rise;
+    const k = 2 + r + 1 / r;
+    const delayed = (c: ScenarioCondition) => {
+      const period = 1 / c.nominal + k * td;
+      const sampleRate = 200 * 1.0137 / period;
+      const ownRise = (rise / c.nominal + td * (1 + 1 / r)) / period;
+      return {
+        triangle: synthesize({ shape: 'triangle', frequency: 1 / period, amplitude: 3, riseFraction: ownRise, sampleRate, samples: 200 * 30, noise: 0.006, seed: 21 }),
+        pulse: synthesize({ shape: 'pulse', frequency: 1 / period, amplitude: 5, duty: ownRise, sampleRate, samples: 200 * 30, noise: 0.012, edge: { tau: 1.5e-6 }, seed: 22 }),
+      };
+    };
+    const causes = causesOf(checkedSignals(spec, 'FK-0197', KESTREL_CONDITIONS, delayed));
+    const cause = causes.find((c) => c.id === 'switching-delay');
+    expect(cause).toBeDefined();
+    const high = factsOf(cause, 'switching delay per flip').find((f) => f.condition === 'high')!;
+    expectWithin(high.observed.value, td, { rel: 0.02 }, 'planted delay, closed form T = 1/f0 + t_d·(2 + r + 1/r)');
+  });
+
   it('blames leakage or bias current when the error is largest at the low end', () => {
     // A fixed 2 % of the low-end charge current lost to leakage: error −k/f with k = 0.02·65.41 Hz.
     const leaky = (c: ScenarioCondition): UnitTraits => variant({ frequencyScale: 1 - (0.02 * 65.41) / c.nominal });
