@@ -6,11 +6,15 @@
  * the whole audit (fingerprints, hash chain, every capture), then the listing. Between changes every
  * answer comes from the last verified view, with one query for the head.
  *
+ * Verifying a whole store takes time (about 2 ms a run on a busy 2-core machine against a local
+ * server), so verifications are spaced to take at most `share` (a fifth) of the server's time: a head
+ * that moves again soon after a verification is answered from the last verified view and caught up
+ * with in the background a moment later. `marker()` holds the store's head now and the verified one,
+ * so a change marker built on it moves both when a run is stored and when the view catches up.
+ *
  * A row edited in place with the store's guards removed leaves the chain head as it was, so the
- * store is verified again in the background as well (`recheckMs` apart at least, and at least four
- * times the last verification's duration apart, so re-checking takes at most a fifth of the
- * server's time). Its problems are part of `marker()`, so a change marker that includes it tells the
- * page when a re-check found something new.
+ * store is verified again in the background as well (`recheckMs` apart at least, and spaced as
+ * above); the problems found are part of `marker()` too.
  *
  * Each verified view holds two handles opened in 'mark' mode: one for the audit and the listing, and
  * one for unit reads, whose per-unit verification fetches the unit's captures into this bench's
@@ -29,7 +33,8 @@ export interface RecordStoreFollower extends StoreFollower {
 
 /** Least time between two background re-checks of an unchanged store, in ms. */
 export const RECHECK_MS = 30_000;
-const RECHECK_FACTOR = 4;
+/** Most of the server's time spent verifying: a head that moves sooner is caught up with later. */
+export const VERIFY_SHARE = 0.2;
 
 interface View {
   readonly head: string;
@@ -39,16 +44,27 @@ interface View {
   readonly snap: FollowedStore;
 }
 
-export function followRecordStore(open: () => RecordStore, options: { readonly recheckMs?: number } = {}): RecordStoreFollower {
-  const { recheckMs = RECHECK_MS } = options;
+export interface FollowRecordStoreOptions {
+  readonly recheckMs?: number;
+  /** Share of the time verification may take (0 < share ≤ 1); 1 verifies at every answer after a change. */
+  readonly share?: number;
+}
+
+export function followRecordStore(open: () => RecordStore, options: FollowRecordStoreOptions = {}): RecordStoreFollower {
+  const { recheckMs = RECHECK_MS, share = VERIFY_SHARE } = options;
   let view: View | undefined;
   let verifiedRows = 0;
   let fullPasses = 0;
-  /** Something changed that the head may not show (an edit in place): verify again at the next answer. */
-  let stale = false;
+  /** The last verification failed (the store out of reach): the next answer tries again at once. */
+  let failed = false;
   let closed = false;
   let lastMs = 0;
+  let lastEnd = 0;
   let timer: NodeJS.Timeout | undefined;
+  let timerAt = Infinity;
+
+  /** The wait after a verification that keeps verifying within its share of the time. */
+  const gap = (): number => lastMs * (1 / share - 1);
 
   const verify = (): View => {
     const started = Date.now();
@@ -60,7 +76,8 @@ export function followRecordStore(open: () => RecordStore, options: { readonly r
       verifiedRows += audit.chained;
       fullPasses += 1;
       const snap = followedView(listing, audit, verifiedRows, fullPasses);
-      lastMs = Date.now() - started;
+      lastEnd = Date.now();
+      lastMs = lastEnd - started;
       return { head, listing, snap };
     } catch (err) {
       listing.close();
@@ -68,12 +85,34 @@ export function followRecordStore(open: () => RecordStore, options: { readonly r
     }
   };
 
-  const replace = (next: View): void => {
+  const replace = (): View => {
+    failed = true;
+    const next = verify();
+    failed = false;
     const old = view;
     view = next;
     old?.listing.close();
     old?.units?.close();
+    wake(lastEnd + Math.max(recheckMs, gap()));
+    return next;
   };
+
+  /** Verify in the background at `at` (the earlier of this and any wake already set). */
+  function wake(at: number): void {
+    if (closed || (timer && timerAt <= at)) return;
+    if (timer) clearTimeout(timer);
+    timerAt = at;
+    timer = setTimeout(() => {
+      timer = undefined;
+      timerAt = Infinity;
+      try {
+        replace();
+      } catch {
+        // The store is out of reach or failing: the next answer opens it again and says why.
+      }
+    }, Math.max(0, at - Date.now()));
+    timer.unref();
+  }
 
   /** The head the view's handle sees now; undefined when that handle failed (a connection lost). */
   const liveHead = (v: View): string | undefined => {
@@ -86,30 +125,15 @@ export function followRecordStore(open: () => RecordStore, options: { readonly r
 
   const current = (): View => {
     if (closed) throw new RangeError('followRecordStore: the follower is closed');
-    if (view && !stale && liveHead(view) === view.head) return view;
-    // Stays stale until a verification succeeds: a store out of reach is tried again at the next answer.
-    stale = true;
-    replace(verify());
-    stale = false;
-    return view as View;
+    if (!view || failed) return replace();
+    const live = liveHead(view);
+    if (live === view.head) return view;
+    if (live === undefined || Date.now() >= lastEnd + gap()) return replace();
+    // Verified a moment ago and the head moved again: answer from that view and catch up soon; the
+    // marker moves when the new view is in, so the page asks again.
+    wake(lastEnd + gap());
+    return view;
   };
-
-  const recheck = (): void => {
-    timer = undefined;
-    if (closed) return;
-    try {
-      replace(verify());
-    } catch {
-      // The store is out of reach or failing: the next answer opens it again and says why.
-      stale = true;
-    }
-    plan();
-  };
-  function plan(): void {
-    if (closed || timer) return;
-    timer = setTimeout(recheck, Math.max(recheckMs, RECHECK_FACTOR * lastMs));
-    timer.unref();
-  }
 
   const unitStore = (): { v: View; store: RecordStore } => {
     const v = current();
@@ -119,13 +143,11 @@ export function followRecordStore(open: () => RecordStore, options: { readonly r
 
   return {
     async catchUp() {
-      const v = current();
-      plan();
-      return v.snap;
+      return current().snap;
     },
-    changed() {
-      stale = true;
-    },
+    // Every run stored moves the head, which each answer compares; an edit in place moves nothing,
+    // so only the background re-check can find it: there is nothing more to do on a change.
+    changed() {},
     async unitRuns(serial) {
       const { v, store } = unitStore();
       const runs = store.runs({ unit: serial });
@@ -140,11 +162,8 @@ export function followRecordStore(open: () => RecordStore, options: { readonly r
       // The first look verifies (it throws, and so marks, while the store is out of reach).
       const v = view ?? current();
       const head = liveHead(v);
-      if (head === undefined) {
-        stale = true;
-        return 'failed';
-      }
-      return `${head}|${v.snap.audit.problems.map((p) => `${p.kind}:${p.id}:${p.problem}`).join(',')}`;
+      if (head === undefined) return 'failed';
+      return `${head}|${v.head}|${v.snap.audit.problems.map((p) => `${p.kind}:${p.id}:${p.problem}`).join(',')}`;
     },
     close() {
       closed = true;

@@ -48,7 +48,7 @@ describe('followRecordStore', () => {
   });
 
   it('answers from the same view while the chain head stays, and verifies again once another writer moved it', async () => {
-    follower = followRecordStore(open);
+    follower = followRecordStore(open, { share: 1 });
     const first = await follower.catchUp();
     const before = follower.marker();
     expect(await follower.catchUp()).toBe(first);
@@ -63,14 +63,15 @@ describe('followRecordStore', () => {
     expect(next.units().map((u) => u.unit)).toEqual(['FK-0101', 'FK-0102', 'FK-0103']);
   });
 
-  it('names a row edited in place (the head unchanged) after changed(), with the audit of a fresh store, and marks its run', async () => {
-    follower = followRecordStore(open);
+  it('names a row edited in place (the head unchanged) at the next verification, with the audit of a fresh store, and marks its run', async () => {
+    follower = followRecordStore(open, { share: 1 });
     await follower.catchUp();
     const raw = new Database(join(dir, DATABASE_FILE));
     raw.exec("DROP TRIGGER runs_no_update; UPDATE runs SET operator = 'someone else' WHERE unit = 'FK-0101'");
     raw.close();
-    expect((await follower.catchUp()).audit.problems).toEqual([]); // nothing tells it yet: the head is the same
     follower.changed();
+    expect((await follower.catchUp()).audit.problems).toEqual([]); // nothing tells it yet: the head is the same
+    writer.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: at(3) }));
     const snap = await follower.catchUp();
     const ref = reference();
     expect(snap.audit).toEqual(ref.audit());
@@ -81,6 +82,23 @@ describe('followRecordStore', () => {
     expect(audit).toBe(snap.audit);
     expect(runs.map((r) => r.intact)).toEqual([false]);
     expect((await follower.unitRecord('FK-0101')).record?.runs.map((r) => r.intact)).toEqual([false]);
+  });
+
+  it('answers from the last verified view when the head moves again within its share of the time, with the marker showing both heads', async () => {
+    // Each open takes at least 20 ms, so with a share of 1/1000 the next verification waits at least 20 s.
+    const slow = (): RecordStore => {
+      Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 20);
+      return open();
+    };
+    follower = followRecordStore(slow, { share: 0.001 });
+    const first = await follower.catchUp();
+    const [head, verified] = follower.marker().split('|');
+    expect(head).toBe(verified);
+    writer.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: at(3) }));
+    expect(await follower.catchUp()).toBe(first);
+    const [headNow, verifiedNow] = follower.marker().split('|');
+    expect([headNow !== head, verifiedNow]).toEqual([true, verified]);
+    expect(opened).toBe(1);
   });
 
   it('finds an edit in place by its background re-check and moves its marker, with no change announced', async () => {
