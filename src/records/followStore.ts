@@ -53,8 +53,9 @@ export interface StoreFollower {
 export const SWEEP_GAP_MS = 1_000;
 const SWEEP_GAP_FACTOR = 4;
 
-export function followStore(dir: string, options: { readonly sweepGapMs?: number } = {}): StoreFollower {
-  const { sweepGapMs = SWEEP_GAP_MS } = options;
+export function followStore(dir: string, options: { readonly sweepGapMs?: number; readonly sweepGapFactor?: number } = {}): StoreFollower {
+  // Tests set both to 0 to sweep at once after a change, whatever the machine's load made the last sweep take.
+  const { sweepGapMs = SWEEP_GAP_MS, sweepGapFactor = SWEEP_GAP_FACTOR } = options;
   const db: Db = new Database(join(dir, DATABASE_FILE), { readonly: true, fileMustExist: true, timeout: 15_000 });
   let entries: ChainEntry[] = [];
   /** Entries actually read (a gap in the numbers leaves fewer than the last number). */
@@ -195,7 +196,7 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
       return;
     }
     if (sweepTimer) return;
-    const wait = Math.max(0, lastSweepEnd + Math.max(sweepGapMs, SWEEP_GAP_FACTOR * lastSweepMs) - Date.now());
+    const wait = Math.max(0, lastSweepEnd + Math.max(sweepGapMs, sweepGapFactor * lastSweepMs) - Date.now());
     sweepTimer = setTimeout(() => {
       sweepTimer = undefined;
       void runSweep();

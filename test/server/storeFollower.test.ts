@@ -123,7 +123,7 @@ describe('the board follower', () => {
   });
 
   it('finds a row edited in place after it was verified, in the sweep a change of the database schedules', async () => {
-    follower = followStore(dir, { sweepGapMs: 0 });
+    follower = followStore(dir, { sweepGapMs: 0, sweepGapFactor: 0 });
     const first = await follower.catchUp();
     writable('DROP TRIGGER runs_no_update');
     writable("UPDATE runs SET operator = 'someone else' WHERE unit = 'FK-0201'");
@@ -151,7 +151,7 @@ describe('the board follower', () => {
   });
 
   it('names a deleted run as missing, as the full audit does', async () => {
-    follower = followStore(dir, { sweepGapMs: 0 });
+    follower = followStore(dir, { sweepGapMs: 0, sweepGapFactor: 0 });
     await follower.catchUp();
     writable('DROP TRIGGER runs_no_delete');
     const db = new Database(join(dir, 'records.db'));
@@ -178,7 +178,7 @@ describe('the board follower', () => {
   });
 
   it('reads a unit record as the store reads it, and marks a run edited in place once the sweep found it', async () => {
-    follower = followStore(dir, { sweepGapMs: 0 });
+    follower = followStore(dir, { sweepGapMs: 0, sweepGapFactor: 0 });
     const { record, audit } = await follower.unitRecord('FK-0202');
     expect(audit.problems).toEqual([]);
     expect(record).toEqual(store.unitRecord('FK-0202'));
