@@ -123,10 +123,7 @@ function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, sp
     const run = i - a;
     if (run < MIN_RUN) continue;
     if (judge) {
-      const before = a > 0 ? samplesToDepth(x, a - 1, -1, depthOf, 4 * sc.unit) : -1;
-      const after = i < x.length ? samplesToDepth(x, i, 1, depthOf, 4 * sc.unit) : -1;
-      if (before < 0 && after < 0) continue;
-      if (run <= DWELL_RATIO * Math.max(before, after)) continue;
+      if (!dwellsLonger(x, a, i, depthOf, 4 * sc.unit)) continue;
       if (!cutsRamp(x, a - 1, -1, depthOf, sc.d) && !cutsRamp(x, i, 1, depthOf, sc.d)) continue;
     }
     const core = flatCore(x, a, i, sc.band / 2);
@@ -159,8 +156,38 @@ function cutsRamp(x: Float64Array, from: number, by: number, depthOf: (i: number
   return shallow > 0 && deep >= RAMP_RATIO * shallow;
 }
 
-function samplesToDepth(x: Float64Array, from: number, by: number, depthOf: (i: number) => number, depth: number): number {
+/**
+ * Rule 2: the run [a, b) lasts longer than DWELL_RATIO times the samples the waveform takes to reach
+ * `depth` below it on either side (a side that never gets there, at the record's end or a gap, says
+ * nothing; neither side saying anything fails the rule). Each walk stops once its count alone would
+ * fail the rule, so a long state broken by noise into many short runs costs time linear in the
+ * record, not in runs × state length (a 4M-row pulse took seconds); a side stopped that way is
+ * walked in full only when the other side alone would pass the rule, which is the one case where
+ * how the stopped side ends (a count or nothing) decides.
+ */
+function dwellsLonger(x: Float64Array, a: number, b: number, depthOf: (i: number) => number, depth: number): boolean {
+  const run = b - a;
+  const cap = Math.floor(run / DWELL_RATIO) + 1;
+  let before = a > 0 ? samplesToDepth(x, a - 1, -1, depthOf, depth, cap) : -1;
+  let after = b < x.length ? samplesToDepth(x, b, 1, depthOf, depth, cap) : -1;
+  if (before === STOPPED && after === STOPPED) return false;
+  if (before === STOPPED || after === STOPPED) {
+    const other = before === STOPPED ? after : before;
+    if (other < 0 || run <= DWELL_RATIO * other) return false;
+    if (before === STOPPED) before = samplesToDepth(x, a - 1, -1, depthOf, depth, Infinity);
+    else after = samplesToDepth(x, b, 1, depthOf, depth, Infinity);
+  }
+  if (before < 0 && after < 0) return false;
+  return run > DWELL_RATIO * Math.max(before, after);
+}
+
+/** samplesToDepth's answer when it stopped at its limit without reaching the depth. */
+const STOPPED = Number.POSITIVE_INFINITY;
+
+/** Samples from `from` (counting it) until the depth is reached; −1 at the record's end or a gap; STOPPED past `limit`. */
+function samplesToDepth(x: Float64Array, from: number, by: number, depthOf: (i: number) => number, depth: number, limit = Number.POSITIVE_INFINITY): number {
   for (let k = 1, j = from; j >= 0 && j < x.length; k++, j += by) {
+    if (k > limit) return STOPPED;
     const dd = depthOf(j);
     if (dd !== dd) return -1;
     if (dd >= depth) return k;
