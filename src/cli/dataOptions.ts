@@ -8,6 +8,7 @@ import { hostname, userInfo } from 'node:os';
 import { relative, isAbsolute, resolve } from 'node:path';
 import type { Command } from 'commander';
 import type { CommandContext } from './context.js';
+import { terminalWidth, wrapNotice } from './terminalWidth.js';
 
 export const DEFAULT_DATA_FOLDER = 'benchproof-data';
 
@@ -116,7 +117,9 @@ export function stationName(): string {
 
 /** Say on stderr, in one line, what was written where and what to run next. */
 export function notice(ctx: CommandContext, what: string, next: string): void {
-  ctx.io.stderr(`benchproof: ${what}; next: ${next}\n`);
+  const text = `benchproof: ${what}; next: ${next}`;
+  // On a terminal the notice is wrapped to its width; piped, it stays one line for scripts to read.
+  ctx.io.stderr(`${ctx.io.stderrIsTTY ? wrapNotice(text, terminalWidth(ctx.io)) : text}\n`);
 }
 
 export const quoteArg = (s: string): string => (/^[\w./:@%+-]+$/.test(s) ? s : `"${s.replace(/(["\\$`])/g, '\\$1')}"`);

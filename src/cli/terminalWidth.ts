@@ -13,3 +13,21 @@ export function terminalWidth(io: CliIo): number {
   const chosen = Number.isInteger(fromEnv) && fromEnv > 0 ? fromEnv : io.stdoutIsTTY && io.stdoutColumns ? io.stdoutColumns : DEFAULT_WIDTH;
   return Math.max(NARROWEST, chosen);
 }
+
+/**
+ * A notice on stderr broken at spaces into lines of at most `width` columns, continuation lines
+ * indented two spaces; a word longer than the line (a long path) stands whole on a line of its own,
+ * since a command to copy must not be cut.
+ */
+export function wrapNotice(text: string, width: number): string {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(' ')) {
+    if (line !== '' && [...line].length + 1 + [...word].length > width) {
+      lines.push(line);
+      line = `  ${word}`;
+    } else line = line === '' ? word : `${line} ${word}`;
+  }
+  lines.push(line);
+  return lines.join('\n');
+}
