@@ -1,9 +1,9 @@
 import { describe, it, expect, beforeAll } from 'vitest';
-import { copyFileSync, mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { copyFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runCli } from '../helpers/cliHarness.js';
 import { expectWithin } from '../helpers/expectWithin.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 // Demo captures (invented scenario, src/syntheticCaptures/scenario.ts) and the demo spec in samples/.
 const SPEC = 'samples/fh210-spec.yaml';
@@ -18,7 +18,7 @@ function triangleSpec(name: string, limit: string): string {
 }
 
 beforeAll(() => {
-  dir = mkdtempSync(join(tmpdir(), 'benchproof-check-'));
+  dir = tempFolder('benchproof-check-');
 });
 
 describe('benchproof check on the demo captures', () => {

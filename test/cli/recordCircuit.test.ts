@@ -4,14 +4,12 @@
  * scenario has a timing capacitor 6 % high.
  */
 import { describe, it, expect } from 'vitest';
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { runCli } from '../helpers/cliHarness.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 describe('benchproof record with a design section in the spec', () => {
   it('shows the back-computed circuit figures of the latest run in Markdown and HTML', async () => {
-    const env = { BENCHPROOF_DATA: mkdtempSync(join(tmpdir(), 'benchproof-circuit-')) };
+    const env = { BENCHPROOF_DATA: tempFolder('benchproof-circuit-') };
     const files = ['low', 'mid', 'high'].map((c) => `samples/captures/FK-0104_${c}.csv`);
     const check = await runCli(['check', ...files, '--spec', 'samples/fh210-spec.yaml', '--json'], { env });
     expect(check.code).toBe(1);

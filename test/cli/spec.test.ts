@@ -1,15 +1,15 @@
 import { describe, it, expect, beforeAll } from 'vitest';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { runCli } from '../helpers/cliHarness.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 const SPEC = 'samples/fh210-spec.yaml';
 const unitFiles = (serial: string): string[] => ['low', 'mid', 'high'].map((c) => `samples/captures/${serial}_${c}.csv`);
 let dir = '';
 
 beforeAll(() => {
-  dir = mkdtempSync(join(tmpdir(), 'benchproof-spec-'));
+  dir = tempFolder('benchproof-spec-');
 });
 
 describe('benchproof spec validate', () => {

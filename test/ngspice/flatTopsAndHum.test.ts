@@ -20,8 +20,7 @@
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { readCapture } from '../../src/capture/index.js';
 import { measureCapture } from '../../src/analysis/index.js';
@@ -29,6 +28,7 @@ import { bindCapture, decideUnit, parseSpec, planCapture } from '../../src/desig
 import { diagnoseUnit } from '../../src/diagnose/index.js';
 import type { Capture, Diagnosis, UnitVerdict } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 const hasNgspice = spawnSync('sh', ['-c', 'command -v ngspice'], { encoding: 'utf8' }).status === 0;
 if (!hasNgspice) console.warn('note: ngspice is not installed; the flat-top and hum circuit checks are skipped (apt-get install ngspice)');
@@ -90,7 +90,7 @@ function requantised(c: Capture, q: number, low = -Infinity, high = Infinity): C
 async function exported(c: Capture, channel: number, preamble: string, low = -Infinity, high = Infinity): Promise<Capture> {
   const x = c.channels[channel - 1].samples;
   const rows = Array.from(x, (v, i) => `${(i * c.sampleInterval).toFixed(9)},${Math.min(high, Math.max(low, v)).toFixed(6)}`);
-  const file = join(mkdtempSync(join(tmpdir(), 'benchproof-export-')), 'export.csv');
+  const file = join(tempFolder('benchproof-export-'), 'export.csv');
   writeFileSync(file, `${preamble}Time (s),CH1 (V)\n${rows.join('\n')}\n`);
   return readCapture(file);
 }
@@ -111,7 +111,7 @@ describe.skipIf(!hasNgspice)('verdicts at the edges against ngspice', () => {
   let vtop = Number.NaN;
 
   beforeAll(async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'benchproof-edges-'));
+    const dir = tempFolder('benchproof-edges-');
     const file = join(dir, 'edges.txt');
     writeFileSync(join(dir, 'edges.cir'), netlist(file));
     const run = spawnSync('ngspice', ['-b', 'edges.cir'], { cwd: dir, encoding: 'utf8', timeout: 120_000 });

@@ -9,8 +9,7 @@
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { readCapture } from '../../src/capture/index.js';
 import { measureCapture } from '../../src/analysis/index.js';
@@ -19,6 +18,7 @@ import { coreFrequency, diagnoseUnit } from '../../src/diagnose/index.js';
 import type { CircuitFigure, MeasureReport } from '../../src/types/index.js';
 import type { CircuitView } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 const hasNgspice = spawnSync('sh', ['-c', 'command -v ngspice'], { encoding: 'utf8' }).status === 0;
 if (!hasNgspice) console.warn('note: ngspice is not installed; the circuit-simulator check is skipped (apt-get install ngspice)');
@@ -58,7 +58,7 @@ interface Simulated {
 }
 
 function simulate(): Simulated {
-  const dir = mkdtempSync(join(tmpdir(), 'benchproof-ngspice-'));
+  const dir = tempFolder('benchproof-ngspice-');
   const file = join(dir, 'core.txt');
   writeFileSync(join(dir, 'core.cir'), netlist(file));
   const run = spawnSync('ngspice', ['-b', 'core.cir'], { cwd: dir, encoding: 'utf8', timeout: 120_000 });

@@ -8,7 +8,7 @@
  * Skips with a note without the PostgreSQL server binaries.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, readdirSync } from 'node:fs';
+import { readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../helpers/cliHarness.js';
@@ -18,6 +18,7 @@ import { removeTempDir } from './helpers/tempData.js';
 import { maskStoreUrl } from '../../src/cli/dataOptions.js';
 import { openPgStore, openStore, shownStore } from '../../src/records/index.js';
 import { kestrelRun } from './fixtures/kestrelRun.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 const started = startPgCluster();
 const skip = isSkipped(started) ? started.skip : undefined;
@@ -32,7 +33,7 @@ const spec = 'samples/fh210-spec.yaml';
 const files = (serial: string): string[] => ['low', 'mid', 'high'].map((c) => `samples/captures/${serial}_${c}.csv`);
 const calibration = (set: string): string[] => readdirSync(join('samples', 'calibration', set)).sort().map((f) => `samples/calibration/${set}/${f}`);
 const folder = (): string => {
-  const d = mkdtempSync(join(tmpdir(), 'benchproof-shared-'));
+  const d = tempFolder('benchproof-shared-');
   made.push(d);
   return join(d, 'benchproof-data');
 };

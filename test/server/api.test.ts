@@ -12,6 +12,7 @@ import { runCli } from '../helpers/cliHarness.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { SPEC, filesForm, nextEvent, startTestServer } from './serverHarness.js';
 import type { TestServer } from './serverHarness.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 let t: TestServer;
 const sample = (name: string): { name: string; bytes: Uint8Array } => ({ name, bytes: readFileSync(`samples/captures/${name}`) });
@@ -49,9 +50,8 @@ describe('the bench page routes', () => {
     const res = await drop([{ name: 'FK-0102_mid.csv', bytes: bad }]);
     const body = (await res.json()) as { error: { code: string; message: string } };
     expect(res.status).toBe(422);
-    const { mkdtempSync, writeFileSync } = await import('node:fs');
-    const { tmpdir } = await import('node:os');
-    const dir = mkdtempSync(join(tmpdir(), 'benchproof-bad-'));
+    const { writeFileSync } = await import('node:fs');
+    const dir = tempFolder('benchproof-bad-');
     writeFileSync(join(dir, 'FK-0102_mid.csv'), bad);
     const cli = await runCli(['check', 'FK-0102_mid.csv', '--spec', join(process.cwd(), SPEC), '--no-store'], { cwd: dir });
     expect(cli.code).toBe(2);

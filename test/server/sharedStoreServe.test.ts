@@ -6,8 +6,7 @@
 // a note without them, as the other shared-store tests are.
 import { afterAll, describe, expect, it } from 'vitest';
 import { execFile } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import { runCli } from '../helpers/cliHarness.js';
@@ -16,6 +15,7 @@ import type { PgCluster } from '../helpers/pgCluster.js';
 import { removeTempDir } from '../records/helpers/tempData.js';
 import { nextEvent, SPEC, startTestServer } from './serverHarness.js';
 import type { TestServer } from './serverHarness.js';
+import { tempFolder } from '../helpers/tempFolders.js';
 
 const started = startPgCluster();
 const skip = isSkipped(started) ? started.skip : undefined;
@@ -30,7 +30,7 @@ afterAll(async () => {
 
 const files = (serial: string, conditions = ['low', 'mid', 'high']): string[] => conditions.map((c) => `samples/captures/${serial}_${c}.csv`);
 const folder = (): string => {
-  const d = mkdtempSync(join(tmpdir(), 'benchproof-serve-shared-'));
+  const d = tempFolder('benchproof-serve-shared-');
   made.push(d);
   return join(d, 'benchproof-data');
 };
