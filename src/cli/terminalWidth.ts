@@ -17,7 +17,9 @@ export function terminalWidth(io: CliIo): number {
 /**
  * A notice on stderr broken at spaces into lines of at most `width` columns, continuation lines
  * indented two spaces; a word longer than the line (a long path) stands whole on a line of its own,
- * since a command to copy must not be cut.
+ * since a command to copy must not be cut. Not report's `wrap`: that one abbreviates an over-long
+ * word (right for a table cell, wrong for a command to copy), and importing the report stage here
+ * would load it at start-up for every command that registers the data options.
  */
 export function wrapNotice(text: string, width: number): string {
   const lines: string[] = [];
