@@ -14,7 +14,7 @@
 import Database from 'better-sqlite3';
 import { join } from 'node:path';
 import { BenchError } from '../types/index.js';
-import type { NewCalibrationIteration, NewRun, StoredRun } from '../types/index.js';
+import type { NewCalibrationIteration, NewRun, StoredCalibrationRun, StoredRun } from '../types/index.js';
 import type { RecordStore } from './openStore.js';
 import { DATABASE_FILE } from './openStore.js';
 import { readRuns, specText } from './readRuns.js';
@@ -81,7 +81,8 @@ export function newRunOf(db: Database.Database, dataDir: string, run: StoredRun)
 }
 
 function pushIteration(db: Database.Database, dataDir: string, entry: OutboxEntry, shared: RecordStore): number {
-  for (const c of readCalibrationRows(db, entry.unit).runs) {
+  const runs = readCalibrationRows(db, entry.unit).runs;
+  for (const [index, c] of runs.entries()) {
     const it = c.iterations.find((i) => i.id === entry.rowId);
     if (!it) continue;
     if (!it.intact) throw changedWaiting(dataDir, entry);
@@ -95,12 +96,25 @@ function pushIteration(db: Database.Database, dataDir: string, entry: OutboxEntr
       toolVersion: it.toolVersion,
       result: it.result,
       captures: it.captures.map((k) => ({ path: k.path, sha256: k.sha256, size: k.size, layout: k.layout, condition: k.condition, sourcePath: join(dataDir, ...k.archivePath.split('/')) })),
-      // A calibration session begun offline begins a calibration run on the shared store too.
-      ...(it.number === 1 ? { newRun: true } : {}),
+      // Grouping on the shared store follows its own rule (continue the unit's open run under the
+      // same spec), so a session begun online and continued offline stays one run there. Only a new
+      // run the operator asked for is asked for again.
+      ...(it.number === 1 && startedOnRequest(runs[index - 1], c) ? { newRun: true } : {}),
     };
     return shared.saveCalibration(iteration, { uid: entry.uid, originDigest: it.digest }).iteration.id;
   }
   throw new RangeError(`outbox: calibration iteration #${entry.rowId} of ${entry.unit} is listed but does not read back`);
+}
+
+/**
+ * Whether a calibration run on this bench was started at the operator's request (`--new-run`): the
+ * bench's grouping (calibrationSave.ts) would otherwise have continued the run before it, since that
+ * run was open (no iteration met the limits) under the same spec text. Runs follow one another per
+ * unit, so the earlier run's state now is its state when this one began.
+ */
+function startedOnRequest(before: StoredCalibrationRun | undefined, run: StoredCalibrationRun): boolean {
+  if (!before || before.spec.sha256 !== run.spec.sha256) return false;
+  return before.iterations.length > 0 && !before.complete;
 }
 
 function changedWaiting(dataDir: string, entry: OutboxEntry): BenchError {
