@@ -156,8 +156,8 @@ export const PARTS: Readonly<Record<PartId, PartText>> = {
       const up = ctx.design.upperThreshold;
       const h = up ? (up.upper - up.lower) / 2 : null;
       const facts: CauseFact[] = [partFact('ramp overrun past each threshold', quantity(over, 'V', u * swing), h ? zeroBand(h, 'V') : undefined, top)];
-      // Overshoot per side = slope·t_d with the symmetric slope 2·Vpp·f at the fastest condition.
-      if (fMax > 0) facts.push(derivedFact('switching delay per flip', quantity(theta / (4 * fMax), 's', (2 * u) / (4 * fMax)), top ? { condition: top } : {}));
+      const delay = delayFromGrowth(ctx.readings) ?? delayFromFit(theta, u, fMax, ctx.readings.find((r) => r.condition === top));
+      if (delay) facts.push(derivedFact('switching delay per flip', delay, top ? { condition: top } : {}));
       return { facts, toleranceMultiple: h ? Math.abs(over) / h : null };
     },
   },
@@ -176,3 +176,35 @@ export const PARTS: Readonly<Record<PartId, PartText>> = {
     },
   },
 };
+
+/**
+ * The delay from how the swing grows between the slowest and the fastest condition. Each ramp runs
+ * on past its threshold for t_d at its own slope, so the swing is S0 + (s_r + s_f)·t_d at every
+ * condition: t_d = ΔVpp / Δ(s_r + s_f), with the measured turns and slopes. Static threshold errors
+ * (divider, centre) cancel in the difference. Null when the two conditions or their slopes are missing.
+ */
+function delayFromGrowth(readings: readonly CoreReading[]): FactQuantity | null {
+  const usable = readings.filter((r) => r.top && r.bottom && r.rise && r.fall && r.fNominal);
+  if (usable.length < 2) return null;
+  const byF = [...usable].sort((a, b) => a.fNominal! - b.fNominal!);
+  const lo = byF[0];
+  const hi = byF[byF.length - 1];
+  const span = (r: CoreReading) => r.top!.value - r.bottom!.value;
+  const slopes = (r: CoreReading) => r.rise!.value + r.fall!.value;
+  const dS = slopes(hi) - slopes(lo);
+  if (!(dS > 0)) return null;
+  const u = Math.hypot(hi.top!.u, hi.bottom!.u, lo.top!.u, lo.bottom!.u) / dS;
+  return quantity((span(hi) - span(lo)) / dS, 's', 2 * u);
+}
+
+/**
+ * The delay from the fitted swing growth θ at the fastest condition: θ·Vpp = (s_r + s_f)·t_d =
+ * Vpp·f·(2 + r + 1/r)·t_d with r = s_r/s_f (4 for matched ramps; the frequency rule's law,
+ * frequencyRules.ts). Used when the turns cannot be compared between two conditions.
+ */
+function delayFromFit(theta: number, u: number, fMax: number, reading: CoreReading | undefined): FactQuantity | null {
+  if (!(fMax > 0)) return null;
+  const r = reading?.rise && reading.fall && reading.fall.value > 0 ? reading.rise.value / reading.fall.value : NaN;
+  const k = fMax * (Number.isFinite(r) && r > 0 ? 2 + r + 1 / r : 4);
+  return quantity(theta / k, 's', (2 * u) / k);
+}

@@ -3,11 +3,11 @@ import { readFileSync } from 'node:fs';
 import { decideUnit, parseSpec } from '../../src/design/index.js';
 import type { Spec } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
-import { KESTREL_CONDITIONS } from '../../src/syntheticCaptures/index.js';
-import type { UnitTraits } from '../../src/syntheticCaptures/index.js';
+import { KESTREL_CONDITIONS, synthesize } from '../../src/syntheticCaptures/index.js';
+import type { ScenarioCondition, UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Cause, CauseFact, CircuitView, Diagnosis } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
-import { checkedKestrel, kestrelTraits } from './kestrelUnit.js';
+import { checkedKestrel, checkedSignals, kestrelTraits } from './kestrelUnit.js';
 
 // The demo spec with its design section (4.7 nF ± 5 %, 14.76 µA ± 2 % at mid, ±3.0 V thresholds,
 // 10 V logic high). Captures are synthesized with fixed seeds; each fault is planted on purpose.
@@ -120,5 +120,38 @@ describe('part attribution with a design section', () => {
     expectWithin(td.observed.value, 7.6e-6, { rel: 0.03 }, 'planted delay, closed form T = 1/f0 + 4·t_d');
     for (let i = 1; i < d.causes.length; i++) expect(d.causes[i - 1].score).toBeGreaterThanOrEqual(d.causes[i].score);
     expect(JSON.parse(JSON.stringify(d))).toEqual(d);
+  });
+
+  it('reads the switching delay from the swing growth with the unequal-slope law when the ramps are mismatched', () => {
+    // A core whose ramps stand in the ratio r = s_rise/s_fall = 7/3 (rising share 0.3) and whose
+    // comparator flips t_d = 7.6 µs late: each ramp runs on past its threshold for t_d at its own
+    // slope, so the top overruns by s_r·t_d, the bottom by s_f·t_d, the swing grows by (s_r + s_f)·t_d
+    // = Vpp·f0·(2 + r + 1/r)·t_d and T = 1/f0 + t_d·(2 + r + 1/r) (closed form; the period law is
+    // checked against an ngspice core with a delay line in test/ngspice/delayedComparator.test.ts).
+    // The circuit view reads t_d = ΔVpp/Δ(s_r + s_f) between the slowest and fastest conditions;
+    // dividing the growth by 4·f0 instead would read it 19 % high. 3 %: half the stated U (6 %).
+    const td = 7.6e-6;
+    const rise = 0.3;
+    const r = (1 - rise) / rise;
+    const k = 2 + r + 1 / r;
+    const signals = (c: ScenarioCondition) => {
+      const sr = (6 * c.nominal) / rise;
+      const sf = (6 * c.nominal) / (1 - rise);
+      const period = 1 / c.nominal + k * td;
+      const sampleRate = (200 * 1.0137) / period;
+      const ownRise = (rise / c.nominal + td * (1 + 1 / r)) / period;
+      const top = 3 + sr * td;
+      const bottom = -3 - sf * td;
+      return {
+        triangle: synthesize({ shape: 'triangle', frequency: 1 / period, amplitude: (top - bottom) / 2, offset: (top + bottom) / 2, riseFraction: ownRise, sampleRate, samples: 200 * 30, noise: 0.006, seed: 31 }),
+        pulse: synthesize({ shape: 'pulse', frequency: 1 / period, amplitude: 5, duty: ownRise, sampleRate, samples: 200 * 30, noise: 0.012, edge: { tau: 1.5e-6 }, seed: 32 }),
+      };
+    };
+    const d = diagnoseUnit(spec, decideUnit(spec, 'FK-0198', checkedSignals(spec, 'FK-0198', KESTREL_CONDITIONS, signals)));
+    const cause = d.causes.find((c) => c.id === 'switching-delay');
+    expect(cause).toBeDefined();
+    const fromSwing = cause!.facts!.filter((f) => f.part === 'switching delay per flip' && f.pattern === undefined);
+    expect(fromSwing.length).toBeGreaterThan(0);
+    for (const f of fromSwing) expectWithin(f.observed.value, td, { rel: 0.03 }, 'planted delay; swing growth Vpp·f0·(2 + r + 1/r)·t_d, closed form');
   });
 });
