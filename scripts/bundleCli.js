@@ -15,7 +15,11 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const out = join(root, 'dist', 'bundle');
 rmSync(out, { recursive: true, force: true });
 await build({
-  input: { main: join(root, 'dist', 'cli', 'main.js'), pieceWorker: join(root, 'dist', 'capture', 'pieceWorker.js') },
+  input: {
+    main: join(root, 'dist', 'cli', 'main.js'),
+    pieceWorker: join(root, 'dist', 'capture', 'pieceWorker.js'),
+    measureWorker: join(root, 'dist', 'cli', 'measureWorker.js'),
+  },
   platform: 'node',
   // Every package import stays an import: only the project's own relative modules are bundled.
   external: (id) => id.startsWith('node:') || !(id.startsWith('.') || id.startsWith('/')),

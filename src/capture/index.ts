@@ -36,6 +36,11 @@
  */
 export { readCapture } from './readCapture.js';
 export { readCaptureLines } from './readCapture.js';
+export type { PieceOptions } from './readCapture.js';
+export { PIECE_BYTES, pieceHelpersOn } from './parallelRead.js';
+export type { PieceHelpers } from './parallelRead.js';
+export { isPieceMessage, PieceServer } from './pieceServer.js';
+export type { PieceMessage } from './pieceServer.js';
 export { inspectCapture, inspectFailure } from './inspect.js';
 export type { FailedInspection, Inspection, InspectedLine, LineRole } from './inspect.js';
 export { mergeSettings, parseReadingProfile, readingSettings, delimiterOf, decimalMarkOf } from './readingOptions.js';

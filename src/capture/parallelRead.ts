@@ -70,7 +70,18 @@ export function workersFor(size: number): number {
 
 /** Starts the workers at once, so that they load while this thread sniffs the layout. */
 export function startWorkerPool(count: number, script: URL = WORKER_URL): PieceHelpers {
-  return new WorkerPool(count, script);
+  return new WorkerPool(
+    Array.from({ length: count }, () => new Worker(script)),
+    true,
+  );
+}
+
+/**
+ * Piece helpers on worker threads someone else started and keeps (their script must answer piece
+ * messages with PieceServer): close() waits for their pieces, then lets them go without stopping them.
+ */
+export function pieceHelpersOn(workers: readonly Worker[]): PieceHelpers {
+  return new WorkerPool(workers, false);
 }
 
 /** No helpers: this thread reads every piece. */
@@ -213,7 +224,6 @@ function readOnFrom(p: PieceRead, at: number, line: number): void {
 }
 
 class WorkerPool implements PieceHelpers {
-  private readonly workers: Worker[];
   private readonly running = new Map<Worker, number>();
   private readonly spare: PieceResult[] = [];
   private readonly answered = new WeakSet<PieceResult>();
@@ -221,26 +231,33 @@ class WorkerPool implements PieceHelpers {
   private done: (index: number, r: PieceResult | null) => void = () => undefined;
   private idleWaiters: (() => void)[] = [];
   private failed = false;
+  private readonly detach: (() => void)[] = [];
 
-  constructor(count: number, script: URL) {
-    this.workers = Array.from({ length: count }, () => {
-      const w = new Worker(script);
-      w.on('message', (r: PieceResult) => {
+  /** `owned`: the pool started the workers and stops them on close; otherwise it only lets them go. */
+  constructor(
+    private readonly workers: readonly Worker[],
+    private readonly owned: boolean,
+  ) {
+    for (const w of workers) {
+      const onMessage = (r: unknown): void => {
+        // A worker shared with other work answers only pieces while it is lent to this pool.
+        if (!isPieceResult(r)) return;
         this.answered.add(r);
         this.settle(w, r);
-      });
+      };
       // A worker that fails is not used again; its piece is read on in order by the main thread.
-      w.on('error', () => {
+      const onError = (): void => {
         this.failed = true;
         this.settle(w, null);
-      });
+      };
       // A worker gone without an answer (out of memory, stopped) leaves its piece to the main thread too.
-      w.on('exit', () => {
+      const onExit = (): void => {
         this.failed = true;
         if (this.running.has(w)) this.settle(w, null);
-      });
-      return w;
-    });
+      };
+      w.on('message', onMessage).on('error', onError).on('exit', onExit);
+      this.detach.push(() => w.off('message', onMessage).off('error', onError).off('exit', onExit));
+    }
   }
 
   setup(s: PieceSetup, take: () => PieceTask | undefined, done: (index: number, r: PieceResult | null) => void): void {
@@ -262,7 +279,12 @@ class WorkerPool implements PieceHelpers {
 
   async close(): Promise<void> {
     if (this.running.size > 0) await new Promise<void>((resolve) => this.idleWaiters.push(resolve));
-    await Promise.all(this.workers.map((w) => w.terminate()));
+    if (this.owned) {
+      await Promise.all(this.workers.map((w) => w.terminate()));
+      return;
+    }
+    for (const w of this.workers) w.postMessage({ finished: true });
+    for (const off of this.detach.splice(0)) off();
   }
 
   private settle(w: Worker, r: PieceResult | null): void {
@@ -282,4 +304,8 @@ class WorkerPool implements PieceHelpers {
     const transfer = reuse ? [reuse.times.buffer as ArrayBuffer, reuse.exps.buffer as ArrayBuffer] : [];
     w.postMessage({ task, ...(reuse ? { times: reuse.times, exps: reuse.exps } : {}) }, transfer);
   }
+}
+
+function isPieceResult(r: unknown): r is PieceResult {
+  return typeof r === 'object' && r !== null && 'plain' in r && 'index' in r;
 }

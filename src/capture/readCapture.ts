@@ -22,17 +22,21 @@ import type { PieceHelpers } from './parallelRead.js';
 import { TimeAxis } from './timeAxis.js';
 import { givenInterval, noTimeBase } from './timing.js';
 
-export async function readCapture(path: string, options: ReadCaptureOptions = {}): Promise<Capture> {
-  return (await readCaptureLines(path, options)).capture;
+export async function readCapture(path: string, options: ReadCaptureOptions = {}, pieceOptions?: PieceOptions): Promise<Capture> {
+  return (await readCaptureLines(path, options, pieceOptions)).capture;
 }
 
 /**
- * How a large plain file is read in pieces: by default worker threads, for files from 12 MiB on;
- * a runner of null reads in one thread (tests and the benchmark compare the two).
+ * How a large plain file is read in pieces: by default worker threads started for the file, for
+ * files from PARALLEL_MIN_BYTES on; the caller's helpers instead (a command that keeps worker
+ * threads for other work too, or tests), or null to read in one thread (tests and the benchmark
+ * compare the two).
  */
 export interface PieceOptions {
   readonly helpers: (() => PieceHelpers) | null;
   readonly pieceBytes: number;
+  /** Smaller files are read in one thread (default 0: any file of two pieces or more). */
+  readonly minBytes?: number;
 }
 
 /** The capture and the opening lines it was sniffed from (for `inspect`). */
@@ -46,7 +50,8 @@ export async function readCaptureLines(
   const chunks = source.chunks[Symbol.asyncIterator]();
   // The workers start loading now, while this thread sniffs the layout.
   const workers = pieceOptions || source.compressed || options.segment !== undefined ? 0 : workersFor(source.size);
-  let helpers: PieceHelpers | null = pieceOptions ? (pieceOptions.helpers?.() ?? null) : workers > 0 ? startWorkerPool(workers) : null;
+  const given = pieceOptions && !source.compressed && options.segment === undefined && source.size >= (pieceOptions.minBytes ?? 0);
+  let helpers: PieceHelpers | null = pieceOptions ? (given ? (pieceOptions.helpers?.() ?? null) : null) : workers > 0 ? startWorkerPool(workers) : null;
   try {
     const gathered = await gatherSample(chunks);
     const { done } = gathered;

@@ -10,7 +10,8 @@ import fc from 'fast-check';
 import { readCaptureLines } from '../../src/capture/readCapture.js';
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { noHelpers, planPieces, startWorkerPool } from '../../src/capture/parallelRead.js';
+import { Worker } from 'node:worker_threads';
+import { noHelpers, pieceHelpersOn, planPieces, startWorkerPool } from '../../src/capture/parallelRead.js';
 import type { PieceHelpers } from '../../src/capture/parallelRead.js';
 import { PieceReader } from '../../src/capture/pieceReader.js';
 import type { Capture } from '../../src/types/index.js';
@@ -63,9 +64,9 @@ function lateHelper(): PieceHelpers {
   };
 }
 
-async function outcome(path: string, pieceBytes?: number): Promise<Outcome> {
+async function outcome(path: string, pieceBytes?: number, helpers: () => PieceHelpers = lateHelper): Promise<Outcome> {
   try {
-    const pieces = pieceBytes === undefined ? undefined : { helpers: lateHelper, pieceBytes };
+    const pieces = pieceBytes === undefined ? undefined : { helpers, pieceBytes };
     return { capture: (await readCaptureLines(path, {}, pieces)).capture };
   } catch (e) {
     if (!isBenchError(e)) throw e;
@@ -172,6 +173,38 @@ describe('readCapture in pieces', () => {
     const whole = await outcome(path);
     const threaded = await readCaptureLines(path, {}, { helpers: () => startWorkerPool(2, builtWorker), pieceBytes: 16_384 });
     expect(comparable({ capture: threaded.capture })).toEqual(comparable(whole));
+  });
+
+  it.runIf(existsSync(fileURLToPath(builtWorker)))('reads file after file with worker threads lent by the caller, which live on after each read', async () => {
+    const workers = [new Worker(builtWorker)];
+    const exited: number[] = [];
+    workers[0].on('exit', (code) => exited.push(code));
+    try {
+      for (const seed of [21, 22, 23]) {
+        const s: Shape = { rows: 12_000, delimiter: ',', crlf: seed === 22, trailing: false, decimals: 4, jitter: true, disturb: seed === 23 ? { kind: 'text', at: 0.7 } : null, seed };
+        const path = write(`lent-${seed}.csv`, csvOf(s));
+        const whole = await outcome(path);
+        const lent = await outcome(path, 8192, () => pieceHelpersOn(workers));
+        expect(comparable(lent)).toEqual(comparable(whole));
+        // The columns the pieces were written into are shared: the piece path was taken.
+        if ('capture' in lent) expect(lent.capture.channels[0].samples.buffer).toBeInstanceOf(SharedArrayBuffer);
+      }
+      expect(exited).toEqual([]);
+    } finally {
+      await Promise.all(workers.map((w) => w.terminate()));
+    }
+  });
+
+  it('reads a file below the helpers\' smallest size in one thread, without asking for the helpers', async () => {
+    const s: Shape = { rows: 3000, delimiter: ',', crlf: false, trailing: false, decimals: 3, jitter: false, disturb: null, seed: 8 };
+    const path = write('small.csv', csvOf(s));
+    const whole = await outcome(path);
+    const refuse = (): PieceHelpers => {
+      throw new Error('helpers asked for a file below their smallest size');
+    };
+    const read = await readCaptureLines(path, {}, { helpers: refuse, pieceBytes: 1000, minBytes: 1 << 20 });
+    expect(comparable({ capture: read.capture })).toEqual(comparable(whole));
+    expect(read.capture.channels[0].samples.buffer).toBeInstanceOf(ArrayBuffer);
   });
 
   it('gives the same capture when a worker thread fails: its pieces are read by the main thread', async () => {

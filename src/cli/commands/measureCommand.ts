@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { stat } from 'node:fs/promises';
 import type { CommandContext } from '../context.js';
 import { resolvePath } from '../context.js';
 import type { MeasureReport } from '../../types/index.js';
@@ -35,24 +36,34 @@ Examples:
       ctx.json = json;
       const readOptions = { ...(await readingOptionsFrom(ctx, opts)), channel: opts.channel };
       // The stages load here, not at start-up (only what this command needs: no spec, records or report).
-      const [{ readCapture }, { measureCapture }] = await Promise.all([import('../../capture/index.js'), import('../../analysis/index.js')]);
+      const [{ readCapture }, { measureCapture }, { startMeasureWorkers }] = await Promise.all([
+        import('../../capture/index.js'),
+        import('../../analysis/index.js'),
+        import('../measureWorkers.js'),
+      ]);
+      // Large captures are read and measured on every core; the workers start loading now.
+      const sizes = await fileSizes(files.map((f) => resolvePath(ctx.io.cwd, f)));
+      const workers = startMeasureWorkers(Math.max(0, ...sizes));
       const progress = createProgress(ctx, json);
       const reports: MeasureReport[] = [];
       try {
-        for (const file of files) {
+        for (const [i, file] of files.entries()) {
           let started = false;
-          const capture = await readCapture(resolvePath(ctx.io.cwd, file), {
+          const readWith = {
             ...readOptions,
-            onProgress: (done, total) => {
+            onProgress: (done: number, total: number) => {
               if (!started) progress.start(file, total);
               started = true;
               progress.update(done);
             },
-          });
-          reports.push(measureCapture({ ...capture, path: file }, { plotData: Boolean(opts.plotData) }));
+          };
+          const capture = { ...(await readCapture(resolvePath(ctx.io.cwd, file), readWith, workers?.pieceOptions(sizes[i]))), path: file };
+          const measureOptions = { plotData: Boolean(opts.plotData) };
+          reports.push(workers ? await workers.measure(capture, measureOptions, measureCapture) : measureCapture(capture, measureOptions));
         }
       } finally {
         progress.stop();
+        await workers?.close();
       }
       if (json) {
         // Each measurement id's display name rides along (the label table; no report stage needed for JSON).
@@ -66,3 +77,8 @@ Examples:
     });
 }
 
+
+/** Sizes of the files in bytes (0 for those that cannot be read: the reader reports them). */
+function fileSizes(paths: readonly string[]): Promise<number[]> {
+  return Promise.all(paths.map((p) => stat(p).then((s) => (s.isFile() ? s.size : 0), () => 0)));
+}
