@@ -162,6 +162,8 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
     maxRun = Math.max(maxRun, top.run);
     maxIteration = Math.max(maxIteration, top.iteration);
     fullPasses += 1;
+    // The snapshot carries the pass count: a catch-up answered during the sweep must not be served again after it.
+    version += 1;
   };
 
   const runSweep = (): Promise<void> => {
