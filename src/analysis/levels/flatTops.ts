@@ -103,30 +103,44 @@ interface Scales {
   readonly d: number;
 }
 
+/**
+ * How far the samples lie below (dir = 1) or above (dir = −1) a level: depth(i) = dir·(level − x[i]).
+ * Passed as the level and the direction, not as a closure: a fresh closure per call made V8 throw
+ * away the optimised loops that had inlined the previous one (seen with --trace-deopt).
+ */
+interface Side {
+  readonly level: number;
+  readonly dir: 1 | -1;
+}
+
 /** Samples (and their sum) in runs at `level` that pass rules 1 to 3 at the given scales. */
 function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, span: number, judge: boolean): { count: number; sum: number } {
-  const depthOf = (i: number): number => dir * (level - x[i]);
+  const side: Side = { level, dir };
   // Too coarse to follow a ramp over 4d within half the span: rule 3 cannot be judged.
   if (judge && !(4 * sc.d <= span / 2 && sc.unit > 0)) return { count: 0, sum: 0 };
   let count = 0;
   let sum = 0;
   let i = 0;
-  const edge = level - dir * sc.band;
-  while (i < x.length) {
+  const n = x.length;
+  const band = sc.band;
+  const edge = level - dir * band;
+  while (i < n) {
     // Hot loop: outside the band, move on without a call.
-    if (dir > 0 ? !(x[i] >= edge) : !(x[i] <= edge)) {
-      i++;
-      continue;
+    if (dir > 0) {
+      while (i < n && !(x[i] >= edge)) i++;
+    } else {
+      while (i < n && !(x[i] <= edge)) i++;
     }
+    if (i >= n) break;
     const a = i;
-    while (i < x.length && depthOf(i) <= sc.band) i++;
+    while (i < n && dir * (level - x[i]) <= band) i++;
     const run = i - a;
     if (run < MIN_RUN) continue;
     if (judge) {
-      if (!dwellsLonger(x, a, i, depthOf, 4 * sc.unit)) continue;
-      if (!cutsRamp(x, a - 1, -1, depthOf, sc.d) && !cutsRamp(x, i, 1, depthOf, sc.d)) continue;
+      if (!dwellsLonger(x, a, i, side, 4 * sc.unit)) continue;
+      if (!cutsRamp(x, a - 1, -1, side, sc.d) && !cutsRamp(x, i, 1, side, sc.d)) continue;
     }
-    const core = flatCore(x, a, i, sc.band / 2);
+    const core = flatCore(x, a, i, band / 2);
     count += core.count;
     sum += core.sum;
   }
@@ -150,9 +164,9 @@ function flatCore(x: Float64Array, a: number, b: number, half: number): { count:
   return { count, sum };
 }
 
-function cutsRamp(x: Float64Array, from: number, by: number, depthOf: (i: number) => number, d: number): boolean {
-  const shallow = samplesToDepth(x, from, by, depthOf, d);
-  const deep = samplesToDepth(x, from, by, depthOf, 4 * d);
+function cutsRamp(x: Float64Array, from: number, by: number, side: Side, d: number): boolean {
+  const shallow = samplesToDepth(x, from, by, side, d);
+  const deep = samplesToDepth(x, from, by, side, 4 * d);
   return shallow > 0 && deep >= RAMP_RATIO * shallow;
 }
 
@@ -165,17 +179,17 @@ function cutsRamp(x: Float64Array, from: number, by: number, depthOf: (i: number
  * walked in full only when the other side alone would pass the rule, which is the one case where
  * how the stopped side ends (a count or nothing) decides.
  */
-function dwellsLonger(x: Float64Array, a: number, b: number, depthOf: (i: number) => number, depth: number): boolean {
+function dwellsLonger(x: Float64Array, a: number, b: number, side: Side, depth: number): boolean {
   const run = b - a;
   const cap = Math.floor(run / DWELL_RATIO) + 1;
-  let before = a > 0 ? samplesToDepth(x, a - 1, -1, depthOf, depth, cap) : -1;
-  let after = b < x.length ? samplesToDepth(x, b, 1, depthOf, depth, cap) : -1;
+  let before = a > 0 ? samplesToDepth(x, a - 1, -1, side, depth, cap) : -1;
+  let after = b < x.length ? samplesToDepth(x, b, 1, side, depth, cap) : -1;
   if (before === STOPPED && after === STOPPED) return false;
   if (before === STOPPED || after === STOPPED) {
     const other = before === STOPPED ? after : before;
     if (other < 0 || run <= DWELL_RATIO * other) return false;
-    if (before === STOPPED) before = samplesToDepth(x, a - 1, -1, depthOf, depth, Infinity);
-    else after = samplesToDepth(x, b, 1, depthOf, depth, Infinity);
+    if (before === STOPPED) before = samplesToDepth(x, a - 1, -1, side, depth, Infinity);
+    else after = samplesToDepth(x, b, 1, side, depth, Infinity);
   }
   if (before < 0 && after < 0) return false;
   return run > DWELL_RATIO * Math.max(before, after);
@@ -185,10 +199,11 @@ function dwellsLonger(x: Float64Array, a: number, b: number, depthOf: (i: number
 const STOPPED = Number.POSITIVE_INFINITY;
 
 /** Samples from `from` (counting it) until the depth is reached; −1 at the record's end or a gap; STOPPED past `limit`. */
-function samplesToDepth(x: Float64Array, from: number, by: number, depthOf: (i: number) => number, depth: number, limit = Number.POSITIVE_INFINITY): number {
+function samplesToDepth(x: Float64Array, from: number, by: number, side: Side, depth: number, limit = Number.POSITIVE_INFINITY): number {
+  const { level, dir } = side;
   for (let k = 1, j = from; j >= 0 && j < x.length; k++, j += by) {
     if (k > limit) return STOPPED;
-    const dd = depthOf(j);
+    const dd = dir * (level - x[j]);
     if (dd !== dd) return -1;
     if (dd >= depth) return k;
   }
