@@ -46,15 +46,17 @@ export function hasRecords(ctx: CommandContext, flags: StoreFlags): boolean {
 
 /**
  * Open the store and verify all of it (fingerprints, hash chain, archived captures) before anything
- * is read from it. Runs that fail are named in a `records.tampered` error (`records.damaged` when
+ * is read from it; with `scope` 'listing' (units, batch), what a listing relies on: the hash chain,
+ * every run row against it and every run's summary, without re-hashing the full verdicts or the
+ * archive, which a listing does not read (the store verifies those whenever a unit is read in full). Runs that fail are named in a `records.tampered` error (`records.damaged` when
  * every problem is a row that no longer parses), exit 2; with --allow-unverified they are named in
  * a warning on stderr instead, and the reports mark them. (The store itself refuses any read of an
  * unverified store unless opened with `unverified: 'mark'`, so every other reader is covered too.)
  */
-export function openVerifiedStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write'): { store: RecordStore; location: DataLocation; audit: StoreAudit } {
+export function openVerifiedStore(ctx: CommandContext, flags: StoreFlags, mode: 'read' | 'write', scope: 'full' | 'listing' = 'full'): { store: RecordStore; location: DataLocation; audit: StoreAudit } {
   const { store, location } = openDataStore(ctx, flags, mode);
   try {
-    const audit = store.audit();
+    const audit = store.audit(scope);
     if (audit.problems.length === 0) return { store, location, audit };
     if (!flags.allowUnverified) throw unverifiedError(location.shown, audit);
     ctx.io.stderr(`benchproof: warning: ${describeProblems(audit)}; these are marked and left out of yields and statistics (--allow-unverified)\n`);

@@ -22,6 +22,9 @@ import { readRunDigests } from './readRuns.js';
 import type { DamagedRow, RunDigestRow } from './readRuns.js';
 import type { StoredCalibrationRun } from '../types/index.js';
 import { readCalibrationRows } from './calibrationRead.js';
+import { summaryHolds } from './runSummary.js';
+import type { SummaryRow } from './runSummary.js';
+import { readSummaryRows } from './summaryReads.js';
 
 export type AuditProblemKind = 'changed' | 'damaged' | 'missing' | 'unchained' | 'chain-broken' | 'capture-missing' | 'capture-changed';
 
@@ -51,6 +54,7 @@ interface Fingerprinted {
   readonly digest: string;
   readonly intact: boolean;
   readonly captures: readonly { readonly sha256: string; readonly size: number; readonly archivePath: string }[];
+  readonly summaryMismatch?: boolean;
 }
 
 export interface AuditOptions {
@@ -63,7 +67,19 @@ export interface AuditOptions {
 
 export function auditStore(db: Database, dataDir: string, options: AuditOptions = {}): StoreAudit {
   const { archive = true } = options;
-  return judgeStore({ entries: chainEntries(db), runs: readRunDigests(db), calibrations: readCalibrationRows(db) }, archive ? (c) => hashFile(dataDir, c.archivePath) : undefined);
+  const read = { entries: chainEntries(db), runs: readRunDigests(db), calibrations: readCalibrationRows(db), summaries: readSummaryRows(db) };
+  return judgeStore(read, archive ? (c) => hashFile(dataDir, c.archivePath) : undefined);
+}
+
+/**
+ * The listing's verification: the whole chain, every run row's fingerprint against the chain, every
+ * summary against its fingerprint (over the run row's own columns) and the chain, and the calibration
+ * iterations; the full verdicts are not read. `summaries` are the rows readSummaryRows gives.
+ */
+export function judgeListing(entries: readonly ChainEntry[], summaries: readonly SummaryRow[], calibrations: StoreRows['calibrations']): StoreAudit {
+  // The run rows as the chain sees them: their fingerprints, not re-hashed here (the summary covers their columns).
+  const runs = summaries.map((r) => ({ id: Number(r.id), unit: String(r.unit), digest: String(r.digest), intact: true, captures: [] }));
+  return judgeStore({ entries, runs: { rows: runs, damaged: [] }, calibrations, summaries });
 }
 
 /** What verifying a store reads from either engine. */
@@ -71,6 +87,8 @@ export interface StoreRows {
   readonly entries: readonly ChainEntry[];
   readonly runs: { readonly rows: readonly RunDigestRow[]; readonly damaged: readonly DamagedRow[] };
   readonly calibrations: { readonly runs: readonly StoredCalibrationRun[]; readonly damaged: readonly DamagedRow[] };
+  /** Every run joined with its summary (schema 7); absent for a store read before it. */
+  readonly summaries?: readonly SummaryRow[];
 }
 
 /** The SHA-256 of a stored capture's bytes as the store holds them now, or null when they are gone. */
@@ -85,7 +103,7 @@ export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit 
   const { rows: runs, damaged } = read.runs;
   const calibrations = read.calibrations;
   const rows: Fingerprinted[] = [
-    ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures })),
+    ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures, summaryMismatch: r.summaryMismatch })),
     ...calibrations.runs.flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures }))),
   ];
   const present = new Set<string>();
@@ -99,7 +117,9 @@ export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit 
     if (!r.intact) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its content no longer matches the fingerprint taken when it was stored' });
     else if (!entry) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'unchained', detail: 'it is not in the hash chain: it was not stored by benchproof' });
     else if (entry.row_digest !== r.digest) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)' });
+    else if (r.summaryMismatch) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its verdict no longer hashes to the SHA-256 its summary holds' });
   }
+  if (read.summaries) judgeSummaries(read.summaries, byRow, problems);
   for (const e of entries) {
     if ((e.kind === 'run' || e.kind === 'calibration') && !present.has(`${e.kind}:${e.row_id}`)) {
       problems.push({ kind: e.kind, id: e.row_id, unit: null, problem: 'missing', detail: 'it is in the hash chain but no longer in the store: it was deleted' });
@@ -107,6 +127,37 @@ export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit 
   }
   const archived = hashOf ? checkArchive(hashOf, rows, problems) : 0;
   return { head, chained: entries.length, archived, problems };
+}
+
+/**
+ * Each run's summary against its fingerprint and the chain. A run without one failed its fingerprint
+ * when the store was upgraded (migration7.ts) or lost its summary; a summary entry of the chain whose
+ * run is still there but whose summary is not was deleted.
+ */
+function judgeSummaries(rows: readonly SummaryRow[], byRow: ReadonlyMap<string, ChainEntry>, problems: AuditProblem[]): void {
+  const summarised = new Set<number>();
+  const runIds = new Set<number>();
+  for (const r of rows) {
+    const id = Number(r.id);
+    const unit = String(r.unit);
+    runIds.add(id);
+    const add = (problem: AuditProblemKind, detail: string): void => void problems.push({ kind: 'run', id, unit, problem, detail });
+    if (r.summary_digest === null) {
+      add('changed', 'it has no summary: it failed its fingerprint when the store was upgraded, or its summary was deleted');
+      continue;
+    }
+    summarised.add(id);
+    const entry = byRow.get(`summary:${id}`);
+    // Worded as the full re-hash words an edit, so one edit read both ways is named once (verifiedReads.ts).
+    if (!summaryHolds(r)) add('changed', 'its content no longer matches the fingerprint taken when it was stored');
+    else if (!entry) add('unchained', 'its summary is not in the hash chain: it was not stored by benchproof');
+    else if (entry.row_digest !== r.summary_digest) add('changed', "its summary's fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)");
+  }
+  for (const [key, e] of byRow) {
+    if (e.kind === 'summary' && runIds.has(e.row_id) && !summarised.has(e.row_id)) {
+      problems.push({ kind: 'run', id: e.row_id, unit: null, problem: 'missing', detail: `its summary is in the hash chain (${key}) but no longer in the store: it was deleted` });
+    }
+  }
 }
 
 /** The captures of some runs and calibration iterations re-hashed by `hashOf` (one unit's, for a record). */
@@ -118,6 +169,25 @@ export function judgeCaptures(runs: readonly RunDigestRow[], calibrations: reado
   ];
   checkArchive(hashOf, rows, problems);
   return problems;
+}
+
+/**
+ * What reading one unit in full verifies beyond the listing: each of its runs re-hashed against its
+ * fingerprint and its verdict against its summary's hash, and its archived captures (`hashOf`).
+ */
+export function judgeUnit(runs: { readonly rows: readonly RunDigestRow[]; readonly damaged: readonly DamagedRow[] }, calibrations: readonly StoredCalibrationRun[], hashOf: CaptureHasher): AuditProblem[] {
+  const problems: AuditProblem[] = runs.damaged.map((d) => ({ kind: d.kind, id: d.id, unit: d.unit, problem: 'damaged' as const, detail: d.problem }));
+  for (const r of runs.rows) {
+    if (!r.intact) problems.push({ kind: 'run', id: r.id, unit: r.unit, problem: 'changed', detail: 'its content no longer matches the fingerprint taken when it was stored' });
+    else if (r.summaryMismatch) problems.push({ kind: 'run', id: r.id, unit: r.unit, problem: 'changed', detail: 'its verdict no longer hashes to the SHA-256 its summary holds' });
+  }
+  return [...problems, ...judgeCaptures(runs.rows, calibrations, hashOf)];
+}
+
+/** judgeUnit on the embedded store. */
+export function auditUnit(db: Database, dataDir: string, unit: string): AuditProblem[] {
+  const calibrations = readCalibrationRows(db).runs.filter((c) => c.unit === unit);
+  return judgeUnit(readRunDigests(db, { unit }), calibrations, (c) => hashFile(dataDir, c.archivePath));
 }
 
 /** The archived captures of one unit's runs and calibration iterations, re-hashed. */
@@ -132,7 +202,7 @@ function checkLinks(entries: readonly ChainEntry[], problems: AuditProblem[]): s
   let previous = CHAIN_START;
   let seq = 0;
   for (const e of entries) {
-    const kind = e.kind === 'run' || e.kind === 'calibration' ? e.kind : 'chain';
+    const kind = e.kind === 'run' || e.kind === 'calibration' || e.kind === 'summary' ? (e.kind === 'calibration' ? 'calibration' : 'run') : 'chain';
     const expected = chainLink(previous, e.kind as 'run', e.row_id, e.row_digest);
     if (e.seq !== seq + 1) {
       problems.push({ kind: 'chain', id: null, unit: null, problem: 'chain-broken', detail: `chain entries ${seq + 1}–${e.seq - 1} are gone (deleted rows or entries)` });

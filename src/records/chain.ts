@@ -14,7 +14,8 @@
 import type { Database } from 'better-sqlite3';
 import { sha256Hex } from './digest.js';
 
-export type ChainKind = 'run' | 'calibration';
+/** 'summary': a run's summary row (runSummary.ts), chained under the run's number after the run itself. */
+export type ChainKind = 'run' | 'calibration' | 'summary';
 
 export const CHAIN_START = '0'.repeat(64);
 

@@ -3,7 +3,7 @@
  * numbers as JavaScript prints them, which round-trips every double exactly). Stored with the run and
  * checked on every read, so a changed record shows up instead of being silently believed.
  */
-import { createHash } from 'node:crypto';
+import * as crypto from 'node:crypto';
 import type { Diagnosis, RunKind, RunSpec, StoredCapture, UnitVerdict } from '../types/index.js';
 
 /**
@@ -28,8 +28,11 @@ export function canonicalJson(value: unknown): string {
   return `{${parts.join(',')}}`;
 }
 
+/** One-shot hashing (Node 20.12 and later) is about twice as fast on short texts as a Hash object. */
+const oneShot = (crypto as { hash?: (algorithm: string, data: string | Uint8Array, encoding: 'hex') => string }).hash;
+
 export function sha256Hex(data: string | Uint8Array): string {
-  return createHash('sha256').update(data).digest('hex');
+  return oneShot ? oneShot('sha256', data, 'hex') : crypto.createHash('sha256').update(data).digest('hex');
 }
 
 /** The parts of a run its digest covers: everything except the run number, storing time and digest. */

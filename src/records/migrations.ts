@@ -12,6 +12,7 @@ import { migrateTo3 } from './migration3.js';
 import { migrateTo4 } from './migration4.js';
 import { migrateTo5 } from './migration5.js';
 import { migrateTo6 } from './migration6.js';
+import { migrateTo7 } from './migration7.js';
 
 export interface Migration {
   readonly version: number;
@@ -26,6 +27,7 @@ export const MIGRATIONS: readonly Migration[] = [
   { version: 4, name: 'hash chain over every stored run and iteration', up: migrateTo4 },
   { version: 5, name: 'test attempts: attempt number, reason and note on each run', up: migrateTo5 },
   { version: 6, name: 'shared store: origin id and fingerprint of pushed rows; the bench outbox', up: migrateTo6 },
+  { version: 7, name: 'a light summary of every run, fingerprinted and chained, for listings', up: migrateTo7 },
 ];
 
 export const LATEST_SCHEMA: number = MIGRATIONS[MIGRATIONS.length - 1].version;
@@ -35,7 +37,7 @@ export function schemaVersion(db: Database): number {
 }
 
 /** Tables every benchproof store has once migrated; a database without them is not one. */
-const REQUIRED_TABLES = ['schema_migrations', 'specs', 'runs', 'blobs', 'run_captures', 'calibration_iterations', 'chain'];
+const REQUIRED_TABLES = ['schema_migrations', 'specs', 'runs', 'blobs', 'run_captures', 'calibration_iterations', 'chain', 'run_summaries'];
 
 /**
  * Bring the database up to `upTo` (the latest by default); returns the version it ends at. A version

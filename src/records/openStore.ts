@@ -16,13 +16,15 @@ import type { RunFilter } from './readRuns.js';
 import { saveRun } from './saveRun.js';
 import type { SaveHooks } from './saveRun.js';
 import { damagedFileError, missingError, noRecordsError, openError, storeError } from './storeErrors.js';
-import { auditStore, auditUnitCaptures } from './auditStore.js';
+import { auditStore, auditUnit, judgeListing } from './auditStore.js';
 import type { StoreAudit } from './auditStore.js';
-import { chainHead } from './chain.js';
-import { buildUnitRecord, listUnits } from './unitSummaries.js';
-import { numberRuns, openAttempt, readRunHeads } from './attempts.js';
+import { chainEntries, chainHead } from './chain.js';
+import { buildUnitRecord, listUnitsFrom } from './unitSummaries.js';
+import { batchRuns, lightRuns } from './batchRuns.js';
+import { readSummaryChecks, readSummaryHeads, readSummaryRows } from './summaryReads.js';
+import { numberRuns, openAttempt } from './attempts.js';
 import type { OpenAttempt } from './attempts.js';
-import { calibratedSerials, readCalibrations, withCalibrations } from './calibrationRead.js';
+import { calibratedSerials, readCalibrationRows, readCalibrations, withCalibrations } from './calibrationRead.js';
 import { saveCalibration } from './calibrationSave.js';
 import type { SavedIteration } from './calibrationSave.js';
 import { captureRecorded, saveRunOnce } from './captureSeen.js';
@@ -64,7 +66,14 @@ export interface RecordStore {
   saveRun(run: NewRun, hooks?: SaveHooks): StoredRun;
   /** Store several runs in the given order in one transaction (a bulk import): each placed, fingerprinted and chained as saveRun does. */
   saveRuns(runs: readonly NewRun[]): StoredRun[];
+  /** Every unit with the state of its attempts, from the runs' verified summaries (no full verdict read). */
   listUnits(filter?: { readonly spec?: string }): UnitSummary[];
+  /**
+   * What `batch` reads, from the runs' verified summaries: every run's light head (spec, times,
+   * statement, attempt, condition states) with the checks of the runs the statistics use (each unit's
+   * latest complete attempt's last run); not for reports that show measurements or causes.
+   */
+  batchRuns(filter?: { readonly spec?: string }): StoredRun[];
   unitRecord(serial: string): UnitRecord | undefined;
   runs(filter?: RunFilter): StoredRun[];
   unitSerials(): string[];
@@ -84,10 +93,11 @@ export interface RecordStore {
   /** The unit's test attempt a new run under this spec name would continue, if one is open (attempts.ts). */
   openAttempt(serial: string, specName: string): OpenAttempt | undefined;
   /**
-   * Verify the whole store (fingerprints, hash chain, archived captures; auditStore.ts). Computed once
-   * per open store; runs() and unitRecord() mark every run it names as not intact.
+   * Verify the whole store (fingerprints, hash chain, archived captures; auditStore.ts), or with
+   * 'listing' what a listing relies on: the chain, the run rows against it and the run summaries, no
+   * full verdict (verifiedReads.ts). Computed once per open store; reads mark every run it names.
    */
-  audit(): StoreAudit;
+  audit(scope?: 'full' | 'listing'): StoreAudit;
   /** The newest link of the hash chain. */
   chainHead(): string;
   /** Runs and iterations stored here while the shared store could not be reached, not yet confirmed sent (outbox.ts). */
@@ -198,11 +208,15 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
   // Each read verifies what it reads: every fingerprint and the whole chain always (cheap: the
   // stored texts are hashed as they are), the archived captures of a unit when its runs are read.
   const reads = verifiedReads(label, unverified, {
+    listing: () => {
+      const summaries = readSummaryRows(db);
+      return { audit: judgeListing(chainEntries(db), summaries, readCalibrationRows(db)), summaries };
+    },
     rows: () => auditStore(db, dir, { archive: false }),
     full: () => auditStore(db, dir),
-    unitCaptures: (unit) => auditUnitCaptures(db, dir, unit),
+    unit: (unit) => auditUnit(db, dir, unit),
   });
-  const { verified, mark, markCalibrations, rowAudit } = reads;
+  const { verified, mark, markCalibrations, listingAudit } = reads;
   const guard = <T>(fn: () => T): T => reads.guarded(fn);
   return {
     engine: 'embedded',
@@ -213,9 +227,15 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     saveRun: (run, hooks) => guard(() => saveRun(db, dir, run, hooks)),
     // Each saveRun's transaction nests as a savepoint inside this one: one commit (one sync) for all.
     saveRuns: (runs) => guard(() => db.transaction(() => runs.map((run) => saveRun(db, dir, run))).immediate()),
-    listUnits: (filter = {}) => verified(() => withUnverified(listUnits(db, filter.spec), rowAudit())),
+    listUnits: (filter = {}) => verified(() => withUnverified(listUnitsFrom(lightRuns(reads.summaryRows()), filter.spec), listingAudit())),
     unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial))), serial),
-    runs: (filter) => verified(() => mark(readRuns(db, filter)), filter?.unit),
+    runs: (filter) => verified(() => mark(readRuns(db, filter)), filter?.unit ?? 'all-runs'),
+    batchRuns: (filter = {}) =>
+      verified(() => {
+        const read = batchRuns(reads.summaryRows(), filter.spec, (ids) => readSummaryChecks(db, ids));
+        reads.refuse(read.problems);
+        return mark(read.runs);
+      }),
     unitSerials: () => verified(() => [...new Set([...distinct(db, 'unit'), ...calibratedSerials(db)])].sort()),
     specNames: () => verified(() => distinct(db, 'spec_name')),
     specText: (sha256) => guard(() => specText(db, sha256)),
@@ -227,8 +247,8 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     calibrations: (serial) => verified(() => markCalibrations(readCalibrations(db, serial)), serial),
     // Like saveRun, not behind the audit: it only chooses which archived captures a new check re-reads,
     // and archiving them again re-checks their SHA-256 (archive.ts).
-    openAttempt: (serial, specName) => guard(() => openAttempt(db, numberRuns(readRunHeads(db, serial)), specName)),
-    audit: reads.audit,
+    openAttempt: (serial, specName) => guard(() => openAttempt(db, numberRuns(readSummaryHeads(db, serial)), specName)),
+    audit: (scope = 'full') => (scope === 'listing' ? reads.listingAudit() : reads.audit()),
     chainHead: () => guard(() => chainHead(db)),
     unsent: () => guard(() => unsentEntries(db)),
   };

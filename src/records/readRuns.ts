@@ -6,7 +6,7 @@
  */
 import type { Database } from 'better-sqlite3';
 import type { AttemptReason, RunKind, Statement, StoredCapture, StoredRun } from '../types/index.js';
-import { CanonicalText, runDigest } from './digest.js';
+import { CanonicalText, runDigest, sha256Hex } from './digest.js';
 import { parseDiagnosis, parseVerdict } from './rowShape.js';
 
 export interface RunRow {
@@ -89,7 +89,8 @@ export function readRunRows(db: Database, filter: RunFilter = {}): RunsRead {
   return { runs, damaged };
 }
 
-function capturesByRun(db: Database, runs: readonly RunRow[]): Map<number, StoredCapture[]> {
+/** The archived captures of these runs, by run, in their order (one query). */
+export function capturesByRun(db: Database, runs: readonly { id: number }[]): Map<number, StoredCapture[]> {
   const out = new Map<number, StoredCapture[]>();
   if (runs.length === 0) return out;
   const rows = db
@@ -141,6 +142,8 @@ export interface RunDigestRow {
   readonly digest: string;
   readonly intact: boolean;
   readonly captures: readonly StoredCapture[];
+  /** True when the verdict no longer hashes to the SHA-256 its summary holds (schema 7). */
+  readonly summaryMismatch?: boolean;
 }
 
 /**
@@ -152,7 +155,9 @@ export interface RunDigestRow {
  */
 export function readRunDigests(db: Database, filter: RunFilter = {}): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
   const where = filter.unit !== undefined ? 'WHERE unit = ?' : '';
-  const sql = `SELECT *, json_extract(verdict_json, '$.statement') AS verdict_statement, json_extract(verdict_json, '$.unit') AS verdict_unit
+  const summarySha = hasSummaries(db) ? '(SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id)' : 'NULL';
+  const sql = `SELECT *, json_extract(verdict_json, '$.statement') AS verdict_statement, json_extract(verdict_json, '$.unit') AS verdict_unit,
+    ${summarySha} AS summary_verdict_sha256
     FROM runs ${where} ORDER BY started_at, id`;
   let rows: DigestRow[];
   try {
@@ -165,8 +170,13 @@ export function readRunDigests(db: Database, filter: RunFilter = {}): { rows: Ru
   return judgeDigestRows(rows, capturesByRun(db, rows));
 }
 
-/** A run row with the verdict's own statement and serial taken out of its JSON by the engine. */
-export type DigestRow = RunRow & { verdict_statement: unknown; verdict_unit: unknown };
+/** Does this store have run summaries yet (schema 7)? */
+function hasSummaries(db: Database): boolean {
+  return db.prepare("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = 'run_summaries'").get() !== undefined;
+}
+
+/** A run row with the verdict's own statement and serial taken out of its JSON by the engine, and its summary's verdict SHA-256. */
+export type DigestRow = RunRow & { verdict_statement: unknown; verdict_unit: unknown; summary_verdict_sha256?: string | null };
 
 /** readRunDigests' judgement over rows either engine read: the fast fingerprint, else the full read. */
 export function judgeDigestRows(rows: readonly DigestRow[], captures: ReadonlyMap<number, StoredCapture[]>): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
@@ -191,13 +201,15 @@ export function judgeDigestRows(rows: readonly DigestRow[], captures: ReadonlyMa
         captures: caps,
         ...attemptColumns(row),
       }) === row.digest;
+    // The full verdict is read here, so it is checked against its summary's copy of its hash too.
+    const summaryMismatch = typeof row.summary_verdict_sha256 === 'string' && sha256Hex(String(row.verdict_json)) !== row.summary_verdict_sha256;
     if (fast) {
-      out.push({ id: row.id, unit, digest: String(row.digest), intact: true, captures: caps });
+      out.push({ id: row.id, unit, digest: String(row.digest), intact: true, captures: caps, summaryMismatch });
       continue;
     }
     const run = toStoredRun(row, caps);
     if ('problem' in run) damaged.push(run);
-    else out.push({ id: run.id, unit: run.unit, digest: run.digest, intact: run.intact, captures: run.captures });
+    else out.push({ id: run.id, unit: run.unit, digest: run.digest, intact: run.intact, captures: run.captures, summaryMismatch });
   }
   return { rows: out, damaged };
 }

@@ -9,10 +9,14 @@ import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
 import { archiveCapture } from './archive.js';
 import { canonicalJson, runDigest, sha256Hex } from './digest.js';
 import { insertMeasurements } from './measurementRows.js';
-import { numberRuns, placeRun, readRunHeads } from './attempts.js';
+import { numberRuns, placeRun } from './attempts.js';
+import { readSummaryHeads } from './summaryReads.js';
 import type { AttemptPlacement } from './attempts.js';
 import { appendLink } from './chain.js';
 import { queueOutbox } from './outboxQueue.js';
+import { summarize } from './runSummary.js';
+import type { SummaryHeadRow } from './runSummary.js';
+import { insertSummary } from './migration7.js';
 
 /** How a save is made besides the run itself. */
 export interface SaveHooks {
@@ -43,17 +47,43 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
   const write = db.transaction((): StoredRun => {
     const storedAt = new Date().toISOString();
     // The attempt is decided inside the transaction, and the run's fingerprint covers it and the note.
-    const numbered = numberRuns(readRunHeads(db, run.unit));
+    const numbered = numberRuns(readSummaryHeads(db, run.unit));
     const placed = { ...placeRun(db, run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
     const digest = runDigest({ ...base, ...placed });
-    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed);
-    // The run joins the hash chain in the same transaction: stored and chained, or neither.
+    const verdictText = canonicalJson(run.verdict);
+    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed, verdictText);
+    // The run joins the hash chain in the same transaction: stored and chained, or neither; its summary after it.
     appendLink(db, 'run', id, digest);
+    const summary = summarize(summaryHead(id, { ...run, startedAt: base.startedAt }, storedAt, placed, digest), run.verdict, verdictText);
+    insertSummary(db, id, summary);
+    appendLink(db, 'summary', id, summary.digest);
     if (hooks.outbox) queueOutbox(db, 'run', id, hooks.uid, storedAt);
     hooks.beforeCommit?.();
     return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
   });
   return write.immediate();
+}
+
+/** The run row's columns as its summary is fingerprinted with them (runSummary.ts), either engine. */
+export function summaryHead(id: number, run: NewRun, storedAt: string, placed: AttemptPlacement & { note?: string }, digest: string): SummaryHeadRow {
+  return {
+    id,
+    unit: run.unit,
+    kind: run.kind ?? 'check',
+    started_at: run.startedAt,
+    stored_at: storedAt,
+    operator: run.operator,
+    station: run.station,
+    spec_name: run.spec.name,
+    spec_revision: run.spec.revision,
+    spec_sha256: run.spec.sha256,
+    tool_version: run.toolVersion,
+    statement: run.verdict.statement,
+    attempt: placed.attempt,
+    attempt_reason: placed.attemptReason ?? null,
+    note: placed.note ?? null,
+    digest,
+  };
 }
 
 /** What a stored run holds before it is placed in an attempt, the same for either engine. */
@@ -74,7 +104,7 @@ export function runBase(run: NewRun, captures: readonly StoredCapture[]) {
   } as const;
 }
 
-function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }): number {
+function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, verdictText: string): number {
   const { spec, verdict } = run;
   const text = spec.text === undefined ? null : Buffer.from(spec.text);
   db.prepare('INSERT OR IGNORE INTO specs (sha256, name, revision, text) VALUES (?, ?, ?, ?)').run(spec.sha256, spec.name, spec.revision, text);
@@ -86,7 +116,7 @@ function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: stri
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     )
     .run(run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, canonicalJson(verdict), canonicalJson(run.diagnosis), digest,
+      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, canonicalJson(run.diagnosis), digest,
       placed.attempt, placed.attemptReason ?? null, placed.note ?? null);
   const runId = Number(info.lastInsertRowid);
   const cond = db.prepare('INSERT INTO condition_results (run_id, condition, statement) VALUES (?, ?, ?)');

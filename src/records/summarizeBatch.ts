@@ -24,7 +24,9 @@ export function summarizeBatch(runs: readonly StoredRun[], filter: BatchFilter =
   const bySpec = new Map<string, StoredRun[]>();
   for (const r of runs) {
     if (filter.spec !== undefined && r.spec.name !== filter.spec) continue;
-    bySpec.set(r.spec.name, [...(bySpec.get(r.spec.name) ?? []), r]);
+    const list = bySpec.get(r.spec.name);
+    if (list) list.push(r);
+    else bySpec.set(r.spec.name, [r]);
   }
   const since = filter.since === undefined ? -Infinity : Date.parse(filter.since);
   const specs = [...bySpec.entries()]
@@ -32,6 +34,28 @@ export function summarizeBatch(runs: readonly StoredRun[], filter: BatchFilter =
     .map(([name, list]) => summarizeSpec(name, list, since))
     .filter((s) => s.units.length > 0);
   return { schemaVersion: 1, filter: { ...filter }, specs };
+}
+
+/**
+ * The runs whose checks the statistics read: per spec name and unit, the last run of the unit's
+ * latest complete attempt (as summarizeSpec chooses them), so a reader can fetch only their checks.
+ */
+export function statisticRunIds(runs: readonly StoredRun[]): Set<number> {
+  const groups = new Map<string, StoredRun[]>();
+  for (const r of runs) {
+    const key = JSON.stringify([r.spec.name, r.unit]);
+    const list = groups.get(key);
+    if (list) list.push(r);
+    else groups.set(key, [r]);
+  }
+  const ids = new Set<number>();
+  for (const list of groups.values()) {
+    const ordered = [...list].sort((a, b) => a.startedAt.localeCompare(b.startedAt) || a.id - b.id);
+    const done = summarizeAttempts(numberRuns(ordered)).filter((a) => a.state === 'complete');
+    const id = done.length ? done[done.length - 1].runIds.at(-1) : undefined;
+    if (id !== undefined) ids.add(id);
+  }
+  return ids;
 }
 
 function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number): SpecBatch {

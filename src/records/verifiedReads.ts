@@ -1,26 +1,45 @@
 /**
  * The rule every read of a store follows, whatever its engine: nothing is read from a store that
  * failed verification unless asked ('mark'), and then every run or iteration the audit names is
- * marked not intact. The row audit (fingerprints and chain) is computed once per open store, a
- * unit's captures once per unit, the full audit (every capture) once when asked for.
+ * marked not intact. Verification comes in scopes, each computed once per open store:
+ *
+ * - the listing (units, batch, spec names): the hash chain, every run row against the chain, every
+ *   run summary against its fingerprint, the calibration iterations; no full verdict is read;
+ * - a unit (its record, its runs, its calibrations): the listing, plus each of the unit's runs
+ *   re-hashed in full, its verdict against its summary, and its archived captures;
+ * - every run (runs() without a unit): the listing, plus every run re-hashed in full;
+ * - the full audit (audit()): all of that and every archived capture.
  */
 import type { StoredCalibrationRun, StoredRun, UnitSummary } from '../types/index.js';
 import type { AuditProblem, StoreAudit } from './auditStore.js';
+import type { SummaryRow } from './runSummary.js';
 import { storeError, unverifiedError } from './storeErrors.js';
 
 export interface AuditSources {
+  /** The listing's verification, with the summary rows it read (the listing is built from them). */
+  readonly listing: () => { readonly audit: StoreAudit; readonly summaries: readonly SummaryRow[] };
+  /** Every run re-hashed against its fingerprint (no archive). */
   readonly rows: () => StoreAudit;
   readonly full: () => StoreAudit;
-  readonly unitCaptures: (unit: string) => readonly AuditProblem[];
+  /** The problems of one unit's full read: its runs re-hashed, its captures. */
+  readonly unit: (unit: string) => readonly AuditProblem[];
   /** Turns an engine's low-level error into a BenchError (storeError for the embedded store). */
   readonly wrapError?: (err: unknown) => unknown;
 }
 
+/** Which verification a read needs: the listing's, one unit's, or every run's. */
+export type ReadScope = { readonly unit: string } | 'listing' | 'all-runs';
+
 export interface VerifiedReads {
-  verified<T>(read: () => T, unit?: string): T;
+  verified<T>(read: () => T, scope?: ReadScope | string): T;
   guarded<T>(fn: () => T): T;
   audit(): StoreAudit;
-  rowAudit(): StoreAudit;
+  /** The listing's verification (computed once per open store). */
+  listingAudit(): StoreAudit;
+  /** The summary rows the listing verified (read once per open store). */
+  summaryRows(): readonly SummaryRow[];
+  /** The problems of the scope last verified, to refuse or mark with besides. */
+  refuse(problems: readonly AuditProblem[]): void;
   mark(runs: StoredRun[]): StoredRun[];
   markCalibrations(list: StoredCalibrationRun[]): StoredCalibrationRun[];
 }
@@ -34,32 +53,43 @@ export function verifiedReads(label: string, unverified: 'refuse' | 'mark', sour
       throw wrapError(err);
     }
   };
+  let listing: { readonly audit: StoreAudit; readonly summaries: readonly SummaryRow[] } | undefined;
   let rows: StoreAudit | undefined;
   let full: StoreAudit | undefined;
-  const unitCaptures = new Map<string, readonly AuditProblem[]>();
-  const rowAudit = (): StoreAudit => full ?? (rows ??= guarded(sources.rows));
-  const audit = (): StoreAudit => (full ??= guarded(sources.full));
-  const scoped = (unit?: string): StoreAudit => {
-    const base = rowAudit();
-    if (unit === undefined || full !== undefined) return base;
-    let captures = unitCaptures.get(unit);
-    if (captures === undefined) {
-      captures = guarded(() => sources.unitCaptures(unit));
-      unitCaptures.set(unit, captures);
+  const units = new Map<string, readonly AuditProblem[]>();
+  const listingRead = () => (listing ??= guarded(sources.listing));
+  const listingAudit = (): StoreAudit => full ?? listingRead().audit;
+  const audit = (): StoreAudit => (full ??= merged(listingRead().audit, guarded(sources.full).problems));
+  const allRuns = (): StoreAudit => full ?? (rows ??= merged(listingRead().audit, guarded(sources.rows).problems));
+  const scoped = (scope: ReadScope): StoreAudit => {
+    if (scope === 'listing') return listingAudit();
+    if (scope === 'all-runs') return allRuns();
+    const base = listingAudit();
+    if (full !== undefined) return base;
+    let found = units.get(scope.unit);
+    if (found === undefined) {
+      found = guarded(() => sources.unit(scope.unit));
+      units.set(scope.unit, found);
     }
-    return captures.length === 0 ? base : { ...base, problems: [...base.problems, ...captures] };
+    return found.length === 0 ? base : merged(base, found);
   };
   let lastScope: StoreAudit | undefined;
-  const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set((lastScope ?? rowAudit()).problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
+  const flagged = (kind: 'run' | 'calibration'): Set<number> => new Set((lastScope ?? listingAudit()).problems.filter((p) => p.kind === kind && p.id !== null).map((p) => p.id as number));
   return {
-    verified: (read, unit) => {
-      const found = (lastScope = scoped(unit));
+    verified: (read, scope = 'listing') => {
+      const found = (lastScope = scoped(typeof scope === 'string' && scope !== 'listing' && scope !== 'all-runs' ? { unit: scope } : scope));
       if (found.problems.length > 0 && unverified === 'refuse') throw unverifiedError(label, found);
       return guarded(read);
     },
     guarded,
     audit,
-    rowAudit,
+    listingAudit,
+    summaryRows: () => listingRead().summaries,
+    refuse: (problems) => {
+      if (problems.length === 0) return;
+      lastScope = merged(lastScope ?? listingAudit(), problems);
+      if (unverified === 'refuse') throw unverifiedError(label, lastScope);
+    },
     mark: (runs) => {
       const bad = flagged('run');
       return runs.map((r) => (r.intact && bad.has(r.id) ? { ...r, intact: false } : r));
@@ -70,6 +100,16 @@ export function verifiedReads(label: string, unverified: 'refuse' | 'mark', sour
     },
   };
 }
+
+/** An audit with more problems, each (row, problem, detail) named once. */
+function merged(base: StoreAudit, more: readonly AuditProblem[]): StoreAudit {
+  if (more.length === 0) return base;
+  const seen = new Set(base.problems.map(keyOf));
+  const added = more.filter((p) => !seen.has(keyOf(p)) && (seen.add(keyOf(p)), true));
+  return added.length === 0 ? base : { ...base, problems: [...base.problems, ...added] };
+}
+
+const keyOf = (p: AuditProblem): string => `${p.kind}:${p.id}:${p.problem}:${p.detail}`;
 
 /** Each unit's runs that failed verification, by number, so a listing can mark the unit. */
 export function withUnverified(units: UnitSummary[], audit: StoreAudit): UnitSummary[] {

@@ -176,7 +176,7 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     store.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: '2026-03-02T09:25:00.000Z' }));
     store.close();
     s.sql(dropTriggers[engine.name]);
-    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results']) {
+    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summaries']) {
       s.sql(engine === shared ? `ALTER TABLE ${t} DISABLE TRIGGER USER; DELETE FROM ${t} WHERE run_id = ${second.id}` : `DROP TRIGGER ${t}_no_delete; DELETE FROM ${t} WHERE run_id = ${second.id}`);
     }
     s.sql(`DELETE FROM runs WHERE id = ${second.id}; DELETE FROM chain WHERE row_id = ${second.id} AND kind = 'run'`);

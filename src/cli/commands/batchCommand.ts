@@ -53,14 +53,15 @@ Examples:
       const location = resolveDataDir(ctx, opts);
       // Refused before the records are read: a link, a device, a path in the data folder (outputFile.ts).
       if (out !== undefined) checkOutputPath(ctx, out, { option: '--out', replace: true, dataDir: location.dir });
-      const { store, audit } = openVerifiedStore(ctx, opts, 'read');
+      const { store, audit } = openVerifiedStore(ctx, opts, 'read', 'listing');
       let report: BatchReport;
       try {
         const specs = store.specNames();
         if (opts.spec !== undefined && !specs.includes(opts.spec)) throw unknownSpec(opts.spec, specs, location);
         const filter = { ...(opts.spec !== undefined ? { spec: opts.spec } : {}), ...(since !== undefined ? { since } : {}) };
-        // Runs that failed verification (only read with --allow-unverified) count in no yield or statistic.
-        const runs = store.runs(opts.spec !== undefined ? { spec: opts.spec } : {}).filter((r) => r.intact);
+        // From the runs' verified summaries; runs that failed verification (only read with
+        // --allow-unverified) count in no yield or statistic.
+        const runs = store.batchRuns(opts.spec !== undefined ? { spec: opts.spec } : {}).filter((r) => r.intact);
         report = { ...summarizeBatch(runs, filter), source: { generatedAt: new Date().toISOString(), toolVersion: TOOL_VERSION, dataDir: location.shown, chainHead: audit.head } };
       } finally {
         store.close();

@@ -46,7 +46,7 @@ Examples:
       ctx.json = json;
       // The records stage (SQLite) and the report load here, not at start-up.
       const [{ openVerifiedStore, unknownSpec, waitingRuns, describeWaiting }, { renderUnitsText }] = await Promise.all([import('../store.js'), import('../../report/index.js')]);
-      const { store, location } = describeWaiting(ctx, opts, () => openVerifiedStore(ctx, opts, 'read'));
+      const { store, location } = describeWaiting(ctx, opts, () => openVerifiedStore(ctx, opts, 'read', 'listing'));
       const unsent = waitingRuns(ctx, opts);
       let units;
       try {

@@ -20,7 +20,7 @@ import { sha256Hex } from '../digest.js';
 import { BenchError } from '../../types/index.js';
 import { applyPgMigrations } from './pgSchema.js';
 import { putCapture } from './pgCaptures.js';
-import { WRITE_LOCK, insertRows, pgAppendLink } from './pgSaveRun.js';
+import { WRITE_LOCK, insertRows, pgAppendLink, pgChainHead, pgInsertSummary } from './pgSaveRun.js';
 import type { PgSyncClient } from './pgSync.js';
 
 export interface CopyResult {
@@ -50,15 +50,18 @@ export function copyIntoShared(fromDir: string, label: string, client: PgSyncCli
     const counts = { runs: { copied: 0, present: 0 }, iterations: { copied: 0, present: 0 }, captures: new Set<string>() };
     const calibrationIds = new Map<number, number>();
     entries.forEach((e, i) => {
-      const uid = uids.get(`${e.kind}:${e.row_id}`) ?? `copy:${e.kind}:${e.row_digest}`;
+      const uidOf = (kind: string, id: number, digest: string): string => uids.get(`${kind}:${id}`) ?? `copy:${kind}:${digest}`;
       const copied = client.transaction(() => {
         client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
+        if (e.kind === 'summary') return copySummary(db, client, e.row_id, uidOf);
+        const uid = uidOf(e.kind, e.row_id, e.row_digest);
         return e.kind === 'run' ? copyRun(db, fromDir, client, e.row_id, uid, counts.captures) : copyIteration(db, fromDir, client, e.row_id, uid, calibrationIds, counts.captures);
       });
+      onEach?.(i + 1, entries.length);
+      if (e.kind === 'summary') return;
       const tally = e.kind === 'run' ? counts.runs : counts.iterations;
       if (copied) tally.copied += 1;
       else tally.present += 1;
-      onEach?.(i + 1, entries.length);
     });
     return { runs: counts.runs, iterations: counts.iterations, captures: counts.captures.size };
   } finally {
@@ -79,6 +82,20 @@ function copyRun(db: Database.Database, dir: string, client: PgSyncClient, id: n
     insertAll(client, table, rows.map((r) => ({ ...r, run_id: newId })));
   }
   pgAppendLink(client, 'run', newId, String(run.digest));
+  return true;
+}
+
+/**
+ * A run's summary, at its place in the bench's chain: the row as the bench holds it (verified with
+ * the store; its fingerprint names no run number, so it holds for the copied run as it is).
+ */
+function copySummary(db: Database.Database, client: PgSyncClient, runId: number, uidOf: (kind: string, id: number, digest: string) => string): boolean {
+  const run = db.prepare('SELECT digest FROM runs WHERE id = ?').get(runId) as { digest: string };
+  const target = client.query<{ id: number }>('SELECT id FROM runs WHERE origin_uid = $1', [uidOf('run', runId, run.digest)]).rows[0]?.id;
+  if (target === undefined) throw new RangeError(`store copy: the summary of run #${runId} comes before its run`);
+  if (client.query('SELECT 1 FROM run_summaries WHERE run_id = $1', [target]).rowCount > 0) return false;
+  const s = db.prepare('SELECT * FROM run_summaries WHERE run_id = ?').get(runId) as { verdict_sha256: string; checks_sha256: string; state_json: string; checks_json: string; digest: string };
+  pgInsertSummary(client, target, { verdictSha256: s.verdict_sha256, checksSha256: s.checks_sha256, stateJson: s.state_json, checksJson: s.checks_json, digest: s.digest }, pgChainHead(client));
   return true;
 }
 

@@ -1,61 +1,22 @@
 /**
- * What the shared store reads besides whole runs (pgRuns.ts): the unit listing, the rows that
- * verifying the store needs (fingerprints, calibration iterations, the chain), and small lookups.
+ * What the shared store reads besides whole runs (pgRuns.ts): the runs' summaries (the unit listing
+ * and batch), the rows that verifying the store needs (fingerprints, calibration iterations, the
+ * chain), and small lookups.
  * Each read is one query (or one per table), never one per unit, so a listing of 10 000 units costs a
  * few round trips; the judging is the embedded store's own code (readRuns.ts, calibrationRead.ts,
  * auditStore.ts, attempts.ts), so both engines decide the same way on the same rows.
  */
-import type { StoredCapture, UnitSummary } from '../../types/index.js';
-import { attemptFacts, numberRuns, runHead, summarizeAttempts } from '../attempts.js';
-import type { HeadRow } from '../attempts.js';
+import type { StoredCapture } from '../../types/index.js';
 import { assembleCalibrations } from '../calibrationRead.js';
 import type { CalibrationCaptureRow, CalibrationRunRow, IterationRow } from '../calibrationRead.js';
 import type { ChainEntry } from '../chain.js';
 import { judgeDigestRows, toStoredRun } from '../readRuns.js';
 import type { DamagedRow, DigestRow, RunDigestRow, RunFilter, RunRow } from '../readRuns.js';
-import { compareSerials } from '../unitSummaries.js';
 import type { StoredCalibrationRun } from '../../types/index.js';
 import { PgCallError } from './pgSync.js';
+import { SUMMARY_COLUMNS } from '../runSummary.js';
+import type { SummaryRow } from '../runSummary.js';
 import type { PgSyncClient } from './pgSync.js';
-
-const conditionsOf = (key: string): string =>
-  `COALESCE((SELECT jsonb_agg(e.value -> 'condition' ORDER BY e.ord) FROM jsonb_array_elements(v.j -> '${key}') WITH ORDINALITY AS e(value, ord)), '[]'::jsonb)::text`;
-
-/** Every unit (of one spec name, or all) with the state of its attempts, as listUnits gives it on SQLite. */
-export function pgListUnits(client: PgSyncClient, spec?: string): UnitSummary[] {
-  const scope = spec === undefined ? '' : 'WHERE unit IN (SELECT unit FROM runs WHERE spec_name = $1)';
-  const rows = client.query<HeadRow>(
-    `SELECT id, unit, spec_name, spec_revision, spec_sha256, started_at, stored_at, statement, attempt, attempt_reason, note,
-       NULLIF(v.j -> 'waitingFor', 'null'::jsonb)::text AS waiting_json,
-       ${conditionsOf('captures')} AS captured_json, ${conditionsOf('conditions')} AS conditions_json
-     FROM runs CROSS JOIN LATERAL (SELECT verdict_json::jsonb AS j) v ${scope} ORDER BY unit, started_at, id`,
-    spec === undefined ? [] : [spec],
-  ).rows;
-  const byUnit = new Map<string, HeadRow[]>();
-  for (const r of rows) {
-    const list = byUnit.get(r.unit);
-    if (list) list.push(r);
-    else byUnit.set(r.unit, [r]);
-  }
-  const out: UnitSummary[] = [];
-  for (const [unit, heads] of byUnit) {
-    // The first and latest run among this spec's runs (as SQLite's summary query), attempts over all.
-    const scoped = spec === undefined ? heads : heads.filter((h) => h.spec_name === spec);
-    const first = scoped[0];
-    const last = scoped[scoped.length - 1];
-    out.push({
-      unit,
-      spec: { name: last.spec_name, revision: last.spec_revision, sha256: last.spec_sha256 },
-      status: last.statement as UnitSummary['status'],
-      firstStatement: first.statement as UnitSummary['status'],
-      firstTestedAt: first.started_at,
-      lastTestedAt: last.started_at,
-      runs: scoped.length,
-      ...attemptFacts(summarizeAttempts(numberRuns(heads.map(runHead)))),
-    });
-  }
-  return out.sort((a, b) => compareSerials(a.unit, b.unit));
-}
 
 /** Every run's fingerprint checked as readRunDigests does on SQLite (the verdict's fields taken out by jsonb). */
 export function pgReadRunDigests(client: PgSyncClient, filter: RunFilter = {}): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
@@ -64,7 +25,8 @@ export function pgReadRunDigests(client: PgSyncClient, filter: RunFilter = {}): 
   let rows: DigestRow[];
   try {
     rows = client.query<DigestRow>(
-      `SELECT *, verdict_json::jsonb ->> 'statement' AS verdict_statement, verdict_json::jsonb ->> 'unit' AS verdict_unit
+      `SELECT *, verdict_json::jsonb ->> 'statement' AS verdict_statement, verdict_json::jsonb ->> 'unit' AS verdict_unit,
+         (SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id) AS summary_verdict_sha256
        FROM runs ${where} ORDER BY started_at, id`,
       args,
     ).rows;
@@ -165,4 +127,21 @@ export function pgCaptureRecorded(client: PgSyncClient, key: { unit: string; con
 /** The captures of one run, in their order. */
 export function pgRunCaptures(client: PgSyncClient, runId: number): StoredCapture[] {
   return pgCapturesByRun(client, [runId]).get(runId) ?? [];
+}
+
+/** Every run (or one unit's) with its summary columns, oldest first, in one query (readSummaryRows on SQLite). */
+export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[] {
+  return client.query<SummaryRow>(
+    `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = $1'} ORDER BY r.started_at, r.id`,
+    unit === undefined ? [] : [unit],
+  ).rows;
+}
+
+/** The compact checks of these runs with their stored SHA-256, by run, in one query. */
+export function pgSummaryChecks(client: PgSyncClient, ids: readonly number[]): Map<number, { checks_json: string; checks_sha256: string }> {
+  const out = new Map<number, { checks_json: string; checks_sha256: string }>();
+  if (ids.length === 0) return out;
+  const rows = client.query<{ run_id: number; checks_json: string; checks_sha256: string }>('SELECT run_id, checks_json, checks_sha256 FROM run_summaries WHERE run_id = ANY($1::integer[])', [ids]).rows;
+  for (const r of rows) out.set(r.run_id, r);
+  return out;
 }

@@ -19,7 +19,9 @@ import { chainLink, CHAIN_START } from '../chain.js';
 import type { ChainKind } from '../chain.js';
 import type { PgSyncClient } from './pgSync.js';
 import { putCapture } from './pgCaptures.js';
-import { runBase } from '../saveRun.js';
+import { runBase, summaryHead } from '../saveRun.js';
+import { lightRun, summarize, SUMMARY_COLUMNS } from '../runSummary.js';
+import type { SummaryRow, SummaryValues } from '../runSummary.js';
 import { archiveName } from '../archive.js';
 import { BenchError } from '../../types/index.js';
 import { pgReadRunRows } from './pgRuns.js';
@@ -82,8 +84,11 @@ export function writeRun(client: PgSyncClient, prepared: PreparedRun, origin: Ru
   const placed = { ...placeRunWith((unit) => pgCalibratedAt(client, unit), run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
   const digest = runDigest({ ...base, ...placed });
   bytes.forEach((b, i) => putCapture(client, b, captures[i].archivePath, storedAt));
-  const id = insertRunRows(client, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed, origin);
-  pgAppendLink(client, 'run', id, digest);
+  const verdictText = canonicalJson(run.verdict);
+  const normalised = { ...run, startedAt: base.startedAt };
+  const id = insertRunRows(client, normalised, digest, storedAt, captures, placed, origin, verdictText);
+  const link = pgAppendLink(client, 'run', id, digest);
+  pgInsertSummary(client, id, summarize(summaryHead(id, normalised, storedAt, placed, digest), run.verdict, verdictText), link);
   return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
 }
 
@@ -121,8 +126,23 @@ function changedCapture(path: string, now: string, was: string): BenchError {
   });
 }
 
-/** The unit's runs as attempts.ts's runHead reads them, from PostgreSQL's JSON functions. */
+/**
+ * The unit's runs as placing a new run reads them, from their summaries (a few hundred bytes each);
+ * a unit with a run that has none is read from the verdicts, as before schema 7 (pgVerdictHeads).
+ */
 export function pgRunHeads(client: PgSyncClient, unit: string): StoredRun[] {
+  const rows = client.query<SummaryRow>(`SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id WHERE r.unit = $1 ORDER BY r.started_at, r.id`, [unit]).rows;
+  const heads: StoredRun[] = [];
+  for (const row of rows) {
+    const head = row.state_json === null ? undefined : lightRun(row);
+    if (!head) return pgVerdictHeads(client, unit);
+    heads.push(head);
+  }
+  return heads;
+}
+
+/** The unit's runs as attempts.ts's runHead reads them, from PostgreSQL's JSON functions. */
+export function pgVerdictHeads(client: PgSyncClient, unit: string): StoredRun[] {
   const conditionsOf = (key: string): string =>
     `COALESCE((SELECT jsonb_agg(e.value -> 'condition' ORDER BY e.ord) FROM jsonb_array_elements(verdict_json::jsonb -> '${key}') WITH ORDINALITY AS e(value, ord)), '[]'::jsonb)::text`;
   const rows = client.query<HeadRow>(
@@ -143,14 +163,25 @@ export function pgChainHead(client: PgSyncClient): string {
   return client.query<{ link: string }>('SELECT link FROM chain ORDER BY seq DESC LIMIT 1').rows[0]?.link ?? CHAIN_START;
 }
 
-/** Append a link; the caller holds WRITE_LOCK, so no other link is added between reading the head and this one. */
-export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: number, digest: string): string {
-  const link = chainLink(pgChainHead(client), kind, rowId, digest);
+/**
+ * Append a link; the caller holds WRITE_LOCK, so no other link is added between reading the head and
+ * this one. `head`, when the caller just wrote the newest link itself, saves reading it back.
+ */
+export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: number, digest: string, head?: string): string {
+  const link = chainLink(head ?? pgChainHead(client), kind, rowId, digest);
   client.query('INSERT INTO chain (kind, row_id, row_digest, link) VALUES ($1, $2, $3, $4)', [kind, rowId, digest, link]);
   return link;
 }
 
-function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, origin: RunOrigin): number {
+/** A run's summary row and its chain entry after `head` (the newest link); the caller holds WRITE_LOCK. */
+export function pgInsertSummary(client: PgSyncClient, runId: number, s: SummaryValues, head: string): string {
+  client.query('INSERT INTO run_summaries (run_id, verdict_sha256, checks_sha256, state_json, checks_json, digest) VALUES ($1, $2, $3, $4, $5, $6)', [
+    runId, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest,
+  ]);
+  return pgAppendLink(client, 'summary', runId, s.digest, head);
+}
+
+function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, origin: RunOrigin, verdictText: string): number {
   const { spec, verdict } = run;
   const text = spec.text === undefined ? null : Buffer.from(spec.text);
   client.query('INSERT INTO specs (sha256, name, revision, text) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [spec.sha256, spec.name, spec.revision, text]);
@@ -160,7 +191,7 @@ function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, stored
        tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note, origin_uid, origin_digest)
      VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18, $19, $20) RETURNING id`,
     [run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, canonicalJson(verdict), canonicalJson(run.diagnosis), digest,
+      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, canonicalJson(run.diagnosis), digest,
       placed.attempt, placed.attemptReason ?? null, placed.note ?? null, origin.uid ?? null, origin.digest ?? null],
   ).rows[0].id;
   const checks: unknown[][] = [];

@@ -14,11 +14,16 @@
  *
  * The data-moving parts of steps 2 and 4 (filling measurements and the chain from older rows) have
  * nothing to move in a store that starts at step 1 empty; records come in through saving or
- * `store copy`, both at the latest schema.
+ * `store copy`, both at the latest schema. Step 7 does move data: a shared store in use at schema 6
+ * holds runs, whose summaries it fills (PG_FILLS).
  */
 import { BenchError } from '../../types/index.js';
 import { LATEST_SCHEMA, MIGRATIONS } from '../migrations.js';
 import type { PgSyncClient } from './pgSync.js';
+import { fillSummaries } from '../migration7.js';
+import type { RunRow } from '../readRuns.js';
+import { pgCapturesByRun } from './pgReads.js';
+import { WRITE_LOCK, pgChainHead, pgInsertSummary } from './pgSaveRun.js';
 
 /** Any fixed 64-bit number, used only to serialize schema changes between benches (pg_advisory_xact_lock). */
 const SCHEMA_LOCK = 2_026_120_520;
@@ -138,8 +143,32 @@ BEGIN
 END $$;
 `;
 
+const STEP_7 = `
+CREATE TABLE run_summaries (
+  run_id integer PRIMARY KEY REFERENCES runs(id), verdict_sha256 text NOT NULL, checks_sha256 text NOT NULL,
+  state_json text NOT NULL, checks_json text NOT NULL, digest text NOT NULL);
+${appendOnly('run_summaries')}
+`;
+
 /** The PostgreSQL form of each numbered step, in the order of MIGRATIONS. */
-export const PG_STEPS: readonly string[] = [STEP_1, STEP_2, STEP_3, STEP_4, STEP_5, STEP_6];
+export const PG_STEPS: readonly string[] = [STEP_1, STEP_2, STEP_3, STEP_4, STEP_5, STEP_6, STEP_7];
+
+/**
+ * Data a step moves, run in the step's transaction after its DDL. Step 7 summarises the runs a shared
+ * store already holds (migration7.ts), under the write lock too, so no bench adds a link meanwhile.
+ */
+const PG_FILLS: Readonly<Record<number, (client: PgSyncClient) => void>> = {
+  7: (client) => {
+    client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
+    fillSummaries(
+      (after) => {
+        const rows = client.query<RunRow>('SELECT * FROM runs WHERE id > $1 ORDER BY id LIMIT 200', [after]).rows;
+        return { rows, captures: pgCapturesByRun(client, rows.map((r) => r.id)) };
+      },
+      (runId, summary) => pgInsertSummary(client, runId, summary, pgChainHead(client)),
+    );
+  },
+};
 
 /** The schema version of the shared store: 0 when it has no benchproof tables yet. */
 export function pgSchemaVersion(client: PgSyncClient): number {
@@ -161,6 +190,7 @@ export function applyPgMigrations(client: PgSyncClient, shown: string): number {
       if (now > LATEST_SCHEMA) throw newerPgSchema(shown, now);
       if (now >= step.version) return;
       client.query(PG_STEPS[i]);
+      PG_FILLS[step.version]?.(client);
       client.query('INSERT INTO schema_migrations (version, name, applied_at) VALUES ($1, $2, $3)', [step.version, step.name, new Date().toISOString()]);
     });
   });

@@ -16,11 +16,12 @@ import { existsSync, mkdirSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import type { RecordStore } from '../openStore.js';
 import { archiveCapture } from '../archive.js';
-import { hashFile, judgeCaptures, judgeStore } from '../auditStore.js';
+import { hashFile, judgeListing, judgeStore, judgeUnit } from '../auditStore.js';
 import type { CaptureHasher } from '../auditStore.js';
 import { numberRuns, openAttemptWith } from '../attempts.js';
 import { withCalibrations } from '../calibrationRead.js';
-import { buildUnitRecord } from '../unitSummaries.js';
+import { buildUnitRecord, listUnitsFrom } from '../unitSummaries.js';
+import { batchRuns, lightRuns } from '../batchRuns.js';
 import { verifiedReads, withUnverified } from '../verifiedReads.js';
 import { isBenchError } from '../../types/index.js';
 import type { StoredCapture } from '../../types/index.js';
@@ -36,11 +37,12 @@ import {
   pgCaptureRecorded,
   pgChainEntries,
   pgDistinct,
-  pgListUnits,
   pgReadCalibrationRows,
   pgReadRunDigests,
   pgRunCaptures,
   pgSpecText,
+  pgSummaryChecks,
+  pgSummaryRows,
 } from './pgReads.js';
 import { shownStore } from './pgLocation.js';
 import { PgSyncClient } from './pgSync.js';
@@ -85,16 +87,21 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
       throw err;
     }
   };
+  const everyRow = () => ({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client), summaries: pgSummaryRows(client) });
   const reads = verifiedReads(shown, unverified, {
-    rows: () => judgeStore({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client) }),
+    listing: () => {
+      const summaries = pgSummaryRows(client);
+      return { audit: judgeListing(pgChainEntries(client), summaries, pgReadCalibrationRows(client)), summaries };
+    },
+    rows: () => judgeStore(everyRow()),
     full: () => {
       const hashes = pgCaptureHashes(client);
-      return judgeStore({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client) }, (c) => hashes.get(c.sha256) ?? null);
+      return judgeStore(everyRow(), (c) => hashes.get(c.sha256) ?? null);
     },
-    unitCaptures: (unit) => judgeCaptures(pgReadRunDigests(client, { unit }).rows, pgReadCalibrationRows(client, unit).runs, fetched),
+    unit: (unit) => judgeUnit(pgReadRunDigests(client, { unit }), pgReadCalibrationRows(client, unit).runs, fetched),
     wrapError: (err) => pgStoreError(err, shown),
   });
-  const { verified, mark, markCalibrations, rowAudit, guarded } = reads;
+  const { verified, mark, markCalibrations, listingAudit, guarded } = reads;
   const origin = (hooks?: { uid?: string; originDigest?: string }) => ({ ...(hooks?.uid !== undefined ? { uid: hooks.uid } : {}), ...(hooks?.originDigest !== undefined ? { digest: hooks.originDigest } : {}) });
   return {
     engine: 'shared',
@@ -116,10 +123,16 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
         return prepared.map((p) => writeRun(client, p));
       }));
     },
-    listUnits: (filter = {}) => verified(() => withUnverified(pgListUnits(client, filter.spec), rowAudit())),
+    listUnits: (filter = {}) => verified(() => withUnverified(listUnitsFrom(lightRuns(reads.summaryRows()), filter.spec), listingAudit())),
+    batchRuns: (filter = {}) =>
+      verified(() => {
+        const read = batchRuns(reads.summaryRows(), filter.spec, (ids) => pgSummaryChecks(client, ids));
+        reads.refuse(read.problems);
+        return mark(read.runs);
+      }),
     unitRecord: (serial) =>
       verified(() => withCalibrations(buildUnitRecord(serial, mark(pgRunRows(client, { unit: serial }))), serial, markCalibrations(pgReadCalibrationRows(client, serial).runs)), serial),
-    runs: (filter) => verified(() => mark(pgRunRows(client, filter)), filter?.unit),
+    runs: (filter) => verified(() => mark(pgRunRows(client, filter)), filter?.unit ?? 'all-runs'),
     unitSerials: () => verified(() => [...new Set([...pgDistinct(client, 'unit'), ...pgCalibratedSerials(client)])].sort()),
     specNames: () => verified(() => pgDistinct(client, 'spec_name')),
     specText: (sha256) => guarded(() => pgSpecText(client, sha256)),
@@ -146,7 +159,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
         open?.captures.forEach(keep);
         return open;
       }),
-    audit: reads.audit,
+    audit: (scope = 'full') => (scope === 'listing' ? listingAudit() : reads.audit()),
     chainHead: () => guarded(() => pgChainHead(client)),
     unsent: () => [],
   };

@@ -1,0 +1,176 @@
+/**
+ * The light summary of a stored run: what `units` and `batch` need, kept beside the full verdict so
+ * a listing never reads, parses or hashes the measurement reports (a real verdict is about 135 kB,
+ * mostly plot data; its summary a few hundred bytes, plus about 100 bytes per check).
+ *
+ * A summary row holds the SHA-256 of the run's verdict text, the state of its conditions (which wait,
+ * the worst statement so far, each condition's statement: `state_json`) and its checks in compact
+ * form (`checks_json`, with their SHA-256). Its fingerprint is
+ *
+ *   SHA-256(canonical JSON of { run: the run's fingerprint, verdict: SHA-256 of the verdict text,
+ *           checks: SHA-256 of checks_json, head: the run row's own columns, state: state_json })
+ *
+ * and it joins the hash chain (kind 'summary', the run's number) in the run's own transaction. So a
+ * listing verifies a run by one small hash: an edit of the run row's columns, of the summary, or of
+ * its fingerprint breaks it or the chain; the verdict's own hash is checked against the summary's
+ * copy whenever the full verdict is read (record, compare, reports), with the run's fingerprint.
+ */
+import type { RunSpec, Statement, StoredRun, UnitVerdict } from '../types/index.js';
+import { waitingConditions } from '../types/index.js';
+import { CanonicalText, canonicalJson, sha256Hex } from './digest.js';
+
+/** The run row's columns a summary is fingerprinted with (either engine's row). */
+export interface SummaryHeadRow {
+  id: number;
+  unit: string;
+  kind: string;
+  started_at: string;
+  stored_at: string;
+  operator: string;
+  station: string;
+  spec_name: string;
+  spec_revision: string;
+  spec_sha256: string;
+  tool_version: string;
+  statement: string;
+  attempt?: number | null;
+  attempt_reason?: string | null;
+  note?: string | null;
+  digest: string;
+}
+
+/** A run row joined with its summary row (null columns when the run has none). */
+export interface SummaryRow extends SummaryHeadRow {
+  verdict_sha256: string | null;
+  checks_sha256: string | null;
+  state_json: string | null;
+  summary_digest: string | null;
+}
+
+/** What a summary row stores, computed from the run as it is written. */
+export interface SummaryValues {
+  readonly verdictSha256: string;
+  readonly checksSha256: string;
+  readonly stateJson: string;
+  readonly checksJson: string;
+  readonly digest: string;
+}
+
+/** The state of a verdict's conditions, as a listing needs it. */
+interface SummaryState {
+  readonly statement: Statement;
+  readonly waitingFor: readonly string[];
+  readonly soFar?: Statement;
+  readonly conditions: readonly { readonly condition: string; readonly statement: Statement }[];
+}
+
+/** One check, compact: condition, output, measurement, unit, value, U, lower, upper, nominal, guard, margin, statement. */
+type CompactCheck = [string, string, string, string, number | null, number | null, number | null, number | null, number | null, number, number | null, Statement];
+
+function stateOf(verdict: UnitVerdict): SummaryState {
+  return {
+    statement: verdict.statement,
+    waitingFor: waitingConditions(verdict),
+    ...(verdict.soFar !== undefined ? { soFar: verdict.soFar } : {}),
+    conditions: verdict.conditions.map((c) => ({ condition: c.condition, statement: c.statement })),
+  };
+}
+
+function checksOf(verdict: UnitVerdict): CompactCheck[] {
+  return verdict.conditions.flatMap((c) =>
+    c.checks.map((k): CompactCheck => [k.condition, k.output, k.measurement, k.unit, k.value, k.expandedUncertainty, k.lower, k.upper, k.nominal, k.guard, k.margin, k.statement]),
+  );
+}
+
+/**
+ * The run row's columns as the summary's fingerprint covers them (NULL attempt columns left out): all
+ * that the run's own fingerprint covers, so, like it, not the storing time (the same run stored on
+ * either engine chains to the same head).
+ */
+function headOf(row: SummaryHeadRow): Record<string, unknown> {
+  return {
+    unit: String(row.unit),
+    kind: String(row.kind),
+    startedAt: String(row.started_at),
+    operator: String(row.operator),
+    station: String(row.station),
+    spec: { name: String(row.spec_name), revision: String(row.spec_revision), sha256: String(row.spec_sha256) },
+    toolVersion: String(row.tool_version),
+    statement: String(row.statement),
+    attempt: typeof row.attempt === 'number' ? row.attempt : undefined,
+    attemptReason: typeof row.attempt_reason === 'string' ? row.attempt_reason : undefined,
+    note: typeof row.note === 'string' ? row.note : undefined,
+  };
+}
+
+export function summaryDigest(row: SummaryHeadRow, verdictSha256: string, checksSha256: string, stateJson: string): string {
+  return sha256Hex(
+    canonicalJson({ format: 'benchproof-summary-1', run: String(row.digest), verdict: verdictSha256, checks: checksSha256, head: headOf(row), state: new CanonicalText(stateJson) }),
+  );
+}
+
+/** The summary of a run about to be stored (or stored before schema 7): `verdictText` is the verdict as stored. */
+export function summarize(row: SummaryHeadRow, verdict: UnitVerdict, verdictText: string): SummaryValues {
+  const stateJson = canonicalJson(stateOf(verdict));
+  const checksJson = canonicalJson(checksOf(verdict));
+  const verdictSha256 = sha256Hex(verdictText);
+  const checksSha256 = sha256Hex(checksJson);
+  return { verdictSha256, checksSha256, stateJson, checksJson, digest: summaryDigest(row, verdictSha256, checksSha256, stateJson) };
+}
+
+/** Does this joined row's summary still match its fingerprint (computed over the run row's columns as read)? */
+export function summaryHolds(row: SummaryRow): boolean {
+  if (row.summary_digest === null || row.verdict_sha256 === null || row.checks_sha256 === null || row.state_json === null) return false;
+  return summaryDigest(row, row.verdict_sha256, row.checks_sha256, row.state_json) === row.summary_digest;
+}
+
+/**
+ * A verified summary as the run shape that attempts.ts and summarizeBatch read: spec, times,
+ * statement, attempt columns, the verdict's condition states, and its checks when `checksJson` is
+ * given (else none). Everything else of the verdict (the measurement reports) and the diagnosis are
+ * absent, so it is typed through unknown, as runHead does (attempts.ts); it never reaches a report.
+ */
+export function lightRun(row: SummaryRow, checksJson?: string): StoredRun | undefined {
+  let state: SummaryState;
+  let checks: CompactCheck[] = [];
+  try {
+    state = JSON.parse(String(row.state_json)) as SummaryState;
+    if (checksJson !== undefined) checks = JSON.parse(checksJson) as CompactCheck[];
+  } catch {
+    return undefined;
+  }
+  const byCondition = new Map<string, object[]>();
+  for (const [condition, output, measurement, unit, value, expandedUncertainty, lower, upper, nominal, guard, margin, statement] of checks) {
+    const list = byCondition.get(condition) ?? [];
+    list.push({ condition, output, measurement, unit, value, expandedUncertainty, lower, upper, nominal, guard, margin, statement });
+    byCondition.set(condition, list);
+  }
+  const head = headOf(row);
+  const spec = head.spec as RunSpec;
+  const run = {
+    id: Number(row.id),
+    ...head,
+    storedAt: String(row.stored_at),
+    spec,
+    digest: String(row.digest),
+    intact: true,
+    diagnosis: { causes: [] },
+    captures: [],
+    verdict: {
+      unit: head.unit,
+      spec,
+      statement: state.statement,
+      waitingFor: state.waitingFor,
+      ...(state.soFar !== undefined ? { soFar: state.soFar } : {}),
+      conditions: state.conditions.map((c) => ({ ...c, checks: byCondition.get(c.condition) ?? [] })),
+      captures: [],
+    },
+  };
+  for (const k of ['attempt', 'attemptReason', 'note'] as const) if ((run as Record<string, unknown>)[k] === undefined) delete (run as Record<string, unknown>)[k];
+  return run as unknown as StoredRun;
+}
+
+/** The SQL columns of a run joined with its summary (`r` runs, `s` run_summaries), the same on both engines. */
+export const SUMMARY_COLUMNS = `r.id, r.unit, r.kind, r.started_at, r.stored_at, r.operator, r.station, r.spec_name, r.spec_revision,
+  r.spec_sha256, r.tool_version, r.statement, r.attempt, r.attempt_reason, r.note, r.digest,
+  s.verdict_sha256, s.checks_sha256, s.state_json, s.digest AS summary_digest`;

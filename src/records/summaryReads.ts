@@ -1,0 +1,42 @@
+/**
+ * The embedded store's reads of run summaries (runSummary.ts): every run joined with its summary in
+ * one query (the listing and its verification), the checks of chosen runs in one query (batch
+ * statistics), and a unit's run heads for placing a new run. Never one query per run or per unit.
+ */
+import type { Database } from 'better-sqlite3';
+import type { StoredRun } from '../types/index.js';
+import { readRunHeads } from './attempts.js';
+import { lightRun, SUMMARY_COLUMNS } from './runSummary.js';
+import type { SummaryRow } from './runSummary.js';
+
+/** Every run (or one unit's) with its summary columns, oldest first. */
+export function readSummaryRows(db: Database, unit?: string): SummaryRow[] {
+  const sql = `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = ?'} ORDER BY r.started_at, r.id`;
+  return db.prepare(sql).all(...(unit === undefined ? [] : [unit])) as SummaryRow[];
+}
+
+/** The compact checks of these runs with their stored SHA-256, by run. */
+export function readSummaryChecks(db: Database, ids: readonly number[]): Map<number, { checks_json: string; checks_sha256: string }> {
+  const out = new Map<number, { checks_json: string; checks_sha256: string }>();
+  if (ids.length === 0) return out;
+  const rows = db
+    .prepare('SELECT run_id, checks_json, checks_sha256 FROM run_summaries WHERE run_id IN (SELECT value FROM json_each(?))')
+    .all(JSON.stringify(ids)) as { run_id: number; checks_json: string; checks_sha256: string }[];
+  for (const r of rows) out.set(r.run_id, r);
+  return out;
+}
+
+/**
+ * The unit's runs as placing a new run reads them (attempts.ts), from their summaries; a unit with a
+ * run that has none (a store being upgraded, a run that failed its fingerprint) is read from the
+ * verdicts as before schema 7.
+ */
+export function readSummaryHeads(db: Database, unit: string): StoredRun[] {
+  const heads: StoredRun[] = [];
+  for (const row of readSummaryRows(db, unit)) {
+    const run = row.state_json === null ? undefined : lightRun(row);
+    if (!run) return readRunHeads(db, unit);
+    heads.push(run);
+  }
+  return heads;
+}
