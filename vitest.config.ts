@@ -7,6 +7,9 @@ export default defineConfig({
     // One seed for every property-based run, printed with a failure (BENCHPROOF_PROPERTY_SEED overrides it).
     // Temporary folders made by the shared helpers are removed when each file ends (tempFolders.ts).
     setupFiles: ['./test/helpers/propertySeed.ts', './test/helpers/tempFolders.ts'],
+    // One folder per run for the PostgreSQL clusters: one initdb per run, each file's cluster a copy of
+    // it, and every server in it stopped at the end of the run, or at the next run if this one was killed.
+    globalSetup: ['./test/helpers/pgRunFolder.ts'],
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',

@@ -1,16 +1,22 @@
 /**
- * A throwaway PostgreSQL 15 cluster for the tests that need a real server: `initdb` into a fresh
- * temporary folder, `pg_ctl start` listening only on a Unix socket in that folder (no TCP port at
+ * A throwaway PostgreSQL 15 cluster for the tests that need a real server: a data directory of its
+ * own in a fresh folder, `pg_ctl start` listening only on a Unix socket in that folder (no TCP port at
  * all), and everything removed on stop. The server refuses to run as root, so when the tests run
  * as root the cluster is made and started as the `postgres` user (the folder handed over to it).
+ *
+ * Under vitest the data directory is a copy of one `initdb` made once per test run (in the run's
+ * folder, pgRunFolder.ts, which also stops and removes whatever a run leaves behind); elsewhere, or
+ * when that template cannot be made, each cluster runs `initdb` itself. Either way each cluster is a
+ * whole server of its own, so kill() and restart() touch no other test file's cluster.
  *
  * Start one cluster per test file (beforeAll) and stop it in afterAll; without the server binaries
  * `startPgCluster` returns `{ skip: reason }` and the file's tests skip with that note.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
-import { chmodSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { chmodSync, existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { inject } from 'vitest';
 
 /** Debian's layout for the `postgresql` package (postgresql-15). */
 export const PG_BIN = process.env.BENCHPROOF_PG_BIN ?? '/usr/lib/postgresql/15/bin';
@@ -56,10 +62,61 @@ function pgBinariesMissing(): string | undefined {
 
 let nextPort = 54_320 + (process.pid % 500) * 7;
 
+/** The run's folder from pgRunFolder.ts, or undefined outside a vitest run with that global setup. */
+function runFolder(): string | undefined {
+  try {
+    const dir = inject('benchproofPgRun');
+    return dir && existsSync(dir) ? dir : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
+const pause = (ms: number): void => void Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
+
+/**
+ * The run's template data directory, made by whichever worker asks first (mkdir is the lock; the
+ * others wait for its `ready` or `failed` mark). Undefined when it could not be made: the caller
+ * then runs initdb itself and reports what fails there.
+ */
+function templateData(run: string): string | undefined {
+  const dir = join(run, 'template');
+  const data = join(dir, 'data');
+  const ready = join(dir, 'ready');
+  const failed = join(dir, 'failed');
+  try {
+    mkdirSync(dir);
+  } catch {
+    for (const until = Date.now() + 120_000; Date.now() < until; pause(50)) {
+      if (existsSync(ready)) return data;
+      if (existsSync(failed)) return undefined;
+    }
+    return undefined;
+  }
+  try {
+    chmodSync(dir, 0o700);
+    if (asRoot) execFileSync('chown', ['postgres:', dir]);
+    runAs('initdb', ['-D', data, '-U', 'postgres', '--auth=trust', '-E', 'UTF8', '--locale=C', '--no-sync']);
+    writeFileSync(ready, '');
+    return data;
+  } catch (err) {
+    writeFileSync(failed, String((err as Error).message));
+    return undefined;
+  }
+}
+
+/** A new data directory at `dataDir`: a copy of the run's template (owner and modes kept), or initdb. */
+function makeDataDir(dataDir: string, run: string | undefined): void {
+  const template = run === undefined ? undefined : templateData(run);
+  if (template) execFileSync('cp', ['-a', template, dataDir], { stdio: 'ignore' });
+  else runAs('initdb', ['-D', dataDir, '-U', 'postgres', '--auth=trust', '-E', 'UTF8', '--locale=C', '--no-sync']);
+}
+
 export function startPgCluster(): PgClusterResult {
   const missing = pgBinariesMissing();
   if (missing) return { skip: missing };
-  const root = mkdtempSync(join(tmpdir(), 'benchproof-pg-'));
+  const run = runFolder();
+  const root = mkdtempSync(join(run ?? tmpdir(), 'benchproof-pg-'));
   const dataDir = join(root, 'data');
   // The socket's port number only names the socket file (.s.PGSQL.<port>); no TCP port is opened.
   const port = nextPort++;
@@ -69,7 +126,7 @@ export function startPgCluster(): PgClusterResult {
     runAs('pg_ctl', ['-D', dataDir, '-l', join(root, 'server.log'), '-w', '-t', '60', '-o', `-c listen_addresses='' -c unix_socket_directories='${root}' -p ${port} -c fsync=on`, 'start']);
   };
   try {
-    runAs('initdb', ['-D', dataDir, '-U', 'postgres', '--auth=trust', '-E', 'UTF8', '--locale=C', '--no-sync']);
+    makeDataDir(dataDir, run);
     start();
   } catch (err) {
     rmSync(root, { recursive: true, force: true });

@@ -1,4 +1,4 @@
-/** Spawning writer.ts as a real separate Node process, and waiting on it. */
+/** Spawning writer.ts as a real separate Node process (TypeScript through the cached transpiling hooks of test/helpers), and waiting on it. */
 import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
@@ -7,7 +7,7 @@ const here = (name: string): string => fileURLToPath(new URL(name, import.meta.u
 
 export function spawnWriter(dataDir: string, prefix: string, count: number, mode: 'loop' | 'hang', barrierDir = ''): ChildProcess {
   const args = [here('./writer.ts'), dataDir, prefix, String(count), mode, barrierDir];
-  return spawn(process.execPath, ['--import', here('./registerTs.mjs'), ...args], {
+  return spawn(process.execPath, ['--import', here('../../helpers/registerCachedTs.mjs'), ...args], {
     stdio: ['ignore', 'pipe', 'pipe'],
   });
 }

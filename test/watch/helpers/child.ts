@@ -17,7 +17,7 @@ export interface WatchChild {
 }
 
 export function spawnWatch(args: readonly string[], env: Record<string, string> = {}): WatchChild {
-  const child = spawn(process.execPath, ['--import', here('./registerCachedTs.mjs'), here('./cliEntry.ts'), 'watch', ...args], {
+  const child = spawn(process.execPath, ['--import', here('../../helpers/registerCachedTs.mjs'), here('./cliEntry.ts'), 'watch', ...args], {
     stdio: ['ignore', 'pipe', 'pipe'],
     env: { ...process.env, BENCHPROOF_OPERATOR: 'T. Ashgrove', ...env },
   });

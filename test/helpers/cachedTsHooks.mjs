@@ -1,7 +1,7 @@
 // The module hooks of test/records/helpers/tsHooks.mjs (`./x.js` resolves to `./x.ts`; .ts files
 // transpiled with TypeScript's transpileModule, types erased), with the transpiled text kept in a
 // folder under the system's temporary folder, keyed by the SHA-256 of the file name and source. A
-// spawned `watch` child then loads the TypeScript compiler only for sources changed since the last
+// spawned child (a `watch`, a store writer) then loads the TypeScript compiler only for sources changed since the last
 // child, instead of transpiling the whole tree in every process (most of a child's start-up).
 import { createHash } from 'node:crypto';
 import process from 'node:process';

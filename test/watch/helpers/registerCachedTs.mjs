@@ -1,4 +1,0 @@
-// `node --import ./test/watch/helpers/registerCachedTs.mjs script.ts`: TypeScript sources with a transpile cache (cachedTsHooks.mjs).
-import { register } from 'node:module';
-
-register('./cachedTsHooks.mjs', import.meta.url);
