@@ -3,7 +3,7 @@
  * the tests that kill, race or starve it; plus the bench folder those tests work in: copies of the
  * demo captures and spec in a fresh folder under the system temp folder, never the checkout.
  */
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import type { ChildProcess } from 'node:child_process';
 import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -15,12 +15,6 @@ const SAMPLES = resolve('samples');
 /** Built output present: the process tests run the compiled CLI, not the sources. */
 export function builtCli(): boolean {
   return existsSync(resolve('dist/cli/main.js'));
-}
-
-/** Whether the built CLI has this command (e.g. `watch`, added by another change). */
-export function hasCommand(name: string): boolean {
-  const r = spawnSync(process.execPath, [CLI, '--help'], { encoding: 'utf8', env: { ...process.env, NO_COLOR: '1' } });
-  return new RegExp(`^\\s+${name}\\b`, 'm').test(r.stdout ?? '');
 }
 
 export interface Bench {

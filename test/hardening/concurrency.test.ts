@@ -1,6 +1,6 @@
 /**
  * Two terminals at once: parallel `check` processes on one fresh data folder, and two `watch`
- * processes on one drop folder and one data folder (once the CLI has `watch`). SQLite serialises
+ * processes on one drop folder and one data folder. SQLite serialises
  * the writers (WAL mode, one writer at a time with a busy timeout: sqlite.org/wal.html,
  * "Concurrency"); each run must be stored whole, and each capture recorded exactly once.
  */
@@ -9,7 +9,7 @@ import { mkdirSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { newTally, saveTally, scaled, seedFor } from './budget.js';
-import { builtCli, drainWatch, dropCapture, hasCommand, makeBench, reportedRuns, seeded, sleep, startCli, watchedRuns } from './cliProcess.js';
+import { builtCli, drainWatch, dropCapture, makeBench, reportedRuns, seeded, sleep, startCli, watchedRuns } from './cliProcess.js';
 import type { ReportedRun } from './cliProcess.js';
 import type { Bench } from './cliProcess.js';
 import { auditStore } from './storeAudit.js';
@@ -60,7 +60,7 @@ describe.skipIf(!builtCli())('benchproof processes running at once (built CLI)',
     }
   });
 
-  it.runIf(builtCli() && hasCommand('watch'))('records each capture exactly once when two watch processes share a folder and a data folder', { timeout: scaled(120_000, 30 * 60_000) }, async () => {
+  it('records each capture exactly once when two watch processes share a folder and a data folder', { timeout: scaled(120_000, 30 * 60_000) }, async () => {
     const b = makeBench('two-watch');
     benches.push(b);
     const drop = join(b.root, 'drop');
