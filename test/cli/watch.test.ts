@@ -49,8 +49,8 @@ describe('benchproof watch, usage', () => {
   });
 });
 
-// Each child loads the TypeScript sources through a transpiling hook, which takes a while on a busy
-// machine; the limits below bound a hung test, they are not expectations about speed.
+// Each child is the built command line, or the TypeScript sources when the build is older than them
+// (test/watch/helpers/child.ts); the limits below bound a hung test, they are not expectations about speed.
 describe('benchproof watch as a process', () => {
   it('prints the summary and exits 0 on SIGTERM, after checking a capture that landed', async () => {
     const data = join(root, 'data');

@@ -1,5 +1,5 @@
-// The command line as bin/benchproof.js runs it, but from the TypeScript sources, so a spawned
-// `watch` child tests the code in the tree rather than a possibly stale build in dist/.
+// The command line as bin/benchproof.js runs it, but from the TypeScript sources: a spawned `watch`
+// child runs this when the build in dist/ is older than the sources (child.ts), so it never tests a stale build.
 import { run } from '../../../src/cli/main.js';
 
 run(process.argv.slice(2)).then((code) => {
