@@ -9,7 +9,7 @@
  * once the process that made it is gone (its pid is in the folder's `owner` file).
  */
 import { execFileSync } from 'node:child_process';
-import { chmodSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { chmodSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { TestProject } from 'vitest/node';
@@ -61,7 +61,8 @@ function clearStaleRuns(): void {
     try {
       owner = Number(readFileSync(join(dir, 'owner'), 'utf8'));
     } catch {
-      // no owner file: made by a run killed at its first step
+      // No owner file: a run killed at its first step, or one starting this very moment (left a minute).
+      if (Date.now() - (statSync(dir, { throwIfNoEntry: false })?.mtimeMs ?? 0) < 60_000) continue;
     }
     if (!Number.isInteger(owner) || !alive(owner)) clearRunFolder(dir);
   }
