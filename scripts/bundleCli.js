@@ -30,11 +30,31 @@ const KEPT_PACKAGES = new Set(['better-sqlite3', 'pg', 'fastify', '@fastify/mult
 const packageOf = (id) => (id.startsWith('@') ? id.split('/').slice(0, 2).join('/') : id.split('/')[0]);
 const isPackage = (id) => !(id.startsWith('.') || id.startsWith('/') || id.startsWith('\0'));
 
+/**
+ * commander requires node:child_process when it loads, for commands that are separate programs
+ * (ours are not); loading it also loads net, dgram and the stream modules, some 5 ms of every start.
+ * Inside commander it becomes a stand-in that requires the real module on first use.
+ */
+const isCommandersChildProcess = (id, importer) =>
+  (id === 'node:child_process' || id === 'child_process') && /[\\/]node_modules[\\/]commander[\\/]/.test(importer ?? '');
+const lazyChildProcess = {
+  name: 'lazy-child-process-for-commander',
+  resolveId(id, importer) {
+    return isCommandersChildProcess(id, importer) ? '\0lazy-child-process' : null;
+  },
+  load(id) {
+    if (id !== '\0lazy-child-process') return null;
+    return "module.exports = new Proxy({}, { get: (_, key) => require('node:child_process')[key] });";
+  },
+};
+
 rmSync(out, { recursive: true, force: true });
 await build({
   input: { main: join(root, 'dist', 'cli', 'main.js') },
   platform: 'node',
-  external: (id) => id.startsWith('node:') || (isPackage(id) && KEPT_PACKAGES.has(packageOf(id))),
+  plugins: [lazyChildProcess],
+  external: (id, importer) =>
+    !isCommandersChildProcess(id, importer) && (id.startsWith('node:') || (isPackage(id) && KEPT_PACKAGES.has(packageOf(id)))),
   logLevel: 'warn',
   // A module both imported and loaded on demand by different commands simply stays in its chunk.
   checks: { ineffectiveDynamicImport: false },

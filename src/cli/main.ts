@@ -15,12 +15,13 @@ import type { CliIo } from './io.js';
 import { createContext, loadTextStyle } from './context.js';
 import type { CommandContext } from './context.js';
 import { COMMANDS } from './commands/index.js';
+import type { CommandEntry } from './commands/index.js';
 import { TOOL_VERSION } from './version.js';
 
 export async function run(argv: readonly string[], io: CliIo = processIo()): Promise<number> {
   // Everything written passes one filter: control characters from file names and the like are shown escaped.
   const ctx = createContext(terminalSafeIo(io));
-  const program = buildProgram(ctx);
+  const program = buildProgram(ctx, argv);
   // Nothing asked: the help is the answer, on stdout (commander would print it as an error).
   if (argv.length === 0) {
     ctx.io.stdout(program.helpInformation());
@@ -34,7 +35,7 @@ export async function run(argv: readonly string[], io: CliIo = processIo()): Pro
   }
 }
 
-export function buildProgram(ctx: CommandContext): Command {
+export function buildProgram(ctx: CommandContext, argv: readonly string[] = []): Command {
   const program = new Command('benchproof')
     .description('Bench test assistant for oscillator builders: measure captures, check them against a design spec, keep a record of every unit.')
     .version(TOOL_VERSION, '--version', 'print the version')
@@ -56,12 +57,23 @@ Start with \`npm run demo\`; each command has --help with examples.`,
   program.hook('preAction', async (_program, action) => {
     if (!(action.name() === 'measure' && action.opts().json === true)) await loadTextStyle();
   });
-  for (const register of COMMANDS) {
+  for (const { register } of commandsFor(argv)) {
     const cmd = register(program, ctx);
     cmd.exitOverride().configureOutput(parserOutput(ctx));
     cmd.showSuggestionAfterError(true);
   }
   return program;
+}
+
+/**
+ * The commands to set up for a run: only the one it starts with, when it starts with a command's name
+ * (setting up all thirteen, with their options and help, is a measurable part of every start, issue
+ * 21); all of them for anything else (the program's help and version, a mistyped command, an option
+ * before the command), so that the command list and the nearest-match suggestions stay complete.
+ */
+function commandsFor(argv: readonly string[]): readonly CommandEntry[] {
+  const named = COMMANDS.find((c) => c.name === argv[0]);
+  return named === undefined ? COMMANDS : [named];
 }
 
 function handleError(err: unknown, ctx: CommandContext, argv: readonly string[]): number {

@@ -17,18 +17,24 @@ import { registerStore } from './storeCommand.js';
 
 export type RegisterCommand = (program: Command, ctx: CommandContext) => Command;
 
-export const COMMANDS: readonly RegisterCommand[] = [
-  registerMeasure,
-  registerInspect,
-  registerCheck,
-  registerSpec,
-  registerUnits,
-  registerRecord,
-  registerCompare,
-  registerBatch,
-  registerWatch,
-  registerCalibrate,
-  registerServe,
-  registerSync,
-  registerStore,
+/** A command's name (the word that starts a command line) and the function that sets it up. */
+export interface CommandEntry {
+  readonly name: string;
+  readonly register: RegisterCommand;
+}
+
+export const COMMANDS: readonly CommandEntry[] = [
+  { name: 'measure', register: registerMeasure },
+  { name: 'inspect', register: registerInspect },
+  { name: 'check', register: registerCheck },
+  { name: 'spec', register: registerSpec },
+  { name: 'units', register: registerUnits },
+  { name: 'record', register: registerRecord },
+  { name: 'compare', register: registerCompare },
+  { name: 'batch', register: registerBatch },
+  { name: 'watch', register: registerWatch },
+  { name: 'calibrate', register: registerCalibrate },
+  { name: 'serve', register: registerServe },
+  { name: 'sync', register: registerSync },
+  { name: 'store', register: registerStore },
 ];
