@@ -48,6 +48,8 @@ export class MeasureWorkers {
   private readonly live = new Set<Worker>();
   private readonly pending = new Map<number, Pending>();
   private jobs = 0;
+  /** Channels the workers have measured so far (tests check that they took part). */
+  helped = 0;
 
   constructor(count: number, script: URL) {
     for (let i = 0; i < count; i++) {
@@ -89,6 +91,7 @@ export class MeasureWorkers {
       for (let i = take(); i >= 0; i = take()) {
         try {
           keep(i, await this.send(w, only(i), options));
+          this.helped++;
         } catch {
           // A failed worker's channel is measured here (an error it met will be met here too, and reported).
           here(i);
