@@ -54,7 +54,7 @@ interface Fingerprinted {
   readonly digest: string;
   readonly intact: boolean;
   readonly captures: readonly { readonly sha256: string; readonly size: number; readonly archivePath: string }[];
-  readonly summaryMismatch?: boolean;
+  readonly summaryProblem?: string;
 }
 
 export interface AuditOptions {
@@ -103,7 +103,7 @@ export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit 
   const { rows: runs, damaged } = read.runs;
   const calibrations = read.calibrations;
   const rows: Fingerprinted[] = [
-    ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures, summaryMismatch: r.summaryMismatch })),
+    ...runs.map((r) => ({ kind: 'run' as const, id: r.id, unit: r.unit, digest: r.digest, intact: r.intact, captures: r.captures, summaryProblem: r.summaryProblem })),
     ...calibrations.runs.flatMap((c) => c.iterations.map((i) => ({ kind: 'calibration' as const, id: i.id, unit: c.unit, digest: i.digest, intact: i.intact, captures: i.captures }))),
   ];
   const present = new Set<string>();
@@ -117,7 +117,7 @@ export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit 
     if (!r.intact) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its content no longer matches the fingerprint taken when it was stored' });
     else if (!entry) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'unchained', detail: 'it is not in the hash chain: it was not stored by benchproof' });
     else if (entry.row_digest !== r.digest) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)' });
-    else if (r.summaryMismatch) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: 'its verdict no longer hashes to the SHA-256 its summary holds' });
+    else if (r.summaryProblem) problems.push({ kind: r.kind, id: r.id, unit: r.unit, problem: 'changed', detail: r.summaryProblem });
   }
   if (read.summaries) judgeSummaries(read.summaries, byRow, problems);
   for (const e of entries) {
@@ -179,7 +179,7 @@ export function judgeUnit(runs: { readonly rows: readonly RunDigestRow[]; readon
   const problems: AuditProblem[] = runs.damaged.map((d) => ({ kind: d.kind, id: d.id, unit: d.unit, problem: 'damaged' as const, detail: d.problem }));
   for (const r of runs.rows) {
     if (!r.intact) problems.push({ kind: 'run', id: r.id, unit: r.unit, problem: 'changed', detail: 'its content no longer matches the fingerprint taken when it was stored' });
-    else if (r.summaryMismatch) problems.push({ kind: 'run', id: r.id, unit: r.unit, problem: 'changed', detail: 'its verdict no longer hashes to the SHA-256 its summary holds' });
+    else if (r.summaryProblem) problems.push({ kind: 'run', id: r.id, unit: r.unit, problem: 'changed', detail: r.summaryProblem });
   }
   return [...problems, ...judgeCaptures(runs.rows, calibrations, hashOf)];
 }

@@ -18,7 +18,11 @@ export class CanonicalText {
 export function canonicalJson(value: unknown): string {
   if (value instanceof CanonicalText) return value.text;
   if (value === null || typeof value !== 'object') return JSON.stringify(value) ?? 'null';
-  if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+  if (Array.isArray(value)) {
+    // Plot data is long arrays of numbers: JSON.stringify writes them exactly as element by element.
+    if (value.every((v) => typeof v === 'number')) return JSON.stringify(value);
+    return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+  }
   const obj = value as Record<string, unknown>;
   const parts: string[] = [];
   for (const key of Object.keys(obj).sort()) {

@@ -1,6 +1,8 @@
 /**
  * Schema 7: a light summary beside every run (runSummary.ts), so `units` and `batch` read and verify a
- * few hundred bytes per run instead of hashing each full verdict. The table is append-only like every
+ * few hundred bytes per run instead of hashing each full verdict. It repeats the run's fingerprint
+ * and attempt columns (covered by its own fingerprint): in SQLite those columns lie after the verdict
+ * text in the run's row, and reading them would read the whole verdict from its overflow pages. The table is append-only like every
  * record table. Runs stored before this schema get their summary here, each only after its own
  * fingerprint is verified (the run re-hashed as a full read does); a run that fails it gets none, so
  * it stays named as changed by every listing instead of being vouched for by a new summary. Each
@@ -20,6 +22,10 @@ import { parseVerdict } from './rowShape.js';
 const SUMMARY_SQL = `
 CREATE TABLE run_summaries (
   run_id INTEGER PRIMARY KEY REFERENCES runs(id),
+  run_digest TEXT NOT NULL,
+  attempt INTEGER,
+  attempt_reason TEXT,
+  note TEXT,
   verdict_sha256 TEXT NOT NULL,
   checks_sha256 TEXT NOT NULL,
   state_json TEXT NOT NULL,
@@ -51,9 +57,8 @@ export function migrateTo7(db: Database): void {
 
 /** Write one run's summary row (SQLite); the caller appends its chain entry in the same transaction. */
 export function insertSummary(db: Database, runId: number, s: SummaryValues): void {
-  db.prepare('INSERT INTO run_summaries (run_id, verdict_sha256, checks_sha256, state_json, checks_json, digest) VALUES (?, ?, ?, ?, ?, ?)').run(
-    runId, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest,
-  );
+  db.prepare(`INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, checks_json, digest)
+    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest);
 }
 
 /**

@@ -142,8 +142,8 @@ export interface RunDigestRow {
   readonly digest: string;
   readonly intact: boolean;
   readonly captures: readonly StoredCapture[];
-  /** True when the verdict no longer hashes to the SHA-256 its summary holds (schema 7). */
-  readonly summaryMismatch?: boolean;
+  /** What disagrees between the run row and its summary (schema 7), when something does. */
+  readonly summaryProblem?: string;
 }
 
 /**
@@ -155,9 +155,9 @@ export interface RunDigestRow {
  */
 export function readRunDigests(db: Database, filter: RunFilter = {}): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
   const where = filter.unit !== undefined ? 'WHERE unit = ?' : '';
-  const summarySha = hasSummaries(db) ? '(SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id)' : 'NULL';
+  const of = (column: string): string => (hasSummaries(db) ? `(SELECT s.${column} FROM run_summaries s WHERE s.run_id = runs.id)` : 'NULL');
   const sql = `SELECT *, json_extract(verdict_json, '$.statement') AS verdict_statement, json_extract(verdict_json, '$.unit') AS verdict_unit,
-    ${summarySha} AS summary_verdict_sha256
+    ${of('verdict_sha256')} AS summary_verdict_sha256, ${of('run_digest')} AS summary_run_digest
     FROM runs ${where} ORDER BY started_at, id`;
   let rows: DigestRow[];
   try {
@@ -176,7 +176,14 @@ function hasSummaries(db: Database): boolean {
 }
 
 /** A run row with the verdict's own statement and serial taken out of its JSON by the engine, and its summary's verdict SHA-256. */
-export type DigestRow = RunRow & { verdict_statement: unknown; verdict_unit: unknown; summary_verdict_sha256?: string | null };
+export type DigestRow = RunRow & { verdict_statement: unknown; verdict_unit: unknown; summary_verdict_sha256?: string | null; summary_run_digest?: string | null };
+
+/** The run row against its summary's copies: its fingerprint (as the chain holds it) and its verdict's hash. */
+function summaryProblemOf(row: DigestRow): string | undefined {
+  if (typeof row.summary_run_digest === 'string' && row.summary_run_digest !== row.digest) return 'its fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)';
+  if (typeof row.summary_verdict_sha256 === 'string' && sha256Hex(String(row.verdict_json)) !== row.summary_verdict_sha256) return 'its verdict no longer hashes to the SHA-256 its summary holds';
+  return undefined;
+}
 
 /** readRunDigests' judgement over rows either engine read: the fast fingerprint, else the full read. */
 export function judgeDigestRows(rows: readonly DigestRow[], captures: ReadonlyMap<number, StoredCapture[]>): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
@@ -202,14 +209,15 @@ export function judgeDigestRows(rows: readonly DigestRow[], captures: ReadonlyMa
         ...attemptColumns(row),
       }) === row.digest;
     // The full verdict is read here, so it is checked against its summary's copy of its hash too.
-    const summaryMismatch = typeof row.summary_verdict_sha256 === 'string' && sha256Hex(String(row.verdict_json)) !== row.summary_verdict_sha256;
+    const summaryProblem = summaryProblemOf(row);
+    const extra = summaryProblem !== undefined ? { summaryProblem } : {};
     if (fast) {
-      out.push({ id: row.id, unit, digest: String(row.digest), intact: true, captures: caps, summaryMismatch });
+      out.push({ id: row.id, unit, digest: String(row.digest), intact: true, captures: caps, ...extra });
       continue;
     }
     const run = toStoredRun(row, caps);
     if ('problem' in run) damaged.push(run);
-    else out.push({ id: run.id, unit: run.unit, digest: run.digest, intact: run.intact, captures: run.captures, summaryMismatch });
+    else out.push({ id: run.id, unit: run.unit, digest: run.digest, intact: run.intact, captures: run.captures, ...extra });
   }
   return { rows: out, damaged };
 }

@@ -49,6 +49,11 @@ export interface SummaryRow extends SummaryHeadRow {
 
 /** What a summary row stores, computed from the run as it is written. */
 export interface SummaryValues {
+  /** The run's fingerprint and attempt columns, repeated (migration7.ts says why). */
+  readonly runDigest: string;
+  readonly attempt: number | null;
+  readonly attemptReason: string | null;
+  readonly note: string | null;
   readonly verdictSha256: string;
   readonly checksSha256: string;
   readonly stateJson: string;
@@ -104,9 +109,31 @@ function headOf(row: SummaryHeadRow): Record<string, unknown> {
 }
 
 export function summaryDigest(row: SummaryHeadRow, verdictSha256: string, checksSha256: string, stateJson: string): string {
-  return sha256Hex(
-    canonicalJson({ format: 'benchproof-summary-1', run: String(row.digest), verdict: verdictSha256, checks: checksSha256, head: headOf(row), state: new CanonicalText(stateJson) }),
-  );
+  return sha256Hex(summaryText(row, verdictSha256, checksSha256, stateJson));
+}
+
+/**
+ * The text a summary's fingerprint is taken of: canonical JSON (digest.ts) of
+ * { format, run, verdict, checks, head: headOf(row), state }, written out key by key in sorted order
+ * because a listing computes it for every run (canonicalJson's generic walk cost more than the hash).
+ * A test holds it equal to canonicalJson of the same object.
+ */
+export function summaryText(row: SummaryHeadRow, verdictSha256: string, checksSha256: string, stateJson: string): string {
+  const q = JSON.stringify;
+  const attempt = typeof row.attempt === 'number' ? `"attempt":${q(row.attempt)},` : '';
+  const reason = typeof row.attempt_reason === 'string' ? `"attemptReason":${q(row.attempt_reason)},` : '';
+  const note = typeof row.note === 'string' ? `"note":${q(row.note)},` : '';
+  const spec = `{"name":${q(String(row.spec_name))},"revision":${q(String(row.spec_revision))},"sha256":${q(String(row.spec_sha256))}}`;
+  const head =
+    `{${attempt}${reason}"kind":${q(String(row.kind))},${note}"operator":${q(String(row.operator))},"spec":${spec},` +
+    `"startedAt":${q(String(row.started_at))},"statement":${q(String(row.statement))},"station":${q(String(row.station))},` +
+    `"toolVersion":${q(String(row.tool_version))},"unit":${q(String(row.unit))}}`;
+  return `{"checks":${q(checksSha256)},"format":"benchproof-summary-1","head":${head},"run":${q(String(row.digest))},"state":${stateJson},"verdict":${q(verdictSha256)}}`;
+}
+
+/** The object summaryText writes, for the test that holds the two equal. */
+export function summaryDocument(row: SummaryHeadRow, verdictSha256: string, checksSha256: string, stateJson: string): unknown {
+  return { format: 'benchproof-summary-1', run: String(row.digest), verdict: verdictSha256, checks: checksSha256, head: headOf(row), state: new CanonicalText(stateJson) };
 }
 
 /** The summary of a run about to be stored (or stored before schema 7): `verdictText` is the verdict as stored. */
@@ -115,7 +142,17 @@ export function summarize(row: SummaryHeadRow, verdict: UnitVerdict, verdictText
   const checksJson = canonicalJson(checksOf(verdict));
   const verdictSha256 = sha256Hex(verdictText);
   const checksSha256 = sha256Hex(checksJson);
-  return { verdictSha256, checksSha256, stateJson, checksJson, digest: summaryDigest(row, verdictSha256, checksSha256, stateJson) };
+  return {
+    runDigest: String(row.digest),
+    attempt: typeof row.attempt === 'number' ? row.attempt : null,
+    attemptReason: typeof row.attempt_reason === 'string' ? row.attempt_reason : null,
+    note: typeof row.note === 'string' ? row.note : null,
+    verdictSha256,
+    checksSha256,
+    stateJson,
+    checksJson,
+    digest: summaryDigest(row, verdictSha256, checksSha256, stateJson),
+  };
 }
 
 /** Does this joined row's summary still match its fingerprint (computed over the run row's columns as read)? */
@@ -170,7 +207,12 @@ export function lightRun(row: SummaryRow, checksJson?: string): StoredRun | unde
   return run as unknown as StoredRun;
 }
 
-/** The SQL columns of a run joined with its summary (`r` runs, `s` run_summaries), the same on both engines. */
+/**
+ * The SQL columns of a run joined with its summary (`r` runs, `s` run_summaries), the same on both
+ * engines. The run's fingerprint and attempt columns are the summary's copies (verified with it), so
+ * no column after the verdict text is read from the run's row; a run without a summary gives its own
+ * fingerprint (COALESCE stops at the first value that is not NULL, so it reads it only then).
+ */
 export const SUMMARY_COLUMNS = `r.id, r.unit, r.kind, r.started_at, r.stored_at, r.operator, r.station, r.spec_name, r.spec_revision,
-  r.spec_sha256, r.tool_version, r.statement, r.attempt, r.attempt_reason, r.note, r.digest,
+  r.spec_sha256, r.tool_version, r.statement, s.attempt, s.attempt_reason, s.note, COALESCE(s.run_digest, r.digest) AS digest,
   s.verdict_sha256, s.checks_sha256, s.state_json, s.digest AS summary_digest`;

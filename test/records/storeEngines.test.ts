@@ -164,7 +164,9 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     const edited = { ...saved, operator: 'someone else' };
     s.sql(`UPDATE runs SET digest = '${runDigest(edited)}' WHERE id = ${saved.id}`);
     const again = s.open();
-    expect(() => again.listUnits()).toThrow(/differs from the one the hash chain holds/);
+    // The listing sees the row's columns no longer match its summary; the full read names the new fingerprint.
+    expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
+    expect(() => again.unitRecord('FK-0101')).toThrow(/run #1 of FK-0101: its fingerprint differs from the one the hash chain holds/);
     again.close();
   });
 
@@ -183,6 +185,68 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     const again = s.open();
     expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
     expect(again.audit().problems.map((p) => p.problem)).toContain('chain-broken');
+    again.close();
+  });
+
+  // The listing (units, batch) verifies the chain and every run's summary (runSummary.ts), not the full
+  // verdicts; reading a unit in full re-hashes its runs. These pin what each read catches.
+  const unguard = (table: string): string =>
+    engine === shared ? `ALTER TABLE ${table} DISABLE TRIGGER USER;` : `DROP TRIGGER IF EXISTS ${table}_no_update; DROP TRIGGER IF EXISTS ${table}_no_delete;`;
+
+  test('refuses a listing and a batch whose run summary was edited behind its back', () => {
+    const s = engine.fresh();
+    const store = s.open();
+    const saved = store.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: '2026-03-02T09:15:00.000Z', riseFraction: 0.48 }));
+    store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:20:00.000Z' }));
+    expect(store.listUnits().find((u) => u.unit === 'FK-0103')?.status).toBe('fail');
+    store.close();
+    s.sql(`${unguard('run_summaries')} UPDATE run_summaries SET state_json = replace(state_json, '"fail"', '"pass"') WHERE run_id = ${saved.id}`);
+    const again = s.open();
+    expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
+    expect(() => again.batchRuns()).toThrow(/run #1 of FK-0103: its content no longer matches/);
+    again.close();
+    const marked = s.open('mark');
+    expect(marked.listUnits().find((u) => u.unit === 'FK-0103')?.unverifiedRuns).toEqual([saved.id]);
+    marked.close();
+  });
+
+  test('refuses a batch whose run summary checks were edited, which the listing does not read', () => {
+    const s = engine.fresh();
+    const store = s.open();
+    const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
+    store.close();
+    s.sql(`${unguard('run_summaries')} UPDATE run_summaries SET checks_json = replace(checks_json, '"Hz"', '"kHz"') WHERE run_id = ${saved.id}`);
+    const again = s.open();
+    expect(again.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
+    expect(() => again.batchRuns()).toThrow(/run #1 of FK-0101: its summary's checks no longer match/);
+    again.close();
+  });
+
+  test('refuses a unit record whose verdict was edited, and names it in the full audit; the listing, which never reads verdicts, still answers', () => {
+    const s = engine.fresh();
+    const store = s.open();
+    const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
+    store.close();
+    s.sql(`${unguard('runs')} UPDATE runs SET verdict_json = replace(verdict_json, '"Hz"', '"kHz"') WHERE id = ${saved.id}`);
+    const again = s.open();
+    expect(again.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
+    expect(() => again.unitRecord('FK-0101')).toThrow(expect.objectContaining({ code: 'records.tampered' }));
+    expect(again.audit().problems.map((p) => [p.id, p.problem])).toContainEqual([saved.id, 'changed']);
+    again.close();
+  });
+
+  test('refuses a listing when a run and its summary were deleted, their chain entries left', () => {
+    const s = engine.fresh();
+    const store = s.open();
+    store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
+    const second = store.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
+    store.close();
+    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summaries', 'runs']) {
+      s.sql(`${unguard(t)} DELETE FROM ${t} WHERE ${t === 'runs' ? 'id' : 'run_id'} = ${second.id}`);
+    }
+    const again = s.open();
+    expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
+    expect(again.audit('listing').problems.map((p) => [p.kind, p.id, p.problem])).toEqual([['run', second.id, 'missing']]);
     again.close();
   });
 

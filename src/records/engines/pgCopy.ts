@@ -94,8 +94,12 @@ function copySummary(db: Database.Database, client: PgSyncClient, runId: number,
   const target = client.query<{ id: number }>('SELECT id FROM runs WHERE origin_uid = $1', [uidOf('run', runId, run.digest)]).rows[0]?.id;
   if (target === undefined) throw new RangeError(`store copy: the summary of run #${runId} comes before its run`);
   if (client.query('SELECT 1 FROM run_summaries WHERE run_id = $1', [target]).rowCount > 0) return false;
-  const s = db.prepare('SELECT * FROM run_summaries WHERE run_id = ?').get(runId) as { verdict_sha256: string; checks_sha256: string; state_json: string; checks_json: string; digest: string };
-  pgInsertSummary(client, target, { verdictSha256: s.verdict_sha256, checksSha256: s.checks_sha256, stateJson: s.state_json, checksJson: s.checks_json, digest: s.digest }, pgChainHead(client));
+  const s = db.prepare('SELECT * FROM run_summaries WHERE run_id = ?').get(runId) as Record<string, string | number | null>;
+  const values = {
+    runDigest: String(s.run_digest), attempt: s.attempt as number | null, attemptReason: s.attempt_reason as string | null, note: s.note as string | null,
+    verdictSha256: String(s.verdict_sha256), checksSha256: String(s.checks_sha256), stateJson: String(s.state_json), checksJson: String(s.checks_json), digest: String(s.digest),
+  };
+  pgInsertSummary(client, target, values, pgChainHead(client));
   return true;
 }
 

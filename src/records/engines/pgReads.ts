@@ -26,7 +26,8 @@ export function pgReadRunDigests(client: PgSyncClient, filter: RunFilter = {}): 
   try {
     rows = client.query<DigestRow>(
       `SELECT *, verdict_json::jsonb ->> 'statement' AS verdict_statement, verdict_json::jsonb ->> 'unit' AS verdict_unit,
-         (SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id) AS summary_verdict_sha256
+         (SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id) AS summary_verdict_sha256,
+         (SELECT s.run_digest FROM run_summaries s WHERE s.run_id = runs.id) AS summary_run_digest
        FROM runs ${where} ORDER BY started_at, id`,
       args,
     ).rows;

@@ -175,9 +175,11 @@ export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: numbe
 
 /** A run's summary row and its chain entry after `head` (the newest link); the caller holds WRITE_LOCK. */
 export function pgInsertSummary(client: PgSyncClient, runId: number, s: SummaryValues, head: string): string {
-  client.query('INSERT INTO run_summaries (run_id, verdict_sha256, checks_sha256, state_json, checks_json, digest) VALUES ($1, $2, $3, $4, $5, $6)', [
-    runId, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest,
-  ]);
+  client.query(
+    `INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, checks_json, digest)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10)`,
+    [runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest],
+  );
   return pgAppendLink(client, 'summary', runId, s.digest, head);
 }
 

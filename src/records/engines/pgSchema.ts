@@ -145,7 +145,8 @@ END $$;
 
 const STEP_7 = `
 CREATE TABLE run_summaries (
-  run_id integer PRIMARY KEY REFERENCES runs(id), verdict_sha256 text NOT NULL, checks_sha256 text NOT NULL,
+  run_id integer PRIMARY KEY REFERENCES runs(id), run_digest text NOT NULL, attempt integer, attempt_reason text, note text,
+  verdict_sha256 text NOT NULL, checks_sha256 text NOT NULL,
   state_json text NOT NULL, checks_json text NOT NULL, digest text NOT NULL);
 ${appendOnly('run_summaries')}
 `;
