@@ -21,11 +21,17 @@ async function stages(file) {
   const analysis = await import('../dist/analysis/index.js');
   const spectral = await import('../dist/analysis/spectrum/spectralAnalysis.js');
   const { analyzeSpectrum } = spectral;
+  // Read as `measure` reads: with its worker threads (started when the command starts, so that they
+  // load while the file is opened and sniffed) on captures of 8 MiB and more, when this build has them.
+  const measureWorkers = await import('../dist/cli/measureWorkers.js').catch(() => null);
   let t = performance.now();
   let c = process.cpuUsage();
-  const capture = await readCapture(file);
+  const bytes = statSync(file).size;
+  const workers = measureWorkers?.startMeasureWorkers(bytes) ?? null;
+  const capture = await readCapture(file, {}, workers?.pieceOptions(bytes));
   const read = seconds(t);
   const readCpu = cpuSeconds(c);
+  await workers?.close();
   const dt = capture.sampleInterval;
   let timeDomain = 0;
   let spectrum = 0;
@@ -70,9 +76,8 @@ async function stages(file) {
     }
     timeDomain = Math.max(0, analysisTotal - spectrum);
   }
-  const bytes = statSync(file).size;
   return {
-    file, bytes, rows: capture.length, channels: capture.channels.length, method,
+    file, bytes, readWith: workers ? 'measure worker threads' : 'readCapture defaults', rows: capture.length, channels: capture.channels.length, method,
     read, timeDomain, spectrum, analysis: analysisTotal,
     cpu: { read: readCpu, timeDomain: timeDomainCpu, spectrum: spectrumCpu },
     maxRss: process.resourceUsage().maxRSS * 1024,
