@@ -72,15 +72,20 @@ async function benchFile(kind, rows, ctx) {
   log(`${kind} ${label} rows (${(cap.bytes / 1e6).toFixed(0)} MB): ${runs} run${runs > 1 ? 's' : ''}${ctx.peer ? ' each, alternating with the peer' : ''}`);
   const bp = [];
   const pr = [];
+  const one = [];
+  // Where the default reads and measures on worker threads, the one-thread way alternates with it too.
+  const both = cap.bytes >= MEASURE_WORKERS_MIN_BYTES;
   for (let r = 0; r < runs; r++) {
     // Alternate who goes first, so neither always runs right after the other's page-cache churn.
-    const order = r % 2 === 0 ? ['bp', 'peer'] : ['peer', 'bp'];
+    const order = r % 2 === 0 ? ['bp', 'one', 'peer'] : ['peer', 'one', 'bp'];
     for (const who of order) {
       if (who === 'bp' && (bp.length === 0 || bp[0].ok)) bp.push(await runBenchproof(cap.file, ctx));
+      if (who === 'one' && both && (one.length === 0 || one[0].ok)) one.push(await runBenchproof(cap.file, ctx, ONE_THREAD));
       if (who === 'peer' && ctx.peer && (pr.length === 0 || pr[0].ok)) pr.push(await runPeer(cap.file, ctx));
     }
   }
   entry.benchproof = summarize(bp);
+  if (both) entry.oneThread = summarize(one);
   if (ctx.peer) entry.peer = summarize(pr);
   entry.ratio = ratio(entry.benchproof.medianWall, entry.peer?.medianWall);
   if (kind === 'gen' && entry.benchproof.ok && entry.peer?.ok) {
@@ -93,10 +98,16 @@ async function benchFile(kind, rows, ctx) {
 
 const fmt = (s) => (s.ok ? `${s.medianWall.toFixed(2)} s` : `failed (${s.error})`);
 
-async function runBenchproof(file, ctx) {
-  const r = await runTimed(process.execPath, [join(ctx.root, 'bin', 'benchproof.js'), 'measure', file, '--json'], { cwd: ctx.root, useTime: ctx.useTime });
+async function runBenchproof(file, ctx, env) {
+  const r = await runTimed(process.execPath, [join(ctx.root, 'bin', 'benchproof.js'), 'measure', file, '--json'], { cwd: ctx.root, useTime: ctx.useTime, env });
   return withJson(r);
 }
+
+/** From this size `measure` reads and measures on worker threads (src/cli/measureWorkers.ts, kept in step by hand). */
+const MEASURE_WORKERS_MIN_BYTES = 8 << 20;
+
+/** `measure` without its worker threads (the default uses them from 8 MiB on): shown beside, not judged. */
+const ONE_THREAD = { BENCHPROOF_MEASURE_THREADS: '1' };
 
 async function runPeer(file, ctx) {
   const r = await runTimed(ctx.python, [join(ctx.peerDir, 'peer_numpy.py'), file], { cwd: ctx.root, useTime: ctx.useTime });

@@ -33,7 +33,7 @@ export function parseCpuSeconds(report) {
  * Run `cmd args` (under GNU time when available). Never throws: returns
  * { ok, code, signal, wall, maxRss, cpu, stdout, stderr, error }.
  */
-export function runTimed(cmd, args, { cwd, timeoutMs = 15 * 60_000, useTime = existsSync(GNU_TIME) } = {}) {
+export function runTimed(cmd, args, { cwd, env, timeoutMs = 15 * 60_000, useTime = existsSync(GNU_TIME) } = {}) {
   const report = join(tmpdir(), `benchproof-bench-${process.pid}-${serial++}.time`);
   const [file, argv] = useTime ? [GNU_TIME, ['-v', '-o', report, cmd, ...args]] : [cmd, args];
   return new Promise((resolve) => {
@@ -44,7 +44,7 @@ export function runTimed(cmd, args, { cwd, timeoutMs = 15 * 60_000, useTime = ex
     const t0 = performance.now();
     let child;
     try {
-      child = spawn(file, argv, { cwd, stdio: ['ignore', 'pipe', 'pipe'] });
+      child = spawn(file, argv, { cwd, stdio: ['ignore', 'pipe', 'pipe'], ...(env ? { env: { ...process.env, ...env } } : {}) });
     } catch (e) {
       resolve({ ok: false, code: null, signal: null, wall: null, maxRss: null, cpu: null, stdout: '', stderr: '', error: String(e) });
       return;

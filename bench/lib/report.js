@@ -11,6 +11,7 @@ function fileRows(files) {
     return [
       KIND[f.kind], f.label, f.bytes ? `${(f.bytes / 1e6).toFixed(f.bytes < 1e7 ? 1 : 0)} MB` : '—',
       bp.ok ? fmtSeconds(bp.medianWall) : `failed: ${bp.error ?? '?'}`,
+      f.oneThread ? (f.oneThread.ok ? `${fmtSeconds(f.oneThread.medianWall)} (CPU ${fmtSeconds(f.oneThread.medianCpu)}, ${fmtMiB(f.oneThread.maxRss)})` : 'failed') : '—',
       f.peer ? (f.peer.ok ? fmtSeconds(f.peer.medianWall) : 'failed') : '—',
       fmtRatio(f.ratio),
       bp.ok ? fmtSeconds(bp.medianCpu) : '—',
@@ -33,7 +34,7 @@ function cpuRatio(f) {
   return Number.isFinite(a) && Number.isFinite(b) && b > 0 ? a / b : null;
 }
 
-const FILE_HEADER = ['capture', 'rows', 'size', 'benchproof', 'peer', 'ratio', 'bp CPU', 'peer CPU', 'CPU ratio', 'MB/s', 'samples/s', 'bp peak RSS', 'peer peak RSS', 'read+parse', 'in one thread', 'time domain', 'spectrum'];
+const FILE_HEADER = ['capture', 'rows', 'size', 'benchproof', 'bp in one thread', 'peer', 'ratio', 'bp CPU', 'peer CPU', 'CPU ratio', 'MB/s', 'samples/s', 'bp peak RSS', 'peer peak RSS', 'read+parse', 'in one thread', 'time domain', 'spectrum'];
 
 function growthRows(growth) {
   return Object.entries(growth).flatMap(([kind, g]) => g.map((x) => [KIND[kind], x.label, fmtSeconds(x.wall), fmtRatio(x.vs1M), fmtRatio(x.perRowVs1M)]));

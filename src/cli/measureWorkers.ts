@@ -8,6 +8,7 @@
  * of CPU, bench/README.md) would cost more than it saves.
  */
 import { availableParallelism } from 'node:os';
+import process from 'node:process';
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
@@ -37,9 +38,14 @@ interface Pending {
   readonly reject: (e: Error) => void;
 }
 
-/** Workers for captures of up to `bytes`, or null when they would not pay (or cannot start). */
-export function startMeasureWorkers(bytes: number, script: URL = WORKER_URL): MeasureWorkers | null {
+/**
+ * Workers for captures of up to `bytes`, or null when they would not pay (or cannot start), or when
+ * BENCHPROOF_MEASURE_THREADS=1 asks for one thread (`npm run bench` times both ways, alternating, so
+ * that an idle machine shows where the workers pay; also for a machine whose other cores are busy).
+ */
+export function startMeasureWorkers(bytes: number, script: URL = WORKER_URL, env: Readonly<Record<string, string | undefined>> = process.env): MeasureWorkers | null {
   const count = Math.min(availableParallelism() - 1, 3);
+  if (env.BENCHPROOF_MEASURE_THREADS === '1') return null;
   if (bytes < MEASURE_WORKERS_MIN_BYTES || count < 1 || !existsSync(fileURLToPath(script))) return null;
   return new MeasureWorkers(count, script);
 }

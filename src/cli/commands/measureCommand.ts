@@ -43,7 +43,7 @@ Examples:
       ]);
       // Large captures are read and measured on every core; the workers start loading now.
       const sizes = await fileSizes(files.map((f) => resolvePath(ctx.io.cwd, f)));
-      const workers = startMeasureWorkers(Math.max(0, ...sizes));
+      const workers = startMeasureWorkers(Math.max(0, ...sizes), undefined, ctx.io.env);
       const progress = createProgress(ctx, json);
       const reports: MeasureReport[] = [];
       try {
