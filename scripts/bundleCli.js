@@ -10,7 +10,8 @@
 //   every function compiled), loaded by bin/bundleLoader.js. Packages are bundled too, so that they
 //   come from the cache as well, except those that must stay files in node_modules: native modules,
 //   packages that start worker threads from their own files, and the web server's (started once by
-//   `serve`, whose start-up does not matter).
+//   `serve`, whose start-up does not matter). The chunks are plain ASCII without JSDoc (licence
+//   comments stay), so V8 holds each source as a one-byte string, a quarter smaller and half the bytes.
 // - The worker threads' entries (the capture reader's, measure's) stay ES modules (dist/bundle/*.js):
 //   the main thread starts them by file name, as when run from dist/.
 import process from 'node:process';
@@ -58,7 +59,7 @@ await build({
   logLevel: 'warn',
   // A module both imported and loaded on demand by different commands simply stays in its chunk.
   checks: { ineffectiveDynamicImport: false },
-  output: { dir: out, format: 'cjs', strict: true, entryFileNames: '[name].cjs', chunkFileNames: '[name]-[hash].cjs', sourcemap: false },
+  output: { dir: out, format: 'cjs', strict: true, charset: 'ascii', comments: { legal: true, annotation: false, jsdoc: false }, entryFileNames: '[name].cjs', chunkFileNames: '[name]-[hash].cjs', sourcemap: false },
 });
 await build({
   input: {
