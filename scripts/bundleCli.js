@@ -11,7 +11,7 @@
 //   come from the cache as well, except those that must stay files in node_modules: native modules,
 //   packages that start worker threads from their own files, and the web server's (started once by
 //   `serve`, whose start-up does not matter). The chunks are plain ASCII without JSDoc (licence
-//   comments stay), so V8 holds each source as a one-byte string, a quarter smaller and half the bytes.
+//   comments stay), so V8 holds each source with one byte per character.
 // - The worker threads' entries (the capture reader's, measure's) stay ES modules (dist/bundle/*.js):
 //   the main thread starts them by file name, as when run from dist/.
 import process from 'node:process';
