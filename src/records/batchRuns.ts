@@ -11,7 +11,7 @@ import { lightRun } from './runSummary.js';
 import type { SummaryRow } from './runSummary.js';
 import { statisticRunIds } from './summarizeBatch.js';
 
-export type ChecksReader = (ids: readonly number[]) => ReadonlyMap<number, { readonly checks_json: string; readonly checks_sha256: string }>;
+export type ChecksReader = (ids: readonly number[]) => ReadonlyMap<number, { readonly checks_json: string }>;
 
 /** The light runs of every summary that reads (oldest first). */
 export function lightRuns(rows: readonly SummaryRow[]): StoredRun[] {

@@ -2,7 +2,9 @@
  * Schema 7: a light summary beside every run (runSummary.ts), so `units` and `batch` read and verify a
  * few hundred bytes per run instead of hashing each full verdict. It repeats the run's fingerprint
  * and attempt columns (covered by its own fingerprint): in SQLite those columns lie after the verdict
- * text in the run's row, and reading them would read the whole verdict from its overflow pages. The table is append-only like every
+ * text in the run's row, and reading them would read the whole verdict from its overflow pages. The
+ * checks (a few kB) live in a table of their own, read only by `batch` and only for the runs its
+ * statistics use, so the summaries a listing reads pack many to a page. The table is append-only like every
  * record table. Runs stored before this schema get their summary here, each only after its own
  * fingerprint is verified (the run re-hashed as a full read does); a run that fails it gets none, so
  * it stays named as changed by every listing instead of being vouched for by a new summary. Each
@@ -29,13 +31,17 @@ CREATE TABLE run_summaries (
   verdict_sha256 TEXT NOT NULL,
   checks_sha256 TEXT NOT NULL,
   state_json TEXT NOT NULL,
-  checks_json TEXT NOT NULL,
   digest TEXT NOT NULL
 );
-CREATE TRIGGER run_summaries_no_update BEFORE UPDATE ON run_summaries
-  BEGIN SELECT RAISE(ABORT, 'benchproof records are append-only: run_summaries rows are never changed or removed'); END;
-CREATE TRIGGER run_summaries_no_delete BEFORE DELETE ON run_summaries
-  BEGIN SELECT RAISE(ABORT, 'benchproof records are append-only: run_summaries rows are never changed or removed'); END;
+CREATE TABLE run_summary_checks (
+  run_id INTEGER PRIMARY KEY REFERENCES run_summaries(run_id),
+  checks_json TEXT NOT NULL
+);
+${['run_summaries', 'run_summary_checks'].map((table) => {
+  const abort = `SELECT RAISE(ABORT, 'benchproof records are append-only: ${table} rows are never changed or removed');`;
+  return `CREATE TRIGGER ${table}_no_update BEFORE UPDATE ON ${table} BEGIN ${abort} END;
+CREATE TRIGGER ${table}_no_delete BEFORE DELETE ON ${table} BEGIN ${abort} END;`;
+}).join('\n')}
 `;
 
 /** Runs read per page while filling, so a large store is never held in memory at once. */
@@ -57,8 +63,9 @@ export function migrateTo7(db: Database): void {
 
 /** Write one run's summary row (SQLite); the caller appends its chain entry in the same transaction. */
 export function insertSummary(db: Database, runId: number, s: SummaryValues): void {
-  db.prepare(`INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, checks_json, digest)
-    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest);
+  db.prepare(`INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, digest)
+    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.digest);
+  db.prepare('INSERT INTO run_summary_checks (run_id, checks_json) VALUES (?, ?)').run(runId, s.checksJson);
 }
 
 /**

@@ -7,7 +7,7 @@
 import type { Database } from 'better-sqlite3';
 import type { NewRun, StoredCapture, StoredRun } from '../types/index.js';
 import { archiveCapture } from './archive.js';
-import { canonicalJson, runDigest, sha256Hex } from './digest.js';
+import { CanonicalText, canonicalJson, runDigest, sha256Hex } from './digest.js';
 import { insertMeasurements } from './measurementRows.js';
 import { numberRuns, placeRun } from './attempts.js';
 import { readSummaryHeads } from './summaryReads.js';
@@ -49,9 +49,11 @@ export function saveRun(db: Database, dataDir: string, run: NewRun, hooks: SaveH
     // The attempt is decided inside the transaction, and the run's fingerprint covers it and the note.
     const numbered = numberRuns(readSummaryHeads(db, run.unit));
     const placed = { ...placeRun(db, run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
-    const digest = runDigest({ ...base, ...placed });
+    // Each text is written once: the fingerprint hashes the same canonical text the row stores.
     const verdictText = canonicalJson(run.verdict);
-    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed, verdictText);
+    const diagnosisText = canonicalJson(run.diagnosis);
+    const digest = runDigest({ ...base, ...placed, verdict: new CanonicalText(verdictText), diagnosis: new CanonicalText(diagnosisText) });
+    const id = insertRunRows(db, { ...run, startedAt: base.startedAt }, digest, storedAt, captures, placed, verdictText, diagnosisText);
     // The run joins the hash chain in the same transaction: stored and chained, or neither; its summary after it.
     appendLink(db, 'run', id, digest);
     const summary = summarize(summaryHead(id, { ...run, startedAt: base.startedAt }, storedAt, placed, digest), run.verdict, verdictText);
@@ -104,7 +106,7 @@ export function runBase(run: NewRun, captures: readonly StoredCapture[]) {
   } as const;
 }
 
-function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, verdictText: string): number {
+function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, verdictText: string, diagnosisText: string): number {
   const { spec, verdict } = run;
   const text = spec.text === undefined ? null : Buffer.from(spec.text);
   db.prepare('INSERT OR IGNORE INTO specs (sha256, name, revision, text) VALUES (?, ?, ?, ?)').run(spec.sha256, spec.name, spec.revision, text);
@@ -116,7 +118,7 @@ function insertRunRows(db: Database, run: NewRun, digest: string, storedAt: stri
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     )
     .run(run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, canonicalJson(run.diagnosis), digest,
+      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, diagnosisText, digest,
       placed.attempt, placed.attemptReason ?? null, placed.note ?? null);
   const runId = Number(info.lastInsertRowid);
   const cond = db.prepare('INSERT INTO condition_results (run_id, condition, statement) VALUES (?, ?, ?)');

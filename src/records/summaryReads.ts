@@ -15,13 +15,13 @@ export function readSummaryRows(db: Database, unit?: string): SummaryRow[] {
   return db.prepare(sql).all(...(unit === undefined ? [] : [unit])) as SummaryRow[];
 }
 
-/** The compact checks of these runs with their stored SHA-256, by run. */
-export function readSummaryChecks(db: Database, ids: readonly number[]): Map<number, { checks_json: string; checks_sha256: string }> {
-  const out = new Map<number, { checks_json: string; checks_sha256: string }>();
+/** The compact checks of these runs, by run (their SHA-256 is in the verified summary). */
+export function readSummaryChecks(db: Database, ids: readonly number[]): Map<number, { checks_json: string }> {
+  const out = new Map<number, { checks_json: string }>();
   if (ids.length === 0) return out;
   const rows = db
-    .prepare('SELECT run_id, checks_json, checks_sha256 FROM run_summaries WHERE run_id IN (SELECT value FROM json_each(?))')
-    .all(JSON.stringify(ids)) as { run_id: number; checks_json: string; checks_sha256: string }[];
+    .prepare('SELECT run_id, checks_json FROM run_summary_checks WHERE run_id IN (SELECT value FROM json_each(?))')
+    .all(JSON.stringify(ids)) as { run_id: number; checks_json: string }[];
   for (const r of rows) out.set(r.run_id, r);
   return out;
 }

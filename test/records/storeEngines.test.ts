@@ -178,7 +178,7 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     store.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: '2026-03-02T09:25:00.000Z' }));
     store.close();
     s.sql(dropTriggers[engine.name]);
-    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summaries']) {
+    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summary_checks', 'run_summaries']) {
       s.sql(engine === shared ? `ALTER TABLE ${t} DISABLE TRIGGER USER; DELETE FROM ${t} WHERE run_id = ${second.id}` : `DROP TRIGGER ${t}_no_delete; DELETE FROM ${t} WHERE run_id = ${second.id}`);
     }
     s.sql(`DELETE FROM runs WHERE id = ${second.id}; DELETE FROM chain WHERE row_id = ${second.id} AND kind = 'run'`);
@@ -215,7 +215,7 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     const store = s.open();
     const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     store.close();
-    s.sql(`${unguard('run_summaries')} UPDATE run_summaries SET checks_json = replace(checks_json, '"Hz"', '"kHz"') WHERE run_id = ${saved.id}`);
+    s.sql(`${unguard('run_summary_checks')} UPDATE run_summary_checks SET checks_json = replace(checks_json, '"Hz"', '"kHz"') WHERE run_id = ${saved.id}`);
     const again = s.open();
     expect(again.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
     expect(() => again.batchRuns()).toThrow(/run #1 of FK-0101: its summary's checks no longer match/);
@@ -241,7 +241,7 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     const second = store.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
     store.close();
-    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summaries', 'runs']) {
+    for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summary_checks', 'run_summaries', 'runs']) {
       s.sql(`${unguard(t)} DELETE FROM ${t} WHERE ${t === 'runs' ? 'id' : 'run_id'} = ${second.id}`);
     }
     const again = s.open();

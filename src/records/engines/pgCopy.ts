@@ -94,7 +94,7 @@ function copySummary(db: Database.Database, client: PgSyncClient, runId: number,
   const target = client.query<{ id: number }>('SELECT id FROM runs WHERE origin_uid = $1', [uidOf('run', runId, run.digest)]).rows[0]?.id;
   if (target === undefined) throw new RangeError(`store copy: the summary of run #${runId} comes before its run`);
   if (client.query('SELECT 1 FROM run_summaries WHERE run_id = $1', [target]).rowCount > 0) return false;
-  const s = db.prepare('SELECT * FROM run_summaries WHERE run_id = ?').get(runId) as Record<string, string | number | null>;
+  const s = db.prepare('SELECT s.*, c.checks_json FROM run_summaries s JOIN run_summary_checks c ON c.run_id = s.run_id WHERE s.run_id = ?').get(runId) as Record<string, string | number | null>;
   const values = {
     runDigest: String(s.run_digest), attempt: s.attempt as number | null, attemptReason: s.attempt_reason as string | null, note: s.note as string | null,
     verdictSha256: String(s.verdict_sha256), checksSha256: String(s.checks_sha256), stateJson: String(s.state_json), checksJson: String(s.checks_json), digest: String(s.digest),

@@ -138,11 +138,11 @@ export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[]
   ).rows;
 }
 
-/** The compact checks of these runs with their stored SHA-256, by run, in one query. */
-export function pgSummaryChecks(client: PgSyncClient, ids: readonly number[]): Map<number, { checks_json: string; checks_sha256: string }> {
-  const out = new Map<number, { checks_json: string; checks_sha256: string }>();
+/** The compact checks of these runs, by run, in one query (their SHA-256 is in the verified summary). */
+export function pgSummaryChecks(client: PgSyncClient, ids: readonly number[]): Map<number, { checks_json: string }> {
+  const out = new Map<number, { checks_json: string }>();
   if (ids.length === 0) return out;
-  const rows = client.query<{ run_id: number; checks_json: string; checks_sha256: string }>('SELECT run_id, checks_json, checks_sha256 FROM run_summaries WHERE run_id = ANY($1::integer[])', [ids]).rows;
+  const rows = client.query<{ run_id: number; checks_json: string }>('SELECT run_id, checks_json FROM run_summary_checks WHERE run_id = ANY($1::integer[])', [ids]).rows;
   for (const r of rows) out.set(r.run_id, r);
   return out;
 }

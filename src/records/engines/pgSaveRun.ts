@@ -12,7 +12,7 @@
  */
 import { readFileSync } from 'node:fs';
 import type { NewRun, StoredCapture, StoredRun, UnitVerdict } from '../../types/index.js';
-import { canonicalJson, runDigest, sha256Hex } from '../digest.js';
+import { CanonicalText, canonicalJson, runDigest, sha256Hex } from '../digest.js';
 import { numberRuns, placeRunWith, runHead } from '../attempts.js';
 import type { AttemptPlacement, HeadRow } from '../attempts.js';
 import { chainLink, CHAIN_START } from '../chain.js';
@@ -82,11 +82,13 @@ export function writeRun(client: PgSyncClient, prepared: PreparedRun, origin: Ru
   const storedAt = new Date().toISOString();
   const numbered = numberRuns(pgRunHeads(client, run.unit));
   const placed = { ...placeRunWith((unit) => pgCalibratedAt(client, unit), run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
-  const digest = runDigest({ ...base, ...placed });
-  bytes.forEach((b, i) => putCapture(client, b, captures[i].archivePath, storedAt));
+  // Each text is written once: the fingerprint hashes the same canonical text the row stores.
   const verdictText = canonicalJson(run.verdict);
+  const diagnosisText = canonicalJson(run.diagnosis);
+  const digest = runDigest({ ...base, ...placed, verdict: new CanonicalText(verdictText), diagnosis: new CanonicalText(diagnosisText) });
+  bytes.forEach((b, i) => putCapture(client, b, captures[i].archivePath, storedAt));
   const normalised = { ...run, startedAt: base.startedAt };
-  const id = insertRunRows(client, normalised, digest, storedAt, captures, placed, origin, verdictText);
+  const id = insertRunRows(client, normalised, digest, storedAt, captures, placed, origin, verdictText, diagnosisText);
   const link = pgAppendLink(client, 'run', id, digest);
   pgInsertSummary(client, id, summarize(summaryHead(id, normalised, storedAt, placed, digest), run.verdict, verdictText), link);
   return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
@@ -176,14 +178,16 @@ export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: numbe
 /** A run's summary row and its chain entry after `head` (the newest link); the caller holds WRITE_LOCK. */
 export function pgInsertSummary(client: PgSyncClient, runId: number, s: SummaryValues, head: string): string {
   client.query(
-    `INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, checks_json, digest)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10)`,
-    [runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.checksJson, s.digest],
+    `WITH summary AS (
+       INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, digest)
+       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9) RETURNING run_id)
+     INSERT INTO run_summary_checks (run_id, checks_json) SELECT run_id, $10 FROM summary`,
+    [runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.digest, s.checksJson],
   );
   return pgAppendLink(client, 'summary', runId, s.digest, head);
 }
 
-function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, origin: RunOrigin, verdictText: string): number {
+function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, origin: RunOrigin, verdictText: string, diagnosisText: string): number {
   const { spec, verdict } = run;
   const text = spec.text === undefined ? null : Buffer.from(spec.text);
   client.query('INSERT INTO specs (sha256, name, revision, text) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [spec.sha256, spec.name, spec.revision, text]);
@@ -193,7 +197,7 @@ function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, stored
        tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note, origin_uid, origin_digest)
      VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18, $19, $20) RETURNING id`,
     [run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, canonicalJson(run.diagnosis), digest,
+      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, diagnosisText, digest,
       placed.attempt, placed.attemptReason ?? null, placed.note ?? null, origin.uid ?? null, origin.digest ?? null],
   ).rows[0].id;
   const checks: unknown[][] = [];

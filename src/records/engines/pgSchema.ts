@@ -146,9 +146,9 @@ END $$;
 const STEP_7 = `
 CREATE TABLE run_summaries (
   run_id integer PRIMARY KEY REFERENCES runs(id), run_digest text NOT NULL, attempt integer, attempt_reason text, note text,
-  verdict_sha256 text NOT NULL, checks_sha256 text NOT NULL,
-  state_json text NOT NULL, checks_json text NOT NULL, digest text NOT NULL);
-${appendOnly('run_summaries')}
+  verdict_sha256 text NOT NULL, checks_sha256 text NOT NULL, state_json text NOT NULL, digest text NOT NULL);
+CREATE TABLE run_summary_checks (run_id integer PRIMARY KEY REFERENCES run_summaries(run_id), checks_json text NOT NULL);
+${appendOnly('run_summaries')}${appendOnly('run_summary_checks')}
 `;
 
 /** The PostgreSQL form of each numbered step, in the order of MIGRATIONS. */
