@@ -110,6 +110,7 @@ export function windowKernel(kind: WindowKind, length: number, theta: number): C
   let phi = theta - twoPi * Math.round(theta / twoPi);
   if (phi <= -Math.PI) phi += twoPi;
   const step = twoPi / length;
+  const { cos, sin } = phaseTerms(kind, length);
   let sumRe = 0;
   let sumIm = 0;
   for (let j = 0; j < a.length; j++) {
@@ -120,9 +121,8 @@ export function windowKernel(kind: WindowKind, length: number, theta: number): C
       sumRe += a[0] / sm;
       continue;
     }
-    const psi = (Math.PI * j * (length - 1)) / length;
-    const c = Math.cos(psi);
-    const s = Math.sin(psi);
+    const c = cos[j];
+    const s = sin[j];
     // (a_j/2)·(e^(iψ)/sm + e^(−iψ)/sp); the window's (−1)^j cancels the one from sin(Lφ/2 ∓ πj).
     sumRe += (a[j] / 2) * (c / sm + c / sp);
     sumIm += (a[j] / 2) * (s / sm - s / sp);
@@ -132,6 +132,27 @@ export function windowKernel(kind: WindowKind, length: number, theta: number): C
   const pr = lead * Math.cos(arg);
   const pi = lead * Math.sin(arg);
   return { re: pr * sumRe - pi * sumIm, im: pr * sumIm + pi * sumRe };
+}
+
+/**
+ * cos ψ_j and sin ψ_j, ψ_j = πj(L − 1)/L, for the window's terms: they depend on the length only,
+ * while windowKernel is called for every fitted bin of every harmonic (about a third of its sines
+ * and cosines). The last length's values are kept, one entry, so a new length replaces them.
+ */
+let phaseCache: { kind: WindowKind; length: number; cos: Float64Array; sin: Float64Array } | null = null;
+
+function phaseTerms(kind: WindowKind, length: number): { cos: Float64Array; sin: Float64Array } {
+  if (phaseCache !== null && phaseCache.kind === kind && phaseCache.length === length) return phaseCache;
+  const terms = COEFFICIENTS[kind].length;
+  const cos = new Float64Array(terms);
+  const sin = new Float64Array(terms);
+  for (let j = 1; j < terms; j++) {
+    const psi = (Math.PI * j * (length - 1)) / length;
+    cos[j] = Math.cos(psi);
+    sin[j] = Math.sin(psi);
+  }
+  phaseCache = { kind, length, cos, sin };
+  return phaseCache;
 }
 
 /** Term-by-term sum of Dirichlet kernels, used where a shifted kernel sits on its peak. */
