@@ -15,6 +15,16 @@ export function scaled(short: number, long: number): number {
 }
 
 /**
+ * fast-check options for a time budget. Under `npm run hardening` a long run stops at its limit (what
+ * it reached is what it checked; the tally counts the inputs). Under `npm test` there is none: a limit
+ * there made the number of inputs checked depend on how busy the machine was, so the normal run now
+ * always checks its whole fixed, seeded set.
+ */
+export function timeBudget(longMs: number): { interruptAfterTimeLimit?: number; markInterruptAsFailure?: boolean } {
+  return LONG ? { interruptAfterTimeLimit: longMs, markInterruptAsFailure: false } : {};
+}
+
+/**
  * Fixed seeds, so that a failure can be replayed; BENCHPROOF_HARDENING_SEED moves the long run to
  * fresh inputs (the seed is printed with every failure).
  */

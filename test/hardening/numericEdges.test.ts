@@ -14,7 +14,7 @@ import type { SynthSignal } from '../../src/syntheticCaptures/index.js';
 import type { ChannelReport, MeasureReport } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
 import { captureOf } from '../analysis/captureOf.js';
-import { newTally, saveTally, scaled, seedFor } from './budget.js';
+import { newTally, saveTally, scaled, seedFor, timeBudget } from './budget.js';
 import { reportProblems } from './fuzzTarget.js';
 
 const tally = newTally();
@@ -138,7 +138,7 @@ describe('measureCapture on numeric edge cases', () => {
           throw new Error(problem);
         }
       }),
-      { seed: seedFor(6), numRuns: scaled(60, 20_000), interruptAfterTimeLimit: scaled(15_000, 20 * 60_000), markInterruptAsFailure: false },
+      { seed: seedFor(6), numRuns: scaled(60, 20_000), ...timeBudget(20 * 60_000) },
     );
   });
 });

@@ -12,7 +12,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { runCli } from '../helpers/cliHarness.js';
-import { LONG, newTally, saveTally, scaled, seedFor } from './budget.js';
+import { LONG, newTally, saveTally, scaled, seedFor, timeBudget } from './budget.js';
 import { applyDamage, csvLayout, damage, describeDamage, layoutText } from './hostileCsv.js';
 import type { Damage } from './hostileCsv.js';
 import { judgeCapture } from './fuzzTarget.js';
@@ -78,8 +78,7 @@ describe('capture reader under hostile input', () => {
     const details = await fc.check(fc.asyncProperty(input, tryInput), {
       seed: seedFor(1),
       numRuns: scaled(120, 6000),
-      interruptAfterTimeLimit: scaled(12_000, 15 * 60_000),
-      markInterruptAsFailure: false,
+      ...timeBudget(15 * 60_000),
       endOnFailure: true,
     });
     expect(details.failed, fc.defaultReportMessage(details) ?? '').toBe(false);

@@ -14,7 +14,7 @@ import { parseSpec } from '../../src/design/index.js';
 import { isBenchError } from '../../src/types/index.js';
 import type { BenchErrorFields } from '../../src/types/index.js';
 import { runCli } from '../helpers/cliHarness.js';
-import { newTally, saveTally, scaled, seedFor } from './budget.js';
+import { newTally, saveTally, scaled, seedFor, timeBudget } from './budget.js';
 
 const SAMPLE_TEXT = readFileSync('samples/fh210-spec.yaml', 'utf8');
 const SAMPLE = parse(SAMPLE_TEXT) as unknown;
@@ -119,7 +119,7 @@ describe('spec parser under mutated and random specs', () => {
         tally.notes.push(`spec: ${problem.slice(0, 300)}`);
         throw new Error(problem);
       }),
-      { seed: seedFor(3), numRuns: scaled(400, 20_000), interruptAfterTimeLimit: scaled(10_000, 10 * 60_000), markInterruptAsFailure: false },
+      { seed: seedFor(3), numRuns: scaled(400, 20_000), ...timeBudget(10 * 60_000) },
     );
     expect(details.failed, fc.defaultReportMessage(details) ?? '').toBe(false);
   });
