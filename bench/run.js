@@ -104,9 +104,9 @@ async function runBenchproof(file, ctx, env) {
 }
 
 /** From this size `measure` reads and measures on worker threads (src/cli/measureWorkers.ts, kept in step by hand). */
-const MEASURE_WORKERS_MIN_BYTES = 8 << 20;
+const MEASURE_WORKERS_MIN_BYTES = 64 << 20;
 
-/** `measure` without its worker threads (the default uses them from 8 MiB on): shown beside, not judged. */
+/** `measure` without its worker threads (the default uses them from 64 MiB on): shown beside, not judged. */
 const ONE_THREAD = { BENCHPROOF_MEASURE_THREADS: '1' };
 
 async function runPeer(file, ctx) {

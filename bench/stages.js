@@ -22,7 +22,7 @@ async function stages(file) {
   const spectral = await import('../dist/analysis/spectrum/spectralAnalysis.js');
   const { analyzeSpectrum } = spectral;
   // Read as `measure` reads: with its worker threads (started when the command starts, so that they
-  // load while the file is opened and sniffed) on captures of 8 MiB and more, when this build has them.
+  // load while the file is opened and sniffed) on captures of 64 MiB and more, when this build has them.
   const measureWorkers = await import('../dist/cli/measureWorkers.js').catch(() => null);
   let t = performance.now();
   let c = process.cpuUsage();

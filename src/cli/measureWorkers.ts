@@ -19,8 +19,14 @@ import type { Capture, ChannelReport, MeasureReport } from '../types/index.js';
 import { isMeasureAnswer } from './measureJobs.js';
 import type { MeasureAnswer, MeasureJob } from './measureJobs.js';
 
-/** Captures from this size on are read and measured with workers (bench/README.md, issue 21). */
-export const MEASURE_WORKERS_MIN_BYTES = 8 << 20;
+/**
+ * Captures from this size on are read and measured with workers (about 1.5 M rows of two channels).
+ * Measured on a shared 2-core machine (bench/README.md): at 1 M rows a worker took the main
+ * thread's CPU from about 0.93 to 0.75 s but added about 0.5 s of CPU (its start-up and its analysis
+ * running cold) and 23 MiB of peak memory, which two cores cannot turn into a shorter run; at 4 M
+ * and 10 M rows the main thread's share fell by 0.5 and 2.3 s.
+ */
+export const MEASURE_WORKERS_MIN_BYTES = 64 << 20;
 /**
  * Pieces of at most 4 MiB (each costs a message each way) and at least 16 per file, so that on a
  * smaller file the threads still finish reading close together.
