@@ -29,6 +29,12 @@ export interface SpectralFrame {
 }
 
 /**
+ * No filter: one function for every frame, so that loops calling `frame.response` keep their
+ * optimised code from one frame to the next (a fresh closure per frame is a new call target to V8).
+ */
+const FLAT_RESPONSE = (): number => 1;
+
+/**
  * `buffer`, when given, is the transform's working memory (at least frameBufferLength(span.length)
  * values): the frame's spectrum then lives in it until the buffer is used again. Reusing one buffer
  * for every channel spares the fresh memory, which is slow to touch (shared/peer/MEASURED.md).
@@ -37,7 +43,7 @@ export function buildFrame(
   span: Float64Array,
   sampleRate: number,
   window: WindowKind,
-  response: (f: number) => number = () => 1,
+  response: (f: number) => number = FLAT_RESPONSE,
   buffer?: Float64Array,
 ): SpectralFrame {
   const length = span.length;
