@@ -11,20 +11,19 @@
  * bench (it continues the first's attempt while that one still waits, else opens the next).
  */
 import { readFileSync } from 'node:fs';
-import type { NewRun, StoredCapture, StoredRun, UnitVerdict } from '../../types/index.js';
-import { CanonicalText, canonicalJson, runDigest, sha256Hex } from '../digest.js';
-import { numberRuns, placeRunWith, runHead } from '../attempts.js';
-import type { AttemptPlacement, HeadRow } from '../attempts.js';
+import type { NewRun, StoredCapture, StoredRun } from '../../types/index.js';
+import { sha256Hex } from '../digest.js';
+import { numberRuns, runHead } from '../attempts.js';
+import type { HeadRow } from '../attempts.js';
 import { chainLink, CHAIN_START } from '../chain.js';
 import type { ChainKind } from '../chain.js';
 import type { PgSyncClient } from './pgSync.js';
-import { putCapture } from './pgCaptures.js';
-import { runBase, summaryHead } from '../saveRun.js';
-import { lightRun, summarize, SUMMARY_COLUMNS } from '../runSummary.js';
+import { lightRun, SUMMARY_COLUMNS } from '../runSummary.js';
 import type { SummaryRow, SummaryValues } from '../runSummary.js';
 import { archiveName } from '../archive.js';
 import { BenchError } from '../../types/index.js';
 import { pgReadRunRows } from './pgRuns.js';
+import { summaryStatement, writeRunBatched } from './pgWriteRun.js';
 
 /** Fixed number naming the store-wide write lock (pg_advisory_xact_lock); distinct from the schema lock. */
 export const WRITE_LOCK = 2_026_120_521;
@@ -71,31 +70,37 @@ export function pgRunByOrigin(client: PgSyncClient, uid: string): number | undef
   return client.query<{ id: number }>('SELECT id FROM runs WHERE origin_uid = $1', [uid]).rows[0]?.id;
 }
 
-/** Write a prepared run; the caller is inside a transaction and holds WRITE_LOCK. */
+/** Write a prepared run; the caller is inside a transaction and holds WRITE_LOCK (pgWriteRun.ts). */
 export function writeRun(client: PgSyncClient, prepared: PreparedRun, origin: RunOrigin = {}): StoredRun {
-  const { run, bytes, captures } = prepared;
-  const base = runBase(run, captures);
-  if (origin.uid !== undefined) {
-    const existing = pgRunByOrigin(client, origin.uid);
-    if (existing !== undefined) return storedRunById(client, existing);
+  return writeRunBatched(client, prepared, origin).run;
+}
+
+/**
+ * Store one run in its own transaction in as few calls as it takes: BEGIN and the write lock go with
+ * the reads, COMMIT with the writes (pgWriteRun.ts); any failure rolls back.
+ */
+export function saveRunBatched(client: PgSyncClient, prepared: PreparedRun, origin: RunOrigin = {}): StoredRun {
+  let open = false;
+  try {
+    open = true;
+    const done = writeRunBatched(client, prepared, origin, [{ sql: 'BEGIN' }, { sql: 'SELECT pg_advisory_xact_lock($1)', params: [WRITE_LOCK] }], [{ sql: 'COMMIT' }]);
+    if (!done.tailRan) client.query('COMMIT');
+    open = false;
+    return done.run;
+  } catch (err) {
+    if (open) {
+      try {
+        client.query('ROLLBACK');
+      } catch {
+        // The connection is gone: the server rolls the transaction back itself.
+      }
+    }
+    throw err;
   }
-  const storedAt = new Date().toISOString();
-  const numbered = numberRuns(pgRunHeads(client, run.unit));
-  const placed = { ...placeRunWith((unit) => pgCalibratedAt(client, unit), run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
-  // Each text is written once: the fingerprint hashes the same canonical text the row stores.
-  const verdictText = canonicalJson(run.verdict);
-  const diagnosisText = canonicalJson(run.diagnosis);
-  const digest = runDigest({ ...base, ...placed, verdict: new CanonicalText(verdictText), diagnosis: new CanonicalText(diagnosisText) });
-  bytes.forEach((b, i) => putCapture(client, b, captures[i].archivePath, storedAt));
-  const normalised = { ...run, startedAt: base.startedAt };
-  const id = insertRunRows(client, normalised, digest, storedAt, captures, placed, origin, verdictText, diagnosisText);
-  const link = pgAppendLink(client, 'run', id, digest);
-  pgInsertSummary(client, id, summarize(summaryHead(id, normalised, storedAt, placed, digest), run.verdict, verdictText), link);
-  return { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 };
 }
 
 /** A stored run read back (numbered within its unit), for a save that found its origin id stored. */
-function storedRunById(client: PgSyncClient, id: number): StoredRun {
+export function storedRunById(client: PgSyncClient, id: number): StoredRun {
   const unit = client.query<{ unit: string }>('SELECT unit FROM runs WHERE id = $1', [id]).rows[0].unit;
   const runs = numberRuns(pgReadRunRows(client, { unit }).runs);
   const found = runs.find((r) => r.id === id);
@@ -177,41 +182,9 @@ export function pgAppendLink(client: PgSyncClient, kind: ChainKind, rowId: numbe
 
 /** A run's summary row and its chain entry after `head` (the newest link); the caller holds WRITE_LOCK. */
 export function pgInsertSummary(client: PgSyncClient, runId: number, s: SummaryValues, head: string): string {
-  client.query(
-    `WITH summary AS (
-       INSERT INTO run_summaries (run_id, run_digest, attempt, attempt_reason, note, verdict_sha256, checks_sha256, state_json, digest)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9) RETURNING run_id)
-     INSERT INTO run_summary_checks (run_id, checks_json) SELECT run_id, $10 FROM summary`,
-    [runId, s.runDigest, s.attempt, s.attemptReason, s.note, s.verdictSha256, s.checksSha256, s.stateJson, s.digest, s.checksJson],
-  );
+  const { sql, params } = summaryStatement(runId, s);
+  client.query(sql, params);
   return pgAppendLink(client, 'summary', runId, s.digest, head);
-}
-
-function insertRunRows(client: PgSyncClient, run: NewRun, digest: string, storedAt: string, captures: readonly StoredCapture[], placed: AttemptPlacement & { note?: string }, origin: RunOrigin, verdictText: string, diagnosisText: string): number {
-  const { spec, verdict } = run;
-  const text = spec.text === undefined ? null : Buffer.from(spec.text);
-  client.query('INSERT INTO specs (sha256, name, revision, text) VALUES ($1, $2, $3, $4) ON CONFLICT (sha256) DO NOTHING', [spec.sha256, spec.name, spec.revision, text]);
-  if (text) client.query('UPDATE specs SET text = $1 WHERE sha256 = $2 AND text IS NULL', [text, spec.sha256]);
-  const runId = client.query<{ id: number }>(
-    `INSERT INTO runs (unit, kind, started_at, stored_at, operator, station, spec_name, spec_revision, spec_sha256,
-       tool_version, decision_rule, statement, verdict_json, diagnosis_json, digest, attempt, attempt_reason, note, origin_uid, origin_digest)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18, $19, $20) RETURNING id`,
-    [run.unit, run.kind ?? 'check', run.startedAt, storedAt, run.operator, run.station, spec.name, spec.revision, spec.sha256,
-      run.toolVersion, verdict.decisionRule, verdict.statement, verdictText, diagnosisText, digest,
-      placed.attempt, placed.attemptReason ?? null, placed.note ?? null, origin.uid ?? null, origin.digest ?? null],
-  ).rows[0].id;
-  const checks: unknown[][] = [];
-  for (const c of verdict.conditions) {
-    for (const k of c.checks) {
-      checks.push([runId, checks.length, k.condition, k.output, k.measurement, k.unit, k.value, k.expandedUncertainty, k.lower, k.upper, k.nominal, k.guard, k.margin, k.statement, k.note ?? null]);
-    }
-  }
-  insertRows(client, 'condition_results (run_id, condition, statement)', verdict.conditions.map((c) => [runId, c.condition, c.statement]));
-  insertRows(client, 'checks (run_id, seq, condition, output, measurement, unit, value, expanded_uncertainty, lower, upper, nominal, guard, margin, statement, note)', checks);
-  insertRows(client, 'causes (run_id, rank, cause_id, title, score, evidence_json, confirm)', run.diagnosis.causes.map((c, i) => [runId, i + 1, c.id, c.title, c.score, JSON.stringify(c.evidence), c.confirm]));
-  insertRows(client, 'run_captures (run_id, seq, sha256, original_path, size, layout, condition)', captures.map((c, i) => [runId, i, c.sha256, c.path, c.size, c.layout, c.condition]));
-  insertRows(client, 'measurements (run_id, capture_index, capture_sha256, channel_index, channel, measurement, value, uncertainty, unit, reason, method)', measurementRows(runId, verdict));
-  return runId;
 }
 
 /** Up to 500 rows per INSERT: one round trip to the server instead of one per row. */
@@ -222,18 +195,6 @@ export function insertRows(client: PgSyncClient, into: string, rows: readonly (r
     const tuples = part.map((r) => `(${r.map((v) => `$${params.push(v)}`).join(', ')})`);
     client.query(`INSERT INTO ${into} VALUES ${tuples.join(', ')}`, params);
   }
-}
-
-function measurementRows(runId: number, verdict: UnitVerdict): unknown[][] {
-  const rows: unknown[][] = [];
-  verdict.captures.forEach((capture, ci) => {
-    capture.report.channels.forEach((channel, chi) => {
-      for (const [id, m] of Object.entries(channel.measurements)) {
-        if (m) rows.push([runId, ci, capture.sha256, chi, channel.name, id, m.value, m.uncertainty, m.unit, m.reason ?? null, m.method ?? null]);
-      }
-    });
-  });
-  return rows;
 }
 
 function checkRun(run: NewRun): void {

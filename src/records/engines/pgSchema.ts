@@ -20,6 +20,7 @@
 import { BenchError } from '../../types/index.js';
 import { LATEST_SCHEMA, MIGRATIONS } from '../migrations.js';
 import type { PgSyncClient } from './pgSync.js';
+import { PgCallError } from './pgSync.js';
 import { fillSummaries } from '../migration7.js';
 import type { RunRow } from '../readRuns.js';
 import { pgCapturesByRun } from './pgReads.js';
@@ -178,10 +179,25 @@ export function pgSchemaVersion(client: PgSyncClient): number {
   return client.query<{ v: number | null }>('SELECT MAX(version) AS v FROM schema_migrations').rows[0].v ?? 0;
 }
 
+/**
+ * The version as a bench opening the store finds it, in one statement (every command opens the store,
+ * so this is on every check's path): the log read directly, a store without one being version 0.
+ * Outside any transaction, so the error of a missing table aborts nothing.
+ */
+function openingVersion(client: PgSyncClient): number {
+  try {
+    return client.query<{ v: number | null }>('SELECT MAX(version) AS v FROM schema_migrations').rows[0].v ?? 0;
+  } catch (err) {
+    // 42P01 undefined_table: no benchproof tables yet.
+    if (err instanceof PgCallError && err.code === '42P01') return 0;
+    throw err;
+  }
+}
+
 /** Bring the shared store up to the latest schema; returns the version. `shown` names it in errors. */
 export function applyPgMigrations(client: PgSyncClient, shown: string): number {
   if (PG_STEPS.length !== MIGRATIONS.length) throw new RangeError(`the PostgreSQL schema has ${PG_STEPS.length} steps, the embedded one ${MIGRATIONS.length}`);
-  const found = pgSchemaVersion(client);
+  const found = openingVersion(client);
   if (found > LATEST_SCHEMA) throw newerPgSchema(shown, found);
   if (found === LATEST_SCHEMA) return found;
   MIGRATIONS.forEach((step, i) => {

@@ -28,7 +28,7 @@ import type { StoredCapture } from '../../types/index.js';
 import { applyPgMigrations } from './pgSchema.js';
 import { pgStoreError } from './pgErrors.js';
 import { readCapture } from './pgCaptures.js';
-import { pgCalibratedAt, pgChainHead, pgRunHeads, prepareRun, writeRun, WRITE_LOCK } from './pgSaveRun.js';
+import { pgCalibratedAt, pgChainHead, pgRunHeads, prepareRun, saveRunBatched, writeRun, WRITE_LOCK } from './pgSaveRun.js';
 import { pgSaveCalibration } from './pgCalibration.js';
 import { pgRunRows } from './pgRuns.js';
 import {
@@ -111,10 +111,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
     schemaVersion: version,
     saveRun: (run, hooks) => {
       const prepared = prepareRun(run);
-      return guarded(() => client.transaction(() => {
-        client.query('SELECT pg_advisory_xact_lock($1)', [WRITE_LOCK]);
-        return writeRun(client, prepared, origin(hooks));
-      }));
+      return guarded(() => saveRunBatched(client, prepared, origin(hooks)));
     },
     saveRuns: (runs) => {
       const prepared = runs.map(prepareRun);
