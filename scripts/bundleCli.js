@@ -49,11 +49,34 @@ const lazyChildProcess = {
   },
 };
 
+/**
+ * A chunk runs as a vm.Script, where `import()` has no loader behind it (Node 20 offers one only as
+ * an experimental feature that prints a warning), so the bundle may hold none: a module's
+ * `import('node:zlib')` becomes an import of a small bundled module that re-exports the built-in,
+ * which the CommonJS output loads with require. Any other `import()` left in a chunk fails the build.
+ */
+const DYNAMIC_BUILTIN = /\bimport\((['"])(node:[\w/]+)\1\)/g;
+const builtinsWithoutImport = {
+  name: 'dynamic-builtins-as-require',
+  transform(code) {
+    const changed = code.replace(DYNAMIC_BUILTIN, (_, q, id) => `import(${q}\0builtin:${id}${q})`);
+    return changed === code ? null : changed;
+  },
+  resolveId(id) {
+    return id.startsWith('\0builtin:') ? id : null;
+  },
+  load(id) {
+    if (!id.startsWith('\0builtin:')) return null;
+    const builtin = JSON.stringify(id.slice('\0builtin:'.length));
+    return `export * from ${builtin};\nexport { default } from ${builtin};\n`;
+  },
+};
+
 rmSync(out, { recursive: true, force: true });
 await build({
   input: { main: join(root, 'dist', 'cli', 'main.js') },
   platform: 'node',
-  plugins: [lazyChildProcess],
+  plugins: [lazyChildProcess, builtinsWithoutImport],
   external: (id, importer) =>
     !isCommandersChildProcess(id, importer) && (id.startsWith('node:') || (isPackage(id) && KEPT_PACKAGES.has(packageOf(id)))),
   logLevel: 'warn',
@@ -83,6 +106,8 @@ let cached = 0;
 for (const name of readdirSync(out).filter((f) => f.endsWith('.cjs'))) {
   const file = join(out, name);
   const chunk = loader.readChunk(file);
+  const left = /\bimport\(\s*(['"`][^'"`]*['"`])?/.exec(chunk.source);
+  if (left) throw new Error(`${name} holds ${left[0]}…): a bundle chunk cannot import() (see builtinsWithoutImport in scripts/bundleCli.js)`);
   const source = loader.wrapChunk(chunk.source);
   setFlagsFromString('--no-lazy');
   let script;
