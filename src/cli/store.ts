@@ -80,7 +80,8 @@ function openSharedStore(ctx: CommandContext, location: DataLocation, mode: 'rea
   const openLocal = (): RecordStore => openStore(location.dir, { mode: 'write', label: folderOf(location), unverified });
   let store: RecordStore;
   try {
-    store = openPgStore(shared.url, { cacheDir: location.dir, unverified });
+    // The connection is kept a moment after close: a check opens the store twice (attempt, then store).
+    store = openPgStore(shared.url, { cacheDir: location.dir, unverified, keepConnection: true });
   } catch (err) {
     if (mode === 'read' || !isUnreachableError(err)) throw err;
     ctx.io.stderr(`benchproof: the shared store ${shared.shown} did not answer; runs are kept on this bench in ${folderOf(location)} and sent at the next command or with benchproof sync\n`);

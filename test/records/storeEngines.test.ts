@@ -8,7 +8,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import Database from 'better-sqlite3';
 import { LATEST_SCHEMA, openPgStore, openStore, runDigest } from '../../src/records/index.js';
 import type { RecordStore } from '../../src/records/index.js';
@@ -278,6 +278,29 @@ describe.skipIf(pgSkip !== undefined)('the shared store alone', () => {
     expect(() => again.unitRecord('FK-0101')).toThrow(expect.objectContaining({ code: 'records.tampered' }));
     expect(again.audit().problems.map((p) => p.problem)).toEqual(['capture-changed']);
     again.close();
+  });
+
+  it('reuses a kept connection for the next open, and connects afresh when the server dropped it meanwhile', () => {
+    const cluster = started as PgCluster;
+    const name = `keep${++dbCount}`;
+    const url = cluster.createDatabase(name);
+    const cache = join(makeTempDir(), 'bench-data');
+    dirs.push(dirname(cache));
+    const open = () => openPgStore(url, { cacheDir: cache, keepConnection: true });
+    const sessions = () => Number(cluster.psql(`SELECT COUNT(*) FROM pg_stat_activity WHERE datname = '${name}' AND pid <> pg_backend_pid()`, name));
+    const first = open();
+    first.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
+    first.close();
+    const second = open();
+    expect(second.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
+    second.close();
+    expect(sessions()).toBe(1);
+    cluster.psql(`SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = '${name}' AND pid <> pg_backend_pid()`, name);
+    const third = open();
+    third.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
+    expect(third.listUnits().map((u) => u.unit)).toEqual(['FK-0101', 'FK-0102']);
+    third.close();
+    expect(sessions()).toBe(1);
   });
 
   it('refuses a shared store written by a newer schema with records.newer-schema', () => {

@@ -45,7 +45,7 @@ import {
   pgSummaryRows,
 } from './pgReads.js';
 import { shownStore } from './pgLocation.js';
-import { PgSyncClient } from './pgSync.js';
+import { PgCallError, PgSyncClient } from './pgSync.js';
 import type { PgSyncOptions } from './pgSync.js';
 
 export interface PgStoreOptions extends PgSyncOptions {
@@ -53,11 +53,32 @@ export interface PgStoreOptions extends PgSyncOptions {
   readonly cacheDir: string;
   /** As openStore's: 'refuse' a store that fails verification (default) or read it 'mark'ed. */
   readonly unverified?: 'refuse' | 'mark';
+  /**
+   * Keep the connection for the next open of the same store in this process, for IDLE_MS after close
+   * (the command line: a check opens the store for the open attempt, then to store the run).
+   */
+  readonly keepConnection?: boolean;
 }
 
+/** How long a kept connection waits for the next open before it is closed. */
+export const IDLE_MS = 5_000;
+
 export function openPgStore(url: string, options: PgStoreOptions): RecordStore {
-  const { cacheDir, unverified = 'refuse', ...connect } = options;
+  const { cacheDir, unverified = 'refuse', keepConnection = false, ...connect } = options;
   const shown = shownStore(url);
+  const key = keepConnection ? JSON.stringify([url, connect]) : undefined;
+  const reused = key === undefined ? undefined : idle.get(key);
+  if (key !== undefined) idle.delete(key);
+  if (reused?.open) {
+    try {
+      return wrapPg(reused, shown, cacheDir, applyPgMigrations(reused, shown), unverified, key);
+    } catch (err) {
+      const lost = err instanceof PgCallError && (err.kind !== 'server' || !reused.open);
+      reused.close();
+      // A kept connection the server dropped meanwhile is no answer about the store: connect afresh.
+      if (!lost) throw pgStoreError(err, shown);
+    }
+  }
   let client: PgSyncClient;
   let version: number;
   try {
@@ -71,10 +92,35 @@ export function openPgStore(url: string, options: PgStoreOptions): RecordStore {
     client.close();
     throw pgStoreError(err, shown);
   }
-  return wrapPg(client, shown, cacheDir, version, unverified);
+  return wrapPg(client, shown, cacheDir, version, unverified, key);
 }
 
-function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: number, unverified: 'refuse' | 'mark'): RecordStore {
+/**
+ * One connection per store address kept after a store is closed, for the next open in the same
+ * process: a check opens the store to read the unit's open attempt, then again to store the run, and
+ * starting the connection's worker thread and loading the driver is most of what opening costs
+ * (tens of ms on an idle machine, a few hundred on a busy one). A kept connection holds no
+ * transaction; its worker does not keep the process alive (PgSyncClient unrefs it).
+ */
+const idle = new Map<string, PgSyncClient>();
+
+/** Keep `client` for the next open under `key`, closing it after IDLE_MS unless taken; one per key. */
+function keepConnection(key: string, client: PgSyncClient): void {
+  const kept = idle.get(key);
+  if (kept !== undefined && kept !== client) {
+    client.close();
+    return;
+  }
+  idle.set(key, client);
+  const timer = setTimeout(() => {
+    if (idle.get(key) !== client) return;
+    idle.delete(key);
+    client.close();
+  }, IDLE_MS);
+  timer.unref();
+}
+
+function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: number, unverified: 'refuse' | 'mark', key: string | undefined): RecordStore {
   const keep = (c: StoredCapture): string => keepLocal(client, shown, cacheDir, c);
   // A unit's captures are fetched into the local archive, each verified on the way.
   const fetched: CaptureHasher = (c) => {
@@ -135,7 +181,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
     specText: (sha256) => guarded(() => pgSpecText(client, sha256)),
     // PostgreSQL keeps its own pages consistent; what can disagree is the schema, checked on opening.
     integrityCheck: () => guarded(() => (applyPgMigrations(client, shown) === version ? ['ok'] : [`schema changed from ${version} while open`])),
-    close: () => client.close(),
+    close: () => (key !== undefined && client.open ? keepConnection(key, client) : client.close()),
     captureRecorded: (key) => verified(() => pgCaptureRecorded(client, key)),
     saveRunOnce: (run, hooks) => {
       if (run.captures.length === 0) throw new RangeError(`saveRunOnce: run of ${run.unit} has no captures to decide on`);

@@ -140,6 +140,11 @@ export class PgSyncClient {
     return result;
   }
 
+  /** False once closed, or once the connection was found lost (it is not used again then). */
+  get open(): boolean {
+    return !this.closed;
+  }
+
   close(): void {
     if (this.closed) return;
     try {
