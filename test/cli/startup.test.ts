@@ -47,8 +47,10 @@ function start(root: string, ...args: string[]): { code: number | null; stdout: 
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
-const HOUR_AGO = new Date(Date.now() - 3_600_000);
-const LONG_AGO = new Date(Date.now() - 86_400_000);
+// Whole seconds, so that a file's time reads back exactly (a millisecond time can come back as x.999).
+const secondsAgo = (s: number): Date => new Date((Math.floor(Date.now() / 1000) - s) * 1000);
+const HOUR_AGO = secondsAgo(3_600);
+const LONG_AGO = secondsAgo(86_400);
 
 describe('bin/benchproof.js with the bundle and its code cache', () => {
   it('runs the bundle, writes a missing cache on exit, and then uses it without rewriting it', () => {
