@@ -76,10 +76,37 @@ export function auditStore(db: Database, dataDir: string, options: AuditOptions 
  * summary against its fingerprint (over the run row's own columns) and the chain, and the calibration
  * iterations; the full verdicts are not read. `summaries` are the rows readSummaryRows gives.
  */
-export function judgeListing(entries: readonly ChainEntry[], summaries: readonly SummaryRow[], calibrations: StoreRows['calibrations']): StoreAudit {
+export function judgeListing(entries: readonly ChainEntry[], summaries: readonly SummaryRow[], calibrations: StoreRows['calibrations'], runDigests?: RunDigestReader): StoreAudit {
   // The run rows as the chain sees them: their fingerprints, not re-hashed here (the summary covers their columns).
   const runs = summaries.map((r) => ({ id: Number(r.id), unit: String(r.unit), digest: String(r.digest), intact: true, captures: [] }));
-  return judgeStore({ entries, runs: { rows: runs, damaged: [] }, calibrations, summaries });
+  const audit = judgeStore({ entries, runs: { rows: runs, damaged: [] }, calibrations, summaries });
+  return runDigests ? namedRefingerprints(audit, summaries, runDigests) : audit;
+}
+
+/** The fingerprints the run rows hold now, by run (read only for the few runs a listing found changed). */
+export type RunDigestReader = (ids: readonly number[]) => ReadonlyMap<number, string>;
+
+const CHANGED = 'its content no longer matches the fingerprint taken when it was stored';
+const REFINGERPRINTED = 'its fingerprint differs from the one the hash chain holds (it was edited and re-fingerprinted)';
+
+/**
+ * A listing reads a run's fingerprint from its summary, so a run whose columns no longer match its
+ * summary may also carry a new fingerprint of its own: the runs it found changed are looked up, and
+ * one re-fingerprinted is named as such, as a full read names it.
+ */
+function namedRefingerprints(audit: StoreAudit, summaries: readonly SummaryRow[], runDigests: RunDigestReader): StoreAudit {
+  const changed = new Set(audit.problems.filter((p) => p.kind === 'run' && p.id !== null && p.detail === CHANGED).map((p) => p.id as number));
+  if (changed.size === 0) return audit;
+  const digests = runDigests([...changed]);
+  // The fingerprint each run had when stored, as its summary (verified against the chain by its own entry) repeats it.
+  const stored = new Map(summaries.filter((r) => changed.has(Number(r.id))).map((r) => [Number(r.id), String(r.digest)]));
+  return {
+    ...audit,
+    problems: audit.problems.map((p) => {
+      const now = p.kind === 'run' && p.detail === CHANGED && p.id !== null ? digests.get(p.id) : undefined;
+      return now !== undefined && now !== stored.get(p.id as number) ? { ...p, detail: REFINGERPRINTED } : p;
+    }),
+  };
 }
 
 /** What verifying a store reads from either engine. */
@@ -126,7 +153,13 @@ export function judgeStore(read: StoreRows, hashOf?: CaptureHasher): StoreAudit 
     }
   }
   const archived = hashOf ? checkArchive(hashOf, rows, problems) : 0;
-  return { head, chained: entries.length, archived, problems };
+  // A run found changed both by its summary and by its own fingerprint is named once.
+  const seen = new Set<string>();
+  const unique = problems.filter((p) => {
+    const key = `${p.kind}:${p.id}:${p.problem}:${p.detail}`;
+    return !seen.has(key) && (seen.add(key), true);
+  });
+  return { head, chained: entries.length, archived, problems: unique };
 }
 
 /**

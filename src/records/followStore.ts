@@ -88,7 +88,8 @@ export function followStore(dir: string, options: { readonly sweepGapMs?: number
     const added = db.prepare('SELECT seq, kind, row_id, row_digest, link FROM chain WHERE seq > ? ORDER BY seq').all(seq) as ChainEntry[];
     for (const e of added) {
       const expected = chainLink(head, e.kind as 'run', e.row_id, e.row_digest);
-      const kind = e.kind === 'run' || e.kind === 'calibration' ? e.kind : 'chain';
+      // A run's summary entry (runSummary.ts) is named by its run, as auditStore names it.
+      const kind = e.kind === 'calibration' ? 'calibration' : e.kind === 'run' || e.kind === 'summary' ? 'run' : 'chain';
       if (e.seq !== entries.length + 1) linkProblems.push({ kind: 'chain', id: null, unit: null, problem: 'chain-broken', detail: `chain entries ${entries.length + 1}–${e.seq - 1} are gone (deleted rows or entries)` });
       else if (e.link !== expected) linkProblems.push({ kind, id: e.row_id, unit: null, problem: 'chain-broken', detail: `chain entry ${e.seq} (${e.kind} #${e.row_id}) does not follow from the entry before it: entries were edited, deleted or reordered` });
       // A gap leaves the entries array shorter than the numbers: later looks compare by number.

@@ -210,7 +210,9 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
   const reads = verifiedReads(label, unverified, {
     listing: () => {
       const summaries = readSummaryRows(db);
-      return { audit: judgeListing(chainEntries(db), summaries, readCalibrationRows(db)), summaries };
+      const digests = (ids: readonly number[]) =>
+        new Map((db.prepare('SELECT id, digest FROM runs WHERE id IN (SELECT value FROM json_each(?))').all(JSON.stringify(ids)) as { id: number; digest: string }[]).map((r) => [r.id, r.digest]));
+      return { audit: judgeListing(chainEntries(db), summaries, readCalibrationRows(db), digests), summaries };
     },
     rows: () => auditStore(db, dir, { archive: false }),
     full: () => auditStore(db, dir),

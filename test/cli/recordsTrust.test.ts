@@ -26,7 +26,7 @@ beforeEach(() => {
 });
 afterEach(() => removeTempDir(root));
 
-const TRIGGERS = ['runs_no_update', 'runs_no_delete', 'chain_no_update', 'chain_no_delete', 'run_captures_no_delete', 'checks_no_delete', 'condition_results_no_delete', 'causes_no_delete', 'measurements_no_delete'];
+const TRIGGERS = ['runs_no_update', 'runs_no_delete', 'chain_no_update', 'chain_no_delete', 'run_captures_no_delete', 'checks_no_delete', 'condition_results_no_delete', 'causes_no_delete', 'measurements_no_delete', 'run_summaries_no_delete', 'run_summary_checks_no_delete'];
 
 function tamper(sql: (db: Database.Database) => void): void {
   const db = new Database(join(data, 'records.db'));
@@ -65,7 +65,7 @@ describe('tampering is seen by every command that reads records', () => {
 
   it('sees a deleted failing first run, which would raise the first-pass yield', async () => {
     tamper((db) => {
-      for (const t of ['checks', 'condition_results', 'causes', 'run_captures', 'measurements']) db.prepare(`DELETE FROM ${t} WHERE run_id = 4`).run();
+      for (const t of ['checks', 'condition_results', 'causes', 'run_captures', 'measurements', 'run_summary_checks', 'run_summaries']) db.prepare(`DELETE FROM ${t} WHERE run_id = 4`).run();
       db.prepare('DELETE FROM runs WHERE id = 4').run();
     });
     await expectRefused('records.tampered', /run #4: it is in the hash chain but no longer in the store/);
@@ -73,7 +73,7 @@ describe('tampering is seen by every command that reads records', () => {
 
   it('sees a deleted run together with its chain entry', async () => {
     tamper((db) => {
-      for (const t of ['checks', 'condition_results', 'causes', 'run_captures', 'measurements']) db.prepare(`DELETE FROM ${t} WHERE run_id = 4`).run();
+      for (const t of ['checks', 'condition_results', 'causes', 'run_captures', 'measurements', 'run_summary_checks', 'run_summaries']) db.prepare(`DELETE FROM ${t} WHERE run_id = 4`).run();
       db.prepare('DELETE FROM runs WHERE id = 4').run();
       db.prepare("DELETE FROM chain WHERE kind = 'run' AND row_id = 4").run();
     });
@@ -116,9 +116,16 @@ describe('tampering is seen by every command that reads records', () => {
   it('sees an archived capture deleted or edited', async () => {
     const folder = join(data, 'captures');
     const sub = readdirSync(folder)[0];
-    const file = join(folder, sub, readdirSync(join(folder, sub))[0]);
-    rmSync(file, { force: true });
-    await expectRefused('records.tampered', /archived capture .* is missing/);
+    const name = readdirSync(join(folder, sub))[0];
+    rmSync(join(folder, sub, name), { force: true });
+    // `units` and `batch` read no capture and verify the summaries (schema 7); reading a unit verifies its captures.
+    const db = new Database(join(data, 'records.db'), { readonly: true });
+    const unit = (db.prepare('SELECT r.unit FROM run_captures c JOIN runs r ON r.id = c.run_id WHERE c.sha256 = ? LIMIT 1').get(name.replace(/\.csv$/, '')) as { unit: string }).unit;
+    db.close();
+    const r = await cli('record', unit);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/archived capture .* is missing/);
   });
 
   it('reads the other runs with --allow-unverified, marks the changed one and leaves it out of the batch', async () => {
@@ -144,7 +151,8 @@ describe('tampering is seen by every command that reads records', () => {
     db.close();
     let link = '0'.repeat(64);
     for (const e of entries) link = createHash('sha256').update(`benchproof-chain-1\n${link}\n${e.kind}\n${e.row_id}\n${e.row_digest}`).digest('hex');
-    expect(entries).toHaveLength(5);
+    // Five runs, each with its summary's entry (schema 7).
+    expect(entries).toHaveLength(10);
     const md = await cli('record', 'FK-0101');
     expect(md.stdout).toContain(`chain head ${link.slice(0, 16)}`);
     const html = await cli('batch', '--format', 'html');
@@ -173,11 +181,12 @@ describe('damaged stores and rows are refused, never an internal error', () => {
       db.prepare("UPDATE runs SET verdict_json = '{not json' WHERE id = 1").run();
       db.prepare("UPDATE runs SET diagnosis_json = '[]' WHERE id = 2").run();
     });
-    const r = await cli('units', '--json');
+    // Reading the units in full (not `units`, which reads their summaries) names each damaged row.
+    const r = await cli('record', 'FK-0101', '--json');
     expect(r.code).toBe(2);
     expect(r.stderr).toContain('records.damaged');
     expect(r.stderr).toContain('run #1 of FK-0101: its verdict is not valid JSON');
-    expect(r.stderr).toContain('run #2 of FK-0102: its diagnosis is not the shape benchproof stores');
+    expect((await cli('record', 'FK-0102')).stderr).toContain('run #2 of FK-0102: its diagnosis is not the shape benchproof stores');
     const rest = await cli('batch', '--allow-unverified');
     expect(rest.code).toBe(0);
     expect(rest.stdout).toContain('FK-0104');

@@ -137,7 +137,9 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
   const reads = verifiedReads(shown, unverified, {
     listing: () => {
       const summaries = pgSummaryRows(client);
-      return { audit: judgeListing(pgChainEntries(client), summaries, pgReadCalibrationRows(client)), summaries };
+      const digests = (ids: readonly number[]) =>
+        new Map(client.query<{ id: number; digest: string }>('SELECT id, digest FROM runs WHERE id = ANY($1::integer[])', [ids]).rows.map((r) => [r.id, r.digest]));
+      return { audit: judgeListing(pgChainEntries(client), summaries, pgReadCalibrationRows(client), digests), summaries };
     },
     rows: () => judgeStore(everyRow()),
     full: () => {
