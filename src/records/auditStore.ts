@@ -220,7 +220,7 @@ export function judgeUnit(runs: { readonly rows: readonly RunDigestRow[]; readon
 /** judgeUnit on the embedded store. */
 export function auditUnit(db: Database, dataDir: string, unit: string): AuditProblem[] {
   const calibrations = readCalibrationRows(db).runs.filter((c) => c.unit === unit);
-  return judgeUnit(readRunDigests(db, { unit }), calibrations, (c) => hashFile(dataDir, c.archivePath));
+  return judgeUnit(readRunDigests(db, { unit }, true), calibrations, (c) => hashFile(dataDir, c.archivePath));
 }
 
 /** The archived captures of one unit's runs and calibration iterations, re-hashed. */

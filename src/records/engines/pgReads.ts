@@ -19,15 +19,15 @@ import type { SummaryRow } from '../runSummary.js';
 import type { PgSyncClient } from './pgSync.js';
 
 /** Every run's fingerprint checked as readRunDigests does on SQLite (the verdict's fields taken out by jsonb). */
-export function pgReadRunDigests(client: PgSyncClient, filter: RunFilter = {}): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
+export function pgReadRunDigests(client: PgSyncClient, filter: RunFilter = {}, againstSummaries = false): { rows: RunDigestRow[]; damaged: DamagedRow[] } {
   const where = filter.unit !== undefined ? 'WHERE unit = $1' : '';
   const args = filter.unit !== undefined ? [filter.unit] : [];
   let rows: DigestRow[];
   try {
     rows = client.query<DigestRow>(
       `SELECT *, verdict_json::jsonb ->> 'statement' AS verdict_statement, verdict_json::jsonb ->> 'unit' AS verdict_unit,
-         (SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id) AS summary_verdict_sha256,
-         (SELECT s.run_digest FROM run_summaries s WHERE s.run_id = runs.id) AS summary_run_digest
+         ${againstSummaries ? '(SELECT s.verdict_sha256 FROM run_summaries s WHERE s.run_id = runs.id)' : 'NULL'} AS summary_verdict_sha256,
+         ${againstSummaries ? '(SELECT s.run_digest FROM run_summaries s WHERE s.run_id = runs.id)' : 'NULL'} AS summary_run_digest
        FROM runs ${where} ORDER BY started_at, id`,
       args,
     ).rows;

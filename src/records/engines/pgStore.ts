@@ -146,7 +146,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
       const hashes = pgCaptureHashes(client);
       return judgeStore(everyRow(), (c) => hashes.get(c.sha256) ?? null);
     },
-    unit: (unit) => judgeUnit(pgReadRunDigests(client, { unit }), pgReadCalibrationRows(client, unit).runs, fetched),
+    unit: (unit) => judgeUnit(pgReadRunDigests(client, { unit }, true), pgReadCalibrationRows(client, unit).runs, fetched),
     wrapError: (err) => pgStoreError(err, shown),
   });
   const { verified, mark, markCalibrations, listingAudit, guarded } = reads;
