@@ -209,7 +209,7 @@ export function lightRun(row: SummaryRow, checksJson?: string): StoredRun | unde
 
 /**
  * The SQL columns of a run joined with its summary (`r` runs, `s` run_summaries), the same on both
- * engines. The run's fingerprint and attempt columns are the summary's copies (verified with it), so
+ * engines, in this order (readSummaryRows reads them by position). The run's fingerprint and attempt columns are the summary's copies (verified with it), so
  * no column after the verdict text is read from the run's row; a run without a summary gives its own
  * fingerprint (COALESCE stops at the first value that is not NULL, so it reads it only then).
  */

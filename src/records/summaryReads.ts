@@ -9,10 +9,20 @@ import { readRunHeads } from './attempts.js';
 import { lightRun, SUMMARY_COLUMNS } from './runSummary.js';
 import type { SummaryRow } from './runSummary.js';
 
-/** Every run (or one unit's) with its summary columns, oldest first. */
+/**
+ * Every run (or one unit's) with its summary columns, by unit and oldest first within it (the order of
+ * the runs_by_unit index, so SQLite sorts nothing). Read as arrays and made into objects of one shape
+ * here: better-sqlite3's own row objects cost several times more to build and to collect.
+ */
 export function readSummaryRows(db: Database, unit?: string): SummaryRow[] {
-  const sql = `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = ?'} ORDER BY r.started_at, r.id`;
-  return db.prepare(sql).all(...(unit === undefined ? [] : [unit])) as SummaryRow[];
+  const sql = `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = ?'} ORDER BY r.unit, r.started_at, r.id`;
+  const rows = db.prepare(sql).raw(true).all(...(unit === undefined ? [] : [unit])) as unknown[][];
+  return rows.map((r) => ({
+    id: r[0] as number, unit: r[1] as string, kind: r[2] as string, started_at: r[3] as string, stored_at: r[4] as string, operator: r[5] as string,
+    station: r[6] as string, spec_name: r[7] as string, spec_revision: r[8] as string, spec_sha256: r[9] as string, tool_version: r[10] as string,
+    statement: r[11] as string, attempt: r[12] as number | null, attempt_reason: r[13] as string | null, note: r[14] as string | null, digest: r[15] as string,
+    verdict_sha256: r[16] as string | null, checks_sha256: r[17] as string | null, state_json: r[18] as string | null, summary_digest: r[19] as string | null,
+  }));
 }
 
 /** The compact checks of these runs, by run (their SHA-256 is in the verified summary). */

@@ -130,10 +130,10 @@ export function pgRunCaptures(client: PgSyncClient, runId: number): StoredCaptur
   return pgCapturesByRun(client, [runId]).get(runId) ?? [];
 }
 
-/** Every run (or one unit's) with its summary columns, oldest first, in one query (readSummaryRows on SQLite). */
+/** Every run (or one unit's) with its summary columns, by unit and oldest first, in one query (readSummaryRows on SQLite). */
 export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[] {
   return client.query<SummaryRow>(
-    `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = $1'} ORDER BY r.started_at, r.id`,
+    `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = $1'} ORDER BY r.unit, r.started_at, r.id`,
     unit === undefined ? [] : [unit],
   ).rows;
 }
