@@ -216,3 +216,13 @@ export function lightRun(row: SummaryRow, checksJson?: string): StoredRun | unde
 export const SUMMARY_COLUMNS = `r.id, r.unit, r.kind, r.started_at, r.stored_at, r.operator, r.station, r.spec_name, r.spec_revision,
   r.spec_sha256, r.tool_version, r.statement, s.attempt, s.attempt_reason, s.note, COALESCE(s.run_digest, r.digest) AS digest,
   s.verdict_sha256, s.checks_sha256, s.state_json, s.digest AS summary_digest`;
+
+/** One row of SUMMARY_COLUMNS read as an array (both engines read them so), as an object of one shape. */
+export function summaryRowOf(r: readonly unknown[]): SummaryRow {
+  return {
+    id: r[0] as number, unit: r[1] as string, kind: r[2] as string, started_at: r[3] as string, stored_at: r[4] as string, operator: r[5] as string,
+    station: r[6] as string, spec_name: r[7] as string, spec_revision: r[8] as string, spec_sha256: r[9] as string, tool_version: r[10] as string,
+    statement: r[11] as string, attempt: r[12] as number | null, attempt_reason: r[13] as string | null, note: r[14] as string | null, digest: r[15] as string,
+    verdict_sha256: r[16] as string | null, checks_sha256: r[17] as string | null, state_json: r[18] as string | null, summary_digest: r[19] as string | null,
+  };
+}

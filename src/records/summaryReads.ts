@@ -6,7 +6,7 @@
 import type { Database } from 'better-sqlite3';
 import type { StoredRun } from '../types/index.js';
 import { readRunHeads } from './attempts.js';
-import { lightRun, SUMMARY_COLUMNS } from './runSummary.js';
+import { lightRun, SUMMARY_COLUMNS, summaryRowOf } from './runSummary.js';
 import type { SummaryRow } from './runSummary.js';
 
 /**
@@ -17,12 +17,7 @@ import type { SummaryRow } from './runSummary.js';
 export function readSummaryRows(db: Database, unit?: string): SummaryRow[] {
   const sql = `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = ?'} ORDER BY r.unit, r.started_at, r.id`;
   const rows = db.prepare(sql).raw(true).all(...(unit === undefined ? [] : [unit])) as unknown[][];
-  return rows.map((r) => ({
-    id: r[0] as number, unit: r[1] as string, kind: r[2] as string, started_at: r[3] as string, stored_at: r[4] as string, operator: r[5] as string,
-    station: r[6] as string, spec_name: r[7] as string, spec_revision: r[8] as string, spec_sha256: r[9] as string, tool_version: r[10] as string,
-    statement: r[11] as string, attempt: r[12] as number | null, attempt_reason: r[13] as string | null, note: r[14] as string | null, digest: r[15] as string,
-    verdict_sha256: r[16] as string | null, checks_sha256: r[17] as string | null, state_json: r[18] as string | null, summary_digest: r[19] as string | null,
-  }));
+  return rows.map(summaryRowOf);
 }
 
 /** The compact checks of these runs, by run (their SHA-256 is in the verified summary). */

@@ -14,7 +14,7 @@ import { judgeDigestRows, toStoredRun } from '../readRuns.js';
 import type { DamagedRow, DigestRow, RunDigestRow, RunFilter, RunRow } from '../readRuns.js';
 import type { StoredCalibrationRun } from '../../types/index.js';
 import { PgCallError } from './pgSync.js';
-import { SUMMARY_COLUMNS } from '../runSummary.js';
+import { SUMMARY_COLUMNS, summaryRowOf } from '../runSummary.js';
 import type { SummaryRow } from '../runSummary.js';
 import type { PgSyncClient } from './pgSync.js';
 
@@ -82,7 +82,8 @@ export function pgReadCalibrationRows(client: PgSyncClient, unit?: string): { ru
 }
 
 export function pgChainEntries(client: PgSyncClient): ChainEntry[] {
-  return client.query<ChainEntry>('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq').rows;
+  const rows = client.queryArrays('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq') as [number, string, number, string, string][];
+  return rows.map(([seq, kind, row_id, row_digest, link]) => ({ seq, kind, row_id, row_digest, link }));
 }
 
 /**
@@ -132,10 +133,11 @@ export function pgRunCaptures(client: PgSyncClient, runId: number): StoredCaptur
 
 /** Every run (or one unit's) with its summary columns, by unit and oldest first, in one query (readSummaryRows on SQLite). */
 export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[] {
-  return client.query<SummaryRow>(
+  const rows = client.queryArrays(
     `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = $1'} ORDER BY r.unit, r.started_at, r.id`,
     unit === undefined ? [] : [unit],
-  ).rows;
+  );
+  return rows.map(summaryRowOf);
 }
 
 /** The compact checks of these runs, by run, in one query (their SHA-256 is in the verified summary). */
