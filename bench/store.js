@@ -146,7 +146,10 @@ function benchRun(unit, attempt, when, captures = []) {
 function newCaptures(i) {
   return CONDITIONS.map((condition) => {
     const rows = [`time,triangle,pulse,# bench store step ${i} ${condition}`];
-    for (let k = 0; rows.join('\n').length < 236_000 && k < 8000; k++) rows.push(`${(k * 2.5e-6).toExponential(6)},${(3.2 * Math.sin(k / 40 + i)).toFixed(6)},${k % 400 < 200 ? '10.000000' : '0.000000'}`);
+    for (let k = 0, size = rows[0].length; size < 236_000 && k < 8000; k++) {
+      rows.push(`${(k * 2.5e-6).toExponential(6)},${(3.2 * Math.sin(k / 40 + i)).toFixed(6)},${k % 400 < 200 ? '10.000000' : '0.000000'}`);
+      size += rows[rows.length - 1].length + 1;
+    }
     const bytes = Buffer.from(rows.join('\n'));
     return { path: `step${i}_${condition}.csv`, sha256: createHash('sha256').update(bytes).digest('hex'), size: bytes.length, layout: 'time,triangle,pulse', condition, bytes };
   });
