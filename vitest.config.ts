@@ -13,10 +13,11 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
-    // Two workers per core: much of the suite waits on child processes (killed writers, the page's
-    // server, PostgreSQL, ngspice, Chromium) rather than computing; on this 2-core machine the whole
-    // suite took 240 s with one worker per core and 122 s with two.
-    maxWorkers: '200%',
+    // Three workers per core: much of the suite waits on child processes (killed writers, the page's
+    // server, PostgreSQL, ngspice, Chromium) rather than computing. On this 2-core machine, idle, the
+    // whole suite took 240 s with one worker per core, 121 s with two, 99 s with three and 118 s with
+    // four (each worker loads the stages once, so more workers spend more CPU on loading).
+    maxWorkers: '300%',
     // Test files share each worker's loaded modules instead of importing every stage afresh: module
     // loading was most of the suite's time (test/design, docs and calibration: 95 s → 31 s wall, 21 → 7.7 s
     // of CPU, here under load). Tests already share modules within a file, so nothing may depend on a
