@@ -15,6 +15,14 @@ export function terminalWidth(io: CliIo): number {
 }
 
 /**
+ * The width to fit a table to when it is known (COLUMNS, or a terminal on stdout); unbounded when
+ * piped to a file or another program, which keeps one line per row for scripts.
+ */
+export function knownWidth(io: CliIo): number {
+  return Number(io.env.COLUMNS) > 0 || (io.stdoutIsTTY && io.stdoutColumns) ? terminalWidth(io) : Number.POSITIVE_INFINITY;
+}
+
+/**
  * A notice on stderr broken at spaces into lines of at most `width` columns, continuation lines
  * indented two spaces; a word longer than the line (a long path) stands whole on a line of its own,
  * since a command to copy must not be cut. Not report's `wrap`: that one abbreviates an over-long

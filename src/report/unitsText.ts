@@ -7,10 +7,16 @@ import type { Statement, UnitSummary } from '../types/index.js';
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import type { TextStyle } from './style.js';
 import { formatTime } from './reportNumbers.js';
+import { visibleWidth } from './wrapText.js';
 
 const waits = (u: UnitSummary): boolean => u.state === 'incomplete';
 
-export function renderUnitsText(units: readonly UnitSummary[], style: TextStyle): string {
+/**
+ * One line per unit. When those lines are wider than `width` (a terminal narrower than the table),
+ * the spec moves out of the rows into a line above each run of units under the same spec, as the
+ * spec column is the widest and usually the same for every unit.
+ */
+export function renderUnitsText(units: readonly UnitSummary[], style: TextStyle, width = Number.POSITIVE_INFINITY): string {
   const head = ['unit', 'status', 'waiting for', 'last tested', 'runs', 'attempts', 'first pass', 'spec'];
   const firstWord = (u: UnitSummary): string => (u.firstComplete ? STATEMENT_WORDS[u.firstComplete] : '—');
   const rows = units.map((u) => [
@@ -22,8 +28,27 @@ export function renderUnitsText(units: readonly UnitSummary[], style: TextStyle)
     String(u.attempts ?? u.runs),
     firstWord(u),
     // Runs that failed verification (listed only with --allow-unverified) are named on the unit's line.
-    `${u.spec.name} rev. ${u.spec.revision}${u.unverifiedRuns?.length ? `  UNVERIFIED: run ${u.unverifiedRuns.map((id) => `#${id}`).join(', ')}` : ''}`,
+    `${specOf(u)}${unverified(u)}`,
   ]);
+  const full = table(head, rows, units, style);
+  if (Math.max(...full.map(visibleWidth)) <= width) return `${full.join('\n')}\n`;
+  // Narrow: the table without the spec column, a spec line before each run of units under one spec,
+  // runs that failed verification on a line of their own under the unit's.
+  const narrow = table(head.slice(0, -1), rows.map((r) => r.slice(0, -1)), units, style);
+  const lines = [narrow[0]];
+  units.forEach((u, k) => {
+    if (k === 0 || specOf(units[k - 1]) !== specOf(u)) lines.push(style.dim(`spec ${specOf(u)}`));
+    lines.push(narrow[k + 1]);
+    if (unverified(u)) lines.push(style.bad(unverified(u)));
+  });
+  return `${lines.join('\n')}\n`;
+}
+
+const specOf = (u: UnitSummary): string => `${u.spec.name} rev. ${u.spec.revision}`;
+const unverified = (u: UnitSummary): string => (u.unverifiedRuns?.length ? `  UNVERIFIED: run ${u.unverifiedRuns.map((id) => `#${id}`).join(', ')}` : '');
+
+/** The head line and one line per unit, columns aligned, status words coloured after padding. */
+function table(head: readonly string[], rows: readonly (readonly string[])[], units: readonly UnitSummary[], style: TextStyle): string[] {
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const pad = (cells: readonly string[]): string[] => cells.map((c, i) => (i === cells.length - 1 ? c : c.padEnd(widths[i])));
   const paint = (word: string, st: Statement | undefined, width: number): string =>
@@ -36,5 +61,5 @@ export function renderUnitsText(units: readonly UnitSummary[], style: TextStyle)
     if (u.firstComplete) cells[6] = paint(rows[k][6], u.firstComplete, widths[6]);
     lines.push(cells.join('  ').trimEnd());
   });
-  return `${lines.join('\n')}\n`;
+  return lines;
 }

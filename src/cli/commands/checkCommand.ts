@@ -8,7 +8,7 @@ import type { ReadingFlags } from '../readingFlags.js';
 import { addReadingOptions, readingOptionsFrom } from '../readingFlags.js';
 import type { StoreFlags } from '../dataOptions.js';
 import { waitingConditions } from '../../types/index.js';
-import { terminalWidth } from '../terminalWidth.js';
+import { knownWidth, terminalWidth } from '../terminalWidth.js';
 
 interface CheckOptions extends StoreFlags, ReadingFlags {
   spec: string;
@@ -80,8 +80,7 @@ Every run is stored in the records (./benchproof-data/, or BENCHPROOF_DATA / --d
       const width = terminalWidth(ctx.io);
       const style = ctx.styleFor(cmd);
       // --detail is fitted only to a width that is known (COLUMNS or a terminal): piped to a file it keeps its full tables.
-      const knownWidth = Number(ctx.io.env.COLUMNS) > 0 || (ctx.io.stdoutIsTTY && ctx.io.stdoutColumns) ? width : Number.POSITIVE_INFINITY;
-      const text = (): string => (opts.summary ? renderCheckSummary(units, style, width) : opts.detail ? renderCheckText(units, style, knownWidth) : renderCheckBrief(units, style, width));
+      const text = (): string => (opts.summary ? renderCheckSummary(units, style, width) : opts.detail ? renderCheckText(units, style, knownWidth(ctx.io)) : renderCheckBrief(units, style, width));
       ctx.io.stdout(json ? `${JSON.stringify(checkDocument(spec, units), null, 2)}\n` : text());
       ctx.exitCode = exitCodeFor(units, Boolean(opts.strict));
       flagConditional(ctx, spec, units, Boolean(opts.strict));

@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import type { CommandContext } from '../context.js';
 import { addDataOption } from '../dataOptions.js';
+import { knownWidth } from '../terminalWidth.js';
 import type { StoreFlags } from '../dataOptions.js';
 import type { UnitSummary } from '../../types/index.js';
 
@@ -69,6 +70,6 @@ Examples:
         );
         return;
       }
-      ctx.io.stdout(renderUnitsText(units, ctx.styleFor(command)));
+      ctx.io.stdout(renderUnitsText(units, ctx.styleFor(command), knownWidth(ctx.io)));
     });
 }
