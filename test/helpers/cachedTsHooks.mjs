@@ -1,4 +1,4 @@
-// The module hooks of test/records/helpers/tsHooks.mjs (`./x.js` resolves to `./x.ts`; .ts files
+// Module hooks that let a plain `node` child run this repository's TypeScript sources (`./x.js` resolves to `./x.ts`; .ts files
 // transpiled with TypeScript's transpileModule, types erased), with the transpiled text kept in a
 // folder under the system's temporary folder, keyed by the SHA-256 of the file name and source. A
 // spawned child (a `watch`, a store writer) then loads the TypeScript compiler only for sources changed since the last
