@@ -8,27 +8,12 @@ import type { Database } from 'better-sqlite3';
 import type { AttemptReason, RunKind, Statement, StoredCapture, StoredRun } from '../types/index.js';
 import { CanonicalText, runDigest, sha256Hex } from './digest.js';
 import { parseDiagnosis, parseVerdict } from './rowShape.js';
+import type { SummaryHeadRow } from './runSummary.js';
 
-export interface RunRow {
-  id: number;
-  unit: string;
-  kind: string;
-  started_at: string;
-  stored_at: string;
-  operator: string;
-  station: string;
-  spec_name: string;
-  spec_revision: string;
-  spec_sha256: string;
-  tool_version: string;
-  statement: string;
+/** A run row as stored: the columns its summary is fingerprinted with (attempt columns NULL before schema 5), and its texts. */
+export interface RunRow extends SummaryHeadRow {
   verdict_json: string;
   diagnosis_json: string;
-  digest: string;
-  /** Schema 5; NULL on runs stored before it. */
-  attempt?: number | null;
-  attempt_reason?: string | null;
-  note?: string | null;
 }
 
 interface CaptureRow {
