@@ -139,6 +139,11 @@ function changedCapture(path: string, now: string, was: string): BenchError {
  */
 export function pgRunHeads(client: PgSyncClient, unit: string): StoredRun[] {
   const rows = client.query<SummaryRow>(`SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id WHERE r.unit = $1 ORDER BY r.started_at, r.id`, [unit]).rows;
+  return pgHeadsOf(client, unit, rows);
+}
+
+/** The unit's runs for placing from its summary rows; from the verdicts when one has none (before schema 7). */
+export function pgHeadsOf(client: PgSyncClient, unit: string, rows: readonly SummaryRow[]): StoredRun[] {
   const heads: StoredRun[] = [];
   for (const row of rows) {
     const head = row.state_json === null ? undefined : lightRun(row);

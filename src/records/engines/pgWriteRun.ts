@@ -14,12 +14,12 @@ import { CanonicalText, canonicalJson, runDigest } from '../digest.js';
 import { numberRuns, placeRunWith } from '../attempts.js';
 import { chainLink, CHAIN_START } from '../chain.js';
 import { runBase, summaryHead } from '../saveRun.js';
-import { lightRun, summarize, SUMMARY_COLUMNS } from '../runSummary.js';
+import { summarize, SUMMARY_COLUMNS } from '../runSummary.js';
 import type { SummaryRow, SummaryValues } from '../runSummary.js';
 import { CHUNK_BYTES } from './pgCaptures.js';
 import type { PgSyncClient } from './pgSync.js';
 import type { PreparedRun, RunOrigin } from './pgSaveRun.js';
-import { pgVerdictHeads, storedRunById } from './pgSaveRun.js';
+import { pgHeadsOf, storedRunById } from './pgSaveRun.js';
 
 /** One statement of a batch. */
 export interface Statement {
@@ -53,7 +53,7 @@ export function writeRunBatched(client: PgSyncClient, prepared: PreparedRun, ori
   if (f.existing !== null) return { run: storedRunById(client, f.existing), tailRan: false };
   const id = Number(f.next_id);
   const storedAt = new Date().toISOString();
-  const numbered = numberRuns(unitHeads(client, run.unit, heads.rows as unknown as SummaryRow[]));
+  const numbered = numberRuns(pgHeadsOf(client, run.unit, heads.rows as unknown as SummaryRow[]));
   const placed = { ...placeRunWith(() => f.calibrated_at, run, numbered), ...(run.note !== undefined ? { note: run.note } : {}) };
   // Each text is written once: the fingerprint hashes the same canonical text the row stores.
   const verdictText = canonicalJson(run.verdict);
@@ -81,17 +81,6 @@ export function writeRunBatched(client: PgSyncClient, prepared: PreparedRun, ori
   );
   client.batch(writes);
   return { run: { id, storedAt, digest, intact: true, ...base, ...placed, number: numbered.length + 1 }, tailRan: true };
-}
-
-/** The unit's runs for placing, from their summaries; from the verdicts when one has none (before schema 7). */
-function unitHeads(client: PgSyncClient, unit: string, rows: readonly SummaryRow[]): StoredRun[] {
-  const heads: StoredRun[] = [];
-  for (const row of rows) {
-    const head = row.state_json === null ? undefined : lightRun(row);
-    if (!head) return pgVerdictHeads(client, unit);
-    heads.push(head);
-  }
-  return heads;
 }
 
 /** A capture's bytes in chunks, unless the store holds them (checked in the first call, under the lock). */
