@@ -103,8 +103,11 @@ async function runBenchproof(file, ctx, env) {
   return withJson(r);
 }
 
-/** From this size `measure` reads and measures on worker threads (src/cli/measureWorkers.ts, kept in step by hand). */
-const MEASURE_WORKERS_MIN_BYTES = 64 << 20;
+/**
+ * From this size `measure` reads and measures on worker threads: the built command line's own
+ * threshold (src/cli/measureWorkers.ts); never, for a build without them.
+ */
+const { MEASURE_WORKERS_MIN_BYTES } = await import('../dist/cli/measureWorkers.js').catch(() => ({ MEASURE_WORKERS_MIN_BYTES: Number.POSITIVE_INFINITY }));
 
 /** `measure` without its worker threads (the default uses them from 64 MiB on): shown beside, not judged. */
 const ONE_THREAD = { BENCHPROOF_MEASURE_THREADS: '1' };
