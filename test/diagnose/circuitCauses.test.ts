@@ -3,11 +3,11 @@ import { readFileSync } from 'node:fs';
 import { decideUnit, parseSpec } from '../../src/design/index.js';
 import type { Spec } from '../../src/design/index.js';
 import { diagnoseUnit } from '../../src/diagnose/index.js';
-import { KESTREL_CONDITIONS, synthesize } from '../../src/syntheticCaptures/index.js';
-import type { ScenarioCondition, UnitTraits } from '../../src/syntheticCaptures/index.js';
+import { KESTREL_CONDITIONS } from '../../src/syntheticCaptures/index.js';
+import type { UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Cause, CauseFact, CircuitView, Diagnosis } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
-import { checkedKestrel, checkedSignals, kestrelTraits } from './kestrelUnit.js';
+import { checkedKestrel, checkedSignals, delayedCore, kestrelTraits } from './kestrelUnit.js';
 
 // The demo spec with its design section (4.7 nF ± 5 %, 14.76 µA ± 2 % at mid, ±3.0 V thresholds,
 // 10 V logic high). Captures are synthesized with fixed seeds; each fault is planted on purpose.
@@ -132,21 +132,7 @@ describe('part attribution with a design section', () => {
     // dividing the growth by 4·f0 instead would read it 19 % high. 3 %: half the stated U (6 %).
     const td = 7.6e-6;
     const rise = 0.3;
-    const r = (1 - rise) / rise;
-    const k = 2 + r + 1 / r;
-    const signals = (c: ScenarioCondition) => {
-      const sr = (6 * c.nominal) / rise;
-      const sf = (6 * c.nominal) / (1 - rise);
-      const period = 1 / c.nominal + k * td;
-      const sampleRate = (200 * 1.0137) / period;
-      const ownRise = (rise / c.nominal + td * (1 + 1 / r)) / period;
-      const top = 3 + sr * td;
-      const bottom = -3 - sf * td;
-      return {
-        triangle: synthesize({ shape: 'triangle', frequency: 1 / period, amplitude: (top - bottom) / 2, offset: (top + bottom) / 2, riseFraction: ownRise, sampleRate, samples: 200 * 30, noise: 0.006, seed: 31 }),
-        pulse: synthesize({ shape: 'pulse', frequency: 1 / period, amplitude: 5, duty: ownRise, sampleRate, samples: 200 * 30, noise: 0.012, edge: { tau: 1.5e-6 }, seed: 32 }),
-      };
-    };
+    const signals = delayedCore(td, rise, { swingGrows: true, seeds: [31, 32] });
     const d = diagnoseUnit(spec, decideUnit(spec, 'FK-0198', checkedSignals(spec, 'FK-0198', KESTREL_CONDITIONS, signals)));
     const cause = d.causes.find((c) => c.id === 'switching-delay');
     expect(cause).toBeDefined();

@@ -7,7 +7,7 @@ import { KESTREL_CONDITIONS, synthesize } from '../../src/syntheticCaptures/inde
 import type { ScenarioCondition, UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Cause, CauseFact, CheckedCapture } from '../../src/types/index.js';
 import { expectWithin } from '../helpers/expectWithin.js';
-import { checkedKestrel, checkedSignals, kestrelTraits } from './kestrelUnit.js';
+import { checkedKestrel, checkedSignals, delayedCore, kestrelTraits } from './kestrelUnit.js';
 import { jitteryCore } from './jitteryCore.js';
 
 // Every capture here is synthesized with a fixed seed (src/syntheticCaptures); the faults are planted on purpose.
@@ -84,17 +84,7 @@ describe('diagnoseUnit frequency patterns (f = I/(2·C·Vpp))', () => {
     // ngspice core with a delay line in test/ngspice/delayedComparator.test.ts); 4·t_d would read 4 % high.
     const td = 7.6e-6;
     const rise = 0.4;
-    const r = (1 - rise) / rise;
-    const k = 2 + r + 1 / r;
-    const delayed = (c: ScenarioCondition) => {
-      const period = 1 / c.nominal + k * td;
-      const sampleRate = 200 * 1.0137 / period;
-      const ownRise = (rise / c.nominal + td * (1 + 1 / r)) / period;
-      return {
-        triangle: synthesize({ shape: 'triangle', frequency: 1 / period, amplitude: 3, riseFraction: ownRise, sampleRate, samples: 200 * 30, noise: 0.006, seed: 21 }),
-        pulse: synthesize({ shape: 'pulse', frequency: 1 / period, amplitude: 5, duty: ownRise, sampleRate, samples: 200 * 30, noise: 0.012, edge: { tau: 1.5e-6 }, seed: 22 }),
-      };
-    };
+    const delayed = delayedCore(td, rise, { swingGrows: false, seeds: [21, 22] });
     const causes = causesOf(checkedSignals(spec, 'FK-0197', KESTREL_CONDITIONS, delayed));
     const cause = causes.find((c) => c.id === 'switching-delay');
     expect(cause).toBeDefined();

@@ -5,7 +5,7 @@
 import { measureCapture } from '../../src/analysis/index.js';
 import { bindCapture, planCapture } from '../../src/design/index.js';
 import type { Spec } from '../../src/design/index.js';
-import { KESTREL_CONDITIONS, KESTREL_UNITS, kestrelCapture } from '../../src/syntheticCaptures/index.js';
+import { KESTREL_CONDITIONS, KESTREL_UNITS, kestrelCapture, synthesize } from '../../src/syntheticCaptures/index.js';
 import type { ScenarioCondition, SynthSignal, UnitTraits } from '../../src/syntheticCaptures/index.js';
 import type { Capture, CheckedCapture } from '../../src/types/index.js';
 import { plainLayout } from '../helpers/plainLayout.js';
@@ -64,4 +64,30 @@ export function checkedSignals(
     ]);
     return bindCapture(spec, planCapture(spec, path), capture, measureCapture(capture));
   });
+}
+
+/**
+ * A core with mismatched ramps whose comparator flips `td` seconds late, as triangle and pulse signals for
+ * one condition. `rise` is the rising share of the undelayed period; the ramps' slopes stand in the ratio
+ * r = s_rise/s_fall = (1 − rise)/rise for a 6 V swing at the nominal frequency. Each ramp runs on past
+ * its threshold for td at its own slope, so T = 1/f0 + td·(2 + r + 1/r) (closed form; the law is checked
+ * against an ngspice core with a delay line in test/ngspice/delayedComparator.test.ts), and the rising
+ * share becomes (rise/f0 + td·(1 + 1/r))/T. With `swingGrows` the triangle also overruns its thresholds
+ * (top by s_rise·td, bottom by s_fall·td), as a real late comparator does; without it the swing stays ±3 V.
+ * 200 samples a period over 30 periods, at a rate that is not a multiple of the frequency.
+ */
+export function delayedCore(td: number, rise: number, opts: { swingGrows: boolean; seeds: readonly [number, number] }) {
+  const r = (1 - rise) / rise;
+  const k = 2 + r + 1 / r;
+  return (c: ScenarioCondition): { triangle: SynthSignal; pulse: SynthSignal } => {
+    const period = 1 / c.nominal + k * td;
+    const sampleRate = (200 * 1.0137) / period;
+    const ownRise = (rise / c.nominal + td * (1 + 1 / r)) / period;
+    const top = opts.swingGrows ? 3 + ((6 * c.nominal) / rise) * td : 3;
+    const bottom = opts.swingGrows ? -3 - ((6 * c.nominal) / (1 - rise)) * td : -3;
+    return {
+      triangle: synthesize({ shape: 'triangle', frequency: 1 / period, amplitude: (top - bottom) / 2, offset: (top + bottom) / 2, riseFraction: ownRise, sampleRate, samples: 200 * 30, noise: 0.006, seed: opts.seeds[0] }),
+      pulse: synthesize({ shape: 'pulse', frequency: 1 / period, amplitude: 5, duty: ownRise, sampleRate, samples: 200 * 30, noise: 0.012, edge: { tau: 1.5e-6 }, seed: opts.seeds[1] }),
+    };
+  };
 }
