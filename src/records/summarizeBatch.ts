@@ -4,7 +4,7 @@
  * e-Handbook §6.1.6). Each unit counts once per quantity, with the value from its latest run, so a
  * re-tested unit does not weigh twice. `since` keeps units whose first run is at or after that time.
  */
-import type { BatchReport, BatchUnit, CheckVerdict, MeasurementStats, SpecBatch, Statement, StoredRun, YieldFigure } from '../types/index.js';
+import type { BatchRemark, BatchReport, BatchUnit, CheckVerdict, MeasurementStats, SpecBatch, Statement, StoredRun, YieldFigure } from '../types/index.js';
 import { capability, describeSample } from './capability.js';
 import { compareSerials } from './unitSummaries.js';
 import { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
@@ -87,7 +87,7 @@ function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number):
     return list.filter((r) => r.id === id);
   });
   const complete = units.filter((u) => u.latestComplete !== undefined);
-  const notes = revisions.length > 1 ? [`runs were checked under ${revisions.length} spec revisions (${revisions.join(', ')})`] : [];
+  const remarks: BatchRemark[] = revisions.length > 1 ? [{ kind: 'several-revisions', revisions }] : [];
   return {
     spec,
     revisions,
@@ -97,7 +97,7 @@ function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number):
     final: yieldOf(complete.map((u) => u.latestComplete ?? u.latest)),
     incomplete: units.filter((u) => u.latestComplete === undefined).map((u) => ({ unit: u.unit, waitingFor: u.waitingFor ?? [] })),
     measurements: measurementStats(latestRuns),
-    notes,
+    remarks,
   };
 }
 
@@ -163,7 +163,7 @@ function statsOf(g: Gathered): MeasurementStats {
     ...sample,
     withheld: g.withheld,
     ...cap,
-    notes: belowU ? [...notesFor(g, sample.count, sample.sd).filter((n) => !n.includes('rough')), spreadNote(sample.sd!, u, limits.unit)] : notesFor(g, sample.count, sample.sd),
+    remarks: belowU ? [...remarksFor(g, sample.count, sample.sd).filter((r) => r.kind !== 'few-units'), { kind: 'spread-below-u', sd: sample.sd!, u }] : remarksFor(g, sample.count, sample.sd),
     values,
   };
 }
@@ -174,20 +174,15 @@ function medianOf(xs: readonly number[]): number {
   return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 }
 
-function spreadNote(sd: number, u: number, unit: string): string {
-  const q = (x: number): string => `${Number(x.toPrecision(2))}${unit ? ` ${unit}` : ''}`;
-  return `spread between units (s = ${q(sd)}) below the measurement's standard uncertainty (u = ${q(u)}): no Cp/Cpk, they would describe the measurement, not the units`;
-}
-
-function notesFor(g: Gathered, count: number, sd: number | null): string[] {
-  const notes: string[] = [];
+function remarksFor(g: Gathered, count: number, sd: number | null): BatchRemark[] {
+  const remarks: BatchRemark[] = [];
   const { lower, upper } = g.limits;
-  if (g.withheld > 0) notes.push(`${g.withheld} unit(s) not measured, left out`);
-  if (count < 2) notes.push('needs at least two measured units for a spread; no Cp/Cpk');
-  else if (sd === 0) notes.push('all values equal: no spread, so Cp/Cpk are not defined');
-  else if (lower === null && upper === null) notes.push('no tolerance limits in the spec; no Cp/Cpk');
-  else if (lower === null || upper === null) notes.push('one-sided tolerance: Cpk from that side only, no Cp');
-  if (count >= 2 && count < ROUGH_BELOW_UNITS) notes.push(`only ${count} units: Cp/Cpk are rough estimates`);
-  if (g.limitsDiffer) notes.push('limits differ between spec revisions; the newest are used');
-  return notes;
+  if (g.withheld > 0) remarks.push({ kind: 'withheld', units: g.withheld });
+  if (count < 2) remarks.push({ kind: 'too-few-units' });
+  else if (sd === 0) remarks.push({ kind: 'no-spread' });
+  else if (lower === null && upper === null) remarks.push({ kind: 'no-limits' });
+  else if (lower === null || upper === null) remarks.push({ kind: 'one-sided' });
+  if (count >= 2 && count < ROUGH_BELOW_UNITS) remarks.push({ kind: 'few-units', units: count });
+  if (g.limitsDiffer) remarks.push({ kind: 'limits-differ' });
+  return remarks;
 }

@@ -9,6 +9,7 @@
 import type { BatchReport } from '../types/index.js';
 import { measurementLabel } from '../types/index.js';
 import { csvText } from './escapeText.js';
+import { measurementNotes } from './batchRemarks.js';
 
 export const BATCH_CSV_COLUMNS = [
   'spec', 'condition', 'output', 'measurement', 'unit', 'count', 'withheld', 'mean', 'sd', 'min', 'max',
@@ -30,7 +31,7 @@ export function renderBatchCsv(batch: BatchReport): string {
           text(s.spec), text(m.condition), text(m.output), text(m.measurement), text(m.unit),
           String(m.count), String(m.withheld), num(m.mean), num(m.sd), num(m.min), num(m.max),
           num(m.lower), num(m.upper), num(m.nominal), num(m.cp), num(m.cpk),
-          String(s.units.length), num(s.firstPass.fraction), num(s.final.fraction), text(m.notes.join('; ')),
+          String(s.units.length), num(s.firstPass.fraction), num(s.final.fraction), text(measurementNotes(m).join('; ')),
           // Added columns go last but one, so readers of the earlier layout keep their positions.
           text(measurementLabel(m.measurement)),
           // The store's chain head when the report was made (README "Records"), on every row.

@@ -5,10 +5,11 @@ import { batchFilterText, describeWaiting, describeYield, unitFirst, unitLatest 
 import { esc, facts, htmlPage, numCell, statusHtml, table } from './htmlPage.js';
 import { renderHistogramSvg } from './svgHistogram.js';
 import { formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './reportNumbers.js';
+import { batchRemarkWords, measurementNotes } from './batchRemarks.js';
 
 function statsRow(s: SpecBatch, m: MeasurementStats): string {
   const attrs = `data-spec="${esc(s.spec)}" data-condition="${esc(m.condition)}" data-output="${esc(m.output)}" data-measurement="${esc(m.measurement)}"`;
-  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatStat(m.mean, m.unit, scaleOf(m)))}${numCell(m.sd, formatStat(m.sd, m.unit, scaleOf(m), 3))}${numCell(m.min, formatStat(m.min, m.unit, scaleOf(m)))}${numCell(m.max, formatStat(m.max, m.unit, scaleOf(m)))}${numCell(m.lower, formatStat(m.lower, m.unit, scaleOf(m)))}${numCell(m.upper, formatStat(m.upper, m.unit, scaleOf(m)))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}</tr>${m.notes.length ? `<tr class="stat-notes"><td></td><td colspan="11" class="note">${esc(m.notes.join('; '))}</td></tr>` : ''}`;
+  return `<tr ${attrs}><td>${esc(m.condition)}</td><td>${esc(m.output)}</td><td>${esc(measurementLabel(m.measurement))}</td>${numCell(m.count, String(m.count))}${numCell(m.mean, formatStat(m.mean, m.unit, scaleOf(m)))}${numCell(m.sd, formatStat(m.sd, m.unit, scaleOf(m), 3))}${numCell(m.min, formatStat(m.min, m.unit, scaleOf(m)))}${numCell(m.max, formatStat(m.max, m.unit, scaleOf(m)))}${numCell(m.lower, formatStat(m.lower, m.unit, scaleOf(m)))}${numCell(m.upper, formatStat(m.upper, m.unit, scaleOf(m)))}${numCell(m.cp, formatIndex(m.cp))}${numCell(m.cpk, formatIndex(m.cpk))}</tr>${m.remarks.length ? `<tr class="stat-notes"><td></td><td colspan="11" class="note">${esc(measurementNotes(m).join('; '))}</td></tr>` : ''}`;
 }
 
 function specSection(s: SpecBatch): string {
@@ -30,7 +31,7 @@ function specSection(s: SpecBatch): string {
     ['first-pass yield', esc(describeYield(s.firstPass))],
     ['final yield', esc(describeYield(s.final))],
     ...(s.incomplete?.length ? [['still waiting (in neither yield)', esc(describeWaiting(s))] as const] : []),
-    ...s.notes.map((n) => ['note', esc(n)] as const),
+    ...s.remarks.map((r) => ['note', esc(batchRemarkWords(r))] as const),
   ])}<h3>Units</h3>${units}<h3>Measurements</h3><div class="wide-print"><p class="note">One value per unit, from its latest complete attempt. Cp and Cpk as in the NIST/SEMATECH e-Handbook §6.1.6.</p>${stats}</div><h3>Histograms</h3><div class="plots">${hists}</div></section>`;
 }
 

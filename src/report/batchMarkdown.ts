@@ -3,6 +3,7 @@ import type { BatchReport, BatchUnit, SpecBatch, YieldFigure } from '../types/in
 import { INCOMPLETE_WORD, STATEMENT_WORDS } from '../types/index.js';
 import { md, mdTable, sourceLine } from './recordMarkdown.js';
 import { formatFraction, formatIndex, formatStat, formatTime, measurementLabel, scaleOf } from './reportNumbers.js';
+import { batchRemarkWords, measurementNotes } from './batchRemarks.js';
 
 export function describeYield(y: YieldFigure): string {
   const cond = y.conditional ? `, ${y.conditional} of them ${STATEMENT_WORDS['conditional-pass']}` : '';
@@ -37,7 +38,7 @@ function specBlock(s: SpecBatch): string {
   const rows = s.measurements.map((m) => [
     md(m.condition), md(m.output), md(measurementLabel(m.measurement)), String(m.count),
     md(formatStat(m.mean, m.unit, scaleOf(m))), md(formatStat(m.sd, m.unit, scaleOf(m), 3)), md(formatStat(m.min, m.unit, scaleOf(m))), md(formatStat(m.max, m.unit, scaleOf(m))),
-    md(formatStat(m.lower, m.unit, scaleOf(m))), md(formatStat(m.upper, m.unit, scaleOf(m))), formatIndex(m.cp), formatIndex(m.cpk), md(m.notes.join('; ')),
+    md(formatStat(m.lower, m.unit, scaleOf(m))), md(formatStat(m.upper, m.unit, scaleOf(m))), formatIndex(m.cp), formatIndex(m.cpk), md(measurementNotes(m).join('; ')),
   ]);
   return [
     `## ${md(s.spec)}`,
@@ -45,7 +46,7 @@ function specBlock(s: SpecBatch): string {
     `- first-pass yield: ${describeYield(s.firstPass)}`,
     `- final yield: ${describeYield(s.final)}`,
     ...(s.incomplete?.length ? [`- still waiting (in neither yield): ${md(describeWaiting(s))}`] : []),
-    ...s.notes.map((n) => `- note: ${md(n)}`),
+    ...s.remarks.map((r) => `- note: ${md(batchRemarkWords(r))}`),
     '',
     '### Units',
     '',

@@ -5,6 +5,7 @@
  */
 import type { BatchReport, UnitRecord } from '../types/index.js';
 import { measurementLabelsOf } from '../types/index.js';
+import { batchRemarkWords, measurementNotes } from './batchRemarks.js';
 
 export function renderRecordJson(rec: UnitRecord): string {
   const labels = measurementLabelsOf(rec.runs.flatMap((r) => r.verdict.conditions.flatMap((c) => c.checks.map((k) => k.measurement))));
@@ -13,5 +14,7 @@ export function renderRecordJson(rec: UnitRecord): string {
 
 export function renderBatchJson(batch: BatchReport): string {
   const labels = measurementLabelsOf(batch.specs.flatMap((s) => s.measurements.map((m) => m.measurement)));
-  return `${JSON.stringify({ ...batch, labels }, null, 2)}\n`;
+  // The remarks as data and, beside them, in words (`notes`), as the text reports give them.
+  const specs = batch.specs.map((s) => ({ ...s, notes: s.remarks.map((r) => batchRemarkWords(r)), measurements: s.measurements.map((m) => ({ ...m, notes: measurementNotes(m) })) }));
+  return `${JSON.stringify({ ...batch, specs, labels }, null, 2)}\n`;
 }

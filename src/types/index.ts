@@ -53,6 +53,7 @@ export type {
   Capability,
   DocumentSource,
   MeasurementStats,
+  BatchRemark,
   NewCapture,
   NewRun,
   RunKind,

@@ -180,6 +180,23 @@ export interface Capability {
   readonly cpk: number | null;
 }
 
+/**
+ * Why a batch figure is missing or rough, from a closed list (report/batchRemarks.ts words them):
+ * values withheld; fewer than two units; no spread; no limits or one limit; few units; limits that
+ * differ between revisions; a spread below the measurement's standard uncertainty (s and u in the
+ * quantity's unit); runs under several spec revisions.
+ */
+export type BatchRemark =
+  | { readonly kind: 'withheld'; readonly units: number }
+  | { readonly kind: 'too-few-units' }
+  | { readonly kind: 'no-spread' }
+  | { readonly kind: 'no-limits' }
+  | { readonly kind: 'one-sided' }
+  | { readonly kind: 'few-units'; readonly units: number }
+  | { readonly kind: 'limits-differ' }
+  | { readonly kind: 'spread-below-u'; readonly sd: number; readonly u: number }
+  | { readonly kind: 'several-revisions'; readonly revisions: readonly string[] };
+
 /** Statistics of one checked quantity across the units of a batch (one value per unit). */
 export interface MeasurementStats extends Capability {
   readonly condition: string;
@@ -198,8 +215,8 @@ export interface MeasurementStats extends Capability {
   readonly sd: number | null;
   readonly min: number | null;
   readonly max: number | null;
-  /** Why a figure is missing or rough, in words. */
-  readonly notes: readonly string[];
+  /** Why a figure is missing or rough, as data (report words them). */
+  readonly remarks: readonly BatchRemark[];
   /** The values behind the figures, for histograms and spreadsheets. */
   readonly values: readonly { readonly unit: string; readonly value: number; readonly runId: number }[];
 }
@@ -241,7 +258,8 @@ export interface SpecBatch {
   /** Units with no complete attempt yet, with the conditions each waits for; left out of both yields. */
   readonly incomplete?: readonly { readonly unit: string; readonly waitingFor: readonly string[] }[];
   readonly measurements: readonly MeasurementStats[];
-  readonly notes: readonly string[];
+  /** About the batch as a whole, as data (report words them). */
+  readonly remarks: readonly BatchRemark[];
 }
 
 export interface BatchReport {

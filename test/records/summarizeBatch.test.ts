@@ -59,7 +59,7 @@ describe('summarizeBatch', () => {
     const [lsl, usl] = [261.63 * 0.98, 261.63 * 1.02];
     expectWithin(mid.cp, (usl - lsl) / (6 * sd), { rel: 1e-9 }, 'NIST/SEMATECH e-Handbook §6.1.6 Cp formula');
     expectWithin(mid.cpk, Math.min(usl - mean, mean - lsl) / (3 * sd), { rel: 1e-9 }, 'NIST/SEMATECH e-Handbook §6.1.6 Cpk formula');
-    expect(mid.notes).toContain('only 4 units: Cp/Cpk are rough estimates');
+    expect(mid.remarks).toContainEqual({ kind: 'few-units', units: 4 });
   });
 
   it('leaves out units first tested before --since, even when re-tested after it', () => {
@@ -77,6 +77,6 @@ describe('summarizeBatch', () => {
     const [spec] = summarizeBatch(runs).specs;
     const ptp = spec.measurements.find((m) => m.condition === 'low' && m.measurement === 'peakToPeak')!;
     expect([ptp.sd, ptp.cp, ptp.cpk]).toEqual([0, null, null]);
-    expect(ptp.notes).toContain('all values equal: no spread, so Cp/Cpk are not defined');
+    expect(ptp.remarks).toContainEqual({ kind: 'no-spread' });
   });
 });
