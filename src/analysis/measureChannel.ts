@@ -82,9 +82,8 @@ export function measureChannel(samples: Float64Array, dt: number, options: Chann
   };
   const family = levels ? shapeResults(shape, { samples, dt, crossings: c, levels, noise, unit, riseShare: evidence.riseShare }) : null;
   Object.assign(results, family?.results ?? withheldFamily(shape));
-  const flats = flatTops(samples, { noise, span, range, ...(options.fullScale ? { fullScale: options.fullScale } : {}) })
-    // A square's or pulse's flat states are its shape; only the scope's clipping counts there.
-    .filter((f) => f.cause === 'scope-range' || !isTwoState(shape));
+  // A square's or pulse's flat states are its shape; only the scope's clipping counts there.
+  const flats = flatTops(samples, { noise, span, range, scopeRangeOnly: isTwoState(shape), ...(options.fullScale ? { fullScale: options.fullScale } : {}) });
   const scope = flats.filter((f) => f.cause === 'scope-range');
   const warnings = [...aliasingWarning(fit, dt), ...flatWarnings(flats, unit)];
   return {

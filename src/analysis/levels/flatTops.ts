@@ -52,10 +52,15 @@ export interface FlatTopOptions {
   readonly fullScale?: { readonly low: number; readonly high: number };
   /** The record's extremes, when the caller has them (saves a pass). */
   readonly range?: { readonly min: number; readonly max: number };
+  /**
+   * Only the scope's clipping is wanted (a square's or pulse's flat states are its shape): a side
+   * whose level is not at full scale is not searched, as its runs could only be the circuit's.
+   */
+  readonly scopeRangeOnly?: boolean;
 }
 
 export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTop[] {
-  const { noise, span, fullScale } = options;
+  const { noise, span, fullScale, scopeRangeOnly = false } = options;
   const { min, max } = options.range ?? extremes(samples);
   if (!(max > min) || !(span > 0)) return [];
   const out: FlatTop[] = [];
@@ -72,6 +77,7 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
     const q = stepAt(samples, level, -dir, equal);
     // A converter end code is the scope's edge whatever the preamble states (it may be misread).
     const from = (fullScale ? statedEdge(side, level, fullScale) : null) ?? fullScaleOf(extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min);
+    if (from === null && scopeRangeOnly) continue;
     const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
     const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
     // At full scale any flat run is the screen's edge, whatever the shape; inside it, rules 2 and 3 apply.
@@ -116,6 +122,7 @@ interface Side {
 /** Samples (and their sum) in runs at `level` that pass rules 1 to 3 at the given scales. */
 function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, span: number, judge: boolean): { count: number; sum: number } {
   const side: Side = { level, dir };
+  const scratch = { values: new Float64Array(0) };
   // Too coarse to follow a ramp over 4d within half the span: rule 3 cannot be judged.
   if (judge && !(4 * sc.d <= span / 2 && sc.unit > 0)) return { count: 0, sum: 0 };
   let count = 0;
@@ -140,7 +147,7 @@ function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, sp
       if (!dwellsLonger(x, a, i, side, 4 * sc.unit)) continue;
       if (!cutsRamp(x, a - 1, -1, side, sc.d) && !cutsRamp(x, i, 1, side, sc.d)) continue;
     }
-    const core = flatCore(x, a, i, band / 2);
+    const core = flatCore(x, a, i, band / 2, scratch);
     count += core.count;
     sum += core.sum;
   }
@@ -151,9 +158,11 @@ function flatSamples(x: Float64Array, level: number, dir: 1 | -1, sc: Scales, sp
  * The run's samples within `half` of its median: the flat itself, without the ends of the ramps that
  * lie inside the band (noise on a flat spreads ±3σ = half the band around its level).
  */
-function flatCore(x: Float64Array, a: number, b: number, half: number): { count: number; sum: number } {
-  const sorted = x.slice(a, b).sort();
-  const median = sorted[sorted.length >> 1];
+function flatCore(x: Float64Array, a: number, b: number, half: number, scratch: { values: Float64Array }): { count: number; sum: number } {
+  // The median by selection in a buffer kept across runs: sorting a copy of every run (tens of
+  // thousands of samples on each state of a square) cost more than the rest of the search.
+  if (scratch.values.length < b - a) scratch.values = new Float64Array(Math.max(b - a, 2 * scratch.values.length));
+  const median = selectInPlace(scratch.values, x, a, b, (b - a) >> 1);
   let count = 0;
   let sum = 0;
   for (let j = a; j < b; j++) {
@@ -162,6 +171,38 @@ function flatCore(x: Float64Array, a: number, b: number, half: number): { count:
     sum += x[j];
   }
   return { count, sum };
+}
+
+/**
+ * The k-th smallest of x[a…b) (the value a sort would put at index k), by Hoare's selection
+ * (C. A. R. Hoare, "Algorithm 65: Find", CACM 4(7), 1961) on a copy in `work`; x holds no NaN here
+ * (every run sample lies within its band).
+ */
+function selectInPlace(work: Float64Array, x: Float64Array, a: number, b: number, k: number): number {
+  const n = b - a;
+  for (let i = 0; i < n; i++) work[i] = x[a + i];
+  let lo = 0;
+  let hi = n - 1;
+  while (hi > lo) {
+    const pivot = work[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (work[i] < pivot) i++;
+      while (work[j] > pivot) j--;
+      if (i <= j) {
+        const t = work[i];
+        work[i] = work[j];
+        work[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return work[k];
 }
 
 function cutsRamp(x: Float64Array, from: number, by: number, side: Side, d: number): boolean {

@@ -12,7 +12,7 @@
  * w[0] = 6·10⁻⁵ sets a 6 dB/octave tail: 6·10⁻⁵/(π·256·a₀)).
  */
 import { at, envelopeCholeskySolve, envelopeOf, type Envelope } from '../fits/envelopeCholesky.js';
-import { frameKernel, type SpectralFrame } from './spectralFrame.js';
+import { frameKernelInto, type SpectralFrame } from './spectralFrame.js';
 
 const COUPLING_BINS = 256;
 /**
@@ -81,6 +81,9 @@ function layout(frame: SpectralFrame, fundamental: number, count: number): Layou
   return { spacing, count, far: COUPLING_BINS * perWindowBin, near, unknowns: 2 * count + 1, bins };
 }
 
+/** Scratch for rowAt's two window kernels (re, im each); rowAt is not re-entered. */
+const KERNEL = new Float64Array(4);
+
 /** Column of the first unknown of harmonic g (DC has one, the others two). */
 const columnOf = (g: number): number => (g === 0 ? 0 : 2 * g - 1);
 
@@ -115,19 +118,24 @@ function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array):
     const p = g * spacing;
     const nearImage = Math.min(Math.abs(k + p), Math.abs(size - k - p));
     if (Math.abs(k - p) > reach && nearImage > reach) continue;
-    const wm = frameKernel(frame, k - p);
+    // W(k − p) in kernel[0…1], W(k + p) in kernel[2…3] (zero when its image is too far to couple).
+    const kernel = KERNEL;
+    frameKernelInto(frame, k - p, kernel, 0);
     const u = columnOf(g) - first;
     if (g === 0) {
-      row[2 * u] = wm.re;
-      row[2 * u + 1] = wm.im;
+      row[2 * u] = kernel[0];
+      row[2 * u + 1] = kernel[1];
       continue;
     }
-    const wp = nearImage > reach ? { re: 0, im: 0 } : frameKernel(frame, k + p);
+    if (nearImage > reach) {
+      kernel[2] = 0;
+      kernel[3] = 0;
+    } else frameKernelInto(frame, k + p, kernel, 2);
     // ½c·W(k−p) + ½c̄·W(k+p) with c = a + ib: coefficient of a is (Wm + Wp)/2, of b is i(Wm − Wp)/2.
-    row[2 * u] = (wm.re + wp.re) / 2;
-    row[2 * u + 1] = (wm.im + wp.im) / 2;
-    row[2 * u + 2] = -(wm.im - wp.im) / 2;
-    row[2 * u + 3] = (wm.re - wp.re) / 2;
+    row[2 * u] = (kernel[0] + kernel[2]) / 2;
+    row[2 * u + 1] = (kernel[1] + kernel[3]) / 2;
+    row[2 * u + 2] = -(kernel[1] - kernel[3]) / 2;
+    row[2 * u + 3] = (kernel[0] - kernel[2]) / 2;
   }
   return { first, width };
 }

@@ -5,7 +5,7 @@
  * The span's mean is removed first so a large offset does not leak into low harmonics.
  */
 import { nextPowerOfTwo, spectrumInPlace, type HalfSpectrum } from './spectrum.js';
-import { mainLobeHalfWidth, windowKernel, windowSamples, type Complex, type WindowKind } from './windows.js';
+import { applyWindow, mainLobeHalfWidth, windowKernel, windowKernelInto, type Complex, type WindowKind } from './windows.js';
 
 export interface SpectralFrame {
   readonly spectrum: HalfSpectrum;
@@ -52,21 +52,10 @@ export function buildFrame(
   let mean = 0;
   for (let i = 0; i < length; i++) mean += span[i];
   mean /= length;
-  // The window is written into the transform buffer, multiplied in place and transformed in place:
-  // one large array per frame, none when the caller lends one.
+  // The windowed span is written into the transform buffer and transformed in place: one large
+  // array per frame, none when the caller lends one.
   const padded = buffer === undefined ? new Float64Array(size + 2) : buffer.subarray(0, size + 2).fill(0, length, size);
-  windowSamples(window, length, padded);
-  let s1 = 0;
-  let s2 = 0;
-  let ss = 0;
-  for (let i = 0; i < length; i++) {
-    const v = span[i] - mean;
-    const w = padded[i];
-    ss += v * v;
-    s1 += w;
-    s2 += w * w;
-    padded[i] = v * w;
-  }
+  const { s1, s2, squares: ss } = applyWindow(window, span, mean, padded);
   return {
     spectrum: spectrumInPlace(padded, size),
     sampleRate,
@@ -90,4 +79,9 @@ export function frameBufferLength(length: number): number {
 /** W at an offset of `bins` DFT bins from a component. */
 export function frameKernel(frame: SpectralFrame, bins: number): Complex {
   return windowKernel(frame.window, frame.length, (2 * Math.PI * bins) / frame.spectrum.size);
+}
+
+/** frameKernel written into out[at] (re) and out[at + 1] (im): no object per call, for the fit's loops. */
+export function frameKernelInto(frame: SpectralFrame, bins: number, out: Float64Array, at: number): void {
+  windowKernelInto(frame.window, frame.length, (2 * Math.PI * bins) / frame.spectrum.size, out, at);
 }

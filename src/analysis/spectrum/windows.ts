@@ -51,16 +51,44 @@ export function windowSamples(kind: WindowKind, length: number, out?: Float64Arr
   if (!Number.isInteger(length) || length < 1) throw new RangeError(`windowSamples: length must be a positive integer, got ${length}`);
   if (out !== undefined && out.length < length) throw new RangeError(`windowSamples: out holds ${out.length} < ${length}`);
   const w = out ?? new Float64Array(length);
+  windowPass(kind, length, null, 0, w);
+  return w;
+}
+
+/** Σw, Σw² and Σ(x − mean)² of a windowed span (applyWindow). */
+export interface WindowSums {
+  readonly s1: number;
+  readonly s2: number;
+  readonly squares: number;
+}
+
+/**
+ * (span[i] − mean)·w[i] into out[0…L), L = span.length, with the same window values as
+ * windowSamples, computed in the same pass as the product: one pass over a long span instead of
+ * two (a long span's window costs about as much to write as to apply). `out` may not be `span`.
+ */
+export function applyWindow(kind: WindowKind, span: Float64Array, mean: number, out: Float64Array): WindowSums {
+  const length = span.length;
+  if (length < 1) throw new RangeError('applyWindow: the span is empty');
+  if (out.length < length) throw new RangeError(`applyWindow: out holds ${out.length} < ${length}`);
+  return windowPass(kind, length, span, mean, out);
+}
+
+/** The one window loop: out[i] = w[i], or (span[i] − mean)·w[i] when a span is given. */
+function windowPass(kind: WindowKind, length: number, span: Float64Array | null, mean: number, out: Float64Array): WindowSums {
   const a = COEFFICIENTS[kind];
-  const signed = a.map((v, j) => (j % 2 === 1 ? -v : v));
+  const signed = Float64Array.from(a, (v, j) => (j % 2 === 1 ? -v : v));
   const terms = signed.length;
   const step = (2 * Math.PI) / length;
   const cd = Math.cos(step);
   const sd = Math.sin(step);
   const half = Math.floor(length / 2);
+  let s1 = 0;
+  let s2 = 0;
+  let squares = 0;
   for (let block = 0; block <= half; block += RECURRENCE_BLOCK) {
     let c1 = Math.cos(step * block);
-    let s1 = Math.sin(step * block);
+    let s = Math.sin(step * block);
     const stop = Math.min(block + RECURRENCE_BLOCK, half + 1);
     for (let i = block; i < stop; i++) {
       // cos(jx) by the Chebyshev recurrence cos(jx) = 2cos(x)·cos((j−1)x) − cos((j−2)x).
@@ -73,14 +101,25 @@ export function windowSamples(kind: WindowKind, length: number, out?: Float64Arr
         prev = cur;
         cur = next;
       }
-      w[i] = v;
-      if (i > 0) w[length - i] = v;
-      const c = c1 * cd - s1 * sd;
-      s1 = s1 * cd + c1 * sd;
+      const d = span === null ? 1 : span[i] - mean;
+      out[i] = span === null ? v : d * v;
+      s1 += v;
+      s2 += v * v;
+      squares += d * d;
+      const m = length - i;
+      if (i > 0 && m !== i) {
+        const e = span === null ? 1 : span[m] - mean;
+        out[m] = span === null ? v : e * v;
+        s1 += v;
+        s2 += v * v;
+        squares += e * e;
+      }
+      const c = c1 * cd - s * sd;
+      s = s * cd + c1 * sd;
       c1 = c;
     }
   }
-  return w;
+  return { s1, s2, squares };
 }
 
 export interface Complex {
@@ -105,24 +144,41 @@ function dirichlet(length: number, phi: number): Complex {
  * e^(−iφ(L−1)/2) (up to e^(±iπj(L−1)/L)), so one evaluation costs a few sines, not 4 per term.
  */
 export function windowKernel(kind: WindowKind, length: number, theta: number): Complex {
+  const out = new Float64Array(2);
+  windowKernelInto(kind, length, theta, out, 0);
+  return { re: out[0], im: out[1] };
+}
+
+/**
+ * windowKernel written into out[at] (re) and out[at + 1] (im), for loops that evaluate it for every
+ * fitted bin: no object per call. sin((φ ∓ jΔ)/2) comes from sin(φ/2) and cos(φ/2) by the angle
+ * sum with cos(jΔ/2) and sin(jΔ/2) kept per length, two sines for all the terms; near a zero of
+ * one of them (|φ ∓ jΔ| ≲ 2e-9) its absolute error, a few 1e-17 for the small φ of a fitted bin,
+ * is what the direct difference φ − jΔ carries too.
+ */
+export function windowKernelInto(kind: WindowKind, length: number, theta: number, out: Float64Array, at: number): void {
   const a = COEFFICIENTS[kind];
   const twoPi = 2 * Math.PI;
   let phi = theta - twoPi * Math.round(theta / twoPi);
   if (phi <= -Math.PI) phi += twoPi;
-  const step = twoPi / length;
-  const { cos, sin } = phaseTerms(kind, length);
+  const t = phaseTerms(kind, length);
+  const sh = Math.sin(phi / 2);
+  const ch = Math.cos(phi / 2);
   let sumRe = 0;
   let sumIm = 0;
   for (let j = 0; j < a.length; j++) {
-    const sm = Math.sin((phi - j * step) / 2);
-    const sp = Math.sin((phi + j * step) / 2);
-    if (Math.abs(sm) < 1e-9 || Math.abs(sp) < 1e-9) return kernelByTerms(a, length, phi);
+    const sm = sh * t.halfCos[j] - ch * t.halfSin[j];
+    const sp = sh * t.halfCos[j] + ch * t.halfSin[j];
+    if (Math.abs(sm) < 1e-9 || Math.abs(sp) < 1e-9) {
+      kernelByTerms(a, length, phi, out, at);
+      return;
+    }
     if (j === 0) {
       sumRe += a[0] / sm;
       continue;
     }
-    const c = cos[j];
-    const s = sin[j];
+    const c = t.cos[j];
+    const s = t.sin[j];
     // (a_j/2)·(e^(iψ)/sm + e^(−iψ)/sp); the window's (−1)^j cancels the one from sin(Lφ/2 ∓ πj).
     sumRe += (a[j] / 2) * (c / sm + c / sp);
     sumIm += (a[j] / 2) * (s / sm - s / sp);
@@ -131,32 +187,47 @@ export function windowKernel(kind: WindowKind, length: number, theta: number): C
   const arg = (-phi * (length - 1)) / 2;
   const pr = lead * Math.cos(arg);
   const pi = lead * Math.sin(arg);
-  return { re: pr * sumRe - pi * sumIm, im: pr * sumIm + pi * sumRe };
+  out[at] = pr * sumRe - pi * sumIm;
+  out[at + 1] = pr * sumIm + pi * sumRe;
+}
+
+interface PhaseTerms {
+  readonly kind: WindowKind;
+  readonly length: number;
+  /** cos ψ_j and sin ψ_j, ψ_j = πj(L − 1)/L. */
+  readonly cos: Float64Array;
+  readonly sin: Float64Array;
+  /** cos(jΔ/2) and sin(jΔ/2), Δ = 2π/L. */
+  readonly halfCos: Float64Array;
+  readonly halfSin: Float64Array;
 }
 
 /**
- * cos ψ_j and sin ψ_j, ψ_j = πj(L − 1)/L, for the window's terms: they depend on the length only,
- * while windowKernel is called for every fitted bin of every harmonic (about a third of its sines
- * and cosines). The last length's values are kept, one entry, so a new length replaces them.
+ * The terms of windowKernel that depend on the length only, while it is called for every fitted bin
+ * of every harmonic. The last length's values are kept, one entry, so a new length replaces them.
  */
-let phaseCache: { kind: WindowKind; length: number; cos: Float64Array; sin: Float64Array } | null = null;
+let phaseCache: PhaseTerms | null = null;
 
-function phaseTerms(kind: WindowKind, length: number): { cos: Float64Array; sin: Float64Array } {
+function phaseTerms(kind: WindowKind, length: number): PhaseTerms {
   if (phaseCache !== null && phaseCache.kind === kind && phaseCache.length === length) return phaseCache;
   const terms = COEFFICIENTS[kind].length;
   const cos = new Float64Array(terms);
   const sin = new Float64Array(terms);
-  for (let j = 1; j < terms; j++) {
+  const halfCos = new Float64Array(terms);
+  const halfSin = new Float64Array(terms);
+  for (let j = 0; j < terms; j++) {
     const psi = (Math.PI * j * (length - 1)) / length;
     cos[j] = Math.cos(psi);
     sin[j] = Math.sin(psi);
+    halfCos[j] = Math.cos((Math.PI * j) / length);
+    halfSin[j] = Math.sin((Math.PI * j) / length);
   }
-  phaseCache = { kind, length, cos, sin };
+  phaseCache = { kind, length, cos, sin, halfCos, halfSin };
   return phaseCache;
 }
 
 /** Term-by-term sum of Dirichlet kernels, used where a shifted kernel sits on its peak. */
-function kernelByTerms(a: readonly number[], length: number, theta: number): Complex {
+function kernelByTerms(a: readonly number[], length: number, theta: number, out: Float64Array, at: number): void {
   let re = 0;
   let im = 0;
   for (let j = 0; j < a.length; j++) {
@@ -168,5 +239,6 @@ function kernelByTerms(a: readonly number[], length: number, theta: number): Com
       im += c * d.im;
     }
   }
-  return { re, im };
+  out[at] = re;
+  out[at + 1] = im;
 }
