@@ -22,6 +22,11 @@ export interface AttemptPlacement {
 export function numberRuns(runs: readonly StoredRun[]): StoredRun[] {
   const out: StoredRun[] = [];
   runs.forEach((run, i) => {
+    // A run already numbered so (a listing's light runs: batchRuns.ts) is taken as it is, not copied.
+    if (run.attempt !== undefined && run.number === i + 1) {
+      out.push(run);
+      return;
+    }
     const prev = out[i - 1];
     const placed = run.attempt !== undefined ? { attempt: run.attempt, attemptReason: run.attemptReason } : replay(prev, run);
     out.push({ ...run, ...placed, number: i + 1 });

@@ -16,14 +16,15 @@ import type { Database } from 'better-sqlite3';
 import { createHash } from 'node:crypto';
 import { closeSync, openSync, readSync, statSync } from 'node:fs';
 import { isAbsolute, join, normalize } from 'node:path';
-import { CHAIN_START, chainEntries, chainLink } from './chain.js';
-import type { ChainEntry } from './chain.js';
+import { CHAIN_START, chainEntries, chainLink, entryOf } from './chain.js';
+import type { ChainArray, ChainEntry } from './chain.js';
+import { checkListing } from './listingCheck.js';
 import { readRunDigests } from './readRuns.js';
 import type { DamagedRow, RunDigestRow } from './readRuns.js';
 import type { StoredCalibrationRun } from '../types/index.js';
 import { readCalibrationRows } from './calibrationRead.js';
-import { summaryHolds } from './runSummary.js';
-import type { SummaryRow } from './runSummary.js';
+import { summaryHolds, summaryRowOf } from './runSummary.js';
+import type { SummaryArray, SummaryRow } from './runSummary.js';
 import { readSummaryRows } from './summaryReads.js';
 
 export type AuditProblemKind = 'changed' | 'damaged' | 'missing' | 'unchained' | 'chain-broken' | 'capture-missing' | 'capture-changed';
@@ -74,13 +75,18 @@ export function auditStore(db: Database, dataDir: string, options: AuditOptions 
 /**
  * The listing's verification: the whole chain, every run row's fingerprint against the chain, every
  * summary against its fingerprint (over the run row's own columns) and the chain, and the calibration
- * iterations; the full verdicts are not read. `summaries` are the rows readSummaryRows gives.
+ * iterations; the full verdicts are not read. `chain` and `summaries` are the rows as read (arrays:
+ * chainRows, readSummaryArrays). checkListing (listingCheck.ts) answers whether it all holds without
+ * making objects of the rows; only a store that fails is judged here again, to name each problem.
  */
-export function judgeListing(entries: readonly ChainEntry[], summaries: readonly SummaryRow[], calibrations: StoreRows['calibrations'], runDigests?: RunDigestReader): StoreAudit {
+export function judgeListing(chain: readonly ChainArray[], summaries: readonly SummaryArray[], calibrations: StoreRows['calibrations'], runDigests?: RunDigestReader): StoreAudit {
+  const quick = checkListing(chain, summaries, calibrations);
+  if (quick.holds) return { head: quick.head, chained: chain.length, archived: 0, problems: [] };
+  const rows = summaries.map(summaryRowOf);
   // The run rows as the chain sees them: their fingerprints, not re-hashed here (the summary covers their columns).
-  const runs = summaries.map((r) => ({ id: Number(r.id), unit: String(r.unit), digest: String(r.digest), intact: true, captures: [] }));
-  const audit = judgeStore({ entries, runs: { rows: runs, damaged: [] }, calibrations, summaries });
-  return runDigests ? namedRefingerprints(audit, summaries, runDigests) : audit;
+  const runs = rows.map((r) => ({ id: Number(r.id), unit: String(r.unit), digest: String(r.digest), intact: true, captures: [] }));
+  const audit = judgeStore({ entries: chain.map(entryOf), runs: { rows: runs, damaged: [] }, calibrations, summaries: rows });
+  return runDigests ? namedRefingerprints(audit, rows, runDigests) : audit;
 }
 
 /** The fingerprints the run rows hold now, by run (read only for the few runs a listing found changed). */

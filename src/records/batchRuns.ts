@@ -7,39 +7,49 @@
 import type { StoredRun } from '../types/index.js';
 import type { AuditProblem } from './auditStore.js';
 import { sha256Hex } from './digest.js';
-import { lightRun } from './runSummary.js';
-import type { SummaryRow } from './runSummary.js';
+import { lightRun, S } from './runSummary.js';
+import type { SummaryArray } from './runSummary.js';
 import { statisticRunIds } from './summarizeBatch.js';
 
-export type ChecksReader = (ids: readonly number[]) => ReadonlyMap<number, { readonly checks_json: string }>;
+export type ChecksReader = (ids: readonly number[]) => ReadonlyMap<number, string>;
 
-/** The light runs of every summary that reads (oldest first). */
-export function lightRuns(rows: readonly SummaryRow[]): StoredRun[] {
+/**
+ * The light runs of every summary that reads (oldest first within each unit), each numbered within
+ * its unit's runs here (so numberRuns need not copy it: attempts.ts).
+ */
+export function lightRuns(rows: readonly SummaryArray[]): StoredRun[] {
   const out: StoredRun[] = [];
+  let unit: string | undefined;
+  let number = 0;
   for (const row of rows) {
-    const run = row.state_json === null ? undefined : lightRun(row);
-    if (run) out.push(run);
+    const run = lightRun(row);
+    if (!run) continue;
+    number = run.unit === unit ? number + 1 : 1;
+    unit = run.unit;
+    out.push(Object.assign(run, { number }));
   }
   return out;
 }
 
-export function batchRuns(rows: readonly SummaryRow[], spec: string | undefined, readChecks: ChecksReader): { runs: StoredRun[]; problems: AuditProblem[] } {
-  const scoped = spec === undefined ? rows : rows.filter((r) => r.spec_name === spec);
+export function batchRuns(rows: readonly SummaryArray[], spec: string | undefined, readChecks: ChecksReader): { runs: StoredRun[]; problems: AuditProblem[] } {
+  const scoped = spec === undefined ? rows : rows.filter((r) => String(r[S.specName]) === spec);
   const heads = lightRuns(scoped);
   const wanted = statisticRunIds(heads);
   const checks = readChecks([...wanted]);
   const problems: AuditProblem[] = [];
-  const byId = new Map(scoped.map((r) => [Number(r.id), r]));
+  const byId = new Map<number, SummaryArray>();
+  for (const r of scoped) if (wanted.has(Number(r[S.id]))) byId.set(Number(r[S.id]), r);
   const runs = heads.map((head) => {
     if (!wanted.has(head.id)) return head;
-    const row = byId.get(head.id) as SummaryRow;
+    const row = byId.get(head.id) as SummaryArray;
     const found = checks.get(head.id);
     // The stored SHA-256 compared is the verified summary's, not one read beside the checks.
-    if (!found || sha256Hex(String(found.checks_json)) !== row.checks_sha256) {
+    if (found === undefined || sha256Hex(found) !== row[S.checksSha256]) {
       problems.push({ kind: 'run', id: head.id, unit: head.unit, problem: 'changed', detail: "its summary's checks no longer match the SHA-256 fingerprinted with it" });
       return { ...head, intact: false };
     }
-    return lightRun(row, String(found.checks_json)) ?? { ...head, intact: false };
+    const run = lightRun(row, found);
+    return run ? Object.assign(run, { number: head.number }) : { ...head, intact: false };
   });
   return { runs, problems };
 }

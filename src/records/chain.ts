@@ -44,8 +44,16 @@ export interface ChainEntry {
   readonly link: string;
 }
 
-export function chainEntries(db: Database): ChainEntry[] {
-  // Read as arrays: better-sqlite3's row objects cost several times more to build for a long chain.
-  const rows = db.prepare('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq').raw(true).all() as [number, string, number, string, string][];
-  return rows.map(([seq, kind, row_id, row_digest, link]) => ({ seq, kind, row_id, row_digest, link }));
+/** A chain entry as both engines read it: [seq, kind, row_id, row_digest, link]. */
+export type ChainArray = readonly [number, string, number, string, string];
+
+/** Every entry in order, as arrays (better-sqlite3's row objects cost several times more to build for a long chain). */
+export function chainRows(db: Database): ChainArray[] {
+  return db.prepare('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq').raw(true).all() as ChainArray[];
 }
+
+export function chainEntries(db: Database): ChainEntry[] {
+  return chainRows(db).map(entryOf);
+}
+
+export const entryOf = ([seq, kind, row_id, row_digest, link]: ChainArray): ChainEntry => ({ seq, kind, row_id, row_digest, link });

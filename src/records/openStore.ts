@@ -18,10 +18,10 @@ import type { SaveHooks } from './saveRun.js';
 import { damagedFileError, missingError, noRecordsError, openError, storeError } from './storeErrors.js';
 import { auditStore, auditUnit, judgeListing } from './auditStore.js';
 import type { StoreAudit } from './auditStore.js';
-import { chainEntries, chainHead } from './chain.js';
-import { buildUnitRecord, listUnitsFrom } from './unitSummaries.js';
-import { batchRuns, lightRuns } from './batchRuns.js';
-import { readSummaryChecks, readSummaryHeads, readSummaryRows } from './summaryReads.js';
+import { chainHead, chainRows } from './chain.js';
+import { buildUnitRecord, listUnitsFromRows } from './unitSummaries.js';
+import { batchRuns } from './batchRuns.js';
+import { readSummaryArrays, readSummaryChecks, readSummaryHeads } from './summaryReads.js';
 import { numberRuns, openAttempt } from './attempts.js';
 import type { OpenAttempt } from './attempts.js';
 import { calibratedSerials, readCalibrationRows, readCalibrations, withCalibrations } from './calibrationRead.js';
@@ -209,10 +209,10 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
   // stored texts are hashed as they are), the archived captures of a unit when its runs are read.
   const reads = verifiedReads(label, unverified, {
     listing: () => {
-      const summaries = readSummaryRows(db);
+      const summaries = readSummaryArrays(db);
       const digests = (ids: readonly number[]) =>
         new Map((db.prepare('SELECT id, digest FROM runs WHERE id IN (SELECT value FROM json_each(?))').all(JSON.stringify(ids)) as { id: number; digest: string }[]).map((r) => [r.id, r.digest]));
-      return { audit: judgeListing(chainEntries(db), summaries, readCalibrationRows(db), digests), summaries };
+      return { audit: judgeListing(chainRows(db), summaries, readCalibrationRows(db), digests), summaries };
     },
     rows: () => auditStore(db, dir, { archive: false }),
     full: () => auditStore(db, dir),
@@ -229,7 +229,7 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     saveRun: (run, hooks) => guard(() => saveRun(db, dir, run, hooks)),
     // Each saveRun's transaction nests as a savepoint inside this one: one commit (one sync) for all.
     saveRuns: (runs) => guard(() => db.transaction(() => runs.map((run) => saveRun(db, dir, run))).immediate()),
-    listUnits: (filter = {}) => verified(() => withUnverified(listUnitsFrom(lightRuns(reads.summaryRows()), filter.spec), listingAudit())),
+    listUnits: (filter = {}) => verified(() => withUnverified(listUnitsFromRows(reads.summaryRows(), filter.spec), listingAudit())),
     unitRecord: (serial) => verified(() => withCalibrations(buildUnitRecord(serial, mark(readRuns(db, { unit: serial }))), serial, markCalibrations(readCalibrations(db, serial))), serial),
     runs: (filter) => verified(() => mark(readRuns(db, filter)), filter?.unit ?? 'all-runs'),
     batchRuns: (filter = {}) =>

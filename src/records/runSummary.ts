@@ -119,16 +119,37 @@ export function summaryDigest(row: SummaryHeadRow, verdictSha256: string, checks
  * A test holds it equal to canonicalJson of the same object.
  */
 export function summaryText(row: SummaryHeadRow, verdictSha256: string, checksSha256: string, stateJson: string): string {
-  const q = JSON.stringify;
-  const attempt = typeof row.attempt === 'number' ? `"attempt":${q(row.attempt)},` : '';
-  const reason = typeof row.attempt_reason === 'string' ? `"attemptReason":${q(row.attempt_reason)},` : '';
-  const note = typeof row.note === 'string' ? `"note":${q(row.note)},` : '';
-  const spec = `{"name":${q(String(row.spec_name))},"revision":${q(String(row.spec_revision))},"sha256":${q(String(row.spec_sha256))}}`;
+  return textOf(
+    row.unit, row.kind, row.started_at, row.operator, row.station, row.spec_name, row.spec_revision, row.spec_sha256, row.tool_version, row.statement,
+    row.attempt, row.attempt_reason, row.note, row.digest, verdictSha256, checksSha256, stateJson,
+  );
+}
+
+/**
+ * summaryText of one row of SUMMARY_COLUMNS as read (an array), without making an object of it: the
+ * listing verifies every run's summary this way. Undefined when the run has no summary.
+ */
+export function summaryTextAt(r: readonly unknown[]): string | undefined {
+  if (r[S.summaryDigest] === null || r[S.verdictSha256] === null || r[S.checksSha256] === null || r[S.stateJson] === null) return undefined;
+  return textOf(r[1], r[2], r[3], r[5], r[6], r[7], r[8], r[9], r[10], r[11], r[12], r[13], r[14], r[15], r[16] as string, r[17] as string, r[18] as string);
+}
+
+const q = JSON.stringify;
+
+// One writer for both: the fields in canonicalJson's order (keys sorted), absent attempt columns left out.
+function textOf(
+  unit: unknown, kind: unknown, startedAt: unknown, operator: unknown, station: unknown, specName: unknown, specRevision: unknown, specSha256: unknown,
+  toolVersion: unknown, statement: unknown, attempt: unknown, attemptReason: unknown, note: unknown, digest: unknown, verdictSha256: string, checksSha256: string, stateJson: string,
+): string {
+  const a = typeof attempt === 'number' ? `"attempt":${q(attempt)},` : '';
+  const reason = typeof attemptReason === 'string' ? `"attemptReason":${q(attemptReason)},` : '';
+  const n = typeof note === 'string' ? `"note":${q(note)},` : '';
+  const spec = `{"name":${q(String(specName))},"revision":${q(String(specRevision))},"sha256":${q(String(specSha256))}}`;
   const head =
-    `{${attempt}${reason}"kind":${q(String(row.kind))},${note}"operator":${q(String(row.operator))},"spec":${spec},` +
-    `"startedAt":${q(String(row.started_at))},"statement":${q(String(row.statement))},"station":${q(String(row.station))},` +
-    `"toolVersion":${q(String(row.tool_version))},"unit":${q(String(row.unit))}}`;
-  return `{"checks":${q(checksSha256)},"format":"benchproof-summary-1","head":${head},"run":${q(String(row.digest))},"state":${stateJson},"verdict":${q(verdictSha256)}}`;
+    `{${a}${reason}"kind":${q(String(kind))},${n}"operator":${q(String(operator))},"spec":${spec},` +
+    `"startedAt":${q(String(startedAt))},"statement":${q(String(statement))},"station":${q(String(station))},` +
+    `"toolVersion":${q(String(toolVersion))},"unit":${q(String(unit))}}`;
+  return `{"checks":${q(checksSha256)},"format":"benchproof-summary-1","head":${head},"run":${q(String(digest))},"state":${stateJson},"verdict":${q(verdictSha256)}}`;
 }
 
 /** The object summaryText writes, for the test that holds the two equal. */
@@ -162,39 +183,49 @@ export function summaryHolds(row: SummaryRow): boolean {
 }
 
 /**
- * A verified summary as the run shape that attempts.ts and summarizeBatch read: spec, times,
- * statement, attempt columns, the verdict's condition states, and its checks when `checksJson` is
- * given (else none). Everything else of the verdict (the measurement reports) and the diagnosis are
- * absent, so it is typed through unknown, as runHead does (attempts.ts); it never reaches a report.
+ * A verified summary (a row of SUMMARY_COLUMNS as read) as the run shape that attempts.ts and
+ * summarizeBatch read: spec, times, statement, attempt columns, the verdict's condition states, and
+ * its checks when `checksJson` is given (else none). Everything else of the verdict (the measurement
+ * reports) and the diagnosis are absent, so it is typed through unknown, as runHead does
+ * (attempts.ts); it never reaches a report. Undefined when the row has no state that reads.
  */
-export function lightRun(row: SummaryRow, checksJson?: string): StoredRun | undefined {
+export function lightRun(r: SummaryArray, checksJson?: string): StoredRun | undefined {
+  if (r[S.stateJson] === null) return undefined;
   let state: SummaryState;
   let checks: CompactCheck[] = [];
   try {
-    state = JSON.parse(String(row.state_json)) as SummaryState;
+    state = JSON.parse(String(r[S.stateJson])) as SummaryState;
     if (checksJson !== undefined) checks = JSON.parse(checksJson) as CompactCheck[];
   } catch {
     return undefined;
   }
+  if (state === null || typeof state !== 'object' || !Array.isArray(state.conditions)) return undefined;
   const byCondition = new Map<string, object[]>();
   for (const [condition, output, measurement, unit, value, expandedUncertainty, lower, upper, nominal, guard, margin, statement] of checks) {
-    const list = byCondition.get(condition) ?? [];
-    list.push({ condition, output, measurement, unit, value, expandedUncertainty, lower, upper, nominal, guard, margin, statement });
-    byCondition.set(condition, list);
+    const list = byCondition.get(condition);
+    const check = { condition, output, measurement, unit, value, expandedUncertainty, lower, upper, nominal, guard, margin, statement };
+    if (list) list.push(check);
+    else byCondition.set(condition, [check]);
   }
-  const head = headOf(row);
-  const spec = head.spec as RunSpec;
-  const run = {
-    id: Number(row.id),
-    ...head,
-    storedAt: String(row.stored_at),
+  const unit = String(r[S.unit]);
+  const spec: RunSpec = { name: String(r[S.specName]), revision: String(r[S.specRevision]), sha256: String(r[S.specSha256]) };
+  const run: Record<string, unknown> = {
+    id: Number(r[S.id]),
+    unit,
+    kind: String(r[S.kind]),
+    startedAt: String(r[S.startedAt]),
+    operator: String(r[5]),
+    station: String(r[6]),
     spec,
-    digest: String(row.digest),
+    toolVersion: String(r[10]),
+    statement: String(r[S.statement]),
+    storedAt: String(r[S.storedAt]),
+    digest: String(r[S.digest]),
     intact: true,
     diagnosis: { causes: [] },
     captures: [],
     verdict: {
-      unit: head.unit,
+      unit,
       spec,
       statement: state.statement,
       waitingFor: state.waitingFor,
@@ -203,7 +234,9 @@ export function lightRun(row: SummaryRow, checksJson?: string): StoredRun | unde
       captures: [],
     },
   };
-  for (const k of ['attempt', 'attemptReason', 'note'] as const) if ((run as Record<string, unknown>)[k] === undefined) delete (run as Record<string, unknown>)[k];
+  if (typeof r[S.attempt] === 'number') run.attempt = r[S.attempt];
+  if (typeof r[S.attemptReason] === 'string') run.attemptReason = r[S.attemptReason];
+  if (typeof r[S.note] === 'string') run.note = r[S.note];
   return run as unknown as StoredRun;
 }
 
@@ -217,6 +250,12 @@ export const SUMMARY_COLUMNS = `r.id, r.unit, r.kind, r.started_at, r.stored_at,
   r.spec_sha256, r.tool_version, r.statement, s.attempt, s.attempt_reason, s.note, COALESCE(s.run_digest, r.digest) AS digest,
   s.verdict_sha256, s.checks_sha256, s.state_json, s.digest AS summary_digest`;
 
+/** Positions in a row of SUMMARY_COLUMNS read as an array. */
+export const S = { id: 0, unit: 1, kind: 2, startedAt: 3, storedAt: 4, specName: 7, specRevision: 8, specSha256: 9, statement: 11, attempt: 12, attemptReason: 13, note: 14, digest: 15, verdictSha256: 16, checksSha256: 17, stateJson: 18, summaryDigest: 19 } as const;
+
+/** A row of SUMMARY_COLUMNS as both engines read it: an array of the column values in that order. */
+export type SummaryArray = readonly unknown[];
+
 /** One row of SUMMARY_COLUMNS read as an array (both engines read them so), as an object of one shape. */
 export function summaryRowOf(r: readonly unknown[]): SummaryRow {
   return {
@@ -225,4 +264,12 @@ export function summaryRowOf(r: readonly unknown[]): SummaryRow {
     statement: r[11] as string, attempt: r[12] as number | null, attempt_reason: r[13] as string | null, note: r[14] as string | null, digest: r[15] as string,
     verdict_sha256: r[16] as string | null, checks_sha256: r[17] as string | null, state_json: r[18] as string | null, summary_digest: r[19] as string | null,
   };
+}
+
+/** A row of SUMMARY_COLUMNS read as an object, as the array the listing reads (summaryRowOf's inverse). */
+export function summaryArrayOf(r: SummaryRow): SummaryArray {
+  return [
+    r.id, r.unit, r.kind, r.started_at, r.stored_at, r.operator, r.station, r.spec_name, r.spec_revision, r.spec_sha256, r.tool_version, r.statement,
+    r.attempt ?? null, r.attempt_reason ?? null, r.note ?? null, r.digest, r.verdict_sha256, r.checks_sha256, r.state_json, r.summary_digest,
+  ];
 }

@@ -18,6 +18,15 @@ export interface BatchFilter {
 /** Below this many units a capability index is a rough estimate. Common practice (no source). */
 export const ROUGH_BELOW_UNITS = 30;
 
+/**
+ * Runs by start time, then by number. Start times are ISO 8601 UTC texts of one form
+ * (Date.prototype.toISOString), which sort by time as plain texts; compared by code unit, not by
+ * localeCompare, whose collation gave the same order at several times the cost (50 000 runs sorted).
+ */
+function oldestFirst(a: StoredRun, b: StoredRun): number {
+  return a.startedAt < b.startedAt ? -1 : a.startedAt > b.startedAt ? 1 : a.id - b.id;
+}
+
 const accepted = (s: Statement): boolean => s === 'pass' || s === 'conditional-pass';
 
 export function summarizeBatch(runs: readonly StoredRun[], filter: BatchFilter = {}): BatchReport {
@@ -50,7 +59,7 @@ export function statisticRunIds(runs: readonly StoredRun[]): Set<number> {
   }
   const ids = new Set<number>();
   for (const list of groups.values()) {
-    const ordered = [...list].sort((a, b) => a.startedAt.localeCompare(b.startedAt) || a.id - b.id);
+    const ordered = [...list].sort(oldestFirst);
     const done = summarizeAttempts(numberRuns(ordered)).filter((a) => a.state === 'complete');
     const id = done.length ? done[done.length - 1].runIds.at(-1) : undefined;
     if (id !== undefined) ids.add(id);
@@ -60,7 +69,7 @@ export function statisticRunIds(runs: readonly StoredRun[]): Set<number> {
 
 function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number): SpecBatch {
   const byUnit = new Map<string, StoredRun[]>();
-  const ordered = [...runs].sort((a, b) => a.startedAt.localeCompare(b.startedAt) || a.id - b.id);
+  const ordered = [...runs].sort(oldestFirst);
   for (const r of ordered) byUnit.set(r.unit, [...(byUnit.get(r.unit) ?? []), r]);
   const kept = [...byUnit.entries()].filter(([, list]) => Date.parse(list[0].startedAt) >= since).sort(([a], [b]) => compareSerials(a, b));
   // Yields count attempts, not runs: a unit's first complete attempt decides first-pass, its latest final.
@@ -123,7 +132,7 @@ interface Gathered {
 function measurementStats(latestRuns: readonly StoredRun[]): MeasurementStats[] {
   const byKey = new Map<string, Gathered>();
   // Newest first, so the quantities come in the newest revision's order and its limits are the ones used.
-  const newestFirst = [...latestRuns].sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.id - a.id);
+  const newestFirst = [...latestRuns].sort((a, b) => oldestFirst(b, a));
   for (const run of newestFirst) {
     for (const check of run.verdict.conditions.flatMap((c) => c.checks)) {
       const key = JSON.stringify([check.condition, check.output, check.measurement]);

@@ -1,6 +1,8 @@
 /** The unit listing and the per-unit record, built from stored runs. The latest run decides the status. */
-import type { RunSpec, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
+import type { RunSpec, Statement, StoredRun, UnitRecord, UnitSummary } from '../types/index.js';
 import { attemptFacts, numberRuns, summarizeAttempts } from './attempts.js';
+import { S } from './runSummary.js';
+import type { SummaryArray } from './runSummary.js';
 
 /** Serials in natural order (FK-0099 before FK-0100). */
 export function compareSerials(a: string, b: string): number {
@@ -41,6 +43,99 @@ export function listUnitsFrom(heads: readonly StoredRun[], spec?: string): UnitS
     });
   }
   return out.sort((a, b) => compareSerials(a.unit, b.unit));
+}
+
+/**
+ * listUnitsFrom(lightRuns(rows)) without making a run of each row: the rows as read (arrays of
+ * SUMMARY_COLUMNS, oldest first within a unit), each unit's attempts worked out from the attempt
+ * columns and condition states as numberRuns, summarizeAttempts and attemptFacts work them out. Rows
+ * whose state does not read are left out, as lightRuns leaves them. A test holds the two equal.
+ */
+export function listUnitsFromRows(rows: readonly SummaryArray[], spec?: string): UnitSummary[] {
+  const byUnit = new Map<string, SummaryArray[]>();
+  let unit: string | undefined;
+  let list: SummaryArray[] = [];
+  for (const r of rows) {
+    const u = String(r[S.unit]);
+    if (u !== unit) {
+      unit = u;
+      const found = byUnit.get(u);
+      if (found) list = found;
+      else byUnit.set(u, (list = []));
+    }
+    list.push(r);
+  }
+  const out: UnitSummary[] = [];
+  for (const [name, all] of byUnit) {
+    const states = all.map(stateAt);
+    const runs = all.filter((_, i) => states[i] !== undefined);
+    const kept = states.filter((s): s is RowState => s !== undefined);
+    const scoped = spec === undefined ? runs : runs.filter((r) => String(r[S.specName]) === spec);
+    if (scoped.length === 0) continue;
+    const first = scoped[0];
+    const last = scoped[scoped.length - 1];
+    out.push({
+      unit: name,
+      spec: specAt(last),
+      status: String(last[S.statement]) as Statement,
+      firstStatement: String(first[S.statement]) as Statement,
+      firstTestedAt: String(first[S.startedAt]),
+      lastTestedAt: String(last[S.startedAt]),
+      runs: scoped.length,
+      ...factsOf(runs, kept),
+    });
+  }
+  return out.sort((a, b) => compareSerials(a.unit, b.unit));
+}
+
+/** What a listing needs of a run's summary state: the conditions it still waits for. */
+interface RowState {
+  readonly waitingFor: readonly string[];
+}
+
+/** The state of a row as lightRun reads it (undefined when it does not parse, as lightRun gives none). */
+function stateAt(r: SummaryArray): RowState | undefined {
+  if (r[S.stateJson] === null) return undefined;
+  let state: { waitingFor?: readonly string[]; conditions?: readonly { condition: string }[] };
+  try {
+    state = JSON.parse(String(r[S.stateJson])) as typeof state;
+  } catch {
+    return undefined;
+  }
+  if (state === null || typeof state !== 'object' || !Array.isArray(state.conditions)) return undefined;
+  // waitingConditions (types/verdict.ts) of the light verdict, which holds no captures.
+  return { waitingFor: state.waitingFor ? state.waitingFor : state.conditions.map((c) => c.condition) };
+}
+
+function specAt(r: SummaryArray): RunSpec {
+  return { name: String(r[S.specName]), revision: String(r[S.specRevision]), sha256: String(r[S.specSha256]) };
+}
+
+/** attemptFacts(summarizeAttempts(numberRuns(runs))) over the rows and their states. */
+function factsOf(runs: readonly SummaryArray[], states: readonly RowState[]): ReturnType<typeof attemptFacts> {
+  // Per attempt number, in order of first appearance: its last run's index.
+  const lastOf = new Map<number, number>();
+  let previous: number | undefined;
+  runs.forEach((r, i) => {
+    const stored = r[S.attempt];
+    let attempt: number;
+    if (typeof stored === 'number') attempt = stored;
+    // numberRuns' replay for a run stored before attempts (attempts.ts).
+    else if (previous === undefined) attempt = 1;
+    else if (states[i - 1].waitingFor.length === 0 || String(runs[i - 1][S.specName]) !== String(r[S.specName])) attempt = previous + 1;
+    else attempt = previous;
+    lastOf.set(attempt, i);
+    previous = attempt;
+  });
+  const attempts = [...lastOf.values()];
+  const latest = attempts[attempts.length - 1];
+  const complete = attempts.filter((i) => states[i].waitingFor.length === 0);
+  return {
+    state: states[latest].waitingFor.length ? 'incomplete' : 'complete',
+    waitingFor: states[latest].waitingFor,
+    attempts: attempts.length,
+    ...(complete.length ? { firstComplete: String(runs[complete[0]][S.statement]) as Statement, latestComplete: String(runs[complete[complete.length - 1]][S.statement]) as Statement } : {}),
+  };
 }
 
 /** The record of one unit from its runs (oldest first), or undefined when it has none. */

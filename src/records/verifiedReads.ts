@@ -12,12 +12,12 @@
  */
 import type { StoredCalibrationRun, StoredRun, UnitSummary } from '../types/index.js';
 import type { AuditProblem, StoreAudit } from './auditStore.js';
-import type { SummaryRow } from './runSummary.js';
+import type { SummaryArray } from './runSummary.js';
 import { storeError, unverifiedError } from './storeErrors.js';
 
 export interface AuditSources {
   /** The listing's verification, with the summary rows it read (the listing is built from them). */
-  readonly listing: () => { readonly audit: StoreAudit; readonly summaries: readonly SummaryRow[] };
+  readonly listing: () => { readonly audit: StoreAudit; readonly summaries: readonly SummaryArray[] };
   /** Every run re-hashed against its fingerprint (no archive). */
   readonly rows: () => StoreAudit;
   readonly full: () => StoreAudit;
@@ -36,8 +36,8 @@ export interface VerifiedReads {
   audit(): StoreAudit;
   /** The listing's verification (computed once per open store). */
   listingAudit(): StoreAudit;
-  /** The summary rows the listing verified (read once per open store). */
-  summaryRows(): readonly SummaryRow[];
+  /** The summary rows the listing verified, as read (read once per open store). */
+  summaryRows(): readonly SummaryArray[];
   /** The problems of the scope last verified, to refuse or mark with besides. */
   refuse(problems: readonly AuditProblem[]): void;
   mark(runs: StoredRun[]): StoredRun[];
@@ -53,7 +53,7 @@ export function verifiedReads(label: string, unverified: 'refuse' | 'mark', sour
       throw wrapError(err);
     }
   };
-  let listing: { readonly audit: StoreAudit; readonly summaries: readonly SummaryRow[] } | undefined;
+  let listing: { readonly audit: StoreAudit; readonly summaries: readonly SummaryArray[] } | undefined;
   let rows: StoreAudit | undefined;
   let full: StoreAudit | undefined;
   const units = new Map<string, readonly AuditProblem[]>();

@@ -9,13 +9,14 @@
 import type { StoredCapture } from '../../types/index.js';
 import { assembleCalibrations } from '../calibrationRead.js';
 import type { CalibrationCaptureRow, CalibrationRunRow, IterationRow } from '../calibrationRead.js';
-import type { ChainEntry } from '../chain.js';
+import { entryOf } from '../chain.js';
+import type { ChainArray, ChainEntry } from '../chain.js';
 import { judgeDigestRows, toStoredRun } from '../readRuns.js';
 import type { DamagedRow, DigestRow, RunDigestRow, RunFilter, RunRow } from '../readRuns.js';
 import type { StoredCalibrationRun } from '../../types/index.js';
 import { PgCallError } from './pgSync.js';
 import { SUMMARY_COLUMNS, summaryRowOf } from '../runSummary.js';
-import type { SummaryRow } from '../runSummary.js';
+import type { SummaryArray, SummaryRow } from '../runSummary.js';
 import type { PgSyncClient } from './pgSync.js';
 
 /** Every run's fingerprint checked as readRunDigests does on SQLite (the verdict's fields taken out by jsonb). */
@@ -81,9 +82,13 @@ export function pgReadCalibrationRows(client: PgSyncClient, unit?: string): { ru
   return assembleCalibrations(runs, iterations, captures);
 }
 
+/** Every chain entry in order, as arrays (chainRows on SQLite). */
+export function pgChainRows(client: PgSyncClient): ChainArray[] {
+  return client.queryArrays('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq') as unknown as ChainArray[];
+}
+
 export function pgChainEntries(client: PgSyncClient): ChainEntry[] {
-  const rows = client.queryArrays('SELECT seq, kind, row_id, row_digest, link FROM chain ORDER BY seq') as [number, string, number, string, string][];
-  return rows.map(([seq, kind, row_id, row_digest, link]) => ({ seq, kind, row_id, row_digest, link }));
+  return pgChainRows(client).map(entryOf);
 }
 
 /**
@@ -131,20 +136,24 @@ export function pgRunCaptures(client: PgSyncClient, runId: number): StoredCaptur
   return pgCapturesByRun(client, [runId]).get(runId) ?? [];
 }
 
-/** Every run (or one unit's) with its summary columns, by unit and oldest first, in one query (readSummaryRows on SQLite). */
-export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[] {
-  const rows = client.queryArrays(
+/** Every run (or one unit's) with its summary columns, by unit and oldest first, in one query, as arrays (readSummaryArrays on SQLite). */
+export function pgSummaryArrays(client: PgSyncClient, unit?: string): SummaryArray[] {
+  return client.queryArrays(
     `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = $1'} ORDER BY r.unit, r.started_at, r.id`,
     unit === undefined ? [] : [unit],
   );
-  return rows.map(summaryRowOf);
+}
+
+/** pgSummaryArrays as objects of one shape (the whole-store audit judges them so). */
+export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[] {
+  return pgSummaryArrays(client, unit).map(summaryRowOf);
 }
 
 /** The compact checks of these runs, by run, in one query (their SHA-256 is in the verified summary). */
-export function pgSummaryChecks(client: PgSyncClient, ids: readonly number[]): Map<number, { checks_json: string }> {
-  const out = new Map<number, { checks_json: string }>();
+export function pgSummaryChecks(client: PgSyncClient, ids: readonly number[]): Map<number, string> {
+  const out = new Map<number, string>();
   if (ids.length === 0) return out;
-  const rows = client.query<{ run_id: number; checks_json: string }>('SELECT run_id, checks_json FROM run_summary_checks WHERE run_id = ANY($1::integer[])', [ids]).rows;
-  for (const r of rows) out.set(r.run_id, r);
+  const rows = client.queryArrays('SELECT run_id, checks_json FROM run_summary_checks WHERE run_id = ANY($1::integer[])', [ids]) as [number, unknown][];
+  for (const [id, checks] of rows) out.set(id, String(checks));
   return out;
 }

@@ -18,7 +18,7 @@ import type { HeadRow } from '../attempts.js';
 import { chainLink, CHAIN_START } from '../chain.js';
 import type { ChainKind } from '../chain.js';
 import type { PgSyncClient } from './pgSync.js';
-import { lightRun, SUMMARY_COLUMNS } from '../runSummary.js';
+import { lightRun, SUMMARY_COLUMNS, summaryArrayOf } from '../runSummary.js';
 import type { SummaryRow, SummaryValues } from '../runSummary.js';
 import { archiveName } from '../archive.js';
 import { BenchError } from '../../types/index.js';
@@ -146,7 +146,7 @@ export function pgRunHeads(client: PgSyncClient, unit: string): StoredRun[] {
 export function pgHeadsOf(client: PgSyncClient, unit: string, rows: readonly SummaryRow[]): StoredRun[] {
   const heads: StoredRun[] = [];
   for (const row of rows) {
-    const head = row.state_json === null ? undefined : lightRun(row);
+    const head = lightRun(summaryArrayOf(row));
     if (!head) return pgVerdictHeads(client, unit);
     heads.push(head);
   }

@@ -20,8 +20,8 @@ import { hashFile, judgeListing, judgeStore, judgeUnit } from '../auditStore.js'
 import type { CaptureHasher } from '../auditStore.js';
 import { numberRuns, openAttemptWith } from '../attempts.js';
 import { withCalibrations } from '../calibrationRead.js';
-import { buildUnitRecord, listUnitsFrom } from '../unitSummaries.js';
-import { batchRuns, lightRuns } from '../batchRuns.js';
+import { buildUnitRecord, listUnitsFromRows } from '../unitSummaries.js';
+import { batchRuns } from '../batchRuns.js';
 import { verifiedReads, withUnverified } from '../verifiedReads.js';
 import { isBenchError } from '../../types/index.js';
 import type { StoredCapture } from '../../types/index.js';
@@ -36,11 +36,13 @@ import {
   pgCaptureHashes,
   pgCaptureRecorded,
   pgChainEntries,
+  pgChainRows,
   pgDistinct,
   pgReadCalibrationRows,
   pgReadRunDigests,
   pgRunCaptures,
   pgSpecText,
+  pgSummaryArrays,
   pgSummaryChecks,
   pgSummaryRows,
 } from './pgReads.js';
@@ -136,10 +138,10 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
   const everyRow = () => ({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client), summaries: pgSummaryRows(client) });
   const reads = verifiedReads(shown, unverified, {
     listing: () => {
-      const summaries = pgSummaryRows(client);
+      const summaries = pgSummaryArrays(client);
       const digests = (ids: readonly number[]) =>
         new Map(client.query<{ id: number; digest: string }>('SELECT id, digest FROM runs WHERE id = ANY($1::integer[])', [ids]).rows.map((r) => [r.id, r.digest]));
-      return { audit: judgeListing(pgChainEntries(client), summaries, pgReadCalibrationRows(client), digests), summaries };
+      return { audit: judgeListing(pgChainRows(client), summaries, pgReadCalibrationRows(client), digests), summaries };
     },
     rows: () => judgeStore(everyRow()),
     full: () => {
@@ -168,7 +170,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
         return prepared.map((p) => writeRun(client, p));
       }));
     },
-    listUnits: (filter = {}) => verified(() => withUnverified(listUnitsFrom(lightRuns(reads.summaryRows()), filter.spec), listingAudit())),
+    listUnits: (filter = {}) => verified(() => withUnverified(listUnitsFromRows(reads.summaryRows(), filter.spec), listingAudit())),
     batchRuns: (filter = {}) =>
       verified(() => {
         const read = batchRuns(reads.summaryRows(), filter.spec, (ids) => pgSummaryChecks(client, ids));

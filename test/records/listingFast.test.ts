@@ -1,0 +1,105 @@
+/**
+ * The listing's fast paths (listingCheck.ts, listUnitsFromRows in unitSummaries.ts) hold the same
+ * answers as the object-by-object code they stand in for: the whole-row judgement of auditStore.ts
+ * (judgeStore over the chain entries, run rows and summaries as objects) and listUnitsFrom over
+ * lightRuns. The expected values come from that slower code, which the tampering tests hold to the
+ * rules of chain.ts and runSummary.ts; here each store is tampered with one way at a time, as
+ * someone with the database file could (common practice for tamper evidence, no source).
+ */
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { join } from 'node:path';
+import Database from 'better-sqlite3';
+import type { Database as Db } from 'better-sqlite3';
+import { judgeStore } from '../../src/records/auditStore.js';
+import { chainRows, entryOf } from '../../src/records/chain.js';
+import { checkListing } from '../../src/records/listingCheck.js';
+import { readCalibrationRows } from '../../src/records/calibrationRead.js';
+import { readSummaryArrays } from '../../src/records/summaryReads.js';
+import { summaryRowOf } from '../../src/records/runSummary.js';
+import type { SummaryArray } from '../../src/records/runSummary.js';
+import { lightRuns } from '../../src/records/batchRuns.js';
+import { listUnitsFrom, listUnitsFromRows } from '../../src/records/unitSummaries.js';
+import { day, fillDemoStore } from './helpers/fixtureStore.js';
+import { makeTempDir, removeTempDir } from './helpers/tempData.js';
+
+let root: string;
+beforeEach(() => {
+  root = makeTempDir();
+});
+afterEach(() => removeTempDir(root));
+
+/** The listing's judgement made the slow way: every row an object, judged by judgeStore. */
+function slowProblems(db: Db): number {
+  const chain = chainRows(db);
+  const rows = readSummaryArrays(db).map(summaryRowOf);
+  const runs = rows.map((r) => ({ id: Number(r.id), unit: String(r.unit), digest: String(r.digest), intact: true, captures: [] }));
+  return judgeStore({ entries: chain.map(entryOf), runs: { rows: runs, damaged: [] }, calibrations: readCalibrationRows(db), summaries: rows }).problems.length;
+}
+
+const TAMPERS: Record<string, (db: Db) => void> = {
+  none: () => {},
+  'run statement edited': (db) => db.exec("UPDATE runs SET statement = 'pass' WHERE unit = 'FK-0103'"),
+  'run operator edited': (db) => db.exec("UPDATE runs SET operator = 'someone' WHERE id = 2"),
+  'summary state edited': (db) => db.exec(`UPDATE run_summaries SET state_json = replace(state_json, '"fail"', '"pass"') WHERE run_id = 3`),
+  'summary attempt edited': (db) => db.exec('UPDATE run_summaries SET attempt = 7 WHERE run_id = 1'),
+  'summary deleted': (db) => db.exec('DELETE FROM run_summary_checks WHERE run_id = 4; DELETE FROM run_summaries WHERE run_id = 4'),
+  'run deleted with its summary': (db) =>
+    db.exec('DELETE FROM run_summary_checks WHERE run_id = 2; DELETE FROM run_summaries WHERE run_id = 2; DELETE FROM condition_results WHERE run_id = 2; DELETE FROM checks WHERE run_id = 2; DELETE FROM measurements WHERE run_id = 2; DELETE FROM causes WHERE run_id = 2; DELETE FROM run_captures WHERE run_id = 2; DELETE FROM runs WHERE id = 2'),
+  'chain link edited': (db) => db.exec("UPDATE chain SET link = replace(link, substr(link, 1, 1), 'f') WHERE seq = 3"),
+  'chain entry digest edited': (db) => db.exec("UPDATE chain SET row_digest = '00' || substr(row_digest, 3) WHERE seq = 4"),
+  'last chain entry deleted': (db) => db.exec('DELETE FROM chain WHERE seq = (SELECT MAX(seq) FROM chain)'),
+  'chain entry of a run deleted': (db) => db.exec("DELETE FROM chain WHERE kind = 'run' AND row_id = 5"),
+  'run fingerprint copied from another': (db) => db.exec('UPDATE run_summaries SET run_digest = (SELECT digest FROM runs WHERE id = 1) WHERE run_id = 2'),
+};
+
+describe('the listing verification made without row objects', () => {
+  for (const [name, tamper] of Object.entries(TAMPERS)) {
+    it(`checkListing answers as the object-by-object judgement does when ${name}`, () => {
+      const dir = fillDemoStore(root);
+      const db = new Database(join(dir, 'records.db'));
+      for (const { name: trigger } of db.prepare("SELECT name FROM sqlite_master WHERE type = 'trigger'").all() as { name: string }[]) db.exec(`DROP TRIGGER "${trigger}"`);
+      tamper(db);
+      const quick = checkListing(chainRows(db), readSummaryArrays(db), readCalibrationRows(db));
+      const problems = slowProblems(db);
+      db.close();
+      expect(quick.holds).toBe(problems === 0);
+      expect(quick.holds).toBe(name === 'none');
+    });
+  }
+});
+
+describe('the unit listing made without run objects', () => {
+  it('listUnitsFromRows gives exactly what listUnitsFrom gives over the light runs of the demo store, with and without a spec', () => {
+    const dir = fillDemoStore(root);
+    const db = new Database(join(dir, 'records.db'), { readonly: true });
+    const rows = readSummaryArrays(db);
+    db.close();
+    for (const spec of [undefined, 'FH-210 Kestrel VCO', 'no such spec']) {
+      expect(JSON.stringify(listUnitsFromRows(rows, spec))).toBe(JSON.stringify(listUnitsFrom(lightRuns(rows), spec)));
+    }
+  });
+
+  it('listUnitsFromRows follows numberRuns for any mix of stored and replayed attempts, waiting states and spec names, seeded', () => {
+    const run = fc.record({
+      unit: fc.constantFrom('FK-1', 'FK-2', 'FK-10'),
+      spec: fc.constantFrom('A', 'B'),
+      attempt: fc.option(fc.integer({ min: 1, max: 4 })),
+      waiting: fc.subarray(['low', 'mid', 'high']),
+      statement: fc.constantFrom('pass', 'fail', 'conditional-pass'),
+      unreadable: fc.boolean(),
+    });
+    fc.assert(
+      fc.property(fc.array(run, { maxLength: 14 }), fc.constantFrom(undefined, 'A', 'B'), (runs, spec) => {
+        // Rows as the query gives them: by unit, then oldest first.
+        const sorted = runs.map((r, i) => ({ ...r, i })).sort((a, b) => (a.unit < b.unit ? -1 : a.unit > b.unit ? 1 : a.i - b.i));
+        const rows: SummaryArray[] = sorted.map((r) => {
+          const state = { conditions: ['low', 'mid', 'high'].map((condition) => ({ condition, statement: r.statement })), statement: r.statement, waitingFor: r.waiting };
+          return [r.i + 1, r.unit, 'check', day(1 + r.i), day(1 + r.i), 'op', 'bench', r.spec, 'A', 'f'.repeat(64), '0.1.0', r.statement, r.attempt, r.attempt === null ? null : 'first', null, 'd', 'v', 'c', r.unreadable ? '{not json' : JSON.stringify(state), 's'];
+        });
+        expect(JSON.stringify(listUnitsFromRows(rows, spec))).toBe(JSON.stringify(listUnitsFrom(lightRuns(rows), spec)));
+      }),
+      { numRuns: 300 },
+    );
+  });
+});
