@@ -91,7 +91,7 @@ export async function readCaptureLines(
       targets,
       scales,
       axis,
-      capacity: inPieces ? slotRowsOf(pieces) : source.compressed ? 1 << 16 : estimateRows(lines, sniffed, source.size),
+      capacity: inPieces ? slotRowsOf(pieces) : source.compressed ? 1 << 16 : estimateRows(shortest, sniffed, source.size),
       shared: inPieces,
       leadColumn: x ?? kept[0] ?? 0,
       ...(options.segment !== undefined ? { segment: options.segment } : {}),
@@ -161,10 +161,9 @@ async function gatherSample(chunks: AsyncIterator<Buffer>): Promise<{ sample: Bu
  * Rows the file will hold, so that the columns are allocated once. It errs high: the shortest
  * sniffed row, less its minus signs (later rows may lose theirs: times and levels change sign), sets
  * the bytes per row. Capacity never written costs no memory (the pages are never touched), while
- * a short guess costs a second, larger set of columns and a copy.
+ * a short guess costs a second, larger set of columns and a copy. `shortest` is shortestRowBytes.
  */
-function estimateRows(lines: SampleLines, s: Sniffed, size: number): number {
-  const shortest = shortestRowBytes(lines, s);
+function estimateRows(shortest: number, s: Sniffed, size: number): number {
   return Number.isFinite(shortest) ? Math.ceil((size - s.dataOffset) / shortest) + 16 : 1024;
 }
 
@@ -173,10 +172,16 @@ function shortestRowBytes(lines: SampleLines, s: Sniffed): number {
   const data = lines.lines.filter((l) => l.line >= s.firstDataLine);
   let shortest = Infinity;
   for (let i = 0; i + 1 < data.length; i++) {
-    const bytes = data[i + 1].start - data[i].start - (data[i].text.split('-').length - 1);
+    const bytes = data[i + 1].start - data[i].start - minusSigns(data[i].text);
     if (bytes < shortest) shortest = bytes;
   }
   return Math.max(2, shortest);
+}
+
+function minusSigns(text: string): number {
+  let n = 0;
+  for (let at = text.indexOf('-'); at >= 0; at = text.indexOf('-', at + 1)) n++;
+  return n;
 }
 
 /**

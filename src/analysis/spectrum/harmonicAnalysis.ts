@@ -12,7 +12,7 @@
  */
 import type { WithheldReason } from '../../types/index.js';
 import { fitHarmonics, lobeResidualShare, type HarmonicFit } from './harmonicFit.js';
-import { noiseFloor, type NoiseFloor } from './noiseFloor.js';
+import { noiseFloors, type NoiseFloor } from './noiseFloor.js';
 import type { SpectralFrame } from './spectralFrame.js';
 import { WINDOW_LABELS } from './windows.js';
 
@@ -77,8 +77,8 @@ export function analyseHarmonics(frame: SpectralFrame, fundamental: number, maxH
     const db = (10 * Math.log10(share)).toFixed(1);
     return { ok: false, reason: 'fit-failed', detail: `the spectrum at ${fundamental} Hz is not a steady tone (unexplained ${db} dB of the fundamental's lobe): the frequency drifted or the measured fundamental is off` };
   }
-  const noise = noiseFloor(frame, fundamental, count);
-  const noiseBetweenAll = count === belowNyquist ? noise : noiseFloor(frame, fundamental, belowNyquist);
+  // Both floors in one pass over the bins (they differ only near Nyquist).
+  const [noise, noiseBetweenAll] = noiseFloors(frame, fundamental, count, belowNyquist);
   const sigma = noise === null ? 0 : Math.sqrt((2 * noise.variance * frame.s2) / (frame.s1 * frame.s1));
   const amplitudeSigma = Math.hypot(sigma, FLOOR_DBC * fit.amplitude[1]);
   const set = setWords(reported, count, belowNyquist, wanted);

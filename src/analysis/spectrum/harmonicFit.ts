@@ -49,7 +49,7 @@ export interface HarmonicFit {
   readonly coefficients: Float64Array;
 }
 
-interface Layout {
+interface Coupling {
   /** Harmonic spacing in DFT bins. */
   readonly spacing: number;
   readonly count: number;
@@ -57,13 +57,26 @@ interface Layout {
   readonly far: number;
   readonly near: number;
   readonly unknowns: number;
+}
+
+interface Layout {
+  readonly coupling: Coupling;
+  /** The fitted bins: every main-lobe bin of DC and harmonics 1…count, in order. */
   readonly bins: Int32Array;
 }
 
-function layout(frame: SpectralFrame, fundamental: number, count: number): Layout {
-  const last = frame.spectrum.bins - 1;
+/** The coupling reaches and sizes of the fit, without its list of bins (lobeResidualShare needs no more). */
+function coupling(frame: SpectralFrame, fundamental: number, count: number): Coupling {
   const spacing = fundamental / frame.binWidth;
   const perWindowBin = frame.spectrum.size / frame.length;
+  const near = Math.max(NEAR_BINS * perWindowBin, frame.lobeBins + 1);
+  return { spacing, count, far: COUPLING_BINS * perWindowBin, near, unknowns: 2 * count + 1 };
+}
+
+function layout(frame: SpectralFrame, fundamental: number, count: number): Layout {
+  const reach = coupling(frame, fundamental, count);
+  const last = frame.spectrum.bins - 1;
+  const { spacing } = reach;
   const fitted = new Uint8Array(last + 1);
   let n = 0;
   for (let g = 0; g <= count; g++) {
@@ -77,8 +90,7 @@ function layout(frame: SpectralFrame, fundamental: number, count: number): Layou
   }
   const bins = new Int32Array(n);
   for (let k = 0, i = 0; k <= last; k++) if (fitted[k]) bins[i++] = k;
-  const near = Math.max(NEAR_BINS * perWindowBin, frame.lobeBins + 1);
-  return { spacing, count, far: COUPLING_BINS * perWindowBin, near, unknowns: 2 * count + 1, bins };
+  return { coupling: reach, bins };
 }
 
 /** Scratch for rowAt's two window kernels (re, im each); rowAt is not re-entered. */
@@ -88,7 +100,7 @@ const KERNEL = new Float64Array(4);
 const columnOf = (g: number): number => (g === 0 ? 0 : 2 * g - 1);
 
 /** Harmonics that may couple at bin k: the strong ones within `far`, the rest within `near` (a superset; images included). */
-function harmonicRange(lay: Layout, k: number): { gLo: number; gHi: number } {
+function harmonicRange(lay: Coupling, k: number): { gLo: number; gHi: number } {
   const { spacing, count, far, near } = lay;
   const strongHi = Math.min(count, STRONG, Math.floor((k + far) / spacing));
   const strongLo = Math.max(0, Math.ceil((k - far) / spacing));
@@ -105,7 +117,7 @@ function harmonicRange(lay: Layout, k: number): { gLo: number; gHi: number } {
  * values per unknown), zero where a harmonic is too far to couple. Returns `first` and the number of
  * unknowns written (0 when none couples).
  */
-function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array): { first: number; width: number } {
+function rowAt(frame: SpectralFrame, lay: Coupling, k: number, row: Float64Array): { first: number; width: number } {
   const { spacing } = lay;
   const size = frame.spectrum.size;
   const { gLo, gHi } = harmonicRange(lay, k);
@@ -142,10 +154,10 @@ function rowAt(frame: SpectralFrame, lay: Layout, k: number, row: Float64Array):
 
 /** First column each unknown couples with: over every fitted bin, the lowest unknown in its row. */
 function envelopeFor(lay: Layout): Envelope {
-  const first = new Int32Array(lay.unknowns);
+  const first = new Int32Array(lay.coupling.unknowns);
   for (let i = 0; i < first.length; i++) first[i] = i;
   for (const k of lay.bins) {
-    const { gLo, gHi } = harmonicRange(lay, k);
+    const { gLo, gHi } = harmonicRange(lay.coupling, k);
     if (gLo > gHi) continue;
     const lo = columnOf(gLo);
     for (let u = lo; u <= 2 * gHi; u++) if (first[u] > lo) first[u] = lo;
@@ -162,14 +174,14 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
     throw new RangeError(`fitHarmonics: harmonic ${count} of ${fundamental} Hz is not below Nyquist (${frame.sampleRate / 2} Hz)`);
   }
   const lay = layout(frame, fundamental, count);
-  const u = lay.unknowns;
+  const u = lay.coupling.unknowns;
   const normal = envelopeFor(lay);
   const rhs = new Float64Array(u);
   const row = new Float64Array(2 * u);
   const s = frame.spectrum;
   let total = 0;
   for (const k of lay.bins) {
-    const { first, width } = rowAt(frame, lay, k, row);
+    const { first, width } = rowAt(frame, lay.coupling, k, row);
     accumulate(normal, rhs, row, first, width, s.re(k), s.im(k));
     total += s.power(k);
   }
@@ -223,7 +235,7 @@ function summarise(
  * leaves a large share.
  */
 export function lobeResidualShare(frame: SpectralFrame, fit: HarmonicFit, n: number): number {
-  const lay = layout(frame, fit.fundamental, fit.count);
+  const lay = coupling(frame, fit.fundamental, fit.count);
   const row = new Float64Array(2 * lay.unknowns);
   const s = frame.spectrum;
   const p = n * lay.spacing;

@@ -61,17 +61,41 @@ export class LobeScan {
 
 /** Noise floor, or null when the component lobes leave too few bins to read it from. */
 export function noiseFloor(frame: SpectralFrame, fundamental: number | null, exclude: number): NoiseFloor | null {
+  return noiseFloors(frame, fundamental, exclude, exclude)[0];
+}
+
+/**
+ * noiseFloor with harmonics 1…exclude and 1…alsoExclude left out, read in one pass over the bins
+ * (each sum in the same order as noiseFloor's, so each is the value noiseFloor gives).
+ */
+export function noiseFloors(frame: SpectralFrame, fundamental: number | null, exclude: number, alsoExclude: number): [NoiseFloor | null, NoiseFloor | null] {
   const s = frame.spectrum;
   const p = fundamental === null ? null : fundamental / frame.binWidth;
-  const lobes = new LobeScan(frame.lobeBins, p, exclude);
-  let sum = 0;
-  let bins = 0;
+  const lobesA = new LobeScan(frame.lobeBins, p, exclude);
+  const lobesB = new LobeScan(frame.lobeBins, p, alsoExclude);
+  let sumA = 0;
+  let binsA = 0;
+  let sumB = 0;
+  let binsB = 0;
   for (let k = 1; k < s.bins - 1; k++) {
-    if (lobes.covers(k)) continue;
-    sum += s.power(k);
-    bins++;
+    const a = !lobesA.covers(k);
+    const b = !lobesB.covers(k);
+    if (!a && !b) continue;
+    const power = s.power(k);
+    if (a) {
+      sumA += power;
+      binsA++;
+    }
+    if (b) {
+      sumB += power;
+      binsB++;
+    }
   }
-  const share = bins / (s.bins - 2);
+  return [floorOf(frame, sumA, binsA), floorOf(frame, sumB, binsB)];
+}
+
+function floorOf(frame: SpectralFrame, sum: number, bins: number): NoiseFloor | null {
+  const share = bins / (frame.spectrum.bins - 2);
   if (bins < MIN_BINS || share < MIN_SHARE) return null;
   const perBin = sum / bins;
   return { variance: perBin / frame.s2, perBin, bins, share };
