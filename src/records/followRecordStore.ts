@@ -2,12 +2,17 @@
  * The board's verified view for any RecordStore, built on its public interface only: the shared
  * store on PostgreSQL (engines/pgStore.ts) has no database file to watch and no local SQLite to read,
  * so this follower asks the store for its chain head and, when the head moved (a run stored by this
- * server or by another bench), opens the store again and verifies it the way `units` and `record` do:
- * the whole audit (fingerprints, hash chain, every capture), then the listing. Between changes every
- * answer comes from the last verified view, with one query for the head.
+ * server or by another bench), opens the store again and verifies what was added after the head it
+ * last verified, as followStore.ts does on the embedded store: the listing's checks over the whole
+ * store (every chain link, every run against the chain and its summary: what `units` verifies, a few
+ * microseconds a run), and each unit with rows stored since verified in full as reading it does
+ * (runs re-hashed, captures); the problems the last full verification found in older rows are kept.
+ * When the head it verified is no longer where it was in the chain, it verifies everything again.
+ * Between changes every answer comes from the last verified view, with one query for the head.
  *
- * Verifying a whole store takes time (about 2 ms a run on a busy 2-core machine against a local
- * server), so verifications are spaced to take at most `share` (a fifth) of the server's time: a head
+ * The first view, and each background re-check, is the whole audit (fingerprints of every run, hash
+ * chain, every capture: about 2 ms a run on a busy 2-core machine against a local server), so
+ * verifications are spaced to take at most `share` (a fifth) of the server's time: a head
  * that moves again soon after a verification is answered from the last verified view and caught up
  * with in the background a moment later. `marker()` holds the store's head now and the verified one,
  * so a change marker built on it moves both when a run is stored and when the view catches up.
@@ -22,8 +27,8 @@
  * refuse an answer (as the CLI does, unless --allow-unverified).
  */
 import type { StoredRun, UnitSummary } from '../types/index.js';
-import type { RecordStore } from './openStore.js';
-import type { StoreAudit } from './auditStore.js';
+import type { ChainMark, RecordStore } from './openStore.js';
+import type { AuditProblem, StoreAudit } from './auditStore.js';
 import type { FollowedStore, StoreFollower } from './followStore.js';
 
 export interface RecordStoreFollower extends StoreFollower {
@@ -38,6 +43,8 @@ export const VERIFY_SHARE = 0.2;
 
 interface View {
   readonly head: string;
+  /** Where the verified head is in the chain, for the next verification to start after it. */
+  readonly mark: ChainMark;
   readonly listing: RecordStore;
   /** Opened on the first unit read of this view. */
   units?: RecordStore;
@@ -66,28 +73,36 @@ export function followRecordStore(open: () => RecordStore, options: FollowRecord
   /** The wait after a verification that keeps verifying within its share of the time. */
   const gap = (): number => lastMs * (1 / share - 1);
 
-  const verify = (): View => {
+  /** Verify what was added since `previous` (everything when there is none, or when its head moved in the chain). */
+  const verify = (previous: View | undefined): View => {
     const started = Date.now();
     const listing = open();
     try {
       // The head first: a run stored while verifying moves the head past it, so the next answer looks again.
       const head = listing.chainHead();
-      const audit = listing.audit();
-      verifiedRows += audit.chained;
-      fullPasses += 1;
+      const added = previous && listing.auditAdded(previous.mark);
+      let audit: StoreAudit;
+      if (previous && added) {
+        audit = joined(listing.audit('listing'), previous.snap.audit, added.problems, new Set(added.units));
+        verifiedRows += added.rows;
+      } else {
+        audit = listing.audit();
+        verifiedRows += audit.chained;
+        fullPasses += 1;
+      }
       const snap = followedView(listing, audit, verifiedRows, fullPasses);
       lastEnd = Date.now();
       lastMs = lastEnd - started;
-      return { head, listing, snap };
+      return { head, mark: { seq: audit.chained, link: audit.head }, listing, snap };
     } catch (err) {
       listing.close();
       throw err;
     }
   };
 
-  const replace = (): View => {
+  const replace = (whole = false): View => {
     failed = true;
-    const next = verify();
+    const next = verify(whole ? undefined : view);
     failed = false;
     const old = view;
     view = next;
@@ -106,7 +121,7 @@ export function followRecordStore(open: () => RecordStore, options: FollowRecord
       timer = undefined;
       timerAt = Infinity;
       try {
-        replace();
+        replace(true);
       } catch {
         // The store is out of reach or failing: the next answer opens it again and says why.
       }
@@ -173,6 +188,20 @@ export function followRecordStore(open: () => RecordStore, options: FollowRecord
       view = undefined;
     },
   };
+}
+
+/**
+ * The audit of a view verified incrementally: the listing's checks over the whole store as found now,
+ * the problems the last view named in units not verified again, and those of the units verified again.
+ */
+function joined(listing: StoreAudit, last: StoreAudit, added: readonly AuditProblem[], again: ReadonlySet<string>): StoreAudit {
+  const kept = last.problems.filter((p) => p.unit === null || !again.has(p.unit));
+  const seen = new Set<string>();
+  const problems = [...listing.problems, ...kept, ...added].filter((p) => {
+    const key = `${p.kind}:${p.id}:${p.problem}:${p.detail}`;
+    return !seen.has(key) && (seen.add(key), true);
+  });
+  return { ...listing, archived: last.archived, problems };
 }
 
 /** The audit and listing of one verified handle; each spec's listing read once and kept. */

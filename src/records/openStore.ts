@@ -17,8 +17,8 @@ import { saveRun } from './saveRun.js';
 import type { SaveHooks } from './saveRun.js';
 import { damagedFileError, missingError, noRecordsError, openError, storeError } from './storeErrors.js';
 import { auditStore, auditUnit, judgeListing } from './auditStore.js';
-import type { StoreAudit } from './auditStore.js';
-import { chainHead, chainRows } from './chain.js';
+import type { AuditProblem, StoreAudit } from './auditStore.js';
+import { CHAIN_START, chainHead, chainRows } from './chain.js';
 import { buildUnitRecord, listUnitsFromRows } from './unitSummaries.js';
 import { batchRuns } from './batchRuns.js';
 import { readSummaryArrays, readSummaryChecks, readSummaryHeads } from './summaryReads.js';
@@ -100,8 +100,31 @@ export interface RecordStore {
   audit(scope?: 'full' | 'listing'): StoreAudit;
   /** The newest link of the hash chain. */
   chainHead(): string;
+  /**
+   * What was stored after chain entry number `after.seq`: each unit those entries name verified as
+   * reading that unit verifies it (every run re-hashed in full, its verdict against its summary, its
+   * archived captures). Undefined when that entry no longer holds `after.link`, or entries before it
+   * are gone (the chain changed under it: verify the whole store again). The listing's checks (the
+   * chain, every summary) are audit('listing')'s; followRecordStore.ts joins the two.
+   */
+  auditAdded(after: ChainMark): AddedAudit | undefined;
   /** Runs and iterations stored here while the shared store could not be reached, not yet confirmed sent (outbox.ts). */
   unsent(): OutboxEntry[];
+}
+
+/** A place in the hash chain: an entry's number and link (seq 0 and 64 zeros before the first). */
+export interface ChainMark {
+  readonly seq: number;
+  readonly link: string;
+}
+
+/** The problems of the rows stored after a chain mark, and how many rows that was. */
+export interface AddedAudit {
+  readonly problems: readonly AuditProblem[];
+  /** Runs and calibration iterations stored after the mark. */
+  readonly rows: number;
+  /** The units verified (those the rows belong to). */
+  readonly units: readonly string[];
 }
 
 export function openStore(dir: string, options: OpenStoreOptions = {}): RecordStore {
@@ -252,6 +275,20 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
     openAttempt: (serial, specName) => guard(() => openAttempt(db, numberRuns(readSummaryHeads(db, serial)), specName)),
     audit: (scope = 'full') => (scope === 'listing' ? reads.listingAudit() : reads.audit()),
     chainHead: () => guard(() => chainHead(db)),
+    auditAdded: (after) =>
+      guard(() => {
+        const at = db.prepare('SELECT link, (SELECT COUNT(*) FROM chain WHERE seq <= ?) AS n FROM chain WHERE seq = ?').get(after.seq, after.seq) as { link: string; n: number } | undefined;
+        if (after.seq === 0 ? after.link !== CHAIN_START : at?.link !== after.link || at.n !== after.seq) return undefined;
+        const added = db
+          .prepare(
+            `SELECT r.unit AS unit FROM chain c JOIN runs r ON r.id = c.row_id WHERE c.seq > @seq AND c.kind IN ('run', 'summary')
+             UNION SELECT cr.unit FROM chain c JOIN calibration_iterations i ON i.id = c.row_id JOIN calibration_runs cr ON cr.id = i.calibration_id WHERE c.seq > @seq AND c.kind = 'calibration'`,
+          )
+          .all({ seq: after.seq }) as { unit: string }[];
+        const rows = (db.prepare("SELECT COUNT(*) AS n FROM chain WHERE seq > ? AND kind IN ('run', 'calibration')").get(after.seq) as { n: number }).n;
+        const units = added.map((a) => String(a.unit));
+        return { problems: units.flatMap((unit) => auditUnit(db, dir, unit)), rows, units };
+      }),
     unsent: () => guard(() => unsentEntries(db)),
   };
 }

@@ -1,7 +1,8 @@
 /**
  * The batch page: yields, capability with histograms and the units table as the report stage
  * renders them (`benchproof batch --format html`), and the CSV and Markdown downloads, all from
- * the runs of one spec (every spec when none is named).
+ * the runs of one spec (every spec when none is named), read from their verified summaries as the
+ * `batch` command reads them.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import { summarizeBatch } from '../records/index.js';
@@ -34,5 +35,7 @@ function batchReport(setup: BenchSetup, spec: string | undefined, reply: Fastify
     return undefined;
   }
   const filter = spec !== undefined ? { spec } : {};
-  return { ...summarizeBatch(setup.store.runs(filter), filter), source: source(setup) };
+  // From the runs' verified summaries, as `benchproof batch` reads them (not every full verdict);
+  // runs that failed verification (read only with --allow-unverified) count in no yield or statistic.
+  return { ...summarizeBatch(setup.store.batchRuns(filter).filter((r) => r.intact), filter), source: source(setup) };
 }

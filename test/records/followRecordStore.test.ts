@@ -56,7 +56,8 @@ describe('followRecordStore', () => {
     writer.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: at(3) }));
     expect(follower.marker()).not.toBe(before); // the page's change marker moves with the head
     const next = await follower.catchUp();
-    expect(next.fullPasses).toBe(first.fullPasses + 1);
+    // Only the new run was verified in full (its unit's one row), not the whole store again.
+    expect([next.fullPasses, next.verifiedRows - first.verifiedRows]).toEqual([first.fullPasses, 1]);
     const ref = reference();
     expect(next.units()).toEqual(ref.listUnits());
     ref.close();
@@ -74,7 +75,9 @@ describe('followRecordStore', () => {
     writer.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: at(3) }));
     const snap = await follower.catchUp();
     const ref = reference();
-    expect(snap.audit).toEqual(ref.audit());
+    // The listing's checks over the whole store find it (the run's columns against its summary), as a full audit does.
+    const full = ref.audit();
+    expect([snap.audit.head, snap.audit.chained, snap.audit.problems]).toEqual([full.head, full.chained, full.problems]);
     ref.close();
     expect(snap.audit.problems.map((p) => [p.unit, p.problem])).toEqual([['FK-0101', 'changed']]);
     expect(snap.units().find((u) => u.unit === 'FK-0101')?.unverifiedRuns).toEqual([1]);
@@ -82,6 +85,33 @@ describe('followRecordStore', () => {
     expect(audit).toBe(snap.audit);
     expect(runs.map((r) => r.intact)).toEqual([false]);
     expect((await follower.unitRecord('FK-0101')).record?.runs.map((r) => r.intact)).toEqual([false]);
+  });
+
+  it('verifies in full each unit stored since its last view, finding a verdict edited in the file that the listing alone does not', async () => {
+    follower = followRecordStore(open, { share: 1 });
+    await follower.catchUp();
+    writer.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: at(3) }));
+    const raw = new Database(join(dir, DATABASE_FILE));
+    raw.exec(`DROP TRIGGER runs_no_update; UPDATE runs SET verdict_json = replace(verdict_json, '"FK-0103"', '"FK-0130"') WHERE unit = 'FK-0103'`);
+    raw.close();
+    const snap = await follower.catchUp();
+    const ref = reference();
+    expect(ref.audit('listing').problems).toEqual([]); // the summary is as stored: only a full read finds it
+    expect(snap.audit.problems).toEqual(ref.audit().problems);
+    ref.close();
+    expect(snap.audit.problems.map((p) => [p.unit, p.problem])).toEqual([['FK-0103', 'changed']]);
+  });
+
+  it('verifies the whole store again when the head it verified is no longer in its place', async () => {
+    follower = followRecordStore(open, { share: 1 });
+    const first = await follower.catchUp();
+    const raw = new Database(join(dir, DATABASE_FILE));
+    raw.exec(`DROP TRIGGER chain_no_update; UPDATE chain SET link = '${'0'.repeat(64)}' WHERE seq = (SELECT MAX(seq) FROM chain)`);
+    raw.close();
+    writer.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: at(3) }));
+    const snap = await follower.catchUp();
+    expect(snap.fullPasses).toBe(first.fullPasses + 1);
+    expect(snap.audit.problems.map((p) => p.problem)).toContain('chain-broken');
   });
 
   it('answers from the last verified view when the head moves again within its share of the time, with the marker showing both heads', async () => {

@@ -47,6 +47,7 @@ import {
   pgSummaryRows,
 } from './pgReads.js';
 import { shownStore } from './pgLocation.js';
+import { CHAIN_START } from '../chain.js';
 import { PgCallError, PgSyncClient } from './pgSync.js';
 import type { PgSyncOptions } from './pgSync.js';
 
@@ -135,6 +136,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
       throw err;
     }
   };
+  const unitProblems = (unit: string) => judgeUnit(pgReadRunDigests(client, { unit }, true), pgReadCalibrationRows(client, unit).runs, fetched);
   const everyRow = () => ({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client), summaries: pgSummaryRows(client) });
   const reads = verifiedReads(shown, unverified, {
     listing: () => {
@@ -148,7 +150,7 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
       const hashes = pgCaptureHashes(client);
       return judgeStore(everyRow(), (c) => hashes.get(c.sha256) ?? null);
     },
-    unit: (unit) => judgeUnit(pgReadRunDigests(client, { unit }, true), pgReadCalibrationRows(client, unit).runs, fetched),
+    unit: (unit) => unitProblems(unit),
     wrapError: (err) => pgStoreError(err, shown),
   });
   const { verified, mark, markCalibrations, listingAudit, guarded } = reads;
@@ -208,6 +210,19 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
       }),
     audit: (scope = 'full') => (scope === 'listing' ? listingAudit() : reads.audit()),
     chainHead: () => guarded(() => pgChainHead(client)),
+    auditAdded: (after) =>
+      guarded(() => {
+        const at = client.query<{ link: string; n: number }>('SELECT link, (SELECT COUNT(*)::integer FROM chain WHERE seq <= $1) AS n FROM chain WHERE seq = $1', [after.seq]).rows[0];
+        if (after.seq === 0 ? after.link !== CHAIN_START : at?.link !== after.link || at.n !== after.seq) return undefined;
+        const added = client.query<{ unit: string }>(
+          `SELECT r.unit AS unit FROM chain c JOIN runs r ON r.id = c.row_id WHERE c.seq > $1 AND c.kind IN ('run', 'summary')
+           UNION SELECT cr.unit FROM chain c JOIN calibration_iterations i ON i.id = c.row_id JOIN calibration_runs cr ON cr.id = i.calibration_id WHERE c.seq > $1 AND c.kind = 'calibration'`,
+          [after.seq],
+        ).rows;
+        const rows = client.query<{ n: number }>("SELECT COUNT(*)::integer AS n FROM chain WHERE seq > $1 AND kind IN ('run', 'calibration')", [after.seq]).rows[0].n;
+        const units = added.map((a) => String(a.unit));
+        return { problems: units.flatMap((unit) => unitProblems(unit)), rows, units };
+      }),
     unsent: () => [],
   };
 }
