@@ -3,7 +3,8 @@
  * the page alone. Drops reach the board without a reload, a bad file shows check's own message, a
  * capture landing in the watched folder appears live, a zoomed plot shows the record's own min/max
  * per column (the definition of min/max decimation; common practice, no source), the print view
- * drops the controls, and the keyboard alone reaches every control. Screenshots go to SHOTS.
+ * drops the controls, and the keyboard alone reaches every control. Screenshots go to SHOTS when it is
+ * set (browserHarness.ts).
  */
 import { copyFileSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -17,7 +18,7 @@ import { startInsideWatch } from '../../src/server/watchInside.js';
 import type { InsideWatch } from '../../src/server/watchInside.js';
 import { SPEC, startTestServer } from '../server/serverHarness.js';
 import type { TestServer } from '../server/serverHarness.js';
-import { HAVE_CHROMIUM, SHOTS, launchBrowser, watchedPage } from './browserHarness.js';
+import { HAVE_CHROMIUM, launchBrowser, shot, watchedPage } from './browserHarness.js';
 import type { TestBrowser } from './browserHarness.js';
 
 const samples = (unit: string): string[] => ['low', 'mid', 'high'].map((c) => join(process.cwd(), `samples/captures/${unit}_${c}.csv`));
@@ -58,7 +59,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(await row.locator('.state').textContent()).toBe(STATEMENT_WORDS[statement]);
     await page.locator('.drop-entry[data-result="stored"]').first().waitFor();
     expect(await page.evaluate('window.sameLoad')).toBe(true);
-    await page.screenshot({ path: join(SHOTS, 'board-after-drop.png'), fullPage: true });
+    await shot(page, 'board-after-drop.png', { fullPage: true });
   });
 
   it('shows a bad dropped file with the message check prints', async () => {
@@ -71,7 +72,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(text).toMatch(/^FK-0109_mid\.csv:\d+: /);
     expect(text).toContain('\n  expected: ');
     expect(text).toContain('\n  fix: ');
-    await page.screenshot({ path: join(SHOTS, 'board-bad-file.png'), fullPage: true });
+    await shot(page, 'board-bad-file.png', { fullPage: true });
   });
 
   it('shows a capture landing in the watched folder live', async () => {
@@ -102,7 +103,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     const frame = page.frameLocator('iframe.compare');
     await frame.locator('h1').first().waitFor();
     expect(await frame.locator('body').textContent()).toContain('R7 retrimmed');
-    await page.locator('section.attempts').screenshot({ path: join(SHOTS, 'unit-attempts-compare.png') });
+    await shot(page.locator('section.attempts'), 'unit-attempts-compare.png');
     await page.goto(`${t.base}/#/`);
     await page.locator('tr[data-unit]').first().waitFor();
   });
@@ -132,8 +133,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
       expect(plot.min[c]).toBe(Math.min(...slice));
       expect(plot.max[c]).toBe(Math.max(...slice));
     }
-    await page.waitForTimeout(300);
-    await fig.screenshot({ path: join(SHOTS, 'unit-plot-zoomed.png') });
+    await shot(fig, 'unit-plot-zoomed.png', { settleMs: 300 });
     // Back to the whole record, then drag across its first sixth: the view becomes that span.
     await fig.getByRole('button', { name: /^Show the whole record/ }).click();
     await expect.poll(async () => Number(await fig.getAttribute('data-from'))).toBe(before.from);
@@ -143,10 +143,9 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     await page.mouse.move(box.x + box.width / 6, box.y + box.height / 2, { steps: 5 });
     await page.mouse.up();
     await expect.poll(async () => Number(await fig.getAttribute('data-to'))).toBeLessThan(before.from + (before.to - before.from) / 5);
-    await page.waitForTimeout(300);
-    await fig.screenshot({ path: join(SHOTS, 'unit-plot-drag-zoom.png') });
-    await page.screenshot({ path: join(SHOTS, 'unit-top.png') });
-    await page.screenshot({ path: join(SHOTS, 'unit-whole.png'), fullPage: true });
+    await shot(fig, 'unit-plot-drag-zoom.png', { settleMs: 300 });
+    await shot(page, 'unit-top.png');
+    await shot(page, 'unit-whole.png', { fullPage: true });
   });
 
   it('prints the unit page as its record, without the page controls', async () => {
@@ -158,7 +157,7 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(await page.locator('.unit-head h1').isVisible()).toBe(false);
     const frame = page.frameLocator('iframe.record');
     expect(await frame.locator('h1').first().textContent()).toContain('FK-0101');
-    await page.screenshot({ path: join(SHOTS, 'unit-print.png'), fullPage: true });
+    await shot(page, 'unit-print.png', { fullPage: true });
     await page.emulateMedia({ media: 'screen' });
   });
 
@@ -204,11 +203,11 @@ describe.skipIf(!HAVE_CHROMIUM)('the bench page in a browser', () => {
     expect(await page.locator('#batch-csv').getAttribute('href')).toMatch(/^\/download\/batch\.csv/);
     const csv = await (await page.request.get(`${t.base}${await page.locator('#batch-csv').getAttribute('href')}`)).text();
     expect(csv.split('\n')[0]).toContain('unit');
-    await page.screenshot({ path: join(SHOTS, 'batch.png'), fullPage: true });
+    await shot(page, 'batch.png', { fullPage: true });
     await page.goto(`${t.base}/#/spec`);
     await page.locator('#spec-summary').waitFor();
     expect(await page.locator('#spec-summary').textContent()).toContain('valid: FH-210 Kestrel VCO');
-    await page.screenshot({ path: join(SHOTS, 'spec.png'), fullPage: true });
+    await shot(page, 'spec.png', { fullPage: true });
   });
 
   it('ran without a console error or a Content-Security-Policy violation', () => {

@@ -1,18 +1,20 @@
 /**
  * One chromium (Debian's /usr/bin/chromium, driven by playwright-core) per test file, started with
  * a fresh profile and nothing that reaches the network; tests talk to 127.0.0.1 only. Without
- * chromium the browser tests skip with a note.
+ * chromium the browser tests skip with a note. Screenshots for a person to look at are taken only
+ * when BENCHPROOF_SHOTS names a folder (`BENCHPROOF_SHOTS=/tmp/shots npx vitest run test/web`): they
+ * check nothing and cost about a fifth of the browser file's CPU time.
  */
 import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium } from 'playwright-core';
-import type { BrowserContext, Page } from 'playwright-core';
+import type { BrowserContext, Locator, Page } from 'playwright-core';
 
 export const CHROMIUM = '/usr/bin/chromium';
 export const HAVE_CHROMIUM = existsSync(CHROMIUM);
-/** Screenshots land here (outside the checkout), to be looked at by a person after a run. */
-export const SHOTS = process.env.BENCHPROOF_SHOTS ?? join(tmpdir(), 'benchproof-web-shots');
+/** Where screenshots land (outside the checkout), to be looked at by a person after a run; none when unset. */
+export const SHOTS: string | undefined = process.env.BENCHPROOF_SHOTS || undefined;
 
 if (!HAVE_CHROMIUM) {
   process.stderr.write(`note: ${CHROMIUM} is missing; the browser tests of the bench page are skipped (apt-get install chromium)\n`);
@@ -33,7 +35,7 @@ export async function launchBrowser(): Promise<TestBrowser> {
     acceptDownloads: true,
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   });
-  mkdirSync(SHOTS, { recursive: true });
+  if (SHOTS) mkdirSync(SHOTS, { recursive: true });
   return {
     context,
     async close() {
@@ -52,4 +54,21 @@ export async function watchedPage(context: BrowserContext): Promise<{ page: Page
   });
   page.on('pageerror', (e) => problems.push(e.message));
   return { page, problems };
+}
+
+/**
+ * A screenshot of the page or of one element into SHOTS, after `settleMs` for a plot to finish
+ * drawing. Without SHOTS nothing is taken; an element is still waited for until it is visible, as
+ * its screenshot would have waited, so a test checks the same with or without pictures.
+ */
+export async function shot(target: Page | Locator, name: string, options: { fullPage?: boolean; settleMs?: number } = {}): Promise<void> {
+  const isPage = 'goto' in target;
+  if (!SHOTS) {
+    if (!isPage) await target.waitFor({ state: 'visible' });
+    return;
+  }
+  if (options.settleMs) await new Promise((r) => setTimeout(r, options.settleMs));
+  const path = join(SHOTS, name);
+  if (isPage) await target.screenshot({ path, fullPage: options.fullPage ?? false });
+  else await target.screenshot({ path });
 }
