@@ -77,19 +77,22 @@ function layout(frame: SpectralFrame, fundamental: number, count: number): Layou
   const reach = coupling(frame, fundamental, count);
   const last = frame.spectrum.bins - 1;
   const { spacing } = reach;
-  const fitted = new Uint8Array(last + 1);
+  // The lobes [g·spacing ∓ lobeBins] start in increasing order of g, so their union is listed by
+  // walking them in order and skipping what the previous ones covered: no map of every bin.
+  const lobe = (g: number, end: number): number => (end === 0 ? Math.max(0, Math.ceil(g * spacing - frame.lobeBins)) : Math.min(last, Math.floor(g * spacing + frame.lobeBins)));
   let n = 0;
-  for (let g = 0; g <= count; g++) {
-    const lo = Math.max(0, Math.ceil(g * spacing - frame.lobeBins));
-    const hi = Math.min(last, Math.floor(g * spacing + frame.lobeBins));
-    for (let k = lo; k <= hi; k++) {
-      if (fitted[k]) continue;
-      fitted[k] = 1;
-      n++;
-    }
+  for (let g = 0, next = 0; g <= count; g++) {
+    const lo = Math.max(next, lobe(g, 0));
+    const hi = lobe(g, 1);
+    if (hi >= lo) n += hi - lo + 1;
+    next = Math.max(next, hi + 1);
   }
   const bins = new Int32Array(n);
-  for (let k = 0, i = 0; k <= last; k++) if (fitted[k]) bins[i++] = k;
+  for (let g = 0, next = 0, i = 0; g <= count; g++) {
+    const hi = lobe(g, 1);
+    for (let k = Math.max(next, lobe(g, 0)); k <= hi; k++) bins[i++] = k;
+    next = Math.max(next, hi + 1);
+  }
   return { coupling: reach, bins };
 }
 
@@ -152,17 +155,22 @@ function rowAt(frame: SpectralFrame, lay: Coupling, k: number, row: Float64Array
   return { first, width };
 }
 
-/** First column each unknown couples with: over every fitted bin, the lowest unknown in its row. */
-function envelopeFor(lay: Layout): Envelope {
+/**
+ * First column each unknown couples with (over every fitted bin, the lowest unknown in its row),
+ * and the most unknowns one row couples, which sizes the row buffer.
+ */
+function envelopeFor(lay: Layout): { envelope: Envelope; widest: number } {
   const first = new Int32Array(lay.coupling.unknowns);
   for (let i = 0; i < first.length; i++) first[i] = i;
+  let widest = 1;
   for (const k of lay.bins) {
     const { gLo, gHi } = harmonicRange(lay.coupling, k);
     if (gLo > gHi) continue;
     const lo = columnOf(gLo);
+    widest = Math.max(widest, 2 * gHi + 1 - lo);
     for (let u = lo; u <= 2 * gHi; u++) if (first[u] > lo) first[u] = lo;
   }
-  return envelopeOf(first);
+  return { envelope: envelopeOf(first), widest };
 }
 
 /** Fits DC and harmonics 1…count of `fundamental` (Hz); null when the system is singular. */
@@ -175,9 +183,9 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
   }
   const lay = layout(frame, fundamental, count);
   const u = lay.coupling.unknowns;
-  const normal = envelopeFor(lay);
+  const { envelope: normal, widest } = envelopeFor(lay);
   const rhs = new Float64Array(u);
-  const row = new Float64Array(2 * u);
+  const row = new Float64Array(2 * widest);
   const s = frame.spectrum;
   let total = 0;
   for (const k of lay.bins) {
@@ -188,12 +196,12 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
   let maxDiag = 0;
   for (let i = 0; i < u; i++) maxDiag = Math.max(maxDiag, normal.values[at(normal, i, i)]);
   for (let i = 0; i < u; i++) normal.values[at(normal, i, i)] += RIDGE * maxDiag;
-  const rhsCopy = rhs.slice();
+  // The solver keeps `rhs` (it writes its solution into a new array).
   const x = envelopeCholeskySolve(normal, rhs);
   if (x === null) return null;
   // At the least-squares solution ‖X − Ax‖² = ‖X‖² − xᵀAᵀX (normal equations), so no second pass.
   let explained = 0;
-  for (let i = 0; i < u; i++) explained += x[i] * rhsCopy[i];
+  for (let i = 0; i < u; i++) explained += x[i] * rhs[i];
   return summarise(frame, x, fundamental, count, Math.max(0, total - explained), lay.bins.length);
 }
 
@@ -236,13 +244,19 @@ function summarise(
  */
 export function lobeResidualShare(frame: SpectralFrame, fit: HarmonicFit, n: number): number {
   const lay = coupling(frame, fit.fundamental, fit.count);
-  const row = new Float64Array(2 * lay.unknowns);
   const s = frame.spectrum;
   const p = n * lay.spacing;
   let residual = 0;
   let total = 0;
   const lo = Math.max(0, Math.ceil(p - frame.lobeBins));
   const hi = Math.min(s.bins - 1, Math.floor(p + frame.lobeBins));
+  // The row holds the unknowns that couple within this lobe only, not all of them.
+  let widest = 1;
+  for (let k = lo; k <= hi; k++) {
+    const { gLo, gHi } = harmonicRange(lay, k);
+    if (gLo <= gHi) widest = Math.max(widest, 2 * gHi + 1 - columnOf(gLo));
+  }
+  const row = new Float64Array(2 * widest);
   for (let k = lo; k <= hi; k++) {
     const { first, width } = rowAt(frame, lay, k, row);
     let mr = 0;
