@@ -76,13 +76,20 @@ export function auditStore(db: Database, dataDir: string, options: AuditOptions 
  * The listing's verification: the whole chain, every run row's fingerprint against the chain, every
  * summary against its fingerprint (over the run row's own columns) and the chain, and the calibration
  * iterations; the full verdicts are not read. `chain` and `summaries` are the rows as read (arrays:
- * chainRows, readSummaryArrays). checkListing (listingCheck.ts) answers whether it all holds without
+ * chainRows, and readListingArrays or readSummaryArrays; `fullRows` reads the latter when the former were given). checkListing (listingCheck.ts) answers whether it all holds without
  * making objects of the rows; only a store that fails is judged here again, to name each problem.
  */
-export function judgeListing(chain: readonly ChainArray[], summaries: readonly SummaryArray[], calibrations: StoreRows['calibrations'], runDigests?: RunDigestReader): StoreAudit {
+export function judgeListing(
+  chain: readonly ChainArray[],
+  summaries: readonly SummaryArray[],
+  calibrations: StoreRows['calibrations'],
+  runDigests?: RunDigestReader,
+  fullRows?: () => readonly SummaryArray[],
+): StoreAudit {
   const quick = checkListing(chain, summaries, calibrations);
   if (quick.holds) return { head: quick.head, chained: chain.length, archived: 0, problems: [] };
-  const rows = summaries.map(summaryRowOf);
+  // A listing's rows (listingColumns) leave out columns the slow judgement hashes: read them whole.
+  const rows = (fullRows ? fullRows() : summaries).map(summaryRowOf);
   // The run rows as the chain sees them: their fingerprints, not re-hashed here (the summary covers their columns).
   const runs = rows.map((r) => ({ id: Number(r.id), unit: String(r.unit), digest: String(r.digest), intact: true, captures: [] }));
   const audit = judgeStore({ entries: chain.map(entryOf), runs: { rows: runs, damaged: [] }, calibrations, summaries: rows });

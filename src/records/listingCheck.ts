@@ -49,8 +49,9 @@ export function checkListing(
   // Every run row is chained with the fingerprint its summary repeats, and its summary holds and is chained.
   for (const r of summaries) {
     const id = Number(r[S.id]);
-    const text = summaryTextAt(r);
-    if (runEntries.get(id) !== String(r[S.digest]) || text === undefined || sha256Hex(text) !== r[S.summaryDigest] || summaryEntries.get(id) !== r[S.summaryDigest]) {
+    // A listing's row carries the text as the database wrote it (listingColumns); a full row is written here.
+    const text = r.length > S.text ? r[S.text] : summaryTextAt(r);
+    if (runEntries.get(id) !== String(r[S.digest]) || typeof text !== 'string' || sha256Hex(text) !== r[S.summaryDigest] || summaryEntries.get(id) !== r[S.summaryDigest]) {
       return { holds: false, head: previous };
     }
   }

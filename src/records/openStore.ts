@@ -21,7 +21,7 @@ import type { AuditProblem, StoreAudit } from './auditStore.js';
 import { CHAIN_START, chainHead, chainRows } from './chain.js';
 import { buildUnitRecord, listUnitsFromRows } from './unitSummaries.js';
 import { batchRuns } from './batchRuns.js';
-import { readSummaryArrays, readSummaryChecks, readSummaryHeads } from './summaryReads.js';
+import { readListingArrays, readSummaryArrays, readSummaryChecks, readSummaryHeads } from './summaryReads.js';
 import { numberRuns, openAttempt } from './attempts.js';
 import type { OpenAttempt } from './attempts.js';
 import { calibratedSerials, readCalibrationRows, readCalibrations, withCalibrations } from './calibrationRead.js';
@@ -232,10 +232,10 @@ function wrap(db: Db, dir: string, dbFile: string, version: number, label: strin
   // stored texts are hashed as they are), the archived captures of a unit when its runs are read.
   const reads = verifiedReads(label, unverified, {
     listing: () => {
-      const summaries = readSummaryArrays(db);
+      const summaries = readListingArrays(db);
       const digests = (ids: readonly number[]) =>
         new Map((db.prepare('SELECT id, digest FROM runs WHERE id IN (SELECT value FROM json_each(?))').all(JSON.stringify(ids)) as { id: number; digest: string }[]).map((r) => [r.id, r.digest]));
-      return { audit: judgeListing(chainRows(db), summaries, readCalibrationRows(db), digests), summaries };
+      return { audit: judgeListing(chainRows(db), summaries, readCalibrationRows(db), digests, () => readSummaryArrays(db)), summaries };
     },
     rows: () => auditStore(db, dir, { archive: false }),
     full: () => auditStore(db, dir),

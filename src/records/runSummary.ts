@@ -182,6 +182,9 @@ export function summaryHolds(row: SummaryRow): boolean {
   return summaryDigest(row, row.verdict_sha256, row.checks_sha256, row.state_json) === row.summary_digest;
 }
 
+const NONE: readonly never[] = Object.freeze([]);
+const NO_CAUSES = Object.freeze({ causes: NONE });
+
 /**
  * A verified summary (a row of SUMMARY_COLUMNS as read) as the run shape that attempts.ts and
  * summarizeBatch read: spec, times, statement, attempt columns, the verdict's condition states, and
@@ -209,29 +212,34 @@ export function lightRun(r: SummaryArray, checksJson?: string): StoredRun | unde
   }
   const unit = String(r[S.unit]);
   const spec: RunSpec = { name: String(r[S.specName]), revision: String(r[S.specRevision]), sha256: String(r[S.specSha256]) };
+  // The parsed conditions take their checks in place (they are this run's own objects); the empty
+  // parts are shared, frozen: a listing makes one light run per stored run.
+  for (const c of state.conditions as { condition: string; checks?: readonly object[] }[]) c.checks = byCondition.get(c.condition) ?? NONE;
+  // A listing's row (listingColumns) has no kind, operator, station, tool version or storing time: left out.
+  const optional = (i: number): string | undefined => (r[i] === null ? undefined : String(r[i]));
   const run: Record<string, unknown> = {
     id: Number(r[S.id]),
     unit,
-    kind: String(r[S.kind]),
+    kind: optional(S.kind),
     startedAt: String(r[S.startedAt]),
-    operator: String(r[5]),
-    station: String(r[6]),
+    operator: optional(5),
+    station: optional(6),
     spec,
-    toolVersion: String(r[10]),
+    toolVersion: optional(10),
     statement: String(r[S.statement]),
-    storedAt: String(r[S.storedAt]),
+    storedAt: optional(S.storedAt),
     digest: String(r[S.digest]),
     intact: true,
-    diagnosis: { causes: [] },
-    captures: [],
+    diagnosis: NO_CAUSES,
+    captures: NONE,
     verdict: {
       unit,
       spec,
       statement: state.statement,
       waitingFor: state.waitingFor,
       ...(state.soFar !== undefined ? { soFar: state.soFar } : {}),
-      conditions: state.conditions.map((c) => ({ ...c, checks: byCondition.get(c.condition) ?? [] })),
-      captures: [],
+      conditions: state.conditions,
+      captures: NONE,
     },
   };
   if (typeof r[S.attempt] === 'number') run.attempt = r[S.attempt];
@@ -251,7 +259,35 @@ export const SUMMARY_COLUMNS = `r.id, r.unit, r.kind, r.started_at, r.stored_at,
   s.verdict_sha256, s.checks_sha256, s.state_json, s.digest AS summary_digest`;
 
 /** Positions in a row of SUMMARY_COLUMNS read as an array. */
-export const S = { id: 0, unit: 1, kind: 2, startedAt: 3, storedAt: 4, specName: 7, specRevision: 8, specSha256: 9, statement: 11, attempt: 12, attemptReason: 13, note: 14, digest: 15, verdictSha256: 16, checksSha256: 17, stateJson: 18, summaryDigest: 19 } as const;
+export const S = { id: 0, unit: 1, kind: 2, startedAt: 3, storedAt: 4, specName: 7, specRevision: 8, specSha256: 9, statement: 11, attempt: 12, attemptReason: 13, note: 14, digest: 15, verdictSha256: 16, checksSha256: 17, stateJson: 18, summaryDigest: 19, text: 20 } as const;
+
+/**
+ * What a listing reads of each run (units, batch): SUMMARY_COLUMNS in the same positions, NULL where
+ * the listing shows nothing (kind, storing time, operator, station, tool version, the verdict's
+ * SHA-256), and at position 20 the text the summary's fingerprint is taken of (summaryText), written
+ * by the database from the same columns: JSON strings by json_quote (SQLite) or to_json (PostgreSQL),
+ * which escape as JSON.stringify does. So the listing reads one string where it read eleven and
+ * hashes it as it comes. A text that is not the one summaryText writes (NULL columns, a value either
+ * escapes differently) fails its fingerprint, and the listing is then judged again from
+ * SUMMARY_COLUMNS (auditStore.ts, judgeListing): it never passes what summaryText would fail, since
+ * a JSON text names its values one way only.
+ */
+export function listingColumns(dialect: 'sqlite' | 'pg'): string {
+  const q = (x: string): string => (dialect === 'sqlite' ? `json_quote(${x})` : `to_json(${x})::text`);
+  const has = (x: string, type: 'integer' | 'text'): string => (dialect === 'sqlite' ? `typeof(${x}) = '${type}'` : `${x} IS NOT NULL`);
+  const text = [
+    `'{"checks":'`, q('s.checks_sha256'), `',"format":"benchproof-summary-1","head":{'`,
+    `CASE WHEN ${has('s.attempt', 'integer')} THEN '"attempt":' || s.attempt || ',' ELSE '' END`,
+    `CASE WHEN ${has('s.attempt_reason', 'text')} THEN '"attemptReason":' || ${q('s.attempt_reason')} || ',' ELSE '' END`,
+    `'"kind":'`, q('r.kind'), `','`,
+    `CASE WHEN ${has('s.note', 'text')} THEN '"note":' || ${q('s.note')} || ',' ELSE '' END`,
+    `'"operator":'`, q('r.operator'), `',"spec":{"name":'`, q('r.spec_name'), `',"revision":'`, q('r.spec_revision'), `',"sha256":'`, q('r.spec_sha256'),
+    `'},"startedAt":'`, q('r.started_at'), `',"statement":'`, q('r.statement'), `',"station":'`, q('r.station'), `',"toolVersion":'`, q('r.tool_version'),
+    `',"unit":'`, q('r.unit'), `'},"run":'`, q('COALESCE(s.run_digest, r.digest)'), `',"state":'`, 's.state_json', `',"verdict":'`, q('s.verdict_sha256'), `'}'`,
+  ].join(' || ');
+  return `r.id, r.unit, NULL, r.started_at, NULL, NULL, NULL, r.spec_name, r.spec_revision, r.spec_sha256, NULL, r.statement, s.attempt, s.attempt_reason, s.note,
+  COALESCE(s.run_digest, r.digest), NULL, s.checks_sha256, s.state_json, s.digest, ${text}`;
+}
 
 /** A row of SUMMARY_COLUMNS as both engines read it: an array of the column values in that order. */
 export type SummaryArray = readonly unknown[];

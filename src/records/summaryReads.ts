@@ -6,7 +6,7 @@
 import type { Database } from 'better-sqlite3';
 import type { StoredRun } from '../types/index.js';
 import { readRunHeads } from './attempts.js';
-import { lightRun, SUMMARY_COLUMNS, summaryRowOf } from './runSummary.js';
+import { lightRun, listingColumns, SUMMARY_COLUMNS, summaryRowOf } from './runSummary.js';
 import type { SummaryArray, SummaryRow } from './runSummary.js';
 
 /**
@@ -18,6 +18,13 @@ export function readSummaryArrays(db: Database, unit?: string): SummaryArray[] {
   const sql = `SELECT ${SUMMARY_COLUMNS} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ${unit === undefined ? '' : 'WHERE r.unit = ?'} ORDER BY r.unit, r.started_at, r.id`;
   return db.prepare(sql).raw(true).all(...(unit === undefined ? [] : [unit])) as unknown[][];
 }
+
+/** Every run as a listing reads it (listingColumns: the summary's text written by SQLite), in readSummaryArrays' order. */
+export function readListingArrays(db: Database): SummaryArray[] {
+  return db.prepare(`SELECT ${LISTING_SQLITE} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ORDER BY r.unit, r.started_at, r.id`).raw(true).all() as unknown[][];
+}
+
+const LISTING_SQLITE = listingColumns('sqlite');
 
 /** readSummaryArrays as objects of one shape (the whole-store audit judges them so). */
 export function readSummaryRows(db: Database, unit?: string): SummaryRow[] {

@@ -15,8 +15,9 @@ import { judgeStore } from '../../src/records/auditStore.js';
 import { chainRows, entryOf } from '../../src/records/chain.js';
 import { checkListing } from '../../src/records/listingCheck.js';
 import { readCalibrationRows } from '../../src/records/calibrationRead.js';
-import { readSummaryArrays } from '../../src/records/summaryReads.js';
-import { summaryRowOf } from '../../src/records/runSummary.js';
+import { readListingArrays, readSummaryArrays } from '../../src/records/summaryReads.js';
+import { listingColumns, summaryRowOf, summaryText } from '../../src/records/runSummary.js';
+import type { SummaryHeadRow } from '../../src/records/runSummary.js';
 import type { SummaryArray } from '../../src/records/runSummary.js';
 import { lightRuns } from '../../src/records/batchRuns.js';
 import { listUnitsFrom, listUnitsFromRows } from '../../src/records/unitSummaries.js';
@@ -61,12 +62,44 @@ describe('the listing verification made without row objects', () => {
       for (const { name: trigger } of db.prepare("SELECT name FROM sqlite_master WHERE type = 'trigger'").all() as { name: string }[]) db.exec(`DROP TRIGGER "${trigger}"`);
       tamper(db);
       const quick = checkListing(chainRows(db), readSummaryArrays(db), readCalibrationRows(db));
+      // The same with the summary's text written by SQLite (listingColumns), as the store reads it.
+      const listing = checkListing(chainRows(db), readListingArrays(db), readCalibrationRows(db));
       const problems = slowProblems(db);
       db.close();
       expect(quick.holds).toBe(problems === 0);
+      expect(listing).toEqual(quick);
       expect(quick.holds).toBe(name === 'none');
     });
   }
+});
+
+describe("the summary's text written by the database", () => {
+  it('json_quote in SQLite writes the text summaryText writes, for any strings and attempt columns, seeded', () => {
+    const db = new Database(':memory:');
+    db.exec(`CREATE TABLE runs (id INTEGER, unit TEXT, kind TEXT, started_at TEXT, operator TEXT, station TEXT, spec_name TEXT, spec_revision TEXT, spec_sha256 TEXT, tool_version TEXT, statement TEXT, digest TEXT);
+      CREATE TABLE run_summaries (run_id INTEGER, run_digest TEXT, attempt INTEGER, attempt_reason TEXT, note TEXT, verdict_sha256 TEXT, checks_sha256 TEXT, state_json TEXT, digest TEXT)`);
+    const insertRun = db.prepare('INSERT INTO runs VALUES (1, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)');
+    const insertSummary = db.prepare("INSERT INTO run_summaries VALUES (1, ?, ?, ?, ?, ?, ?, '{\"statement\":\"pass\"}', 'x')");
+    const read = db.prepare(`SELECT ${listingColumns('sqlite')} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id`).raw(true);
+    // Well-formed Unicode: SQLite holds text as UTF-8, which has no lone surrogates.
+    const text = fc.string({ unit: 'grapheme' });
+    const row = fc.record({
+      id: fc.constant(1), unit: text, kind: text, started_at: text, stored_at: text, operator: text, station: text, spec_name: text,
+      spec_revision: text, spec_sha256: text, tool_version: text, statement: text, digest: text,
+      attempt: fc.option(fc.integer({ min: 1, max: 100_000 })), attempt_reason: fc.option(text), note: fc.option(text),
+    });
+    fc.assert(
+      fc.property(row, text, text, (r: SummaryHeadRow, verdictSha, checksSha) => {
+        db.exec('DELETE FROM runs; DELETE FROM run_summaries');
+        insertRun.run(r.unit, r.kind, r.started_at, r.operator, r.station, r.spec_name, r.spec_revision, r.spec_sha256, r.tool_version, r.statement, r.digest);
+        insertSummary.run(r.digest, r.attempt, r.attempt_reason, r.note, verdictSha, checksSha);
+        const [got] = read.all() as unknown[][];
+        expect(got[20]).toBe(summaryText(r, verdictSha, checksSha, '{"statement":"pass"}'));
+      }),
+      { numRuns: 300 },
+    );
+    db.close();
+  });
 });
 
 describe('the unit listing made without run objects', () => {
@@ -74,9 +107,11 @@ describe('the unit listing made without run objects', () => {
     const dir = fillDemoStore(root);
     const db = new Database(join(dir, 'records.db'), { readonly: true });
     const rows = readSummaryArrays(db);
+    const listing = readListingArrays(db);
     db.close();
     for (const spec of [undefined, 'FH-210 Kestrel VCO', 'no such spec']) {
       expect(JSON.stringify(listUnitsFromRows(rows, spec))).toBe(JSON.stringify(listUnitsFrom(lightRuns(rows), spec)));
+      expect(JSON.stringify(listUnitsFromRows(listing, spec))).toBe(JSON.stringify(listUnitsFrom(lightRuns(rows), spec)));
     }
   });
 

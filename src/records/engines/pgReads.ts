@@ -15,7 +15,7 @@ import { judgeDigestRows, toStoredRun } from '../readRuns.js';
 import type { DamagedRow, DigestRow, RunDigestRow, RunFilter, RunRow } from '../readRuns.js';
 import type { StoredCalibrationRun } from '../../types/index.js';
 import { PgCallError } from './pgSync.js';
-import { SUMMARY_COLUMNS, summaryRowOf } from '../runSummary.js';
+import { listingColumns, SUMMARY_COLUMNS, summaryRowOf } from '../runSummary.js';
 import type { SummaryArray, SummaryRow } from '../runSummary.js';
 import type { PgSyncClient } from './pgSync.js';
 
@@ -143,6 +143,13 @@ export function pgSummaryArrays(client: PgSyncClient, unit?: string): SummaryArr
     unit === undefined ? [] : [unit],
   );
 }
+
+/** Every run as a listing reads it (listingColumns: the summary's text written by PostgreSQL), in pgSummaryArrays' order. */
+export function pgListingArrays(client: PgSyncClient): SummaryArray[] {
+  return client.queryArrays(`SELECT ${LISTING_PG} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ORDER BY r.unit, r.started_at, r.id`);
+}
+
+const LISTING_PG = listingColumns('pg');
 
 /** pgSummaryArrays as objects of one shape (the whole-store audit judges them so). */
 export function pgSummaryRows(client: PgSyncClient, unit?: string): SummaryRow[] {

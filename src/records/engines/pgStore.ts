@@ -38,6 +38,7 @@ import {
   pgChainEntries,
   pgChainRows,
   pgDistinct,
+  pgListingArrays,
   pgReadCalibrationRows,
   pgReadRunDigests,
   pgRunCaptures,
@@ -140,10 +141,10 @@ function wrapPg(client: PgSyncClient, shown: string, cacheDir: string, version: 
   const everyRow = () => ({ entries: pgChainEntries(client), runs: pgReadRunDigests(client), calibrations: pgReadCalibrationRows(client), summaries: pgSummaryRows(client) });
   const reads = verifiedReads(shown, unverified, {
     listing: () => {
-      const summaries = pgSummaryArrays(client);
+      const summaries = pgListingArrays(client);
       const digests = (ids: readonly number[]) =>
         new Map(client.query<{ id: number; digest: string }>('SELECT id, digest FROM runs WHERE id = ANY($1::integer[])', [ids]).rows.map((r) => [r.id, r.digest]));
-      return { audit: judgeListing(pgChainRows(client), summaries, pgReadCalibrationRows(client), digests), summaries };
+      return { audit: judgeListing(pgChainRows(client), summaries, pgReadCalibrationRows(client), digests, () => pgSummaryArrays(client)), summaries };
     },
     rows: () => judgeStore(everyRow()),
     full: () => {
