@@ -16,6 +16,7 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import pg from 'pg';
 import { inject } from 'vitest';
 
 /** Debian's layout for the `postgresql` package (postgresql-15). */
@@ -33,6 +34,12 @@ export interface PgCluster {
   createDatabase(name: string): string;
   /** Run one SQL statement through psql as the superuser; returns its unaligned output. */
   psql(sql: string, database?: string): string;
+  /**
+   * Run SQL (one statement or several separated by semicolons) as the superuser over one connection
+   * per database kept until kill() or stop() (the pg client, in this process: no psql process and no
+   * new server backend per call); returns the rows of the last statement.
+   */
+  sql(text: string, database?: string): Promise<Record<string, unknown>[]>;
   /** Stop the server at once (immediate mode: like a crash, no checkpoint) without removing the folder. */
   kill(): void;
   /** Start the server again on the same data after kill(). */
@@ -138,6 +145,18 @@ export function startPgCluster(): PgClusterResult {
   }
   let running = true;
   const psql = (sql: string, database = 'postgres'): string => runAs('psql', ['-h', root, '-p', String(port), '-U', 'postgres', '-d', database, '-At', '-v', 'ON_ERROR_STOP=1', '-c', sql]);
+  const clients = new Map<string, Promise<pg.Client>>();
+  const connect = async (database: string): Promise<pg.Client> => {
+    const client = new pg.Client({ host: root, port, user: 'postgres', database });
+    // A server killed under an idle connection: the next sql() call connects afresh.
+    client.on('error', () => clients.delete(database));
+    await client.connect();
+    return client;
+  };
+  const endClients = (): void => {
+    for (const c of clients.values()) void c.then((client) => client.end()).catch(() => {});
+    clients.clear();
+  };
   const url = (name = 'postgres'): string => `postgres://postgres@/${name}?host=${encodeURIComponent(root)}&port=${port}`;
   return {
     root,
@@ -149,8 +168,20 @@ export function startPgCluster(): PgClusterResult {
       return url(name);
     },
     psql,
+    async sql(text, database = 'postgres') {
+      let client = clients.get(database);
+      if (client === undefined) {
+        client = connect(database);
+        clients.set(database, client);
+        client.catch(() => clients.delete(database));
+      }
+      const result = await (await client).query(text);
+      const last = Array.isArray(result) ? result[result.length - 1] : result;
+      return last?.rows ?? [];
+    },
     kill() {
       if (!running) return;
+      endClients();
       runAs('pg_ctl', ['-D', dataDir, '-m', 'immediate', '-w', 'stop']);
       running = false;
     },
@@ -160,6 +191,7 @@ export function startPgCluster(): PgClusterResult {
       running = true;
     },
     stop() {
+      endClients();
       try {
         if (running) runAs('pg_ctl', ['-D', dataDir, '-m', 'immediate', '-w', 'stop']);
       } finally {

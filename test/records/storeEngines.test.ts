@@ -33,18 +33,18 @@ let dbCount = 0;
 interface Engine {
   readonly name: string;
   readonly skip?: string;
-  fresh(): { open: (unverified?: 'refuse' | 'mark') => RecordStore; sql: (text: string) => void; cache: string };
+  fresh(): Promise<{ open: (unverified?: 'refuse' | 'mark') => RecordStore; sql: (text: string) => Promise<void>; cache: string }>;
 }
 
 const embedded: Engine = {
   name: 'embedded (SQLite)',
-  fresh() {
+  async fresh() {
     const root = makeTempDir();
     dirs.push(root);
     const dir = join(root, 'benchproof-data');
     return {
       open: (unverified = 'refuse') => openStore(dir, { unverified }),
-      sql: (text) => {
+      sql: async (text) => {
         const db = new Database(join(dir, 'records.db'));
         try {
           db.exec(text);
@@ -60,16 +60,18 @@ const embedded: Engine = {
 const shared: Engine = {
   name: 'shared (PostgreSQL)',
   ...(pgSkip ? { skip: pgSkip } : {}),
-  fresh() {
+  async fresh() {
     const cluster = started as PgCluster;
     const name = `engines${++dbCount}`;
-    const url = cluster.createDatabase(name);
+    // SQL behind the store's back goes through the helper's kept superuser connection (pg), not psql.
+    await cluster.sql(`CREATE DATABASE "${name}"`);
+    const url = cluster.url(name);
     const root = makeTempDir();
     dirs.push(root);
     const cache = join(root, 'bench-data');
     return {
       open: (unverified = 'refuse') => openPgStore(url, { cacheDir: cache, unverified }),
-      sql: (text) => void cluster.psql(text, name),
+      sql: async (text) => void (await cluster.sql(text, name)),
       cache,
     };
   },
@@ -83,8 +85,8 @@ const dropTriggers = {
 describe.each([embedded, shared])('the record store on the $name engine', (engine) => {
   const test = engine.skip ? it.skip : it;
 
-  test('gives back a saved run field for field, in a later session, with its captures byte for byte', () => {
-    const s = engine.fresh();
+  test('gives back a saved run field for field, in a later session, with its captures byte for byte', async () => {
+    const s = await engine.fresh();
     const run = kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' });
     const store = s.open();
     const saved = store.saveRun(run);
@@ -99,8 +101,8 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     for (const c of rec!.runs[0].captures) expect(sha(readFileSync(join(s.cache, c.archivePath)))).toBe(c.sha256);
   });
 
-  test('keeps every run of a re-tested unit and lets the latest decide, in the listing too', () => {
-    const store = engine.fresh().open();
+  test('keeps every run of a re-tested unit and lets the latest decide, in the listing too', async () => {
+    const store = (await engine.fresh()).open();
     store.saveRun(kestrelRun({ unit: 'FK-0104', startedAt: '2026-03-02T11:00:00.000Z', frequencyScale: 0.943 }));
     store.saveRun(kestrelRun({ unit: 'FK-0104', startedAt: '2026-03-05T08:30:00.000Z' }));
     store.saveRun(kestrelRun({ unit: 'FK-0104', startedAt: '2026-03-01T08:30:00.000Z', frequencyScale: 0.943 }));
@@ -115,8 +117,8 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     ]);
   });
 
-  test('stores a capture seen before for the same unit and condition once (saveRunOnce)', () => {
-    const store = engine.fresh().open();
+  test('stores a capture seen before for the same unit and condition once (saveRunOnce)', async () => {
+    const store = (await engine.fresh()).open();
     const run = kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T10:00:00.000Z' });
     const first = store.saveRunOnce(run);
     const second = store.saveRunOnce({ ...run, startedAt: '2026-03-02T10:05:00.000Z' });
@@ -127,8 +129,8 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     expect(runs).toHaveLength(1);
   });
 
-  test('two benches adding to the same unit at once continue one attempt, numbered in the order they are stored', () => {
-    const s = engine.fresh();
+  test('two benches adding to the same unit at once continue one attempt, numbered in the order they are stored', async () => {
+    const s = await engine.fresh();
     const [a, b] = [s.open(), s.open()];
     const full = kestrelRun({ unit: 'FK-0106', startedAt: '2026-03-03T09:00:00.000Z' });
     const only = (i: number, at: string) => ({ ...full, startedAt: at, verdict: { ...full.verdict, captures: full.verdict.captures.slice(i, i + 1), waitingFor: ['low', 'mid', 'high'].filter((_, k) => k !== i) }, captures: full.captures.slice(i, i + 1) });
@@ -143,15 +145,15 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     expect(rec.attempts?.map((x) => x.state)).toEqual(['complete']);
   });
 
-  test('refuses a run edited behind its back, and one edited and re-fingerprinted with the fingerprint rule', () => {
-    const s = engine.fresh();
+  test('refuses a run edited behind its back, and one edited and re-fingerprinted with the fingerprint rule', async () => {
+    const s = await engine.fresh();
     const store = s.open();
     const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     store.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
     store.close();
-    expect(() => s.sql(`UPDATE runs SET operator = 'someone else' WHERE id = ${saved.id}`)).toThrow(/append-only/);
-    s.sql(dropTriggers[engine.name]);
-    s.sql(`UPDATE runs SET operator = 'someone else' WHERE id = ${saved.id}`);
+    await expect(s.sql(`UPDATE runs SET operator = 'someone else' WHERE id = ${saved.id}`)).rejects.toThrow(/append-only/);
+    await s.sql(dropTriggers[engine.name]);
+    await s.sql(`UPDATE runs SET operator = 'someone else' WHERE id = ${saved.id}`);
     const strict = s.open();
     expect(() => strict.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
     expect(() => strict.unitRecord('FK-0101')).toThrow(/run #1 of FK-0101: its content no longer matches/);
@@ -162,7 +164,7 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     marked.close();
     // Re-fingerprinted as benchproof would (digest.ts): the run matches itself, not the chain.
     const edited = { ...saved, operator: 'someone else' };
-    s.sql(`UPDATE runs SET digest = '${runDigest(edited)}' WHERE id = ${saved.id}`);
+    await s.sql(`UPDATE runs SET digest = '${runDigest(edited)}' WHERE id = ${saved.id}`);
     const again = s.open();
     // The listing sees the row's columns no longer match its summary; the full read names the new fingerprint.
     expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
@@ -170,18 +172,18 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     again.close();
   });
 
-  test('refuses a store whose run was deleted with its chain entry, naming the broken chain', () => {
-    const s = engine.fresh();
+  test('refuses a store whose run was deleted with its chain entry, naming the broken chain', async () => {
+    const s = await engine.fresh();
     const store = s.open();
     store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     const second = store.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
     store.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: '2026-03-02T09:25:00.000Z' }));
     store.close();
-    s.sql(dropTriggers[engine.name]);
+    await s.sql(dropTriggers[engine.name]);
     for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summary_checks', 'run_summaries']) {
-      s.sql(engine === shared ? `ALTER TABLE ${t} DISABLE TRIGGER USER; DELETE FROM ${t} WHERE run_id = ${second.id}` : `DROP TRIGGER ${t}_no_delete; DELETE FROM ${t} WHERE run_id = ${second.id}`);
+      await s.sql(engine === shared ? `ALTER TABLE ${t} DISABLE TRIGGER USER; DELETE FROM ${t} WHERE run_id = ${second.id}` : `DROP TRIGGER ${t}_no_delete; DELETE FROM ${t} WHERE run_id = ${second.id}`);
     }
-    s.sql(`DELETE FROM runs WHERE id = ${second.id}; DELETE FROM chain WHERE row_id = ${second.id} AND kind = 'run'`);
+    await s.sql(`DELETE FROM runs WHERE id = ${second.id}; DELETE FROM chain WHERE row_id = ${second.id} AND kind = 'run'`);
     const again = s.open();
     expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
     expect(again.audit().problems.map((p) => p.problem)).toContain('chain-broken');
@@ -193,14 +195,14 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
   const unguard = (table: string): string =>
     engine === shared ? `ALTER TABLE ${table} DISABLE TRIGGER USER;` : `DROP TRIGGER IF EXISTS ${table}_no_update; DROP TRIGGER IF EXISTS ${table}_no_delete;`;
 
-  test('refuses a listing and a batch whose run summary was edited behind its back', () => {
-    const s = engine.fresh();
+  test('refuses a listing and a batch whose run summary was edited behind its back', async () => {
+    const s = await engine.fresh();
     const store = s.open();
     const saved = store.saveRun(kestrelRun({ unit: 'FK-0103', startedAt: '2026-03-02T09:15:00.000Z', riseFraction: 0.48 }));
     store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:20:00.000Z' }));
     expect(store.listUnits().find((u) => u.unit === 'FK-0103')?.status).toBe('fail');
     store.close();
-    s.sql(`${unguard('run_summaries')} UPDATE run_summaries SET state_json = replace(state_json, '"fail"', '"pass"') WHERE run_id = ${saved.id}`);
+    await s.sql(`${unguard('run_summaries')} UPDATE run_summaries SET state_json = replace(state_json, '"fail"', '"pass"') WHERE run_id = ${saved.id}`);
     const again = s.open();
     expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
     expect(() => again.batchRuns()).toThrow(/run #1 of FK-0103: its content no longer matches/);
@@ -210,24 +212,24 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     marked.close();
   });
 
-  test('refuses a batch whose run summary checks were edited, which the listing does not read', () => {
-    const s = engine.fresh();
+  test('refuses a batch whose run summary checks were edited, which the listing does not read', async () => {
+    const s = await engine.fresh();
     const store = s.open();
     const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     store.close();
-    s.sql(`${unguard('run_summary_checks')} UPDATE run_summary_checks SET checks_json = replace(checks_json, '"Hz"', '"kHz"') WHERE run_id = ${saved.id}`);
+    await s.sql(`${unguard('run_summary_checks')} UPDATE run_summary_checks SET checks_json = replace(checks_json, '"Hz"', '"kHz"') WHERE run_id = ${saved.id}`);
     const again = s.open();
     expect(again.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
     expect(() => again.batchRuns()).toThrow(/run #1 of FK-0101: its summary's checks no longer match/);
     again.close();
   });
 
-  test('refuses a unit record whose verdict was edited, and names it in the full audit; the listing, which never reads verdicts, still answers', () => {
-    const s = engine.fresh();
+  test('refuses a unit record whose verdict was edited, and names it in the full audit; the listing, which never reads verdicts, still answers', async () => {
+    const s = await engine.fresh();
     const store = s.open();
     const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     store.close();
-    s.sql(`${unguard('runs')} UPDATE runs SET verdict_json = replace(verdict_json, '"Hz"', '"kHz"') WHERE id = ${saved.id}`);
+    await s.sql(`${unguard('runs')} UPDATE runs SET verdict_json = replace(verdict_json, '"Hz"', '"kHz"') WHERE id = ${saved.id}`);
     const again = s.open();
     expect(again.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
     expect(() => again.unitRecord('FK-0101')).toThrow(expect.objectContaining({ code: 'records.tampered' }));
@@ -235,14 +237,14 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     again.close();
   });
 
-  test('refuses a listing when a run and its summary were deleted, their chain entries left', () => {
-    const s = engine.fresh();
+  test('refuses a listing when a run and its summary were deleted, their chain entries left', async () => {
+    const s = await engine.fresh();
     const store = s.open();
     store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     const second = store.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
     store.close();
     for (const t of ['measurements', 'run_captures', 'causes', 'checks', 'condition_results', 'run_summary_checks', 'run_summaries', 'runs']) {
-      s.sql(`${unguard(t)} DELETE FROM ${t} WHERE ${t === 'runs' ? 'id' : 'run_id'} = ${second.id}`);
+      await s.sql(`${unguard(t)} DELETE FROM ${t} WHERE ${t === 'runs' ? 'id' : 'run_id'} = ${second.id}`);
     }
     const again = s.open();
     expect(() => again.listUnits()).toThrow(expect.objectContaining({ code: 'records.tampered' }));
@@ -250,8 +252,8 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
     again.close();
   });
 
-  test('stores calibration iterations as one calibration run until one meets its limits, chained like runs', () => {
-    const store = engine.fresh().open();
+  test('stores calibration iterations as one calibration run until one meets its limits, chained like runs', async () => {
+    const store = (await engine.fresh()).open();
     const run = kestrelRun({ unit: 'FK-0104', startedAt: '2026-03-02T09:15:00.000Z' });
     const result = (meets: boolean) => ({ unit: 'FK-0104', statement: meets ? 'pass' : 'fail', meetsLimits: meets, steps: [], guidance: [], notes: [], tracking: {} }) as never;
     const it0 = { unit: 'FK-0104', startedAt: '2026-03-02T10:00:00.000Z', operator: 'demo', station: 'bench-2', spec: run.spec, toolVersion: '0.1.0', result: result(false), captures: run.captures.slice(0, 1) };
@@ -268,50 +270,52 @@ describe.each([embedded, shared])('the record store on the $name engine', (engin
 });
 
 describe.skipIf(pgSkip !== undefined)('the shared store alone', () => {
-  it('refuses a capture whose chunks were changed on the server when a unit record reads it, and in the full audit', () => {
-    const s = shared.fresh();
+  it('refuses a capture whose chunks were changed on the server when a unit record reads it, and in the full audit', async () => {
+    const s = await shared.fresh();
     const store = s.open();
     const saved = store.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     store.close();
-    s.sql(`ALTER TABLE capture_chunks DISABLE TRIGGER USER; UPDATE capture_chunks SET bytes = bytes || '\\x0a'::bytea WHERE sha256 = '${saved.captures[1].sha256}'`);
+    await s.sql(`ALTER TABLE capture_chunks DISABLE TRIGGER USER; UPDATE capture_chunks SET bytes = bytes || '\\x0a'::bytea WHERE sha256 = '${saved.captures[1].sha256}'`);
     const again = s.open();
     expect(() => again.unitRecord('FK-0101')).toThrow(expect.objectContaining({ code: 'records.tampered' }));
     expect(again.audit().problems.map((p) => p.problem)).toEqual(['capture-changed']);
     again.close();
   });
 
-  it('reuses a kept connection for the next open, and connects afresh when the server dropped it meanwhile', () => {
+  it('reuses a kept connection for the next open, and connects afresh when the server dropped it meanwhile', async () => {
     const cluster = started as PgCluster;
     const name = `keep${++dbCount}`;
-    const url = cluster.createDatabase(name);
+    await cluster.sql(`CREATE DATABASE "${name}"`);
+    const url = cluster.url(name);
     const cache = join(makeTempDir(), 'bench-data');
     dirs.push(dirname(cache));
     const open = () => openPgStore(url, { cacheDir: cache, keepConnection: true });
-    const sessions = () => Number(cluster.psql(`SELECT COUNT(*) FROM pg_stat_activity WHERE datname = '${name}' AND pid <> pg_backend_pid()`, name));
+    // Counted from the helper's own connection to the database, which pg_backend_pid() leaves out.
+    const sessions = async () => Number((await cluster.sql(`SELECT COUNT(*) AS n FROM pg_stat_activity WHERE datname = '${name}' AND pid <> pg_backend_pid()`, name))[0].n);
     const first = open();
     first.saveRun(kestrelRun({ unit: 'FK-0101', startedAt: '2026-03-02T09:15:00.000Z' }));
     first.close();
     const second = open();
     expect(second.listUnits().map((u) => u.unit)).toEqual(['FK-0101']);
     second.close();
-    expect(sessions()).toBe(1);
-    cluster.psql(`SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = '${name}' AND pid <> pg_backend_pid()`, name);
+    expect(await sessions()).toBe(1);
+    await cluster.sql(`SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = '${name}' AND pid <> pg_backend_pid()`, name);
     const third = open();
     third.saveRun(kestrelRun({ unit: 'FK-0102', startedAt: '2026-03-02T09:20:00.000Z' }));
     expect(third.listUnits().map((u) => u.unit)).toEqual(['FK-0101', 'FK-0102']);
     third.close();
-    expect(sessions()).toBe(1);
+    expect(await sessions()).toBe(1);
   });
 
-  it('refuses a shared store written by a newer schema with records.newer-schema', () => {
-    const s = shared.fresh();
+  it('refuses a shared store written by a newer schema with records.newer-schema', async () => {
+    const s = await shared.fresh();
     s.open().close();
-    s.sql(`INSERT INTO schema_migrations (version, name, applied_at) VALUES (${LATEST_SCHEMA + 1}, 'later', '2030-01-01')`);
+    await s.sql(`INSERT INTO schema_migrations (version, name, applied_at) VALUES (${LATEST_SCHEMA + 1}, 'later', '2030-01-01')`);
     expect(() => s.open()).toThrow(expect.objectContaining({ code: 'records.newer-schema' }));
   });
 
-  it('stores a run pushed twice under the same bench id once, keeping the bench fingerprint beside it', () => {
-    const s = shared.fresh();
+  it('stores a run pushed twice under the same bench id once, keeping the bench fingerprint beside it', async () => {
+    const s = await shared.fresh();
     const store = s.open();
     const run = kestrelRun({ unit: 'FK-0103', startedAt: '2026-03-02T09:15:00.000Z' });
     const first = store.saveRun(run, { uid: 'bench-a:1', originDigest: 'f'.repeat(64) });
