@@ -152,7 +152,8 @@ describe('spec parser under mutated and random specs', () => {
 
   it('ends `check` with exit 0, 1 or 2 (never 3) when a mutated spec is still valid', { timeout: scaled(60_000, 30 * 60_000) }, async () => {
     const dir = mkdtempSync(join(tmpdir(), 'benchproof-specfuzz-'));
-    const valid = fc.sample(specText, { seed: seedFor(5), numRuns: scaled(300, 6000) }).filter((t) => judge(t) === null && parses(t));
+    // The texts parseSpec accepts (each parsed once: one it accepts is one judge() finds no problem in).
+    const valid = fc.sample(specText, { seed: seedFor(5), numRuns: scaled(300, 6000) }).filter(parses);
     for (const [n, text] of valid.slice(0, scaled(6, 200)).entries()) {
       const file = join(dir, `spec-${n}.yaml`);
       writeFileSync(file, text);
