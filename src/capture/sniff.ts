@@ -110,9 +110,9 @@ export function sniffLayout(s: SampleLines, file: string, hints: LayoutHints = {
     ...header.pairs,
     ...shared.map((l) => sideEntry(splitFields(l.text, delimiter).fields, ignored)).filter((e): e is readonly [string, string] => e !== null),
   ];
-  let rows: number[][] | undefined;
-  let integers: boolean[] | undefined;
-  const sampleText = (): string[][] => dataSplit.slice(0, 2000).map((x) => x.fields.slice(0, columns));
+  // The sample rows' numbers and print resolutions are read once, for whichever is asked first.
+  let parsed: ParsedSample | undefined;
+  const sample = (): ParsedSample => (parsed ??= parseSample(dataSplit.slice(0, 2000).map((x) => x.fields.slice(0, columns)), columns, decimalMark));
   return {
     delimiter,
     decimalMark,
@@ -138,8 +138,8 @@ export function sniffLayout(s: SampleLines, file: string, hints: LayoutHints = {
         .map((r) => ({ what: `${describe(r)}, data from line ${lines[r === chosen ? start : r.start].line} (${r.score} of ${Math.min(lines.length, CHOOSE_LINES)} lines)`, score: r.score, chosen: r === chosen })),
       ...(header.weighed ?? []).map((w) => ({ what: `header: ${w.what} (${w.score} points)`, score: w.score, chosen: w.what === describeHeader(header) })),
     ],
-    sampleRows: () => (rows ??= numericRows(sampleText(), decimalMark)),
-    integerWritten: () => (integers ??= integerColumns(sampleText(), columns, decimalMark)),
+    sampleRows: () => sample().rows,
+    integerWritten: () => sample().integers,
   };
 }
 
@@ -165,17 +165,23 @@ function sideEntry(fields: readonly string[], ignored: readonly number[]): reado
   return cells.length === 0 ? null : [cells[0], cells.slice(1).join(' ')];
 }
 
-function integerColumns(rows: readonly string[][], columns: number, decimalMark: DecimalMark): boolean[] {
-  return Array.from({ length: columns }, (_, c) =>
-    rows.every((r) => {
-      const p = parseNumberText(r[c] ?? '', decimalMark);
-      return p.kind !== NUMBER || p.quantumExp >= 0;
-    }),
-  );
+interface ParsedSample {
+  /** The numbers of each sample row (NaN where a field is not one). */
+  readonly rows: number[][];
+  /** Per column: every number in it written without a fractional digit (an integer code). */
+  readonly integers: boolean[];
 }
 
-function numericRows(rows: readonly string[][], decimalMark: DecimalMark): number[][] {
-  return rows.map((r) => r.map((f) => parseNumberText(f, decimalMark).value));
+function parseSample(rows: readonly string[][], columns: number, decimalMark: DecimalMark): ParsedSample {
+  const integers = new Array<boolean>(columns).fill(true);
+  const values = rows.map((r) =>
+    r.map((f, c) => {
+      const p = parseNumberText(f, decimalMark);
+      if (p.kind === NUMBER && p.quantumExp < 0) integers[c] = false;
+      return p.value;
+    }),
+  );
+  return { rows: values, integers };
 }
 
 /** Every pair's reading; the lines are split once per delimiter, as two pairs share each one. */
