@@ -146,14 +146,16 @@ async function gatherSample(chunks: AsyncIterator<Buffer>): Promise<{ sample: Bu
   const parts: Buffer[] = [];
   let total = 0;
   let lastBreak = -1;
+  // One part (the usual case: the first chunk holds the sample) is not copied a second time.
+  const joined = (): Buffer => (parts.length === 1 ? parts[0] : Buffer.concat(parts));
   for (;;) {
     const r = await chunks.next();
-    if (r.done) return { sample: Buffer.concat(parts), done: true };
+    if (r.done) return { sample: joined(), done: true };
     parts.push(Buffer.from(r.value)); // the source reuses its buffer for the next chunk
     const lf = Math.max(r.value.lastIndexOf(10), r.value.lastIndexOf(13));
     if (lf >= 0) lastBreak = total + lf;
     total += r.value.length;
-    if (lastBreak >= SNIFF_BYTES || total - lastBreak - 1 > MAX_LINE_BYTES) return { sample: Buffer.concat(parts), done: false };
+    if (lastBreak >= SNIFF_BYTES || total - lastBreak - 1 > MAX_LINE_BYTES) return { sample: joined(), done: false };
   }
 }
 
