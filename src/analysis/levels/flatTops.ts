@@ -67,16 +67,18 @@ export function flatTops(samples: Float64Array, options: FlatTopOptions): FlatTo
   // Values printed with 15 digits differ in the last one: "exactly" flat means within this much.
   const equal = 1e-9 * Math.max(Math.abs(max), Math.abs(min), span);
   const held = heldLevels(samples, equal);
+  // A stray sample past a flat run (a simulator's or scope's overshoot) must not hide it: the exact
+  // level is the highest (lowest) one held for MIN_RUN samples in a row.
+  const levels = { high: held.high ?? max, low: held.low ?? min };
+  const steps = stepsInside(samples, levels, { max, min }, equal);
   let tails: number[] | null = null;
   for (const dir of [1, -1] as const) {
     const side = dir > 0 ? 'high' : 'low';
     const extreme = dir > 0 ? max : min;
-    // A stray sample past a flat run (a simulator's or scope's overshoot) must not hide it: the exact
-    // level is the highest (lowest) one held for MIN_RUN samples in a row.
-    const level = (dir > 0 ? held.high : held.low) ?? extreme;
-    const q = stepAt(samples, level, -dir, equal);
+    const level = dir > 0 ? levels.high : levels.low;
+    const q = dir > 0 ? steps.belowHigh : steps.aboveLow;
     // A converter end code is the scope's edge whatever the preamble states (it may be misread).
-    const from = (fullScale ? statedEdge(side, level, fullScale) : null) ?? fullScaleOf(extreme, level === extreme ? q : stepAt(samples, extreme, -dir), max, min);
+    const from = (fullScale ? statedEdge(side, level, fullScale) : null) ?? fullScaleOf(extreme, level === extreme ? q : dir > 0 ? steps.belowMax : steps.aboveMin, max, min);
     if (from === null && scopeRangeOnly) continue;
     const noisy = { band: BAND_SIGMAS * noise, unit: BAND_SIGMAS * noise, d: Math.max(8 * BAND_SIGMAS * noise, 0.05 * span) };
     const exact = { band: equal, unit: q, d: Math.max(2 * q, 0.05 * span) };
@@ -303,14 +305,35 @@ function fullScaleOf(level: number, q: number, max: number, min: number): FlatTo
   return null;
 }
 
-/** Distance from `level` to the nearest other value on the inside (`towards` −1 below, +1 above). */
-function stepAt(x: Float64Array, level: number, towards: number, equal = 0): number {
-  let best = Infinity;
+/**
+ * Distances from the held levels to the nearest other value on the inside (more than `equal` away),
+ * and from the extremes to theirs (any other value), in one pass: the step q of rules 2 and 3, and the
+ * step fullScaleOf reads converter codes with. Infinity where there is none.
+ */
+function stepsInside(
+  x: Float64Array,
+  levels: { readonly high: number; readonly low: number },
+  range: { readonly max: number; readonly min: number },
+  equal: number,
+): { belowHigh: number; belowMax: number; aboveLow: number; aboveMin: number } {
+  const { high, low } = levels;
+  const { max, min } = range;
+  let belowHigh = Infinity;
+  let belowMax = Infinity;
+  let aboveLow = Infinity;
+  let aboveMin = Infinity;
   for (let i = 0; i < x.length; i++) {
-    const d = towards * (x[i] - level);
-    if (d > equal && d < best) best = d;
+    const v = x[i];
+    const dh = high - v;
+    if (dh > equal && dh < belowHigh) belowHigh = dh;
+    const dm = max - v;
+    if (dm > 0 && dm < belowMax) belowMax = dm;
+    const dl = v - low;
+    if (dl > equal && dl < aboveLow) aboveLow = dl;
+    const dn = v - min;
+    if (dn > 0 && dn < aboveMin) aboveMin = dn;
   }
-  return best;
+  return { belowHigh, belowMax, aboveLow, aboveMin };
 }
 
 /** The highest and lowest values held within `equal` for MIN_RUN samples in a row (null where none), in one pass. */
