@@ -30,7 +30,7 @@ import process from 'node:process';
 import { execFileSync, spawnSync } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createHash, randomBytes } from 'node:crypto';
-import { dirname, join, resolve } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { benchRun, fillStore, newCaptures } from './lib/storeRuns.js';
 
@@ -177,6 +177,8 @@ function startCluster(dir) {
   if (asRoot && spawnSync('id', ['postgres']).status !== 0) return { skip: 'running as root without a postgres user' };
   const run = (bin, args) => execFileSync(asRoot ? 'runuser' : join(PG_BIN, bin), asRoot ? ['-u', 'postgres', '--', join(PG_BIN, bin), ...args] : args, { stdio: 'pipe', timeout: 600_000, encoding: 'utf8' });
   const data = join(dir, 'data');
+  // The server is this bench's own only while no other bench/store.js uses the folder.
+  const released = claim(basename(dir));
   mkdirSync(dir, { recursive: true });
   chmodSync(dir, 0o700);
   if (asRoot) execFileSync('chown', ['postgres:', dir]);
@@ -201,6 +203,7 @@ function startCluster(dir) {
   return {
     /** The database `name`: as kept when its filling finished (and no refill), else new and empty. */
     database: (name) => {
+      const release = claim(name);
       const mark = join(marks, name);
       const kept = !REFILL && existsSync(mark) && psql(`SELECT 1 FROM pg_database WHERE datname = '${name}'`) === '1';
       if (!kept) {
@@ -208,14 +211,50 @@ function startCluster(dir) {
         psql(`DROP DATABASE IF EXISTS ${name}`);
         psql(`CREATE DATABASE ${name}`);
       }
-      return { url: url(name), filled: kept, markFilled: () => writeFileSync(mark, `${new Date().toISOString()}\n`) };
+      return { url: url(name), filled: kept, release, markFilled: () => writeFileSync(mark, `${new Date().toISOString()}\n`) };
     },
-    stop: () => run('pg_ctl', ['-D', data, '-m', 'fast', '-w', 'stop']),
+    stop: () => {
+      run('pg_ctl', ['-D', data, '-m', 'fast', '-w', 'stop']);
+      released();
+    },
   };
+}
+
+/**
+ * This process's claim on a kept store it is about to check or fill (`name` in STORES): a file made
+ * exclusively, holding the pid, removed when done. Another bench/store.js still alive on the same store
+ * stops this one (two fillers would remove each other's store); a claim left by a process that died is
+ * taken over.
+ */
+function claim(name) {
+  mkdirSync(STORES, { recursive: true });
+  const file = join(STORES, `${name}.claimed`);
+  for (;;) {
+    try {
+      writeFileSync(file, String(process.pid), { flag: 'wx' });
+      // Only our own claim: after a takeover the file may be another process's.
+      const release = () => existsSync(file) && readFileSync(file, 'utf8') === String(process.pid) && rmSync(file, { force: true });
+      process.on('exit', release);
+      return release;
+    } catch (err) {
+      if (err.code !== 'EEXIST') throw err;
+      const pid = Number(readFileSync(file, 'utf8'));
+      let alive = false;
+      try {
+        process.kill(pid, 0);
+        alive = pid !== process.pid;
+      } catch {
+        // No such process: its claim is stale.
+      }
+      if (alive) throw new Error(`another bench/store.js (pid ${pid}) is using the kept store ${name} in ${STORES}; wait for it to finish`, { cause: err });
+      rmSync(file, { force: true });
+    }
+  }
 }
 
 /** A kept SQLite data folder: as it was when its filling finished (and no refill), else removed to be filled anew. */
 function keptFolder(dir) {
+  const release = claim(basename(dir));
   const mark = `${dir}.filled`;
   const kept = !REFILL && existsSync(mark) && existsSync(join(dir, 'records.db'));
   if (!kept) {
@@ -223,7 +262,7 @@ function keptFolder(dir) {
     rmSync(dir, { recursive: true, force: true });
   }
   mkdirSync(dirname(dir), { recursive: true });
-  return { filled: kept, markFilled: () => writeFileSync(mark, `${new Date().toISOString()}\n`) };
+  return { filled: kept, release, markFilled: () => writeFileSync(mark, `${new Date().toISOString()}\n`) };
 }
 
 /** The kept store's name part for a build: its schema version (an older build fills a store of its own). */
@@ -274,6 +313,7 @@ function runEngine(engine, makeTarget) {
     ready.push({ build, ...t });
   }
   if (FILL_ONLY) {
+    for (const t of made.values()) t.release();
     report.push(`${engine}: ${fills.size ? `filled ${UNITS * ATTEMPTS} runs in ${[...fills.values()][0].toFixed(0)} s` : 'kept store found'} (${ready[0].where})`);
     return;
   }
@@ -286,6 +326,7 @@ function runEngine(engine, makeTarget) {
   const step = (warm) => measureCheckStep(() => ready[0].open(ready[0].build), warm);
   const check = CHECK_RUNS > 0 ? { 'after the open-attempt read, as check does': step(true), ...(engine.startsWith('shared') ? { 'first open of the process': step(false) } : {}) } : undefined;
   say(engine, results, fills, check, runs);
+  for (const t of made.values()) t.release();
 }
 
 let cluster;

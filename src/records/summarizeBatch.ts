@@ -105,7 +105,8 @@ function summarizeSpec(spec: string, runs: readonly StoredRun[], since: number):
     firstPass: yieldOf(complete.map((u) => u.firstComplete ?? u.first)),
     final: yieldOf(complete.map((u) => u.latestComplete ?? u.latest)),
     incomplete: units.filter((u) => u.latestComplete === undefined).map((u) => ({ unit: u.unit, waitingFor: u.waitingFor ?? [] })),
-    measurements: measurementStats(latestRuns),
+    // Each unit's place in serial order, so the values of every quantity sort by a number, not by the collator again.
+    measurements: measurementStats(latestRuns, new Map(kept.map(([unit], i) => [unit, i]))),
     remarks,
   };
 }
@@ -129,7 +130,7 @@ interface Gathered {
   limitsDiffer: boolean;
 }
 
-function measurementStats(latestRuns: readonly StoredRun[]): MeasurementStats[] {
+function measurementStats(latestRuns: readonly StoredRun[], place: ReadonlyMap<string, number>): MeasurementStats[] {
   const byKey = new Map<string, Gathered>();
   // Newest first, so the quantities come in the newest revision's order and its limits are the ones used.
   const newestFirst = [...latestRuns].sort((a, b) => oldestFirst(b, a));
@@ -146,12 +147,13 @@ function measurementStats(latestRuns: readonly StoredRun[]): MeasurementStats[] 
       byKey.set(key, g);
     }
   }
-  return [...byKey.values()].map(statsOf);
+  return [...byKey.values()].map((g) => statsOf(g, place));
 }
 
-function statsOf(g: Gathered): MeasurementStats {
+function statsOf(g: Gathered, place: ReadonlyMap<string, number>): MeasurementStats {
   const { limits } = g;
-  const values = [...g.values].sort((a, b) => compareSerials(a.unit, b.unit));
+  // In serial order (compareSerials), by each unit's place in the spec's units, which are sorted so.
+  const values = [...g.values].sort((a, b) => (place.get(a.unit) ?? 0) - (place.get(b.unit) ?? 0) || compareSerials(a.unit, b.unit));
   const sample = describeSample(values.map((v) => v.value));
   // A spread smaller than one value's standard uncertainty u = U/2 (GUM §6.2.1) is the measurement's
   // own scatter or its resolution, not the units': Cp/Cpk from it would be meaningless (common practice).
