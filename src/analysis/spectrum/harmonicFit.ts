@@ -12,7 +12,8 @@
  * w[0] = 6·10⁻⁵ sets a 6 dB/octave tail: 6·10⁻⁵/(π·256·a₀)).
  */
 import { at, envelopeCholeskySolve, envelopeOf, type Envelope } from '../fits/envelopeCholesky.js';
-import { frameKernelInto, type SpectralFrame } from './spectralFrame.js';
+import type { SpectralFrame } from './spectralFrame.js';
+import { kernelInto, kernelTerms, type KernelTerms } from './windows.js';
 
 const COUPLING_BINS = 256;
 /**
@@ -98,12 +99,18 @@ function layout(frame: SpectralFrame, fundamental: number, count: number): Layou
 
 /** Scratch for rowAt's two window kernels (re, im each); rowAt is not re-entered. */
 const KERNEL = new Float64Array(4);
+/** Scratch for harmonicRange's answer: [gLo, gHi] (gLo > gHi when no harmonic couples). */
+const RANGE = new Int32Array(2);
 
 /** Column of the first unknown of harmonic g (DC has one, the others two). */
 const columnOf = (g: number): number => (g === 0 ? 0 : 2 * g - 1);
 
-/** Harmonics that may couple at bin k: the strong ones within `far`, the rest within `near` (a superset; images included). */
-function harmonicRange(lay: Coupling, k: number): { gLo: number; gHi: number } {
+/**
+ * Harmonics that may couple at bin k, into RANGE: the strong ones within `far`, the rest within
+ * `near` (a superset; images included). Written into a scratch array, not returned as an object:
+ * it runs for every fitted bin, and the first of these calls run before V8 has compiled them.
+ */
+function harmonicRange(lay: Coupling, k: number): void {
   const { spacing, count, far, near } = lay;
   const strongHi = Math.min(count, STRONG, Math.floor((k + far) / spacing));
   const strongLo = Math.max(0, Math.ceil((k - far) / spacing));
@@ -111,31 +118,34 @@ function harmonicRange(lay: Coupling, k: number): { gLo: number; gHi: number } {
   const weakHi = Math.min(count, Math.floor((k + near) / spacing));
   const hasStrong = strongLo <= strongHi;
   const hasWeak = weakLo <= weakHi;
-  if (!hasStrong && !hasWeak) return { gLo: 1, gHi: 0 };
-  return { gLo: hasStrong ? strongLo : weakLo, gHi: hasWeak ? weakHi : strongHi };
+  RANGE[0] = !hasStrong && !hasWeak ? 1 : hasStrong ? strongLo : weakLo;
+  RANGE[1] = !hasStrong && !hasWeak ? 0 : hasWeak ? weakHi : strongHi;
 }
 
 /**
- * Complex coefficients at bin k of the unknowns from column `first` on (interleaved re, im, two
- * values per unknown), zero where a harmonic is too far to couple. Returns `first` and the number of
- * unknowns written (0 when none couples).
+ * Complex coefficients at bin k of the unknowns from column columnOf(RANGE[0]) on (interleaved
+ * re, im, two values per unknown), zero where a harmonic is too far to couple. Returns the number of
+ * unknowns written (0 when none couples); RANGE holds the harmonics afterwards.
  */
-function rowAt(frame: SpectralFrame, lay: Coupling, k: number, row: Float64Array): { first: number; width: number } {
+function rowAt(frame: SpectralFrame, terms: KernelTerms, lay: Coupling, k: number, row: Float64Array): number {
   const { spacing } = lay;
   const size = frame.spectrum.size;
-  const { gLo, gHi } = harmonicRange(lay, k);
-  if (gLo > gHi) return { first: 0, width: 0 };
+  const radiansPerBin = (2 * Math.PI) / size;
+  harmonicRange(lay, k);
+  const gLo = RANGE[0];
+  const gHi = RANGE[1];
+  if (gLo > gHi) return 0;
   const first = columnOf(gLo);
   const width = 2 * gHi + 1 - first;
   row.fill(0, 0, 2 * width);
+  const kernel = KERNEL;
   for (let g = gLo; g <= gHi; g++) {
     const reach = g <= STRONG ? lay.far : lay.near;
     const p = g * spacing;
     const nearImage = Math.min(Math.abs(k + p), Math.abs(size - k - p));
     if (Math.abs(k - p) > reach && nearImage > reach) continue;
     // W(k − p) in kernel[0…1], W(k + p) in kernel[2…3] (zero when its image is too far to couple).
-    const kernel = KERNEL;
-    frameKernelInto(frame, k - p, kernel, 0);
+    kernelInto(terms, radiansPerBin * (k - p), kernel, 0);
     const u = columnOf(g) - first;
     if (g === 0) {
       row[2 * u] = kernel[0];
@@ -145,14 +155,14 @@ function rowAt(frame: SpectralFrame, lay: Coupling, k: number, row: Float64Array
     if (nearImage > reach) {
       kernel[2] = 0;
       kernel[3] = 0;
-    } else frameKernelInto(frame, k + p, kernel, 2);
+    } else kernelInto(terms, radiansPerBin * (k + p), kernel, 2);
     // ½c·W(k−p) + ½c̄·W(k+p) with c = a + ib: coefficient of a is (Wm + Wp)/2, of b is i(Wm − Wp)/2.
     row[2 * u] = (kernel[0] + kernel[2]) / 2;
     row[2 * u + 1] = (kernel[1] + kernel[3]) / 2;
     row[2 * u + 2] = -(kernel[1] - kernel[3]) / 2;
     row[2 * u + 3] = (kernel[0] - kernel[2]) / 2;
   }
-  return { first, width };
+  return width;
 }
 
 /**
@@ -164,7 +174,9 @@ function envelopeFor(lay: Layout): { envelope: Envelope; widest: number } {
   for (let i = 0; i < first.length; i++) first[i] = i;
   let widest = 1;
   for (const k of lay.bins) {
-    const { gLo, gHi } = harmonicRange(lay.coupling, k);
+    harmonicRange(lay.coupling, k);
+    const gLo = RANGE[0];
+    const gHi = RANGE[1];
     if (gLo > gHi) continue;
     const lo = columnOf(gLo);
     widest = Math.max(widest, 2 * gHi + 1 - lo);
@@ -188,9 +200,10 @@ export function fitHarmonics(frame: SpectralFrame, fundamental: number, count: n
   const row = new Float64Array(2 * widest);
   const s = frame.spectrum;
   let total = 0;
+  const terms = kernelTerms(frame.window, frame.length);
   for (const k of lay.bins) {
-    const { first, width } = rowAt(frame, lay.coupling, k, row);
-    accumulate(normal, rhs, row, first, width, s.re(k), s.im(k));
+    const width = rowAt(frame, terms, lay.coupling, k, row);
+    accumulate(normal, rhs, row, columnOf(RANGE[0]), width, s.re(k), s.im(k));
     total += s.power(k);
   }
   let maxDiag = 0;
@@ -253,12 +266,14 @@ export function lobeResidualShare(frame: SpectralFrame, fit: HarmonicFit, n: num
   // The row holds the unknowns that couple within this lobe only, not all of them.
   let widest = 1;
   for (let k = lo; k <= hi; k++) {
-    const { gLo, gHi } = harmonicRange(lay, k);
-    if (gLo <= gHi) widest = Math.max(widest, 2 * gHi + 1 - columnOf(gLo));
+    harmonicRange(lay, k);
+    if (RANGE[0] <= RANGE[1]) widest = Math.max(widest, 2 * RANGE[1] + 1 - columnOf(RANGE[0]));
   }
   const row = new Float64Array(2 * widest);
+  const terms = kernelTerms(frame.window, frame.length);
   for (let k = lo; k <= hi; k++) {
-    const { first, width } = rowAt(frame, lay, k, row);
+    const width = rowAt(frame, terms, lay, k, row);
+    const first = columnOf(RANGE[0]);
     let mr = 0;
     let mi = 0;
     for (let a = 0; a < width; a++) {

@@ -5,7 +5,7 @@
  * The span's mean is removed first so a large offset does not leak into low harmonics.
  */
 import { nextPowerOfTwo, spectrumInPlace, type HalfSpectrum } from './spectrum.js';
-import { applyWindow, mainLobeHalfWidth, windowKernel, windowKernelInto, type Complex, type WindowKind } from './windows.js';
+import { applyWindow, mainLobeHalfWidth, windowKernel, type Complex, type WindowKind } from './windows.js';
 
 export interface SpectralFrame {
   readonly spectrum: HalfSpectrum;
@@ -79,9 +79,4 @@ export function frameBufferLength(length: number): number {
 /** W at an offset of `bins` DFT bins from a component. */
 export function frameKernel(frame: SpectralFrame, bins: number): Complex {
   return windowKernel(frame.window, frame.length, (2 * Math.PI * bins) / frame.spectrum.size);
-}
-
-/** frameKernel written into out[at] (re) and out[at + 1] (im): no object per call, for the fit's loops. */
-export function frameKernelInto(frame: SpectralFrame, bins: number, out: Float64Array, at: number): void {
-  windowKernelInto(frame.window, frame.length, (2 * Math.PI * bins) / frame.spectrum.size, out, at);
 }

@@ -145,23 +145,23 @@ function dirichlet(length: number, phi: number): Complex {
  */
 export function windowKernel(kind: WindowKind, length: number, theta: number): Complex {
   const out = new Float64Array(2);
-  windowKernelInto(kind, length, theta, out, 0);
+  kernelInto(kernelTerms(kind, length), theta, out, 0);
   return { re: out[0], im: out[1] };
 }
 
 /**
- * windowKernel written into out[at] (re) and out[at + 1] (im), for loops that evaluate it for every
- * fitted bin: no object per call. sin((φ ∓ jΔ)/2) comes from sin(φ/2) and cos(φ/2) by the angle
- * sum with cos(jΔ/2) and sin(jΔ/2) kept per length, two sines for all the terms; near a zero of
- * one of them (|φ ∓ jΔ| ≲ 2e-9) its absolute error, a few 1e-17 for the small φ of a fitted bin,
- * is what the direct difference φ − jΔ carries too.
+ * windowKernel written into out[at] (re) and out[at + 1] (im), with the terms of its window and
+ * length looked up once (kernelTerms), for loops that evaluate it for every fitted bin: no object
+ * per call. sin((φ ∓ jΔ)/2) comes from sin(φ/2) and cos(φ/2) by the angle sum with cos(jΔ/2) and
+ * sin(jΔ/2), two sines for all the terms; near a zero of one of them (|φ ∓ jΔ| ≲ 2e-9) its absolute
+ * error, a few 1e-17 for the small φ of a fitted bin, is what the direct difference φ − jΔ carries too.
  */
-export function windowKernelInto(kind: WindowKind, length: number, theta: number, out: Float64Array, at: number): void {
-  const a = COEFFICIENTS[kind];
+export function kernelInto(t: KernelTerms, theta: number, out: Float64Array, at: number): void {
+  const a = t.a;
+  const length = t.length;
   const twoPi = 2 * Math.PI;
   let phi = theta - twoPi * Math.round(theta / twoPi);
   if (phi <= -Math.PI) phi += twoPi;
-  const t = phaseTerms(kind, length);
   const sh = Math.sin(phi / 2);
   const ch = Math.cos(phi / 2);
   let sumRe = 0;
@@ -170,7 +170,7 @@ export function windowKernelInto(kind: WindowKind, length: number, theta: number
     const sm = sh * t.halfCos[j] - ch * t.halfSin[j];
     const sp = sh * t.halfCos[j] + ch * t.halfSin[j];
     if (Math.abs(sm) < 1e-9 || Math.abs(sp) < 1e-9) {
-      kernelByTerms(a, length, phi, out, at);
+      kernelByTerms(COEFFICIENTS[t.kind], length, phi, out, at);
       return;
     }
     if (j === 0) {
@@ -191,9 +191,12 @@ export function windowKernelInto(kind: WindowKind, length: number, theta: number
   out[at + 1] = pr * sumIm + pi * sumRe;
 }
 
-interface PhaseTerms {
+/** The terms of windowKernel that depend on the window and its length only (kernelTerms). */
+export interface KernelTerms {
   readonly kind: WindowKind;
   readonly length: number;
+  /** The window's coefficients a_j. */
+  readonly a: Float64Array;
   /** cos ψ_j and sin ψ_j, ψ_j = πj(L − 1)/L. */
   readonly cos: Float64Array;
   readonly sin: Float64Array;
@@ -203,14 +206,15 @@ interface PhaseTerms {
 }
 
 /**
- * The terms of windowKernel that depend on the length only, while it is called for every fitted bin
- * of every harmonic. The last length's values are kept, one entry, so a new length replaces them.
+ * windowKernel is called for every fitted bin of every harmonic, so what depends on the length
+ * only is computed once. The last length's values are kept, one entry, so a new length replaces them.
  */
-let phaseCache: PhaseTerms | null = null;
+let termsCache: KernelTerms | null = null;
 
-function phaseTerms(kind: WindowKind, length: number): PhaseTerms {
-  if (phaseCache !== null && phaseCache.kind === kind && phaseCache.length === length) return phaseCache;
-  const terms = COEFFICIENTS[kind].length;
+export function kernelTerms(kind: WindowKind, length: number): KernelTerms {
+  if (termsCache !== null && termsCache.kind === kind && termsCache.length === length) return termsCache;
+  const a = Float64Array.from(COEFFICIENTS[kind]);
+  const terms = a.length;
   const cos = new Float64Array(terms);
   const sin = new Float64Array(terms);
   const halfCos = new Float64Array(terms);
@@ -222,8 +226,8 @@ function phaseTerms(kind: WindowKind, length: number): PhaseTerms {
     halfCos[j] = Math.cos((Math.PI * j) / length);
     halfSin[j] = Math.sin((Math.PI * j) / length);
   }
-  phaseCache = { kind, length, cos, sin, halfCos, halfSin };
-  return phaseCache;
+  termsCache = { kind, length, a, cos, sin, halfCos, halfSin };
+  return termsCache;
 }
 
 /** Term-by-term sum of Dirichlet kernels, used where a shifted kernel sits on its peak. */
