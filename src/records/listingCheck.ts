@@ -26,6 +26,13 @@ export interface ListingCheck {
   readonly head: string;
 }
 
+/** A listing's row carries the database's answer (listingColumns: 1 or true); a full row is hashed here. */
+function summaryHolds(r: SummaryArray): boolean {
+  if (r.length > S.holds) return r[S.holds] === 1 || r[S.holds] === true;
+  const text = summaryTextAt(r);
+  return text !== undefined && sha256Hex(text) === r[S.summaryDigest];
+}
+
 export function checkListing(
   chain: readonly ChainArray[],
   summaries: readonly SummaryArray[],
@@ -49,9 +56,7 @@ export function checkListing(
   // Every run row is chained with the fingerprint its summary repeats, and its summary holds and is chained.
   for (const r of summaries) {
     const id = Number(r[S.id]);
-    // A listing's row carries the text as the database wrote it (listingColumns); a full row is written here.
-    const text = r.length > S.text ? r[S.text] : summaryTextAt(r);
-    if (runEntries.get(id) !== String(r[S.digest]) || typeof text !== 'string' || sha256Hex(text) !== r[S.summaryDigest] || summaryEntries.get(id) !== r[S.summaryDigest]) {
+    if (runEntries.get(id) !== String(r[S.digest]) || !summaryHolds(r) || summaryEntries.get(id) !== r[S.summaryDigest]) {
       return { holds: false, head: previous };
     }
   }

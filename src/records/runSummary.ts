@@ -259,23 +259,39 @@ export const SUMMARY_COLUMNS = `r.id, r.unit, r.kind, r.started_at, r.stored_at,
   s.verdict_sha256, s.checks_sha256, s.state_json, s.digest AS summary_digest`;
 
 /** Positions in a row of SUMMARY_COLUMNS read as an array. */
-export const S = { id: 0, unit: 1, kind: 2, startedAt: 3, storedAt: 4, specName: 7, specRevision: 8, specSha256: 9, statement: 11, attempt: 12, attemptReason: 13, note: 14, digest: 15, verdictSha256: 16, checksSha256: 17, stateJson: 18, summaryDigest: 19, text: 20 } as const;
+export const S = { id: 0, unit: 1, kind: 2, startedAt: 3, storedAt: 4, specName: 7, specRevision: 8, specSha256: 9, statement: 11, attempt: 12, attemptReason: 13, note: 14, digest: 15, verdictSha256: 16, checksSha256: 17, stateJson: 18, summaryDigest: 19, holds: 20 } as const;
 
 /**
  * What a listing reads of each run (units, batch): SUMMARY_COLUMNS in the same positions, NULL where
  * the listing shows nothing (kind, storing time, operator, station, tool version, the verdict's
- * SHA-256), and at position 20 the text the summary's fingerprint is taken of (summaryText), written
- * by the database from the same columns: JSON strings by json_quote (SQLite) or to_json (PostgreSQL),
- * which escape as JSON.stringify does. So the listing reads one string where it read eleven and
- * hashes it as it comes. A text that is not the one summaryText writes (NULL columns, a value either
- * escapes differently) fails its fingerprint, and the listing is then judged again from
- * SUMMARY_COLUMNS (auditStore.ts, judgeListing): it never passes what summaryText would fail, since
- * a JSON text names its values one way only.
+ * SHA-256), and at position 20 whether the summary's fingerprint holds: the database writes the text
+ * summaryText writes, from the same columns (summaryTextSql), and compares its SHA-256 with the
+ * stored fingerprint. SQLite hashes it with node:crypto through a function of the connection
+ * (SQLITE_SHA256, registered by readListingArrays), PostgreSQL with its own pg_catalog.sha256, as it
+ * hashes the captures when the store is verified. So a listing neither builds nor keeps eleven
+ * strings per run to hash them. A text that is not the one summaryText writes (NULL columns, a value
+ * escaped otherwise) fails, and the listing is then judged again from SUMMARY_COLUMNS in JavaScript
+ * (auditStore.ts, judgeListing): it never passes what summaryText would fail, since a JSON text names
+ * its values one way only.
  */
 export function listingColumns(dialect: 'sqlite' | 'pg'): string {
+  const text = summaryTextSql(dialect);
+  const holds = dialect === 'sqlite' ? `${SQLITE_SHA256}(${text}) = s.digest` : `encode(pg_catalog.sha256(convert_to(${text}, 'UTF8')), 'hex') = s.digest`;
+  return `r.id, r.unit, NULL, r.started_at, NULL, NULL, NULL, r.spec_name, r.spec_revision, r.spec_sha256, NULL, r.statement, s.attempt, s.attempt_reason, s.note,
+  COALESCE(s.run_digest, r.digest), NULL, s.checks_sha256, s.state_json, s.digest, ${holds}`;
+}
+
+/** The name of the SHA-256 function listingColumns calls on SQLite (hex of the text's UTF-8 bytes). */
+export const SQLITE_SHA256 = 'benchproof_sha256';
+
+/**
+ * summaryText as an SQL expression over `r` (runs) and `s` (run_summaries): JSON strings by json_quote
+ * (SQLite) or to_json (PostgreSQL), which escape as JSON.stringify does; NULL when a part is NULL.
+ */
+export function summaryTextSql(dialect: 'sqlite' | 'pg'): string {
   const q = (x: string): string => (dialect === 'sqlite' ? `json_quote(${x})` : `to_json(${x})::text`);
   const has = (x: string, type: 'integer' | 'text'): string => (dialect === 'sqlite' ? `typeof(${x}) = '${type}'` : `${x} IS NOT NULL`);
-  const text = [
+  return [
     `'{"checks":'`, q('s.checks_sha256'), `',"format":"benchproof-summary-1","head":{'`,
     `CASE WHEN ${has('s.attempt', 'integer')} THEN '"attempt":' || s.attempt || ',' ELSE '' END`,
     `CASE WHEN ${has('s.attempt_reason', 'text')} THEN '"attemptReason":' || ${q('s.attempt_reason')} || ',' ELSE '' END`,
@@ -285,8 +301,6 @@ export function listingColumns(dialect: 'sqlite' | 'pg'): string {
     `'},"startedAt":'`, q('r.started_at'), `',"statement":'`, q('r.statement'), `',"station":'`, q('r.station'), `',"toolVersion":'`, q('r.tool_version'),
     `',"unit":'`, q('r.unit'), `'},"run":'`, q('COALESCE(s.run_digest, r.digest)'), `',"state":'`, 's.state_json', `',"verdict":'`, q('s.verdict_sha256'), `'}'`,
   ].join(' || ');
-  return `r.id, r.unit, NULL, r.started_at, NULL, NULL, NULL, r.spec_name, r.spec_revision, r.spec_sha256, NULL, r.statement, s.attempt, s.attempt_reason, s.note,
-  COALESCE(s.run_digest, r.digest), NULL, s.checks_sha256, s.state_json, s.digest, ${text}`;
 }
 
 /** A row of SUMMARY_COLUMNS as both engines read it: an array of the column values in that order. */

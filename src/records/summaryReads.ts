@@ -6,7 +6,8 @@
 import type { Database } from 'better-sqlite3';
 import type { StoredRun } from '../types/index.js';
 import { readRunHeads } from './attempts.js';
-import { lightRun, listingColumns, SUMMARY_COLUMNS, summaryRowOf } from './runSummary.js';
+import { lightRun, listingColumns, SQLITE_SHA256, SUMMARY_COLUMNS, summaryRowOf } from './runSummary.js';
+import { sha256Hex } from './digest.js';
 import type { SummaryArray, SummaryRow } from './runSummary.js';
 
 /**
@@ -19,8 +20,10 @@ export function readSummaryArrays(db: Database, unit?: string): SummaryArray[] {
   return db.prepare(sql).raw(true).all(...(unit === undefined ? [] : [unit])) as unknown[][];
 }
 
-/** Every run as a listing reads it (listingColumns: the summary's text written by SQLite), in readSummaryArrays' order. */
+/** Every run as a listing reads it (listingColumns: whether its summary holds, hashed as SQLite writes it), in readSummaryArrays' order. */
 export function readListingArrays(db: Database): SummaryArray[] {
+  // The text is hashed as SQLite writes it and dropped at once: only the answer reaches the rows.
+  db.function(SQLITE_SHA256, { deterministic: true }, (text: unknown) => (typeof text === 'string' ? sha256Hex(text) : null));
   return db.prepare(`SELECT ${LISTING_SQLITE} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ORDER BY r.unit, r.started_at, r.id`).raw(true).all() as unknown[][];
 }
 

@@ -144,7 +144,7 @@ export function pgSummaryArrays(client: PgSyncClient, unit?: string): SummaryArr
   );
 }
 
-/** Every run as a listing reads it (listingColumns: the summary's text written by PostgreSQL), in pgSummaryArrays' order. */
+/** Every run as a listing reads it (listingColumns: whether its summary holds, hashed by the server), in pgSummaryArrays' order. */
 export function pgListingArrays(client: PgSyncClient): SummaryArray[] {
   return client.queryArrays(`SELECT ${LISTING_PG} FROM runs r LEFT JOIN run_summaries s ON s.run_id = r.id ORDER BY r.unit, r.started_at, r.id`);
 }
