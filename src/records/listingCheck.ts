@@ -5,7 +5,8 @@
  * every chain entry of a run or calibration iteration matched by a row, and the calibration
  * iterations as judgeStore judges them. It answers only whether all of that holds: when anything
  * fails, judgeListing judges the same rows again the slow way, which names each problem in its words.
- * A test holds the two to the same answer on stores tampered every way the audit names.
+ * A test (listingFast.test.ts) holds the two to the same answer on a store tampered in each of a dozen
+ * ways (rows and summaries edited or deleted, chain entries edited or deleted, fingerprints swapped).
  *
  * It exists for speed: a listing of 50 000 runs verifies 100 000 links and 50 000 summaries, and
  * making an object of each row cost more than the hashing (objects kept alive for the whole listing
