@@ -1,4 +1,5 @@
 import { defineConfig } from 'vitest/config';
+import { slowFirst } from './test/helpers/slowFirstSequencer.ts';
 
 export default defineConfig({
   test: {
@@ -13,11 +14,30 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
-    // Three workers per core: much of the suite waits on child processes (killed writers, the page's
-    // server, PostgreSQL, ngspice, Chromium) rather than computing. On this 2-core machine, idle, the
-    // whole suite took 240 s with one worker per core, 121 s with two, 99 s with three and 118 s with
-    // four (each worker loads the stages once, so more workers spend more CPU on loading).
-    maxWorkers: '300%',
+    // A number, not a share of the cores: vitest caps a percentage at the number of cores, so the
+    // '300%' written here before ran two workers on this 2-core machine. Much of the suite waits on
+    // child processes (killed writers, PostgreSQL, ngspice, Chromium) rather than computing, which
+    // more workers fill; each worker loads the stages once (about 2-3 s of CPU), so more is not free.
+    maxWorkers: 4,
+    sequence: {
+      // The files that take longest start first (they are known here by name: a clean clone has no
+      // timing cache, and file size says little about time), longest first as measured on this
+      // 2-core machine; the rest follow in vitest's order. test/helpers/slowFirstSequencer.ts.
+      sequencer: slowFirst([
+        /test\/web\/benchPage\.test\.ts$/,
+        /test\/hardening\/storeCrash\.test\.ts$/,
+        /test\/records\/storeEngines\.test\.ts$/,
+        /test\/server\/sharedStoreServe\.test\.ts$/,
+        /test\/records\/sharedStoreCli\.test\.ts$/,
+        /test\/records\/reliability\.test\.ts$/,
+        /test\/ngspice\/.*\.test\.ts$/,
+        /test\/watch\/watchSession\.test\.ts$/,
+        /test\/records\/pgSchema\.test\.ts$/,
+        /test\/cli\/checkTerminalWidth\.test\.ts$/,
+        /test\/hardening\/(concurrency|specFuzz)\.test\.ts$/,
+        /test\/cli\/watch\.test\.ts$/,
+      ]),
+    },
     // Test files share each worker's loaded modules instead of importing every stage afresh: module
     // loading was most of the suite's time (test/design, docs and calibration: 95 s → 31 s wall, 21 → 7.7 s
     // of CPU, here under load). Tests already share modules within a file, so nothing may depend on a
