@@ -164,7 +164,9 @@ export function startPgCluster(): PgClusterResult {
     port,
     url,
     createDatabase(name) {
-      psql(`CREATE DATABASE "${name}"`);
+      // FILE_COPY copies template1's files instead of writing each of its pages to the WAL (PostgreSQL
+      // 15 docs, CREATE DATABASE, STRATEGY): for a small database, less of the server's time.
+      psql(`CREATE DATABASE "${name}" STRATEGY FILE_COPY`);
       return url(name);
     },
     psql,
