@@ -19,6 +19,7 @@ const KEEP_ALIVE_MS = 15_000;
 
 export function createEventHub(): EventHub {
   const streams = new Set<FastifyReply>();
+  let closed = false;
   const timer = setInterval(() => {
     for (const r of streams) r.raw.write(': still here\n\n');
   }, KEEP_ALIVE_MS);
@@ -29,6 +30,10 @@ export function createEventHub(): EventHub {
       for (const r of streams) r.raw.write(text);
     },
     attach(req, reply) {
+      // Once the server is closing, a page that asks again (an event stream reconnects by itself,
+      // over a connection kept alive) is told there is nothing more: 204 ends its retries (HTML
+      // Living Standard, server-sent events), and no stream is left open for the server to wait on.
+      if (closed) return void reply.code(204).send();
       reply.hijack();
       const headers: Record<string, string> = {
         'Content-Type': 'text/event-stream; charset=utf-8',
@@ -43,6 +48,7 @@ export function createEventHub(): EventHub {
     },
     clients: () => streams.size,
     close() {
+      closed = true;
       clearInterval(timer);
       for (const r of streams) r.raw.end();
       streams.clear();

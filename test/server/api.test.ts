@@ -24,6 +24,28 @@ beforeAll(async () => {
 });
 afterAll(async () => t?.stop());
 
+describe('the live event stream when the server closes', () => {
+  it('ends the open streams, and answers a stream asked for while closing with 204 so the page stops retrying', async () => {
+    // HTML Living Standard, server-sent events: a 204 response tells the page's event source to stop
+    // reconnecting. A stream attached after the hub closed would keep the server's close waiting on it.
+    const own = await startTestServer();
+    try {
+      const open = await fetch(`${own.base}/api/events`);
+      const reader = open.body!.getReader();
+      expect(new TextDecoder().decode((await reader.read()).value)).toMatch(/^retry: /);
+      own.server.setup.hub.close();
+      // The open stream ends once the hub closes (the server ends it, not the page).
+      for (let r = await reader.read(); !r.done; r = await reader.read());
+      const late = await fetch(`${own.base}/api/events`);
+      expect(late.status).toBe(204);
+      expect(await late.text()).toBe('');
+      expect(own.server.setup.hub.clients()).toBe(0);
+    } finally {
+      await own.stop();
+    }
+  });
+});
+
 describe('the bench page routes', () => {
   it('stores a dropped unit as check would, and the command line reads the same run', async () => {
     const res = await drop(['FK-0101_low.csv', 'FK-0101_mid.csv', 'FK-0101_high.csv'].map(sample));
