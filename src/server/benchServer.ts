@@ -18,6 +18,7 @@ import { createEventHub } from './eventHub.js';
 import { DEFAULT_LIMITS, openBench } from './benchSetup.js';
 import type { BenchSetup, UploadLimits } from './benchSetup.js';
 import { watchStoreMarker } from './storeMarker.js';
+import { trackQuietSockets } from './quietSockets.js';
 import { registerBoardRoutes } from './boardRoutes.js';
 import { registerDropRoutes } from './dropRoutes.js';
 import { registerUnitRoutes } from './unitRoutes.js';
@@ -61,6 +62,7 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
   const setup = openBench(ctx, options.flags, hub, options.specFile, limits);
   const token = accessToken(setup.location.dir);
   const app = Fastify({ logger: false, bodyLimit: 1024 * 1024 });
+  const quiet = trackQuietSockets(app.server);
   let bound = port;
   installGuard(app, { host, token, port: () => bound, requireToken: options.requireToken === true });
   await app.register(fastifyMultipart, { limits: { fileSize: limits.maxFileBytes, files: limits.maxFiles } });
@@ -115,7 +117,16 @@ export async function startBenchServer(ctx: CommandContext, options: BenchServer
     async close() {
       marker.stop();
       hub.close();
-      await app.close();
+      const closing = app.close();
+      // Connections with no request in them (idle, or opened ahead of need) would hold the close; one
+      // whose request ends while closing becomes quiet too, so they are looked at until it is done.
+      quiet.endQuiet();
+      const sweep = setInterval(() => quiet.endQuiet(), 250);
+      try {
+        await closing;
+      } finally {
+        clearInterval(sweep);
+      }
       setup.close();
     },
   };

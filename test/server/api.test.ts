@@ -5,6 +5,7 @@
  * column (the definition of min/max decimation; common practice, no source).
  */
 import { readFileSync } from 'node:fs';
+import { connect } from 'node:net';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openStore } from '../../src/records/index.js';
@@ -44,6 +45,23 @@ describe('the live event stream when the server closes', () => {
       await own.stop();
     }
   });
+});
+
+describe('closing the server', () => {
+  it('does not wait on a connection that never sent a request (a browser opens spare ones ahead of need)', async () => {
+    // Node's closeIdleConnections leaves such a connection, and the close then waits until the client
+    // gives it up or Node's header timeout (60 s) ends it. Common practice (no source): a bench tool
+    // stopped with Ctrl-C stops at once.
+    const own = await startTestServer();
+    const { port } = new URL(own.base);
+    const spare = connect(Number(port), '127.0.0.1');
+    await new Promise<void>((ok, fail) => spare.once('connect', ok).once('error', fail));
+    const ended = new Promise<string>((ok) => spare.once('close', () => ok('ended')));
+    const guard = new Promise<string>((ok) => setTimeout(() => ok('still open after 20 s'), 20_000).unref());
+    const closed = own.stop().then(() => 'closed');
+    expect(await Promise.race([closed, guard])).toBe('closed');
+    expect(await Promise.race([ended, guard])).toBe('ended');
+  }, 30_000);
 });
 
 describe('the bench page routes', () => {
