@@ -14,42 +14,12 @@ export function compareSerials(a: string, b: string): number {
 const SERIAL_ORDER = new Intl.Collator('en', { numeric: true, sensitivity: 'base' });
 
 /**
- * Every unit (of one spec name, or all) with the state of its attempts, from its runs' light heads
- * (oldest first): the first and latest run among that spec's runs, attempts over all of the unit's
- * runs. Runs whose summary cannot be read are left out (the audit names them).
- */
-export function listUnitsFrom(heads: readonly StoredRun[], spec?: string): UnitSummary[] {
-  const byUnit = new Map<string, StoredRun[]>();
-  for (const r of heads) {
-    const list = byUnit.get(r.unit);
-    if (list) list.push(r);
-    else byUnit.set(r.unit, [r]);
-  }
-  const out: UnitSummary[] = [];
-  for (const [unit, runs] of byUnit) {
-    const scoped = spec === undefined ? runs : runs.filter((h) => h.spec.name === spec);
-    if (scoped.length === 0) continue;
-    const first = scoped[0];
-    const last = scoped[scoped.length - 1];
-    out.push({
-      unit,
-      spec: last.spec,
-      status: last.statement,
-      firstStatement: first.statement,
-      firstTestedAt: first.startedAt,
-      lastTestedAt: last.startedAt,
-      runs: scoped.length,
-      ...attemptFacts(summarizeAttempts(numberRuns(runs))),
-    });
-  }
-  return out.sort((a, b) => compareSerials(a.unit, b.unit));
-}
-
-/**
- * listUnitsFrom(lightRuns(rows)) without making a run of each row: the rows as read (arrays of
- * SUMMARY_COLUMNS, oldest first within a unit), each unit's attempts worked out from the attempt
- * columns and condition states as numberRuns, summarizeAttempts and attemptFacts work them out. Rows
- * whose state does not read are left out, as lightRuns leaves them. A test holds the two equal.
+ * Every unit (of one spec name, or all) with the state of its attempts, from the listing's rows as
+ * read (arrays of SUMMARY_COLUMNS, oldest first within a unit): the first and latest run among that
+ * spec's runs, attempts over all of the unit's runs, worked out from the attempt columns and condition
+ * states as numberRuns, summarizeAttempts and attemptFacts work them out over light runs, without
+ * making a run of each row. Rows whose state does not read are left out, as lightRuns leaves them (the
+ * audit names them). test/records/listingFast.test.ts holds it equal to those functions composed.
  */
 export function listUnitsFromRows(rows: readonly SummaryArray[], spec?: string): UnitSummary[] {
   const byUnit = new Map<string, SummaryArray[]>();

@@ -1,8 +1,8 @@
 /**
  * The listing's fast paths (listingCheck.ts, listUnitsFromRows in unitSummaries.ts) hold the same
  * answers as the object-by-object code they stand in for: the whole-row judgement of auditStore.ts
- * (judgeStore over the chain entries, run rows and summaries as objects) and listUnitsFrom over
- * lightRuns. The expected values come from that slower code, which the tampering tests hold to the
+ * (judgeStore over the chain entries, run rows and summaries as objects) and, for the unit listing, the attempt functions composed over
+ * lightRuns (listUnitsFrom here). The expected values come from that slower code, which the tampering tests hold to the
  * rules of chain.ts and runSummary.ts; here each store is tampered with one way at a time, as
  * someone with the database file could (common practice for tamper evidence, no source).
  */
@@ -20,9 +20,42 @@ import { summaryRowOf, summaryText, summaryTextSql } from '../../src/records/run
 import type { SummaryHeadRow } from '../../src/records/runSummary.js';
 import type { SummaryArray } from '../../src/records/runSummary.js';
 import { lightRuns } from '../../src/records/batchRuns.js';
-import { listUnitsFrom, listUnitsFromRows } from '../../src/records/unitSummaries.js';
+import { compareSerials, listUnitsFromRows } from '../../src/records/unitSummaries.js';
+import { attemptFacts, numberRuns, summarizeAttempts } from '../../src/records/attempts.js';
+import type { StoredRun, UnitSummary } from '../../src/types/index.js';
 import { day, fillDemoStore } from './helpers/fixtureStore.js';
 import { makeTempDir, removeTempDir } from './helpers/tempData.js';
+
+/**
+ * The reference for listUnitsFromRows: the same listing composed of the attempt functions that the
+ * unit records use (numberRuns, summarizeAttempts, attemptFacts) over the light runs, one object per run.
+ */
+function listUnitsFrom(heads: readonly StoredRun[], spec?: string): UnitSummary[] {
+  const byUnit = new Map<string, StoredRun[]>();
+  for (const r of heads) {
+    const list = byUnit.get(r.unit);
+    if (list) list.push(r);
+    else byUnit.set(r.unit, [r]);
+  }
+  const out: UnitSummary[] = [];
+  for (const [unit, runs] of byUnit) {
+    const scoped = spec === undefined ? runs : runs.filter((h) => h.spec.name === spec);
+    if (scoped.length === 0) continue;
+    const first = scoped[0];
+    const last = scoped[scoped.length - 1];
+    out.push({
+      unit,
+      spec: last.spec,
+      status: last.statement,
+      firstStatement: first.statement,
+      firstTestedAt: first.startedAt,
+      lastTestedAt: last.startedAt,
+      runs: scoped.length,
+      ...attemptFacts(summarizeAttempts(numberRuns(runs))),
+    });
+  }
+  return out.sort((a, b) => compareSerials(a.unit, b.unit));
+}
 
 let root: string;
 beforeEach(() => {
