@@ -23,7 +23,8 @@ export function trackQuietSockets(server: Server): QuietSockets {
     const socket = req.socket;
     busy.set(socket, (busy.get(socket) ?? 0) + 1);
     res.on('close', () => {
-      if (busy.has(socket)) busy.set(socket, Math.max(0, (busy.get(socket) ?? 1) - 1));
+      const requests = busy.get(socket);
+      if (requests !== undefined) busy.set(socket, requests - 1);
     });
   });
   return {
